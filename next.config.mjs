@@ -2,9 +2,12 @@
 const nextConfig = {
   poweredByHeader: false,
   reactStrictMode: true,
-  // Logger files of a whole day are ~12 MB; uploads go through route handlers, but server actions
-  // that carry a file need the same headroom.
-  experimental: { serverActions: { bodySizeLimit: "55mb" } },
+  experimental: {
+    // Lets server pages answer a refused role with a real 403 (forbidden()) rather than a redirect.
+    authInterrupts: true,
+    // A day-long logger file is ~12 MB; actions that carry one need the headroom.
+    serverActions: { bodySizeLimit: "55mb" },
+  },
 };
 
 export default nextConfig;

@@ -1,0 +1,50 @@
+import Link from "next/link";
+import { redirect } from "next/navigation";
+import { currentUser } from "@/lib/auth/guards";
+import { can, ROLE_LABELS } from "@/lib/auth/permissions";
+import { NAV_ITEMS } from "@/components/shell/navigation";
+import { NavLinks } from "@/components/shell/nav-links";
+import { SignOutButton } from "@/components/shell/sign-out-button";
+import { SafetyNotice } from "@/components/shell/safety-notice";
+import { PapinMark } from "@/components/ui/papin-mark";
+import { demoEnabled } from "@/lib/env";
+
+export const dynamic = "force-dynamic";
+
+export default async function PortalLayout({ children }: { children: React.ReactNode }) {
+  const user = await currentUser();
+  if (!user) redirect("/sign-in");
+  const items = NAV_ITEMS.filter((i) => !i.permission || can(user.role, i.permission)).map(({ href, label }) => ({ href, label }));
+  return (
+    <div className="flex min-h-screen flex-col">
+      <a href="#content" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-paper-raised focus:px-3 focus:py-2">
+        Skip to content
+      </a>
+      <div className="flex flex-1">
+        <aside className="hidden w-60 shrink-0 flex-col border-r border-ink-line bg-paper-raised px-3 py-4 md:flex">
+          <Link href="/" className="mb-6 flex items-center gap-2 px-3">
+            <PapinMark />
+            <span className="text-lg font-semibold tracking-tight">Papin</span>
+          </Link>
+          <NavLinks items={items} />
+          <div className="mt-auto border-t border-ink-line px-3 pt-4 text-sm">
+            <p className="font-medium" data-testid="signed-in-name">{user.name}</p>
+            <p className="text-xs text-ink-muted" data-testid="signed-in-role">{ROLE_LABELS[user.role]}</p>
+            <p className="mt-2"><SignOutButton /></p>
+          </div>
+        </aside>
+        <div className="flex min-w-0 flex-1 flex-col">
+          <header className="flex items-center justify-between border-b border-ink-line bg-paper-raised px-gutter py-2 md:hidden">
+            <Link href="/" className="flex items-center gap-2"><PapinMark className="h-6 w-6" /> <span className="font-semibold">Papin</span></Link>
+            <SignOutButton />
+          </header>
+          {demoEnabled() && (
+            <div className="border-b border-brass-100 bg-brass-50 px-gutter py-1 text-xs text-brass-700">Demo site: fictional sterilizers, people and cycles.</div>
+          )}
+          <main id="content" className="flex-1 px-gutter py-6 lg:px-8">{children}</main>
+          <SafetyNotice />
+        </div>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,62 @@
+import { redirect } from "next/navigation";
+import { SignInForm } from "@/components/auth/sign-in-form";
+import { PapinMark } from "@/components/ui/papin-mark";
+import { SafetyNotice } from "@/components/shell/safety-notice";
+import { currentUser } from "@/lib/auth/guards";
+import { demoEnabled, env } from "@/lib/env";
+import { DEMO_USERS } from "@/db/demo-users";
+import { ROLE_LABELS } from "@/lib/auth/permissions";
+import { SIGN_IN_ERRORS } from "@/lib/auth/messages";
+
+export const metadata = { title: "Sign in" };
+export const dynamic = "force-dynamic";
+
+export default async function SignInPage({ searchParams }: { searchParams: Promise<{ callbackUrl?: string; error?: string }> }) {
+  const { callbackUrl, error } = await searchParams;
+  if (await currentUser()) redirect(safeCallback(callbackUrl));
+  const demo = demoEnabled();
+  const initialError = error ? (SIGN_IN_ERRORS[error as keyof typeof SIGN_IN_ERRORS] ?? "Sign-in failed. Please try again.") : null;
+  return (
+    <div className="flex min-h-screen flex-col">
+      <main className="flex flex-1 items-center justify-center px-gutter py-12">
+        <div className="grid w-full max-w-4xl gap-8 md:grid-cols-[1.1fr_1fr]">
+          <div className="flex flex-col justify-center">
+            <div className="flex items-center gap-3">
+              <PapinMark className="h-10 w-10" />
+              <span className="text-2xl font-semibold tracking-tight">Papin</span>
+            </div>
+            <p className="mt-4 text-lg text-ink-soft">Proof that your steam sterilizers work.</p>
+            <p className="mt-2 text-sm text-ink-muted">
+              Upload the logger file of a test cycle; Papin checks every moment of the plateau against saturated steam, computes the
+              figures the standards define and prepares the record for signature.
+            </p>
+            {demo && (
+              <div className="mt-6 rounded-md border border-brass-100 bg-brass-50 px-4 py-3 text-sm" data-testid="demo-accounts">
+                <p className="font-medium text-brass-700">Demo site — fictional data</p>
+                <p className="mt-1 text-ink-soft">
+                  Every demo account uses the password <code className="mono rounded bg-paper-raised px-1 py-0.5">{env().PAPIN_DEMO_PASSWORD}</code>
+                </p>
+                <ul className="mt-2 space-y-0.5 text-ink-soft">
+                  {DEMO_USERS.map((u) => (
+                    <li key={u.email}>
+                      <code className="mono">{u.email}</code> — {ROLE_LABELS[u.role]}
+                    </li>
+                  ))}
+                </ul>
+              </div>
+            )}
+          </div>
+          <div className="panel px-panel py-6">
+            <h1 className="text-lg">Sign in</h1>
+            <SignInForm callbackUrl={safeCallback(callbackUrl)} initialError={initialError} />
+          </div>
+        </div>
+      </main>
+      <SafetyNotice />
+    </div>
+  );
+}
+
+function safeCallback(url: string | undefined): string {
+  return url && url.startsWith("/") && !url.startsWith("//") ? url : "/";
+}

@@ -1,0 +1,92 @@
+"use client";
+
+import { useActionState, useState } from "react";
+import { createUserAction, resetPasswordAction, updateUserAction } from "@/app/(portal)/admin/users/actions";
+import { IDLE_STATE, type FormState } from "@/components/ui/form-state";
+import { ROLES, type Role } from "@/lib/auth/roles";
+
+const ROLE_NAMES: Record<Role, string> = { technician: "Technician", engineer: "Validation engineer", auditor: "Auditor", admin: "Administrator" };
+
+function Message({ state }: { state: FormState }) {
+  if (state.status === "idle" || !state.message) return null;
+  return (
+    <p role={state.status === "error" ? "alert" : "status"} className={`rounded-md px-3 py-2 text-sm ${state.status === "error" ? "bg-fail-50 text-fail-700" : "bg-pass-50 text-pass-700"}`}>
+      {state.message}
+    </p>
+  );
+}
+
+export function CreateUserForm() {
+  const [state, action, pending] = useActionState(createUserAction, IDLE_STATE);
+  const err = state.fieldErrors ?? {};
+  return (
+    <form action={action} className="space-y-3" noValidate>
+      <div>
+        <label className="field-label" htmlFor="new-name">Full name (printed on signatures)</label>
+        <input id="new-name" name="name" className="field-input" aria-invalid={!!err.name} />
+        {err.name && <p className="field-error">{err.name}</p>}
+      </div>
+      <div>
+        <label className="field-label" htmlFor="new-email">E-mail</label>
+        <input id="new-email" name="email" type="email" className="field-input" aria-invalid={!!err.email} />
+        {err.email && <p className="field-error">{err.email}</p>}
+      </div>
+      <div>
+        <label className="field-label" htmlFor="new-role">Role</label>
+        <select id="new-role" name="role" className="field-input" defaultValue="technician">
+          {ROLES.map((r) => <option key={r} value={r}>{ROLE_NAMES[r]}</option>)}
+        </select>
+        {err.role && <p className="field-error">{err.role}</p>}
+      </div>
+      <div>
+        <label className="field-label" htmlFor="new-password">Initial password</label>
+        <input id="new-password" name="password" type="password" autoComplete="new-password" className="field-input" aria-invalid={!!err.password} />
+        {err.password && <p className="field-error">{err.password}</p>}
+      </div>
+      <Message state={state} />
+      <button className="btn-primary w-full" disabled={pending}>{pending ? "Adding…" : "Add user"}</button>
+    </form>
+  );
+}
+
+export function UserRowActions({ user, self }: { user: { id: string; name: string; role: Role; disabled: boolean }; self: boolean }) {
+  const [state, action, pending] = useActionState(updateUserAction, IDLE_STATE);
+  const [pwState, pwAction, pwPending] = useActionState(resetPasswordAction, IDLE_STATE);
+  const [showReset, setShowReset] = useState(false);
+  return (
+    <div className="flex min-w-[16rem] flex-col gap-1.5">
+      <form action={action} className="flex items-center gap-1.5">
+        <input type="hidden" name="id" value={user.id} />
+        <label className="sr-only" htmlFor={`role-${user.id}`}>Role of {user.name}</label>
+        <select id={`role-${user.id}`} name="role" defaultValue={user.role} disabled={self} className="field-input py-1 text-xs">
+          {ROLES.map((r) => <option key={r} value={r}>{ROLE_NAMES[r]}</option>)}
+        </select>
+        <button className="btn-secondary px-2 py-1 text-xs" disabled={pending || self}>Save role</button>
+      </form>
+      <div className="flex gap-1.5">
+        {!self && (
+          <form action={action}>
+            <input type="hidden" name="id" value={user.id} />
+            <input type="hidden" name="disabled" value={user.disabled ? "false" : "true"} />
+            <button className={`${user.disabled ? "btn-secondary" : "btn-danger"} px-2 py-1 text-xs`} disabled={pending}>
+              {user.disabled ? "Enable" : "Disable"}
+            </button>
+          </form>
+        )}
+        <button type="button" className="btn-secondary px-2 py-1 text-xs" onClick={() => setShowReset((v) => !v)} aria-expanded={showReset}>
+          Reset password
+        </button>
+      </div>
+      {showReset && (
+        <form action={pwAction} className="flex gap-1.5">
+          <input type="hidden" name="id" value={user.id} />
+          <label className="sr-only" htmlFor={`pw-${user.id}`}>New password for {user.name}</label>
+          <input id={`pw-${user.id}`} name="password" type="password" autoComplete="new-password" placeholder="New password" className="field-input py-1 text-xs" />
+          <button className="btn-primary px-2 py-1 text-xs" disabled={pwPending}>Set</button>
+        </form>
+      )}
+      <Message state={state} />
+      <Message state={pwState} />
+    </div>
+  );
+}

@@ -1,0 +1,43 @@
+/**
+ * Run before the server starts (npm run dev / npm start): applies migrations, then loads the demo
+ * site when the database is empty and PAPIN_DEMO is not 0. `--reset` deletes an embedded database
+ * file first; `--no-demo` only migrates.
+ */
+import { existsSync, rmSync } from "node:fs";
+import path from "node:path";
+import { drizzle } from "drizzle-orm/libsql";
+import { applyFilePragmas, openClient } from "./index";
+import * as schema from "./schema";
+import { migrateDatabase } from "./migrate";
+import { loadDemoSite } from "./seed";
+import { env, demoEnabled } from "@/lib/env";
+
+async function main() {
+  const args = new Set(process.argv.slice(2));
+  const { DATABASE_URL, DATABASE_AUTH_TOKEN, PAPIN_DEMO_PASSWORD } = env();
+  if (args.has("--reset")) {
+    if (!DATABASE_URL.startsWith("file:")) {
+      throw new Error("db:reset only deletes an embedded database file; reset a libSQL server with its own tools.");
+    }
+    const file = path.resolve(DATABASE_URL.slice("file:".length));
+    for (const suffix of ["", "-wal", "-shm"]) if (existsSync(file + suffix)) rmSync(file + suffix);
+    console.log(`Deleted ${path.relative(process.cwd(), file)}.`);
+  }
+  const client = openClient(DATABASE_URL, DATABASE_AUTH_TOKEN);
+  await applyFilePragmas(client, DATABASE_URL);
+  const db = drizzle(client, { schema });
+  await migrateDatabase(db);
+  console.log(`Database ready (${DATABASE_URL.startsWith("file:") ? DATABASE_URL : "libSQL server"}).`);
+  if (!args.has("--no-demo") && demoEnabled()) {
+    const started = Date.now();
+    const outcome = await loadDemoSite(db, { password: PAPIN_DEMO_PASSWORD });
+    if (outcome.loaded) console.log(`Demo site loaded: ${outcome.summary} (${((Date.now() - started) / 1000).toFixed(1)} s).`);
+    else console.log("Demo site: the database already holds data, nothing loaded.");
+  }
+  client.close();
+}
+
+main().catch((error: unknown) => {
+  console.error(`Papin could not prepare its database: ${error instanceof Error ? error.message : String(error)}`);
+  process.exit(1);
+});

@@ -1,0 +1,112 @@
+import "server-only";
+import { and, count, desc, eq, gte, inArray, max, sql } from "drizzle-orm";
+import { getDb } from "@/db";
+import { auditEvents, calibrationCertificates, cycles, instruments, periodicTests, sterilizers, testSchedules, users } from "@/db/schema";
+
+const DAY_MS = 86_400_000;
+
+const cycleSummary = {
+  id: cycles.id,
+  cycleNumber: cycles.cycleNumber,
+  status: cycles.status,
+  verdict: cycles.verdict,
+  startedAt: cycles.startedAt,
+  sterilizerName: sterilizers.name,
+};
+
+export async function listCyclesAwaitingReview({ siteId, limit = 6 }: { siteId: string; limit?: number }) {
+  const db = getDb();
+  const where = and(eq(cycles.siteId, siteId), eq(cycles.status, "submitted"));
+  const [items, [{ total }]] = await Promise.all([
+    db.select(cycleSummary).from(cycles).innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id)).where(where).orderBy(cycles.submittedAt).limit(limit),
+    db.select({ total: count() }).from(cycles).where(where),
+  ]);
+  return { items, total };
+}
+
+export async function listMyOpenCycles({ userId, limit = 6 }: { userId: string; limit?: number }) {
+  return getDb()
+    .select(cycleSummary)
+    .from(cycles)
+    .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
+    .where(and(eq(cycles.createdBy, userId), inArray(cycles.status, ["draft", "rejected"])))
+    .orderBy(desc(cycles.createdAt))
+    .limit(limit);
+}
+
+export async function listRecentFailures({ siteId, days = 14, limit = 6 }: { siteId: string; days?: number; limit?: number }) {
+  const since = new Date(Date.now() - days * DAY_MS).toISOString();
+  return getDb()
+    .select(cycleSummary)
+    .from(cycles)
+    .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
+    .where(and(eq(cycles.siteId, siteId), eq(cycles.verdict, "fail"), gte(cycles.startedAt, since)))
+    .orderBy(desc(cycles.startedAt))
+    .limit(limit);
+}
+
+export async function listRecentlyApproved({ siteId, limit = 6 }: { siteId: string; limit?: number }) {
+  return getDb()
+    .select(cycleSummary)
+    .from(cycles)
+    .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
+    .where(and(eq(cycles.siteId, siteId), eq(cycles.status, "approved")))
+    .orderBy(desc(cycles.updatedAt))
+    .limit(limit);
+}
+
+export type DueTest = { sterilizerId: string; sterilizerName: string; kind: string; lastDoneAt: string | null; dueAt: string; overdue: boolean };
+
+/** Each scheduled periodic test whose next date falls before the end of tomorrow. */
+export async function listTestsDue({ siteId, now = new Date() }: { siteId: string; now?: Date }): Promise<DueTest[]> {
+  const db = getDb();
+  const schedules = await db
+    .select({ sterilizerId: testSchedules.sterilizerId, kind: testSchedules.kind, intervalDays: testSchedules.intervalDays, sterilizerName: sterilizers.name })
+    .from(testSchedules)
+    .innerJoin(sterilizers, eq(testSchedules.sterilizerId, sterilizers.id))
+    .where(and(eq(sterilizers.siteId, siteId), eq(sterilizers.active, true)));
+  const last = await db
+    .select({ sterilizerId: periodicTests.sterilizerId, kind: periodicTests.kind, lastDoneAt: max(periodicTests.performedAt) })
+    .from(periodicTests)
+    .where(and(eq(periodicTests.siteId, siteId), eq(periodicTests.result, "pass")))
+    .groupBy(periodicTests.sterilizerId, periodicTests.kind);
+  const lastByKey = new Map(last.map((r) => [`${r.sterilizerId}:${r.kind}`, r.lastDoneAt]));
+  const horizon = new Date(now.getTime() + DAY_MS);
+  const due: DueTest[] = [];
+  for (const s of schedules) {
+    const lastDoneAt = lastByKey.get(`${s.sterilizerId}:${s.kind}`) ?? null;
+    const dueAt = lastDoneAt ? new Date(new Date(lastDoneAt).getTime() + s.intervalDays * DAY_MS) : now;
+    if (dueAt <= horizon) {
+      due.push({ sterilizerId: s.sterilizerId, sterilizerName: s.sterilizerName, kind: s.kind, lastDoneAt, dueAt: dueAt.toISOString(), overdue: dueAt < now });
+    }
+  }
+  return due.sort((a, b) => a.dueAt.localeCompare(b.dueAt));
+}
+
+export async function listCalibrationsDue({ siteId, withinDays = 30, now = new Date() }: { siteId: string; withinDays?: number; now?: Date }) {
+  const limit = new Date(now.getTime() + withinDays * DAY_MS).toISOString().slice(0, 10);
+  const today = now.toISOString().slice(0, 10);
+  const latest = getDb()
+    .select({ instrumentId: calibrationCertificates.instrumentId, dueOn: max(calibrationCertificates.dueOn).as("due_on") })
+    .from(calibrationCertificates)
+    .groupBy(calibrationCertificates.instrumentId)
+    .as("latest");
+  const rows = await getDb()
+    .select({ instrumentId: instruments.id, name: instruments.name, serialNumber: instruments.serialNumber, dueOn: latest.dueOn })
+    .from(instruments)
+    .innerJoin(latest, eq(latest.instrumentId, instruments.id))
+    .where(and(eq(instruments.siteId, siteId), eq(instruments.active, true), sql`${latest.dueOn} <= ${limit}`))
+    .orderBy(sql`${latest.dueOn}`);
+  return rows.map((r) => ({ ...r, overdue: (r.dueOn ?? "") < today }));
+}
+
+export async function getAdminOverview() {
+  const db = getDb();
+  const since = new Date(Date.now() - 7 * DAY_MS).toISOString();
+  const [[{ total }], [{ disabled }], [{ failed }]] = await Promise.all([
+    db.select({ total: count() }).from(users),
+    db.select({ disabled: count() }).from(users).where(eq(users.disabled, true)),
+    db.select({ failed: count() }).from(auditEvents).where(and(eq(auditEvents.action, "auth.sign-in-failed"), gte(auditEvents.at, since))),
+  ]);
+  return { users: total, disabled, failedSignIns: failed };
+}

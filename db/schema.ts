@@ -1,0 +1,435 @@
+import { relations, sql } from "drizzle-orm";
+import { blob, index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+
+const id = () =>
+  text("id")
+    .primaryKey()
+    .$defaultFn(() => crypto.randomUUID());
+const createdAt = () =>
+  text("created_at")
+    .notNull()
+    .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`);
+
+import { ROLES, type Role } from "../lib/auth/roles";
+
+export { ROLES, type Role };
+
+export const CYCLE_STATUSES = ["draft", "submitted", "approved", "rejected"] as const;
+export type CycleStatus = (typeof CYCLE_STATUSES)[number];
+
+export const SIGNATURE_MEANINGS = ["reviewed", "approved", "rejected"] as const;
+export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
+
+export const TEST_KINDS = [
+  "thermometric-small-load",
+  "thermometric-full-load",
+  "bowie-dick",
+  "air-leakage",
+  "steam-quality",
+  "routine-load",
+] as const;
+export type TestKind = (typeof TEST_KINDS)[number];
+
+export const PERIODIC_TEST_KINDS = [
+  "air-leakage",
+  "bowie-dick",
+  "steam-non-condensable-gas",
+  "steam-superheat",
+  "steam-dryness",
+  "thermometric-small-load",
+  "thermometric-full-load",
+] as const;
+export type PeriodicTestKind = (typeof PERIODIC_TEST_KINDS)[number];
+
+export const sites = sqliteTable("sites", {
+  id: id(),
+  name: text("name").notNull(),
+  code: text("code").notNull().unique(),
+  timeZone: text("time_zone").notNull().default("UTC"),
+  // Local barometric pressure for gauge→absolute conversion; when null, derived from altitude.
+  atmosphereKpa: real("atmosphere_kpa"),
+  altitudeM: real("altitude_m"),
+  address: text("address"),
+  createdAt: createdAt(),
+});
+export type Site = typeof sites.$inferSelect;
+export type NewSite = typeof sites.$inferInsert;
+
+export const users = sqliteTable(
+  "users",
+  {
+    id: id(),
+    siteId: text("site_id").references(() => sites.id),
+    email: text("email").notNull(),
+    name: text("name").notNull(),
+    role: text("role", { enum: ROLES }).notNull(),
+    passwordHash: text("password_hash").notNull(),
+    disabled: integer("disabled", { mode: "boolean" }).notNull().default(false),
+    failedSigningAttempts: integer("failed_signing_attempts").notNull().default(0),
+    signingLockedUntil: text("signing_locked_until"),
+    lastSignInAt: text("last_sign_in_at"),
+    createdAt: createdAt(),
+    updatedAt: text("updated_at"),
+  },
+  (t) => [uniqueIndex("users_email_unique").on(t.email)],
+);
+export type User = typeof users.$inferSelect;
+export type NewUser = typeof users.$inferInsert;
+
+export const acceptanceProfiles = sqliteTable("acceptance_profiles", {
+  id: id(),
+  siteId: text("site_id")
+    .notNull()
+    .references(() => sites.id),
+  name: text("name").notNull(),
+  sterilizationTempC: real("sterilization_temp_c").notNull(),
+  bandK: real("band_k").notNull().default(3),
+  holdingTimeS: real("holding_time_s").notNull(),
+  maxEquilibrationS: real("max_equilibration_s").notNull().default(15),
+  maxSpreadK: real("max_spread_k").notNull().default(2),
+  saturationLimitK: real("saturation_limit_k").notNull().default(2),
+  f0ReferenceC: real("f0_reference_c").notNull().default(121.1),
+  f0ZK: real("f0_z_k").notNull().default(10),
+  basis: text("basis").notNull().default(""),
+  active: integer("active", { mode: "boolean" }).notNull().default(true),
+  createdAt: createdAt(),
+});
+export type AcceptanceProfile = typeof acceptanceProfiles.$inferSelect;
+export type NewAcceptanceProfile = typeof acceptanceProfiles.$inferInsert;
+
+export const sterilizers = sqliteTable("sterilizers", {
+  id: id(),
+  siteId: text("site_id")
+    .notNull()
+    .references(() => sites.id),
+  name: text("name").notNull(),
+  serialNumber: text("serial_number").notNull(),
+  model: text("model"),
+  chamberVolumeL: real("chamber_volume_l").notNull(),
+  location: text("location"),
+  airDetectorFitted: integer("air_detector_fitted", { mode: "boolean" }).notNull().default(true),
+  defaultProfileId: text("default_profile_id").references(() => acceptanceProfiles.id),
+  active: integer("active", { mode: "boolean" }).notNull().default(true),
+  createdAt: createdAt(),
+});
+export type Sterilizer = typeof sterilizers.$inferSelect;
+export type NewSterilizer = typeof sterilizers.$inferInsert;
+
+export const instruments = sqliteTable("instruments", {
+  id: id(),
+  siteId: text("site_id")
+    .notNull()
+    .references(() => sites.id),
+  name: text("name").notNull(),
+  serialNumber: text("serial_number").notNull(),
+  kind: text("kind", { enum: ["logger", "pressure-sensor", "temperature-probe", "reference-thermometer"] })
+    .notNull()
+    .default("logger"),
+  channelCount: integer("channel_count"),
+  // A mapping confirmed by a user, applied automatically to this instrument's next files.
+  savedMapping: text("saved_mapping", { mode: "json" }),
+  active: integer("active", { mode: "boolean" }).notNull().default(true),
+  createdAt: createdAt(),
+});
+export type Instrument = typeof instruments.$inferSelect;
+export type NewInstrument = typeof instruments.$inferInsert;
+
+export const calibrationCertificates = sqliteTable(
+  "calibration_certificates",
+  {
+    id: id(),
+    instrumentId: text("instrument_id")
+      .notNull()
+      .references(() => instruments.id),
+    certificateNumber: text("certificate_number").notNull(),
+    issuedBy: text("issued_by").notNull(),
+    calibratedOn: text("calibrated_on").notNull(),
+    dueOn: text("due_on").notNull(),
+    uncertaintyK: real("uncertainty_k"),
+    notes: text("notes"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("calibration_due_idx").on(t.dueOn)],
+);
+export type CalibrationCertificate = typeof calibrationCertificates.$inferSelect;
+
+export const cycles = sqliteTable(
+  "cycles",
+  {
+    id: id(),
+    siteId: text("site_id")
+      .notNull()
+      .references(() => sites.id),
+    sterilizerId: text("sterilizer_id")
+      .notNull()
+      .references(() => sterilizers.id),
+    profileId: text("profile_id")
+      .notNull()
+      .references(() => acceptanceProfiles.id),
+    instrumentId: text("instrument_id").references(() => instruments.id),
+    cycleNumber: text("cycle_number").notNull(),
+    testKind: text("test_kind", { enum: TEST_KINDS }).notNull().default("thermometric-small-load"),
+    loadDescription: text("load_description").notNull().default(""),
+    status: text("status", { enum: CYCLE_STATUSES }).notNull().default("draft"),
+    verdict: text("verdict", { enum: ["pass", "fail"] }),
+    startedAt: text("started_at"),
+    currentAnalysisId: text("current_analysis_id"),
+    // An approved record is never edited; a correction is a new cycle pointing at the old one.
+    supersedesId: text("supersedes_id"),
+    createdBy: text("created_by")
+      .notNull()
+      .references(() => users.id),
+    submittedBy: text("submitted_by").references(() => users.id),
+    submittedAt: text("submitted_at"),
+    createdAt: createdAt(),
+    updatedAt: text("updated_at"),
+  },
+  (t) => [
+    index("cycles_site_status_idx").on(t.siteId, t.status),
+    index("cycles_sterilizer_idx").on(t.sterilizerId, t.startedAt),
+  ],
+);
+export type Cycle = typeof cycles.$inferSelect;
+export type NewCycle = typeof cycles.$inferInsert;
+
+export const loggerFiles = sqliteTable(
+  "logger_files",
+  {
+    id: id(),
+    cycleId: text("cycle_id")
+      .notNull()
+      .references(() => cycles.id),
+    name: text("name").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    sha256: text("sha256").notNull(),
+    contentType: text("content_type").notNull().default("text/csv"),
+    bytes: blob("bytes", { mode: "buffer" }).notNull(),
+    dialect: text("dialect", { mode: "json" }),
+    mapping: text("mapping", { mode: "json" }),
+    uploadedBy: text("uploaded_by")
+      .notNull()
+      .references(() => users.id),
+    uploadedAt: createdAt(),
+  },
+  (t) => [index("logger_files_cycle_idx").on(t.cycleId), index("logger_files_sha_idx").on(t.sha256)],
+);
+export type LoggerFile = typeof loggerFiles.$inferSelect;
+export type NewLoggerFile = typeof loggerFiles.$inferInsert;
+
+export const analyses = sqliteTable(
+  "analyses",
+  {
+    id: id(),
+    cycleId: text("cycle_id")
+      .notNull()
+      .references(() => cycles.id),
+    loggerFileId: text("logger_file_id")
+      .notNull()
+      .references(() => loggerFiles.id),
+    engineVersion: text("engine_version").notNull(),
+    // SHA-256 over file bytes + mapping + limits: the same input always gives the same analysis.
+    inputHash: text("input_hash").notNull(),
+    limits: text("limits", { mode: "json" }).notNull(),
+    result: text("result", { mode: "json" }).notNull(),
+    verdict: text("verdict", { enum: ["pass", "fail"] }).notNull(),
+    createdBy: text("created_by").references(() => users.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("analyses_cycle_idx").on(t.cycleId)],
+);
+export type Analysis = typeof analyses.$inferSelect;
+export type NewAnalysis = typeof analyses.$inferInsert;
+
+export const signatures = sqliteTable(
+  "signatures",
+  {
+    id: id(),
+    cycleId: text("cycle_id")
+      .notNull()
+      .references(() => cycles.id),
+    analysisId: text("analysis_id")
+      .notNull()
+      .references(() => analyses.id),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id),
+    printedName: text("printed_name").notNull(),
+    role: text("role", { enum: ROLES }).notNull(),
+    meaning: text("meaning", { enum: SIGNATURE_MEANINGS }).notNull(),
+    reason: text("reason"),
+    signedAt: text("signed_at").notNull(),
+    bundleHash: text("bundle_hash").notNull(),
+  },
+  (t) => [index("signatures_cycle_idx").on(t.cycleId)],
+);
+export type Signature = typeof signatures.$inferSelect;
+export type NewSignature = typeof signatures.$inferInsert;
+
+export const reports = sqliteTable("reports", {
+  id: id(),
+  cycleId: text("cycle_id")
+    .notNull()
+    .references(() => cycles.id),
+  signatureId: text("signature_id").references(() => signatures.id),
+  reportNumber: text("report_number").notNull().unique(),
+  sha256: text("sha256").notNull(),
+  sizeBytes: integer("size_bytes").notNull(),
+  bytes: blob("bytes", { mode: "buffer" }).notNull(),
+  createdAt: createdAt(),
+});
+export type Report = typeof reports.$inferSelect;
+
+// Append-only: triggers in the migrations refuse UPDATE and DELETE; each row carries the hash of
+// the previous one so that a row changed behind the triggers' back breaks the chain.
+export const auditEvents = sqliteTable(
+  "audit_events",
+  {
+    seq: integer("seq").primaryKey({ autoIncrement: true }),
+    at: text("at").notNull(),
+    actorId: text("actor_id"),
+    actorEmail: text("actor_email"),
+    siteId: text("site_id"),
+    action: text("action").notNull(),
+    entityType: text("entity_type").notNull(),
+    entityId: text("entity_id"),
+    oldValue: text("old_value"),
+    newValue: text("new_value"),
+    reason: text("reason"),
+    prevHash: text("prev_hash").notNull(),
+    hash: text("hash").notNull(),
+  },
+  (t) => [index("audit_entity_idx").on(t.entityType, t.entityId), index("audit_action_idx").on(t.action)],
+);
+export type AuditEvent = typeof auditEvents.$inferSelect;
+
+export const mailOutbox = sqliteTable(
+  "mail_outbox",
+  {
+    id: id(),
+    to: text("to", { mode: "json" }).$type<string[]>().notNull(),
+    subject: text("subject").notNull(),
+    html: text("html").notNull(),
+    text: text("text").notNull(),
+    status: text("status", { enum: ["pending", "sent", "failed"] })
+      .notNull()
+      .default("pending"),
+    attempts: integer("attempts").notNull().default(0),
+    lastError: text("last_error"),
+    nextAttemptAt: text("next_attempt_at"),
+    providerId: text("provider_id"),
+    relatedCycleId: text("related_cycle_id"),
+    createdAt: createdAt(),
+    sentAt: text("sent_at"),
+  },
+  (t) => [index("mail_outbox_status_idx").on(t.status, t.nextAttemptAt)],
+);
+export type OutboxMail = typeof mailOutbox.$inferSelect;
+
+export const periodicTests = sqliteTable(
+  "periodic_tests",
+  {
+    id: id(),
+    siteId: text("site_id")
+      .notNull()
+      .references(() => sites.id),
+    sterilizerId: text("sterilizer_id")
+      .notNull()
+      .references(() => sterilizers.id),
+    kind: text("kind", { enum: PERIODIC_TEST_KINDS }).notNull(),
+    performedAt: text("performed_at").notNull(),
+    performedBy: text("performed_by")
+      .notNull()
+      .references(() => users.id),
+    measurements: text("measurements", { mode: "json" }),
+    result: text("result", { enum: ["pass", "fail"] }).notNull(),
+    notes: text("notes"),
+    cycleId: text("cycle_id").references(() => cycles.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("periodic_tests_sterilizer_idx").on(t.sterilizerId, t.kind, t.performedAt)],
+);
+export type PeriodicTest = typeof periodicTests.$inferSelect;
+
+export const testSchedules = sqliteTable(
+  "test_schedules",
+  {
+    id: id(),
+    sterilizerId: text("sterilizer_id")
+      .notNull()
+      .references(() => sterilizers.id),
+    kind: text("kind", { enum: PERIODIC_TEST_KINDS }).notNull(),
+    intervalDays: integer("interval_days").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("test_schedules_unique").on(t.sterilizerId, t.kind)],
+);
+export type TestSchedule = typeof testSchedules.$inferSelect;
+
+export const apiTokens = sqliteTable("api_tokens", {
+  id: id(),
+  userId: text("user_id")
+    .notNull()
+    .references(() => users.id),
+  name: text("name").notNull(),
+  prefix: text("prefix").notNull(),
+  tokenHash: text("token_hash").notNull().unique(),
+  lastUsedAt: text("last_used_at"),
+  revokedAt: text("revoked_at"),
+  createdAt: createdAt(),
+});
+export type ApiToken = typeof apiTokens.$inferSelect;
+
+export const settings = sqliteTable("settings", {
+  key: text("key").primaryKey(),
+  value: text("value", { mode: "json" }).notNull(),
+  updatedBy: text("updated_by"),
+  updatedAt: createdAt(),
+});
+
+export const sitesRelations = relations(sites, ({ many }) => ({
+  users: many(users),
+  sterilizers: many(sterilizers),
+  profiles: many(acceptanceProfiles),
+  instruments: many(instruments),
+}));
+export const usersRelations = relations(users, ({ one }) => ({ site: one(sites, { fields: [users.siteId], references: [sites.id] }) }));
+export const sterilizersRelations = relations(sterilizers, ({ one, many }) => ({
+  site: one(sites, { fields: [sterilizers.siteId], references: [sites.id] }),
+  defaultProfile: one(acceptanceProfiles, { fields: [sterilizers.defaultProfileId], references: [acceptanceProfiles.id] }),
+  cycles: many(cycles),
+  schedules: many(testSchedules),
+}));
+export const instrumentsRelations = relations(instruments, ({ one, many }) => ({
+  site: one(sites, { fields: [instruments.siteId], references: [sites.id] }),
+  certificates: many(calibrationCertificates),
+}));
+export const calibrationCertificatesRelations = relations(calibrationCertificates, ({ one }) => ({
+  instrument: one(instruments, { fields: [calibrationCertificates.instrumentId], references: [instruments.id] }),
+}));
+export const cyclesRelations = relations(cycles, ({ one, many }) => ({
+  site: one(sites, { fields: [cycles.siteId], references: [sites.id] }),
+  sterilizer: one(sterilizers, { fields: [cycles.sterilizerId], references: [sterilizers.id] }),
+  profile: one(acceptanceProfiles, { fields: [cycles.profileId], references: [acceptanceProfiles.id] }),
+  instrument: one(instruments, { fields: [cycles.instrumentId], references: [instruments.id] }),
+  creator: one(users, { fields: [cycles.createdBy], references: [users.id] }),
+  files: many(loggerFiles),
+  analyses: many(analyses),
+  signatures: many(signatures),
+}));
+export const loggerFilesRelations = relations(loggerFiles, ({ one }) => ({
+  cycle: one(cycles, { fields: [loggerFiles.cycleId], references: [cycles.id] }),
+}));
+export const analysesRelations = relations(analyses, ({ one }) => ({
+  cycle: one(cycles, { fields: [analyses.cycleId], references: [cycles.id] }),
+  file: one(loggerFiles, { fields: [analyses.loggerFileId], references: [loggerFiles.id] }),
+}));
+export const signaturesRelations = relations(signatures, ({ one }) => ({
+  cycle: one(cycles, { fields: [signatures.cycleId], references: [cycles.id] }),
+  user: one(users, { fields: [signatures.userId], references: [users.id] }),
+}));
+export const periodicTestsRelations = relations(periodicTests, ({ one }) => ({
+  sterilizer: one(sterilizers, { fields: [periodicTests.sterilizerId], references: [sterilizers.id] }),
+}));
+export const testSchedulesRelations = relations(testSchedules, ({ one }) => ({
+  sterilizer: one(sterilizers, { fields: [testSchedules.sterilizerId], references: [sterilizers.id] }),
+}));

@@ -1,0 +1,325 @@
+/**
+ * The demo site: a fictional sterile-services department with its sterilizers, instruments,
+ * acceptance profiles, users and three weeks of test cycles made by Papin's own simulator.
+ * Loaded only into an empty database, so running it twice changes nothing the second time.
+ */
+import { count, eq } from "drizzle-orm";
+import type { Database, Executor } from "./index";
+import {
+  acceptanceProfiles,
+  analyses,
+  calibrationCertificates,
+  cycles,
+  instruments,
+  loggerFiles,
+  periodicTests,
+  sites,
+  sterilizers,
+  testSchedules,
+  users,
+  type AcceptanceProfile,
+  type Role,
+} from "./schema";
+import { appendAuditEvent } from "./ledger";
+import { DEMO_USERS } from "./demo-users";
+import { hashPassword } from "@/lib/auth/password";
+import { simulateCycle, toLoggerCsv, type Scenario } from "@/lib/simulator";
+import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
+import { atmosphereAtAltitudeKpa } from "@/lib/steam";
+
+export { DEMO_USERS };
+
+const DAY_MS = 86_400_000;
+
+type DemoSterilizer = {
+  key: string;
+  name: string;
+  serialNumber: string;
+  model: string;
+  chamberVolumeL: number;
+  location: string;
+  profileKey: "p134" | "p121" | "p134large";
+  dialect: Parameters<typeof toLoggerCsv>[1];
+};
+
+const DEMO_STERILIZERS: DemoSterilizer[] = [
+  {
+    key: "P1",
+    name: "Porous load 1",
+    serialNumber: "MB-PL-0417",
+    model: "Double-door porous-load sterilizer, 6 modules",
+    chamberVolumeL: 445,
+    location: "Wash room / clean room wall, bay 1",
+    profileKey: "p134",
+    dialect: { delimiter: ",", decimal: ".", timeFormat: "iso" },
+  },
+  {
+    key: "P2",
+    name: "Porous load 2",
+    serialNumber: "MB-PL-0523",
+    model: "Double-door porous-load sterilizer, 12 modules",
+    chamberVolumeL: 960,
+    location: "Wash room / clean room wall, bay 2",
+    profileKey: "p134large",
+    dialect: { delimiter: ";", decimal: ",", timeFormat: "dmy", pressureUnit: "bar", gauge: true },
+  },
+  {
+    key: "F1",
+    name: "Fluids and media",
+    serialNumber: "MB-FL-0088",
+    model: "Single-door sterilizer with fluids cycle",
+    chamberVolumeL: 320,
+    location: "Media preparation room",
+    profileKey: "p121",
+    dialect: { delimiter: "\t", decimal: ".", timeFormat: "elapsed-seconds" },
+  },
+  {
+    key: "B1",
+    name: "Theatre benchtop",
+    serialNumber: "MB-BT-1102",
+    model: "Type B benchtop sterilizer",
+    chamberVolumeL: 23,
+    location: "Day-surgery theatre suite",
+    profileKey: "p134",
+    dialect: { delimiter: ",", decimal: ".", timeFormat: "mdy-ampm", pressureUnit: "mbar" },
+  },
+];
+
+// Mostly good cycles, with each kind of failure appearing a few times over the three weeks.
+const SCENARIO_ROTATION: Scenario[] = [
+  "pass", "pass", "pass", "air", "pass", "pass", "superheat", "pass", "pass", "short-hold",
+  "pass", "pass", "slow-equilibration", "pass", "pass", "pass", "never-reaches", "pass",
+];
+
+export type DemoOutcome = { loaded: boolean; summary: string };
+
+export async function loadDemoSite(db: Database, { password, now = new Date() }: { password: string; now?: Date }): Promise<DemoOutcome> {
+  const [{ n }] = await db.select({ n: count() }).from(sites);
+  if (n > 0) return { loaded: false, summary: "" };
+
+  const passwordHash = await hashPassword(password);
+  let cycleCount = 0;
+  let failCount = 0;
+
+  await db.transaction(async (tx) => {
+    const altitudeM = 45;
+    const [site] = await tx
+      .insert(sites)
+      .values({
+        name: "Marlow Bridge General Hospital — Sterile Services",
+        code: "MBG-SSD",
+        timeZone: "Europe/London",
+        altitudeM,
+        address: "Unit 4, Riverside Works, Marlow Bridge (fictional)",
+      })
+      .returning();
+    const atmosphereKpa = atmosphereAtAltitudeKpa(altitudeM);
+
+    const userIds: Record<Role, string> = {} as Record<Role, string>;
+    for (const u of DEMO_USERS) {
+      const [row] = await tx.insert(users).values({ ...u, passwordHash, siteId: site.id }).returning({ id: users.id });
+      userIds[u.role] = row.id;
+    }
+    const admin = { actorId: userIds.admin, actorEmail: "admin@papin.example", siteId: site.id };
+    await appendAuditEvent(tx, { ...admin, action: "demo.load", entityType: "site", entityId: site.id, newValue: { name: site.name } });
+
+    const profileRows = await tx
+      .insert(acceptanceProfiles)
+      .values([
+        {
+          siteId: site.id,
+          name: "134 °C / 3 min porous load",
+          sterilizationTempC: 134,
+          bandK: 3,
+          holdingTimeS: 180,
+          maxEquilibrationS: 15,
+          basis: "EN 285 thermometric test: band 134–137 °C, 3 min hold, equilibration ≤ 15 s for chambers up to 800 l",
+        },
+        {
+          siteId: site.id,
+          name: "134 °C / 3 min porous load, chamber over 800 l",
+          sterilizationTempC: 134,
+          bandK: 3,
+          holdingTimeS: 180,
+          maxEquilibrationS: 30,
+          basis: "EN 285 thermometric test: equilibration ≤ 30 s for chambers over 800 l",
+        },
+        {
+          siteId: site.id,
+          name: "121 °C / 15 min",
+          sterilizationTempC: 121,
+          bandK: 3,
+          holdingTimeS: 900,
+          maxEquilibrationS: 15,
+          basis: "EN 285 / HTM 01-01 band 121–124 °C, 15 min hold",
+        },
+      ])
+      .returning();
+    const profiles: Record<DemoSterilizer["profileKey"], AcceptanceProfile> = {
+      p134: profileRows[0],
+      p134large: profileRows[1],
+      p121: profileRows[2],
+    };
+
+    const instrumentRows = await tx
+      .insert(instruments)
+      .values([
+        { siteId: site.id, name: "Thermocouple logger TL-12 (unit A)", serialNumber: "TL12-20417", kind: "logger", channelCount: 12 },
+        { siteId: site.id, name: "Thermocouple logger TL-12 (unit B)", serialNumber: "TL12-20533", kind: "logger", channelCount: 12 },
+        { siteId: site.id, name: "Chamber pressure transducer 0–6 bar abs", serialNumber: "PT6-00321", kind: "pressure-sensor", channelCount: 1 },
+      ])
+      .returning();
+    const day = (offset: number) => new Date(now.getTime() + offset * DAY_MS).toISOString().slice(0, 10);
+    await tx.insert(calibrationCertificates).values([
+      { instrumentId: instrumentRows[0].id, certificateNumber: "CAL-24-1187", issuedBy: "Riverside Calibration Lab (fictional)", calibratedOn: day(-300), dueOn: day(65), uncertaintyK: 0.25 },
+      { instrumentId: instrumentRows[1].id, certificateNumber: "CAL-24-0903", issuedBy: "Riverside Calibration Lab (fictional)", calibratedOn: day(-352), dueOn: day(13), uncertaintyK: 0.25 },
+      { instrumentId: instrumentRows[2].id, certificateNumber: "CAL-24-0771", issuedBy: "Riverside Calibration Lab (fictional)", calibratedOn: day(-372), dueOn: day(-7), notes: "Overdue: book recalibration before the next quarterly test." },
+    ]);
+
+    for (const [index, s] of DEMO_STERILIZERS.entries()) {
+      const profile = profiles[s.profileKey];
+      const [sterilizer] = await tx
+        .insert(sterilizers)
+        .values({
+          siteId: site.id,
+          name: s.name,
+          serialNumber: s.serialNumber,
+          model: s.model,
+          chamberVolumeL: s.chamberVolumeL,
+          location: s.location,
+          defaultProfileId: profile.id,
+          airDetectorFitted: s.key !== "B1",
+        })
+        .returning();
+      await tx.insert(testSchedules).values([
+        { sterilizerId: sterilizer.id, kind: "bowie-dick", intervalDays: 1 },
+        { sterilizerId: sterilizer.id, kind: "air-leakage", intervalDays: 7 },
+        { sterilizerId: sterilizer.id, kind: "thermometric-small-load", intervalDays: 91 },
+        { sterilizerId: sterilizer.id, kind: "steam-non-condensable-gas", intervalDays: 365 },
+      ]);
+      await seedPeriodicTests(tx, { siteId: site.id, sterilizerId: sterilizer.id, technicianId: userIds.technician, now, index });
+
+      const instrument = instrumentRows[index % 2];
+      // Every third day per sterilizer over three weeks, staggered so each day has some work.
+      for (let daysAgo = 21 - index; daysAgo >= 0; daysAgo -= 3) {
+        const ordinal = cycleCount;
+        const scenario = SCENARIO_ROTATION[ordinal % SCENARIO_ROTATION.length];
+        const startedAt = new Date(now.getTime() - daysAgo * DAY_MS);
+        startedAt.setUTCHours(6 + (index % 3), 10 + index * 7, 0, 0);
+        const sim = simulateCycle({
+          scenario,
+          sterilizationTempC: profile.sterilizationTempC + 0.6,
+          holdingTimeS: profile.holdingTimeS + 30,
+          seed: 1000 + ordinal,
+          startedAt,
+          atmosphereKpa,
+          sampleIntervalS: 2,
+        });
+        const bytes = toLoggerCsv(sim, s.dialect);
+        const analysis = analyzeLoggerBytes(bytes, profile, {}, atmosphereKpa);
+        const cycleNumber = `${s.key}-${startedAt.toISOString().slice(0, 10).replace(/-/g, "")}-${String(ordinal + 1).padStart(3, "0")}`;
+        const status = daysAgo > 3 ? "submitted" : "draft";
+        const [cycle] = await tx
+          .insert(cycles)
+          .values({
+            siteId: site.id,
+            sterilizerId: sterilizer.id,
+            profileId: profile.id,
+            instrumentId: instrument.id,
+            cycleNumber,
+            testKind: "thermometric-small-load",
+            loadDescription: "Standard test pack, small-load test (demo)",
+            status,
+            verdict: analysis.result.verdict,
+            startedAt: startedAt.toISOString(),
+            createdBy: userIds.technician,
+            createdAt: startedAt.toISOString(),
+            submittedBy: status === "submitted" ? userIds.technician : null,
+            submittedAt: status === "submitted" ? new Date(startedAt.getTime() + 3_600_000).toISOString() : null,
+          })
+          .returning();
+        const [file] = await tx
+          .insert(loggerFiles)
+          .values({
+            cycleId: cycle.id,
+            name: `${cycleNumber}.csv`,
+            sizeBytes: bytes.byteLength,
+            sha256: analysis.sha256,
+            bytes: Buffer.from(bytes),
+            dialect: analysis.dialect,
+            mapping: analysis.mapping,
+            uploadedBy: userIds.technician,
+          })
+          .returning({ id: loggerFiles.id });
+        const [saved] = await tx
+          .insert(analyses)
+          .values({
+            cycleId: cycle.id,
+            loggerFileId: file.id,
+            engineVersion: analysis.engineVersion,
+            inputHash: analysis.inputHash,
+            limits: analysis.limits,
+            result: analysis.result,
+            verdict: analysis.result.verdict,
+            createdBy: userIds.technician,
+          })
+          .returning({ id: analyses.id });
+        await tx.update(cycles).set({ currentAnalysisId: saved.id }).where(eqId(cycle.id));
+        await appendAuditEvent(tx, {
+          actorId: userIds.technician,
+          actorEmail: "technician@papin.example",
+          siteId: site.id,
+          action: "cycle.create",
+          entityType: "cycle",
+          entityId: cycle.id,
+          newValue: { cycleNumber, sterilizer: s.name, verdict: analysis.result.verdict, file: analysis.sha256, demo: true },
+        });
+        cycleCount++;
+        if (analysis.result.verdict === "fail") failCount++;
+      }
+    }
+  });
+
+  return {
+    loaded: true,
+    summary: `1 site, ${DEMO_USERS.length} users, ${DEMO_STERILIZERS.length} sterilizers, ${cycleCount} cycles (${failCount} failing)`,
+  };
+}
+
+const eqId = (id: string) => eq(cycles.id, id);
+
+async function seedPeriodicTests(
+  tx: Executor,
+  { siteId, sterilizerId, technicianId, now, index }: { siteId: string; sterilizerId: string; technicianId: string; now: Date; index: number },
+) {
+  const rows: (typeof periodicTests.$inferInsert)[] = [];
+  for (let daysAgo = 20; daysAgo >= 1; daysAgo--) {
+    if (index === 3 && daysAgo < 3) continue; // the benchtop's daily test is overdue in the demo
+    const at = new Date(now.getTime() - daysAgo * DAY_MS);
+    at.setUTCHours(6, 30, 0, 0);
+    rows.push({
+      siteId,
+      sterilizerId,
+      kind: "bowie-dick",
+      performedAt: at.toISOString(),
+      performedBy: technicianId,
+      result: daysAgo === 9 && index === 1 ? "fail" : "pass",
+      measurements: { indicator: daysAgo === 9 && index === 1 ? "paler centre" : "uniform change" },
+      notes: daysAgo === 9 && index === 1 ? "Paler area at the centre of the sheet; sterilizer taken out of use, door seal replaced, repeat passed." : null,
+    });
+    if (daysAgo % 7 === 2) {
+      // Leak rate in kPa/min; the limit is 0.13 kPa/min (EN 285 / HTM 2010).
+      const leak = index === 2 && daysAgo === 16 ? 0.19 : 0.04 + 0.01 * index;
+      rows.push({
+        siteId,
+        sterilizerId,
+        kind: "air-leakage",
+        performedAt: at.toISOString(),
+        performedBy: technicianId,
+        result: leak <= 0.13 ? "pass" : "fail",
+        measurements: { p2Kpa: 5.1, p3Kpa: +(5.1 + leak * 10).toFixed(2), leakRateKpaPerMin: leak },
+      });
+    }
+  }
+  await tx.insert(periodicTests).values(rows);
+}

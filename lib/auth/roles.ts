@@ -1,0 +1,2 @@
+export const ROLES = ["technician", "engineer", "auditor", "admin"] as const;
+export type Role = (typeof ROLES)[number];

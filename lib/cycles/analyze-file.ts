@@ -1,0 +1,52 @@
+import { readLoggerFile, type MappingOverrides } from "@/lib/logger-files";
+import { analyzeRecording, ENGINE_VERSION, type AcceptanceLimits, type AnalysisResult } from "@/lib/analysis";
+import { canonicalJson, sha256Hex } from "@/lib/integrity";
+import type { AcceptanceProfile } from "@/db/schema";
+
+export function limitsOf(profile: AcceptanceProfile): AcceptanceLimits {
+  return {
+    sterilizationTempC: profile.sterilizationTempC,
+    holdingTimeS: profile.holdingTimeS,
+    bandK: profile.bandK,
+    maxEquilibrationS: profile.maxEquilibrationS,
+    maxSpreadK: profile.maxSpreadK,
+    saturationLimitK: profile.saturationLimitK,
+    f0ReferenceC: profile.f0ReferenceC,
+    f0ZK: profile.f0ZK,
+  };
+}
+
+export type FileAnalysis = {
+  sha256: string;
+  inputHash: string;
+  engineVersion: string;
+  limits: AcceptanceLimits;
+  mapping: MappingOverrides;
+  dialect: unknown;
+  columns: unknown;
+  startedAt: string | null;
+  result: AnalysisResult;
+};
+
+/**
+ * One logger file in, one analysis out: pure apart from hashing, so the same bytes, mapping and
+ * limits always give the same figures and the same input hash.
+ */
+export function analyzeLoggerBytes(bytes: Uint8Array, profile: AcceptanceProfile, mapping: MappingOverrides = {}, atmosphereKpa?: number): FileAnalysis {
+  const effectiveMapping: MappingOverrides = atmosphereKpa && mapping.atmosphereKpa === undefined ? { ...mapping, atmosphereKpa } : mapping;
+  const { recording, dialect, columns } = readLoggerFile(bytes, effectiveMapping);
+  const limits = limitsOf(profile);
+  const result = analyzeRecording(recording, limits);
+  const sha256 = sha256Hex(bytes);
+  return {
+    sha256,
+    inputHash: sha256Hex(canonicalJson({ file: sha256, mapping: effectiveMapping, limits, engine: ENGINE_VERSION })),
+    engineVersion: ENGINE_VERSION,
+    limits,
+    mapping: effectiveMapping,
+    dialect,
+    columns,
+    startedAt: recording.startedAt,
+    result,
+  };
+}

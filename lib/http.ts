@@ -1,0 +1,36 @@
+import "server-only";
+import { NextResponse } from "next/server";
+import { ZodError } from "zod";
+import { AppError } from "./errors";
+
+export function jsonError(status: number, error: string, extra?: Record<string, unknown>) {
+  return NextResponse.json({ error, ...extra }, { status });
+}
+
+export function zodMessage(error: ZodError): string {
+  const first = error.issues[0];
+  if (!first) return "The request is not valid.";
+  const where = first.path.length ? `${first.path.join(".")}: ` : "";
+  return `${where}${first.message}`;
+}
+
+/** Maps whatever a handler throws to a JSON error with a plain sentence; never a stack trace. */
+export function errorResponse(error: unknown) {
+  if (error instanceof AppError) return jsonError(error.status, error.message, error.field ? { field: error.field } : undefined);
+  if (error instanceof ZodError) return jsonError(400, zodMessage(error));
+  console.error("[papin] unexpected error in a route handler", error);
+  return jsonError(500, "Something went wrong on the server. Nothing was changed; please try again.");
+}
+
+type Handler<C> = (request: Request, context: C) => Promise<Response>;
+
+/** Wraps a route handler so that every failure becomes a JSON error. */
+export function route<C = unknown>(handler: Handler<C>): Handler<C> {
+  return async (request, context) => {
+    try {
+      return await handler(request, context);
+    } catch (error) {
+      return errorResponse(error);
+    }
+  };
+}

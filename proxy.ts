@@ -1,0 +1,22 @@
+import { getToken } from "next-auth/jwt";
+import { NextResponse, type NextRequest } from "next/server";
+
+// Convenience only: sends anonymous visitors of portal pages to sign-in. Every page, route
+// handler and server action still checks the session and the role on the server itself.
+const PUBLIC_PREFIXES = ["/sign-in", "/safety", "/api", "/_next", "/favicon"];
+
+export async function proxy(request: NextRequest) {
+  const { pathname, search } = request.nextUrl;
+  if (PUBLIC_PREFIXES.some((p) => pathname.startsWith(p))) return NextResponse.next();
+  const secret = process.env.NEXTAUTH_SECRET;
+  // Without an environment secret (development) the token cannot be read here; the layout redirects.
+  if (!secret) return NextResponse.next();
+  const token = await getToken({ req: request, secret });
+  if (token) return NextResponse.next();
+  const url = request.nextUrl.clone();
+  url.pathname = "/sign-in";
+  url.search = pathname === "/" ? "" : `?callbackUrl=${encodeURIComponent(pathname + search)}`;
+  return NextResponse.redirect(url);
+}
+
+export const config = { matcher: ["/((?!_next/static|_next/image|.*\\.(?:png|svg|ico|woff2?)$).*)"] };
