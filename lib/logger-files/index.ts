@@ -1,0 +1,22 @@
+export { LoggerFileError } from "./errors";
+export { inspectLoggerFile, readLoggerFile, MIN_DATA_ROWS } from "./read";
+export { unitFromHeader, planColumns } from "./mapping";
+export { decodeLoggerBytes, encodeWindows1252, decodeWindows1252 } from "./decode";
+export { parseDecimal } from "./numbers";
+export { parseTimeCell, guessTimeFormat } from "./time";
+export type {
+  ColumnMapping,
+  ColumnOverride,
+  ColumnRole,
+  DecimalMark,
+  Delimiter,
+  Dialect,
+  InspectResult,
+  LineEnding,
+  MappingOverrides,
+  ReadResult,
+  Recording,
+  TemperatureChannel,
+  TextEncodingName,
+  TimeFormat,
+} from "./types";

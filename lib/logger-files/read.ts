@@ -1,0 +1,334 @@
+import Papa from "papaparse";
+import { kpaPerUnit, type PressureUnit, type TemperatureUnit } from "../steam";
+import { LoggerFileError } from "./errors";
+import { planColumns, type ColumnPlan } from "./mapping";
+import { DECIMAL_CODES, parseDecimal } from "./numbers";
+import { delimiterName, findTable, isBlankLine, lineText, prepareText, splitFields, type PreparedText, type TableLayout } from "./sniff";
+import { cellHasOffset, isoFromSeconds, parseTimeCell, type TimeFormat } from "./time";
+import type { Dialect, InspectResult, MappingOverrides, ReadResult, Recording } from "./types";
+
+const PREVIEW_ROWS = 10;
+const MAPPING_SAMPLE_ROWS = 1500;
+export const MIN_DATA_ROWS = 3;
+
+type Analysed = { prepared: PreparedText; layout: TableLayout; plan: ColumnPlan; dialect: Dialect; preview: string[][] };
+
+function dataLineIndexes(prepared: PreparedText, layout: TableLayout, limit: number): number[] {
+  const found: number[] = [];
+  for (let i = layout.firstDataLineIndex; i < prepared.lineCount && found.length < limit; i++) {
+    if (!isBlankLine(lineText(prepared, i), layout.delimiter)) found.push(i);
+  }
+  return found;
+}
+
+function spreadSample(prepared: PreparedText, layout: TableLayout): string[][] {
+  const total = prepared.lineCount - layout.firstDataLineIndex;
+  const step = Math.max(1, Math.floor(total / MAPPING_SAMPLE_ROWS));
+  const rows: string[][] = [];
+  for (let i = layout.firstDataLineIndex; i < prepared.lineCount; i += step) {
+    const line = lineText(prepared, i);
+    if (isBlankLine(line, layout.delimiter)) continue;
+    const fields = splitFields(line, layout.delimiter);
+    if (fields.length === layout.width) rows.push(fields);
+  }
+  return rows;
+}
+
+function analyse(bytes: Uint8Array, overrides: MappingOverrides = {}): Analysed {
+  if (!(bytes instanceof Uint8Array)) throw new LoggerFileError("The logger file must be given as bytes");
+  const prepared = prepareText(bytes);
+  const layout = findTable(prepared);
+  const preview = dataLineIndexes(prepared, layout, PREVIEW_ROWS).map((i) => splitFields(lineText(prepared, i), layout.delimiter));
+  const plan = planColumns(layout.headers, spreadSample(prepared, layout), layout.decimal, overrides);
+  const dialect: Dialect = {
+    encoding: prepared.encoding,
+    delimiter: layout.delimiter,
+    decimal: layout.decimal,
+    lineEnding: prepared.lineEnding,
+    preambleLines: layout.headerLineIndex >= 0 ? layout.headerLineIndex : layout.firstDataLineIndex,
+    headerLine: layout.headerLineIndex >= 0 ? layout.headerLineIndex + 1 : null,
+    timeFormat: plan.timeFormat,
+    quoted: layout.quoted,
+  };
+  return { prepared, layout, plan, dialect, preview };
+}
+
+/** Guesses dialect and mapping from the text without converting the data: cheap enough for every upload. */
+export function inspectLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides): InspectResult {
+  const { prepared, layout, plan, dialect, preview } = analyse(bytes, overrides);
+  const preambleEnd = dialect.preambleLines;
+  const preamble: string[] = [];
+  for (let i = 0; i < preambleEnd; i++) preamble.push(lineText(prepared, i));
+  let rowCount = 0;
+  for (let i = layout.firstDataLineIndex; i < prepared.lineCount; i++) {
+    if (prepared.lineEnds[i] > prepared.lineStarts[i]) rowCount++;
+  }
+  return {
+    dialect,
+    columns: plan.columns,
+    referenceColumn: plan.columns[plan.temperatureIndexes[plan.referenceIndex]].header,
+    preview: { header: layout.headers, rows: preview },
+    rowCount,
+    preamble,
+  };
+}
+
+const TIME_FORMAT_WORDS: Record<TimeFormat, string> = {
+  iso: "year-month-day hour:minute:second",
+  dmy: "day.month.year hour:minute:second",
+  mdy: "month/day/year hour:minute:second",
+  "mdy-ampm": "month/day/year hour:minute:second AM/PM",
+  "dmy-ampm": "day/month/year hour:minute:second AM/PM",
+  clock: "hour:minute:second",
+  "elapsed-seconds": "elapsed time as a number",
+};
+
+type Sink = {
+  times: Float64Array;
+  channels: Float64Array[];
+  count: number;
+};
+
+/** Reads the whole file into a recording: times in seconds, temperatures in °C, pressure in kPa absolute. */
+export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides): ReadResult {
+  const { prepared, layout, plan, dialect } = analyse(bytes, overrides);
+  const { text, lineStarts, lineEnds, lineCount } = prepared;
+  const { width, delimiter, headers } = layout;
+  const warnings: string[] = [];
+  const decimalCode = DECIMAL_CODES[layout.decimal];
+  const delimiterCode = delimiter.charCodeAt(0);
+
+  // slot per field: −1 unused, 0 time, 1… channels (temperatures, then pressure)
+  const slotOfField = new Int32Array(width).fill(-1);
+  slotOfField[plan.timeIndex] = 0;
+  plan.temperatureIndexes.forEach((index, k) => (slotOfField[index] = 1 + k));
+  const pressureSlot = 1 + plan.temperatureIndexes.length;
+  slotOfField[plan.pressureIndex] = pressureSlot;
+  const channelCount = pressureSlot;
+  const fieldOfSlot = new Int32Array(channelCount + 1);
+  for (let f = 0; f < width; f++) if (slotOfField[f] >= 0) fieldOfSlot[slotOfField[f]] = f;
+
+  const capacity = Math.max(16, lineCount - layout.firstDataLineIndex);
+  const sink: Sink = {
+    times: new Float64Array(capacity),
+    channels: Array.from({ length: channelCount }, () => new Float64Array(capacity)),
+    count: 0,
+  };
+  const sourceLine = new Int32Array(capacity);
+  const timeFormat = plan.timeFormat;
+  const elapsed = timeFormat === "elapsed-seconds";
+  const values = new Float64Array(channelCount + 1);
+  const fieldStarts = new Int32Array(width + 1);
+  const fieldEnds = new Int32Array(width + 1);
+
+  const failRow = (lineIndex: number, message: string): never => {
+    throw new LoggerFileError(`Row ${lineIndex + 1}, ${message}`);
+  };
+  let footerFrom = -1;
+
+  const isFooter = (lineIndex: number): boolean => {
+    for (let j = lineIndex; j < lineCount; j++) {
+      const line = lineText(prepared, j);
+      if (isBlankLine(line, delimiter)) continue;
+      const fields = splitFields(line, delimiter);
+      const cell = fields[plan.timeIndex] ?? "";
+      const t = elapsed ? parseDecimal(cell, 0, cell.length, decimalCode) : parseTimeCell(cell, 0, cell.length, timeFormat);
+      if (Number.isFinite(t) && fields.length === width) return false;
+    }
+    return true;
+  };
+
+  /** Parses the cells at fieldStarts/fieldEnds of one line into values[]; returns false when the line is a footer. */
+  const parseFields = (lineIndex: number, source: string): boolean => {
+    for (let slot = 0; slot <= channelCount; slot++) {
+      const f = fieldOfSlot[slot];
+      const start = fieldStarts[f];
+      const end = fieldEnds[f];
+      let v: number;
+      if (slot === 0 && !elapsed) v = parseTimeCell(source, start, end, timeFormat);
+      else v = parseDecimal(source, start, end, decimalCode);
+      if (v !== v) {
+        if (isFooter(lineIndex)) return false;
+        const cell = source.slice(start, end).trim();
+        const header = headers[f] || `Column ${f + 1}`;
+        if (cell === "") failRow(lineIndex, `column "${header}": the cell is empty`);
+        if (slot === 0 && !elapsed) failRow(lineIndex, `column "${header}": "${cell}" is not a time written as ${TIME_FORMAT_WORDS[timeFormat]}`);
+        failRow(lineIndex, `column "${header}": "${cell}" is not a number`);
+      }
+      values[slot] = v;
+    }
+    return true;
+  };
+
+  const store = (lineIndex: number) => {
+    const n = sink.count;
+    sink.times[n] = values[0];
+    for (let k = 1; k <= channelCount; k++) sink.channels[k - 1][n] = values[k];
+    sourceLine[n] = lineIndex;
+    sink.count = n + 1;
+  };
+
+  if (!layout.quoted) {
+    for (let i = layout.firstDataLineIndex; i < lineCount; i++) {
+      const start = lineStarts[i];
+      const end = lineEnds[i];
+      let field = 0;
+      let fieldStart = start;
+      let blank = true;
+      for (let p = start; p < end; p++) {
+        const code = text.charCodeAt(p);
+        if (code === delimiterCode) {
+          if (field < width) {
+            fieldStarts[field] = fieldStart;
+            fieldEnds[field] = p;
+          }
+          field++;
+          fieldStart = p + 1;
+        } else if (blank && code !== 32 && code !== 9) {
+          blank = false;
+        }
+      }
+      if (blank) continue;
+      if (field < width) {
+        fieldStarts[field] = fieldStart;
+        fieldEnds[field] = end;
+      }
+      field++;
+      if (field !== width) {
+        if (isFooter(i)) {
+          footerFrom = i;
+          break;
+        }
+        failRow(i, `has ${field} ${delimiterName(delimiter)}-separated fields where the header has ${width}`);
+      }
+      if (!parseFields(i, text)) {
+        footerFrom = i;
+        break;
+      }
+      store(i);
+    }
+  } else {
+    const body = text.slice(lineStarts[layout.firstDataLineIndex]);
+    const parsed = Papa.parse<string[]>(body, { delimiter, skipEmptyLines: false, header: false });
+    // Papa counts rows, not lines; map back through the line breaks it consumed.
+    let lineIndex = layout.firstDataLineIndex;
+    for (const row of parsed.data) {
+      const i = lineIndex;
+      let breaks = 1;
+      for (const cell of row) for (let c = cell.indexOf("\n"); c >= 0; c = cell.indexOf("\n", c + 1)) breaks++;
+      lineIndex += breaks;
+      if (row.every((cell) => cell.trim() === "")) continue;
+      if (row.length !== width) {
+        if (isFooter(i)) {
+          footerFrom = i;
+          break;
+        }
+        failRow(i, `has ${row.length} ${delimiterName(delimiter)}-separated fields where the header has ${width}`);
+      }
+      const joined = row.join("\u0000");
+      let offset = 0;
+      for (let f = 0; f < width; f++) {
+        fieldStarts[f] = offset;
+        fieldEnds[f] = offset + row[f].length;
+        offset += row[f].length + 1;
+      }
+      if (!parseFields(i, joined)) {
+        footerFrom = i;
+        break;
+      }
+      store(i);
+    }
+  }
+
+  const rowCount = sink.count;
+  if (footerFrom >= 0) {
+    let footerLines = 0;
+    for (let j = footerFrom; j < lineCount; j++) if (!isBlankLine(lineText(prepared, j), delimiter)) footerLines++;
+    warnings.push(`Ignored ${footerLines} line(s) after the data from line ${footerFrom + 1} ("${lineText(prepared, footerFrom).trim().slice(0, 60)}")`);
+  }
+  if (rowCount === 0) throw new LoggerFileError(`The file has a header (line ${layout.headerLineIndex + 1}) but no data rows below it`);
+  if (rowCount < MIN_DATA_ROWS) {
+    throw new LoggerFileError(`The file has only ${rowCount} data row${rowCount === 1 ? "" : "s"}; at least ${MIN_DATA_ROWS} are needed to analyse a cycle`);
+  }
+
+  // Time: seconds since the first sample, never backwards.
+  const rawTimes = sink.times.subarray(0, rowCount);
+  const timesS = new Float64Array(rowCount);
+  const timeHeader = headers[plan.timeIndex];
+  let dayOffset = 0;
+  let rollovers = 0;
+  let repeats = 0;
+  const first = rawTimes[0] * (elapsed ? plan.elapsedScale : 1);
+  let previous = 0;
+  const scale = elapsed ? plan.elapsedScale : 1;
+  for (let n = 0; n < rowCount; n++) {
+    let t = rawTimes[n] * scale - first + dayOffset;
+    if (t < previous) {
+      if (timeFormat === "clock" && previous - t > 43200) {
+        dayOffset += 86400;
+        t += 86400;
+        rollovers++;
+      } else {
+        const here = cellOf(prepared, layout, sourceLine[n], plan.timeIndex);
+        const before = cellOf(prepared, layout, sourceLine[n - 1], plan.timeIndex);
+        failRow(sourceLine[n], `column "${timeHeader}": time goes backwards ("${here}" comes after "${before}" on row ${sourceLine[n - 1] + 1})`);
+      }
+    } else if (n > 0 && t === previous) {
+      repeats++;
+    }
+    timesS[n] = t;
+    previous = t;
+  }
+  if (rollovers > 0) warnings.push(`The clock times pass midnight ${rollovers} time(s); a day was added at each`);
+  if (repeats > 0) warnings.push(`${repeats} row(s) repeat the time of the row before`);
+  if (timesS[rowCount - 1] === 0) throw new LoggerFileError(`Column "${timeHeader}": every row has the same time, so the record spans no time`);
+
+  let startedAt: string | null = null;
+  if (timeFormat !== "elapsed-seconds" && timeFormat !== "clock") {
+    startedAt = isoFromSeconds(rawTimes[0], cellHasOffset(cellOf(prepared, layout, sourceLine[0], plan.timeIndex)));
+  }
+
+  // Units: temperatures to °C, pressure to kPa absolute.
+  const columnsByIndex = plan.columns;
+  const temperatures = plan.temperatureIndexes.map((index, k) => {
+    const raw = sink.channels[k];
+    const unit = columnsByIndex[index].unit as TemperatureUnit;
+    const out = raw.length === rowCount ? raw : raw.slice(0, rowCount);
+    if (unit === "F") for (let n = 0; n < rowCount; n++) out[n] = ((out[n] - 32) * 5) / 9;
+    else if (unit === "K") for (let n = 0; n < rowCount; n++) out[n] = out[n] - 273.15;
+    for (let n = 0; n < rowCount; n++) {
+      if (out[n] < -273.15) {
+        failRow(sourceLine[n], `column "${headers[index]}": "${cellOf(prepared, layout, sourceLine[n], index)}" is below absolute zero in ${unit === "C" ? "°C" : unit === "F" ? "°F" : "K"}`);
+      }
+    }
+    return { header: headers[index], values: out };
+  });
+  const pressureColumn = columnsByIndex[plan.pressureIndex];
+  const pressureRaw = sink.channels[pressureSlot - 1];
+  const pressureValues = pressureRaw.length === rowCount ? pressureRaw : pressureRaw.slice(0, rowCount);
+  const pressureScale = kpaPerUnit(pressureColumn.unit as PressureUnit);
+  const pressureOffset = pressureColumn.gauge ? plan.atmosphereKpa : 0;
+  for (let n = 0; n < rowCount; n++) {
+    const kpa = pressureValues[n] * pressureScale + pressureOffset;
+    if (kpa < 0) {
+      failRow(
+        sourceLine[n],
+        `column "${pressureColumn.header}": "${cellOf(prepared, layout, sourceLine[n], plan.pressureIndex)}" ${pressureColumn.unit}${pressureColumn.gauge ? " gauge" : ""} is a negative absolute pressure; check the unit and the gauge/absolute setting`,
+      );
+    }
+    pressureValues[n] = kpa;
+  }
+
+  const recording: Recording = {
+    startedAt,
+    timesS,
+    temperatures,
+    pressure: { header: pressureColumn.header, values: pressureValues },
+    referenceIndex: plan.referenceIndex,
+  };
+  return { recording, dialect, columns: plan.columns, warnings };
+}
+
+function cellOf(prepared: PreparedText, layout: TableLayout, lineIndex: number, field: number): string {
+  return (splitFields(lineText(prepared, lineIndex), layout.delimiter)[field] ?? "").trim();
+}

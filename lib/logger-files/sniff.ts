@@ -1,0 +1,216 @@
+import { decodeLoggerBytes, type TextEncodingName } from "./decode";
+import { LoggerFileError } from "./errors";
+import { hasDecimalComma, hasDecimalPoint, looksNumeric } from "./numbers";
+import { guessTimeFormat } from "./time";
+import type { DecimalMark, Delimiter, LineEnding } from "./types";
+
+/** Decoded text with an index of its lines, so that no line is copied until it is needed. */
+export type PreparedText = {
+  text: string;
+  encoding: TextEncodingName;
+  lineEnding: LineEnding;
+  lineStarts: Int32Array;
+  /** end of each line, line break (and CR) excluded */
+  lineEnds: Int32Array;
+  lineCount: number;
+};
+
+export function prepareText(bytes: Uint8Array): PreparedText {
+  const { text, encoding } = decodeLoggerBytes(bytes);
+  if (text.trim() === "") throw new LoggerFileError("The file is empty: it holds only blank space");
+  const firstLf = text.indexOf("\n");
+  const breakChar = firstLf < 0 && text.includes("\r") ? "\r" : "\n";
+  const lineEnding: LineEnding = breakChar === "\r" ? "cr" : firstLf > 0 && text.charCodeAt(firstLf - 1) === 13 ? "crlf" : "lf";
+  let capacity = 1024;
+  let starts = new Int32Array(capacity);
+  let ends = new Int32Array(capacity);
+  let count = 0;
+  let position = 0;
+  const length = text.length;
+  while (position <= length) {
+    let next = text.indexOf(breakChar, position);
+    if (next < 0) next = length;
+    let end = next;
+    if (breakChar === "\n" && end > position && text.charCodeAt(end - 1) === 13) end--;
+    if (count === capacity) {
+      capacity *= 2;
+      const grownStarts = new Int32Array(capacity);
+      grownStarts.set(starts);
+      starts = grownStarts;
+      const grownEnds = new Int32Array(capacity);
+      grownEnds.set(ends);
+      ends = grownEnds;
+    }
+    starts[count] = position;
+    ends[count] = end;
+    count++;
+    position = next + 1;
+  }
+  // A final line break leaves an empty last line: drop it.
+  while (count > 0 && ends[count - 1] === starts[count - 1]) count--;
+  return { text, encoding, lineEnding, lineStarts: starts, lineEnds: ends, lineCount: count };
+}
+
+export function lineText(prepared: PreparedText, lineIndex: number): string {
+  return prepared.text.slice(prepared.lineStarts[lineIndex], prepared.lineEnds[lineIndex]);
+}
+
+/** Splits one line into fields; double quotes protect delimiters and "" stands for one quote. */
+export function splitFields(line: string, delimiter: string): string[] {
+  if (!line.includes('"')) return line.split(delimiter);
+  const fields: string[] = [];
+  let current = "";
+  let inQuotes = false;
+  for (let i = 0; i < line.length; i++) {
+    const ch = line[i];
+    if (inQuotes) {
+      if (ch === '"') {
+        if (line[i + 1] === '"') {
+          current += '"';
+          i++;
+        } else {
+          inQuotes = false;
+        }
+      } else {
+        current += ch;
+      }
+    } else if (ch === '"' && current.trim() === "") {
+      inQuotes = true;
+      current = "";
+    } else if (ch === delimiter) {
+      fields.push(current);
+      current = "";
+    } else {
+      current += ch;
+    }
+  }
+  fields.push(current);
+  return fields;
+}
+
+export function isBlankLine(line: string, delimiter?: string): boolean {
+  for (let i = 0; i < line.length; i++) {
+    const ch = line[i];
+    if (ch !== " " && ch !== "\t" && ch !== "\r" && ch !== delimiter) return false;
+  }
+  return true;
+}
+
+const DELIMITER_NAMES: Record<Delimiter, string> = { ",": "comma", ";": "semicolon", "\t": "tab" };
+export function delimiterName(delimiter: Delimiter): string {
+  return DELIMITER_NAMES[delimiter];
+}
+
+function isDataCell(cell: string): boolean {
+  const c = cell.trim();
+  return c !== "" && (looksNumeric(c) || guessTimeFormat([c]) !== null);
+}
+
+function isDataRow(fields: string[]): boolean {
+  let data = 0;
+  let nonEmpty = 0;
+  for (const f of fields) {
+    if (f.trim() === "") continue;
+    nonEmpty++;
+    if (isDataCell(f)) data++;
+  }
+  return data >= 2 && data >= Math.ceil(nonEmpty * 0.75);
+}
+
+export type TableLayout = {
+  delimiter: Delimiter;
+  width: number;
+  /** 0-based line index of the header, or −1 when there is none */
+  headerLineIndex: number;
+  firstDataLineIndex: number;
+  headers: string[];
+  decimal: DecimalMark;
+  quoted: boolean;
+};
+
+const SAMPLE_LINES = 200;
+
+/** Finds the delimiter, the header line, the first data line and the decimal mark. */
+export function findTable(prepared: PreparedText): TableLayout {
+  const sampleCount = Math.min(prepared.lineCount, SAMPLE_LINES);
+  const sample: string[] = [];
+  for (let i = 0; i < sampleCount; i++) sample.push(lineText(prepared, i));
+
+  let chosen: { delimiter: Delimiter; width: number } | null = null;
+  for (const delimiter of ["\t", ";", ","] as Delimiter[]) {
+    const counts: number[] = [];
+    for (const line of sample) if (!isBlankLine(line)) counts.push(splitFields(line, delimiter).length);
+    const tail = counts.slice(Math.floor(counts.length * 0.4));
+    if (tail.length === 0) continue;
+    const frequency = new Map<number, number>();
+    for (const c of tail) frequency.set(c, (frequency.get(c) ?? 0) + 1);
+    let width = 0;
+    let best = 0;
+    for (const [c, n] of frequency) if (n > best || (n === best && c > width)) [width, best] = [c, n];
+    if (width >= 2 && best / tail.length >= 0.8) {
+      chosen = { delimiter, width };
+      break;
+    }
+  }
+  if (!chosen) {
+    throw new LoggerFileError(
+      "The file holds no table: no run of lines splits into two or more fields by comma, semicolon or tab (it reads like prose or a single column)",
+    );
+  }
+  const { delimiter, width } = chosen;
+
+  let firstDataLineIndex = -1;
+  for (let i = 0; i < sample.length; i++) {
+    const fields = splitFields(sample[i], delimiter);
+    if (fields.length === width && isDataRow(fields)) {
+      firstDataLineIndex = i;
+      break;
+    }
+  }
+  if (firstDataLineIndex < 0) {
+    const headerIndex = sample.findIndex((line) => splitFields(line, delimiter).length === width);
+    if (headerIndex >= 0 && sample.slice(headerIndex + 1).every((l) => isBlankLine(l, delimiter))) {
+      throw new LoggerFileError(`The file has a header (line ${headerIndex + 1}) but no data rows below it`);
+    }
+    throw new LoggerFileError(
+      `The file holds no data rows: none of its first ${sample.length} lines has numbers or times in ${width} ${delimiterName(delimiter)}-separated fields`,
+    );
+  }
+
+  let headerLineIndex = -1;
+  for (let i = firstDataLineIndex - 1; i >= 0; i--) {
+    if (isBlankLine(sample[i], delimiter)) continue;
+    const fields = splitFields(sample[i], delimiter);
+    if (fields.length >= 2 && !isDataRow(fields)) headerLineIndex = i;
+    break;
+  }
+
+  let headers: string[];
+  if (headerLineIndex >= 0) {
+    headers = splitFields(sample[headerLineIndex], delimiter).map((h) => h.trim());
+    while (headers.length > width && headers[headers.length - 1] === "") headers.pop();
+    while (headers.length < width) headers.push("");
+  } else {
+    headers = Array.from({ length: width }, (_, i) => `Column ${i + 1}`);
+  }
+
+  let decimal: DecimalMark = ".";
+  if (delimiter !== ",") {
+    let commas = 0;
+    let points = 0;
+    for (let i = firstDataLineIndex; i < sample.length; i++) {
+      for (const cell of splitFields(sample[i], delimiter)) {
+        if (hasDecimalComma(cell)) commas++;
+        else if (hasDecimalPoint(cell)) points++;
+      }
+    }
+    if (commas > points) decimal = ",";
+  }
+
+  let quoted = false;
+  const dataStart = prepared.lineStarts[firstDataLineIndex];
+  if (prepared.text.indexOf('"', dataStart) >= 0) quoted = true;
+  if (headerLineIndex >= 0 && lineText(prepared, headerLineIndex).includes('"')) quoted = true;
+
+  return { delimiter, width, headerLineIndex, firstDataLineIndex, headers, decimal, quoted };
+}
