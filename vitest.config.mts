@@ -4,8 +4,8 @@ import path from "node:path";
 export default defineConfig({
   resolve: {
     alias: {
-      "@": path.resolve(__dirname),
-      "server-only": path.resolve(__dirname, "tests/support/server-only-stub.ts"),
+      "@": import.meta.dirname,
+      "server-only": path.join(import.meta.dirname, "tests/support/server-only-stub.ts"),
     },
   },
   test: {

@@ -1,0 +1,34 @@
+import { defineConfig } from "@playwright/test";
+
+const port = Number(process.env.PAPIN_E2E_PORT ?? 3111);
+export const baseURL = `http://127.0.0.1:${port}`;
+
+// The browser tests run the production build on a fresh demo database of their own.
+export default defineConfig({
+  testDir: "tests/e2e",
+  timeout: 60_000,
+  expect: { timeout: 10_000 },
+  fullyParallel: false,
+  workers: 1,
+  retries: process.env.CI ? 1 : 0,
+  reporter: [["list"]],
+  outputDir: "test-results",
+  use: {
+    baseURL,
+    browserName: "chromium",
+    headless: true,
+    screenshot: "only-on-failure",
+    launchOptions: {
+      executablePath: process.env.PAPIN_CHROMIUM ?? "/usr/bin/chromium",
+      args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
+    },
+  },
+  webServer: {
+    command: `bash tests/support/start-e2e-server.sh ${port}`,
+    url: `${baseURL}/api/health`,
+    timeout: 180_000,
+    reuseExistingServer: false,
+    stdout: "pipe",
+    stderr: "pipe",
+  },
+});
