@@ -1,0 +1,19 @@
+/**
+ * Lethality F(Tref, z) in minutes: the trapezoid integral of 10^((T − Tref)/z) over time.
+ * With Tref = 121.1 °C and z = 10 K this is F0.
+ */
+export function lethalityMinutes(timesS: ArrayLike<number>, temperaturesC: ArrayLike<number>, referenceC = 121.1, zK = 10, fromIndex = 0, toIndex = timesS.length - 1): number {
+  const k = Math.LN10 / zK;
+  let sumSeconds = 0;
+  let previousRate = Math.exp((temperaturesC[fromIndex] - referenceC) * k);
+  for (let i = fromIndex + 1; i <= toIndex; i++) {
+    const rate = Math.exp((temperaturesC[i] - referenceC) * k);
+    sumSeconds += (timesS[i] - timesS[i - 1]) * (rate + previousRate);
+    previousRate = rate;
+  }
+  return sumSeconds / 2 / 60;
+}
+
+export function lethalRate(temperatureC: number, referenceC = 121.1, zK = 10): number {
+  return Math.pow(10, (temperatureC - referenceC) / zK);
+}
