@@ -1,0 +1,94 @@
+import { z } from "zod";
+import { TEST_KINDS, type TestKind } from "@/db/schema";
+import { PRESSURE_UNITS, TEMPERATURE_UNITS, type PressureUnit, type TemperatureUnit } from "@/lib/steam/units";
+
+/** File names the intake accepts: the text exports that loggers write. */
+export const LOGGER_FILE_EXTENSIONS = [".csv", ".txt", ".tsv", ".dat", ".log"] as const;
+
+export const TEST_KIND_LABELS: Record<TestKind, string> = {
+  "thermometric-small-load": "Thermometric test, small load",
+  "thermometric-full-load": "Thermometric test, full load",
+  "bowie-dick": "Bowie-Dick test",
+  "air-leakage": "Air leakage test",
+  "steam-quality": "Steam quality test",
+  "routine-load": "Routine load",
+};
+
+const emptyToUndefined = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
+
+/**
+ * The cycle's own fields on POST /api/cycles (multipart form values are strings). Shared by the
+ * intake form, which shows each message beside its field, and the route handler.
+ */
+export const createCycleFieldsSchema = z.object({
+  sterilizerId: z.uuid({ message: "Choose the sterilizer that ran this cycle." }),
+  profileId: z.uuid({ message: "Choose the acceptance profile to judge the cycle against." }),
+  instrumentId: z.preprocess(emptyToUndefined, z.uuid({ message: "Choose an instrument from the list, or none." }).optional()),
+  cycleNumber: z.preprocess(
+    emptyToUndefined,
+    z.string().trim().max(60, "The cycle number can have at most 60 characters.").optional(),
+  ),
+  load: z.preprocess(
+    emptyToUndefined,
+    z.string().trim().max(500, "The load description can have at most 500 characters.").optional(),
+  ),
+  testKind: z.preprocess(
+    emptyToUndefined,
+    z.enum(TEST_KINDS, { message: "Choose the kind of test this cycle was." }).default("thermometric-small-load"),
+  ),
+});
+
+export type CreateCycleFields = z.infer<typeof createCycleFieldsSchema>;
+export type CreateCycleField = keyof CreateCycleFields;
+
+const columnRole = z.enum(["time", "temperature", "pressure", "ignored"]);
+
+/** The `mapping` JSON of POST /api/cycles: the user's corrections to the guessed mapping (MappingOverrides). */
+export const mappingOverridesSchema = z.object({
+  timeColumn: z.string().min(1).optional(),
+  pressureColumn: z.string().min(1).optional(),
+  pressureUnit: z.enum(PRESSURE_UNITS as [PressureUnit, ...PressureUnit[]]).optional(),
+  pressureGauge: z.boolean().optional(),
+  temperatureUnit: z.enum(TEMPERATURE_UNITS as [TemperatureUnit, ...TemperatureUnit[]]).optional(),
+  referenceColumn: z.string().min(1).optional(),
+  columns: z
+    .record(z.string(), z.object({ role: columnRole, unit: z.string().optional(), gauge: z.boolean().optional() }))
+    .optional(),
+  atmosphereKpa: z.number().positive().max(200).optional(),
+});
+
+/** A column as the intake form edits it. */
+export type EditableColumn = {
+  index: number;
+  header: string;
+  role: "time" | "temperature" | "pressure" | "ignored";
+  unit: string | null;
+  gauge: boolean;
+};
+
+/**
+ * Checks a mapping the user edited before it goes to the server: one time column, one pressure
+ * column, at least one temperature column, and a reference channel among the temperatures.
+ * Returns plain sentences; empty when the mapping can be analysed.
+ */
+export function mappingProblems(columns: readonly EditableColumn[], referenceColumn: string | null): string[] {
+  const problems: string[] = [];
+  const times = columns.filter((c) => c.role === "time");
+  const pressures = columns.filter((c) => c.role === "pressure");
+  const temperatures = columns.filter((c) => c.role === "temperature");
+  if (times.length === 0) problems.push("Mark one column as the time column.");
+  if (times.length > 1) problems.push(`Only one column can be the time column; ${times.map((c) => `"${c.header}"`).join(" and ")} are both marked as time.`);
+  if (pressures.length === 0) problems.push("Mark the chamber pressure column: the saturation check needs it.");
+  if (pressures.length > 1) problems.push(`Only one column can be the chamber pressure; ${pressures.map((c) => `"${c.header}"`).join(" and ")} are both marked as pressure.`);
+  if (temperatures.length === 0) problems.push("Mark at least one temperature column.");
+  for (const c of temperatures) {
+    if (!c.unit || !(TEMPERATURE_UNITS as readonly string[]).includes(c.unit)) problems.push(`Choose the temperature unit of "${c.header}".`);
+  }
+  for (const c of pressures) {
+    if (!c.unit || !(PRESSURE_UNITS as readonly string[]).includes(c.unit)) problems.push(`Choose the pressure unit of "${c.header}".`);
+  }
+  if (temperatures.length > 0 && (!referenceColumn || !temperatures.some((c) => c.header === referenceColumn))) {
+    problems.push("Choose the reference channel (the chamber drain) among the temperature columns.");
+  }
+  return problems;
+}
