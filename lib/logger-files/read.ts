@@ -95,6 +95,9 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
   const { text, lineStarts, lineEnds, lineCount } = prepared;
   const { width, delimiter, headers } = layout;
   const warnings: string[] = [];
+  // Local bindings: module imports compiled to CommonJS are getters, too slow for the inner loop.
+  const parseNumber = parseDecimal;
+  const parseTime = parseTimeCell;
   const decimalCode = DECIMAL_CODES[layout.decimal];
   const delimiterCode = delimiter.charCodeAt(0);
 
@@ -145,8 +148,8 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
       const start = fieldStarts[f];
       const end = fieldEnds[f];
       let v: number;
-      if (slot === 0 && !elapsed) v = parseTimeCell(source, start, end, timeFormat);
-      else v = parseDecimal(source, start, end, decimalCode);
+      if (slot === 0 && !elapsed) v = parseTime(source, start, end, timeFormat);
+      else v = parseNumber(source, start, end, decimalCode);
       if (v !== v) {
         if (isFooter(lineIndex)) return false;
         const cell = source.slice(start, end).trim();
@@ -172,28 +175,22 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
     for (let i = layout.firstDataLineIndex; i < lineCount; i++) {
       const start = lineStarts[i];
       const end = lineEnds[i];
+      if (start === end) continue;
+      const firstCode = text.charCodeAt(start);
+      if ((firstCode === 32 || firstCode === 9 || firstCode === delimiterCode) && isBlankLine(text.slice(start, end), delimiter)) continue;
       let field = 0;
       let fieldStart = start;
-      let blank = true;
-      for (let p = start; p < end; p++) {
-        const code = text.charCodeAt(p);
-        if (code === delimiterCode) {
-          if (field < width) {
-            fieldStarts[field] = fieldStart;
-            fieldEnds[field] = p;
-          }
-          field++;
-          fieldStart = p + 1;
-        } else if (blank && code !== 32 && code !== 9) {
-          blank = false;
+      for (;;) {
+        let next = text.indexOf(delimiter, fieldStart);
+        if (next < 0 || next > end) next = end;
+        if (field < width) {
+          fieldStarts[field] = fieldStart;
+          fieldEnds[field] = next;
         }
+        field++;
+        if (next === end) break;
+        fieldStart = next + 1;
       }
-      if (blank) continue;
-      if (field < width) {
-        fieldStarts[field] = fieldStart;
-        fieldEnds[field] = end;
-      }
-      field++;
       if (field !== width) {
         if (isFooter(i)) {
           footerFrom = i;

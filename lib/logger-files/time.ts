@@ -99,13 +99,26 @@ function hourWithAmPm(hour: number, ampm: number): number {
   return hour === 12 ? 12 : hour + 12;
 }
 
+const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
+function isLeapYear(year: number): boolean {
+  return (year % 4 === 0 && year % 100 !== 0) || year % 400 === 0;
+}
+
+/** Seconds since 1970-01-01 of a calendar date and clock time (proleptic Gregorian, no time zone). */
 function dateSeconds(year: number, month: number, day: number, hour: number, minute: number, second: number): number {
   if (year < 100) year += 2000;
-  if (month < 1 || month > 12 || day < 1 || day > 31 || hour > 24 || minute > 59 || second > 60) return NaN;
-  const ms = Date.UTC(year, month - 1, day, hour, minute, second);
-  const check = new Date(ms);
-  if (check.getUTCDate() !== day && !(hour === 24)) return NaN;
-  return ms / 1000;
+  if (month < 1 || month > 12 || day < 1 || hour > 24 || minute > 59 || second > 60) return NaN;
+  const monthDays = month === 2 && isLeapYear(year) ? 29 : DAYS_IN_MONTH[month - 1];
+  if (day > monthDays) return NaN;
+  // Days from civil date (H. Hinnant's algorithm).
+  const y = month <= 2 ? year - 1 : year;
+  const era = Math.floor(y / 400);
+  const yearOfEra = y - era * 400;
+  const dayOfYear = Math.floor((153 * (month + (month > 2 ? -3 : 9)) + 2) / 5) + day - 1;
+  const dayOfEra = yearOfEra * 365 + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100) + dayOfYear;
+  const days = era * 146097 + dayOfEra - 719468;
+  return days * 86400 + hour * 3600 + minute * 60 + second;
 }
 
 /**
