@@ -190,15 +190,17 @@ export function runAnalyze(argv: string[], io: { out: (text: string) => void; er
     const bytes = readBytes(parsed.file);
     const { recording, dialect, columns, warnings } = readLoggerFile(bytes, parsed.overrides);
     const result = analyzeRecording(recording, parsed.limits, { plateau: parsed.plateau });
+    // The contract's fields first, in its order; the rest of the analysis after them.
+    const { verdict, plateau, equilibrationTime, holdingTime, saturation, f0, checks, ...rest } = result;
     const output = {
-      verdict: result.verdict,
-      plateau: result.plateau,
-      equilibrationTime: result.equilibrationTime,
-      holdingTime: result.holdingTime,
-      saturation: result.saturation,
-      f0: result.f0,
-      checks: result.checks,
-      ...result,
+      verdict,
+      plateau,
+      equilibrationTime,
+      holdingTime,
+      saturation,
+      f0,
+      checks,
+      ...rest,
       input: {
         file: basename(parsed.file),
         bytes: bytes.length,
