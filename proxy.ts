@@ -19,4 +19,4 @@ export async function proxy(request: NextRequest) {
   return NextResponse.redirect(url);
 }
 
-export const config = { matcher: ["/((?!_next/static|_next/image|.*\\.(?:png|svg|ico|woff2?)$).*)"] };
+export const config = { matcher: ["/((?!api/|_next/static|_next/image|.*\\.(?:png|svg|ico|woff2?)$).*)"] };

@@ -215,7 +215,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           atmosphereKpa,
           sampleIntervalS: 2,
         });
-        const bytes = toLoggerCsv(sim, s.dialect);
+        const bytes = toLoggerCsv(sim, { ...s.dialect, atmosphereKpa });
         const analysis = analyzeLoggerBytes(bytes, profile, {}, atmosphereKpa);
         const cycleNumber = `${s.key}-${startedAt.toISOString().slice(0, 10).replace(/-/g, "")}-${String(ordinal + 1).padStart(3, "0")}`;
         const status = daysAgo > 3 ? "submitted" : "draft";

@@ -1,0 +1,62 @@
+import { NextResponse } from "next/server";
+import { z } from "zod";
+import { route, zodMessage } from "@/lib/http";
+import { requireRole } from "@/lib/auth/guards";
+import { AppError } from "@/lib/errors";
+import { filesOf, readMultipart } from "@/lib/uploads";
+import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
+import { createCycleFieldsSchema, mappingSchema } from "@/lib/validations/cycle-upload";
+import { createCycleFromUpload, listCycles } from "@/db/queries/cycles";
+
+export const runtime = "nodejs";
+export const dynamic = "force-dynamic";
+
+export const GET = route(async (request) => {
+  const actor = await requireRole("cycle:read");
+  const parsed = cycleListQuerySchema.safeParse(queryObject(request.url));
+  if (!parsed.success) throw new AppError(400, zodMessage(parsed.error));
+  return NextResponse.json(await listCycles({ actor, filter: parsed.data }));
+});
+
+export const POST = route(async (request) => {
+  const actor = await requireRole("cycle:create", "register cycles");
+  const form = await readMultipart(request);
+  const fields = createCycleFieldsSchema.safeParse(Object.fromEntries([...form.entries()].filter(([, v]) => typeof v === "string")));
+  if (!fields.success) {
+    const issue = fields.error.issues[0];
+    throw new AppError(400, zodMessage(fields.error), issue?.path[0] ? String(issue.path[0]) : undefined);
+  }
+  let mapping: z.infer<typeof mappingSchema> | undefined;
+  const rawMapping = form.get("mapping");
+  if (typeof rawMapping === "string" && rawMapping.trim()) {
+    let json: unknown;
+    try {
+      json = JSON.parse(rawMapping);
+    } catch {
+      throw new AppError(400, "mapping is not valid JSON.", "mapping");
+    }
+    const parsedMapping = mappingSchema.safeParse(json);
+    if (!parsedMapping.success) throw new AppError(400, `mapping: ${zodMessage(parsedMapping.error)}`, "mapping");
+    mapping = parsedMapping.data;
+  }
+  const files = await filesOf(form, "files");
+  if (files.length === 0) {
+    const single = await filesOf(form, "file");
+    files.push(...single);
+  }
+  if (files.length === 0) throw new AppError(400, "Attach at least one logger file in the field named files.", "files");
+  const { sterilizerId, profileId, instrumentId, cycleNumber, load, testKind } = fields.data;
+  const created = await createCycleFromUpload({
+    actor,
+    sterilizerId,
+    profileId,
+    instrumentId: instrumentId || null,
+    cycleNumber,
+    load,
+    testKind,
+    files,
+    mapping,
+    saveMapping: form.get("saveMapping") === "true",
+  });
+  return NextResponse.json({ id: created.id, status: created.status, analysis: created.analysis }, { status: 201 });
+});

@@ -1,0 +1,452 @@
+/**
+ * Pure helpers behind the cycle record's two charts: the time chart (uPlot) and the phase-diagram
+ * view (SVG). SeriesResponse in, numbers and labels out; no DOM, no uPlot at run time.
+ */
+import type { SeriesResponse } from "./contracts";
+import type { AnalysisResult } from "@/lib/analysis/types";
+import {
+  CRITICAL_POINT,
+  STANDARD_ATMOSPHERE_KPA,
+  TRIPLE_POINT,
+  saturationLine,
+  saturationPressureKpa,
+  saturationTemperatureC,
+} from "@/lib/steam";
+
+// ---------------------------------------------------------------------------------------------
+// Time axis
+
+/** Seconds since the first sample as m:ss (under an hour) or h:mm:ss; tenths when asked. */
+export function formatElapsed(seconds: number, options: { forceHours?: boolean; tenths?: boolean } = {}): string {
+  if (!Number.isFinite(seconds)) return "—";
+  const sign = seconds < 0 ? "−" : "";
+  const scale = options.tenths ? 10 : 1;
+  const totalUnits = Math.round(Math.abs(seconds) * scale);
+  const whole = Math.floor(totalUnits / scale);
+  const fraction = totalUnits - whole * scale;
+  const h = Math.floor(whole / 3600);
+  const m = Math.floor((whole - h * 3600) / 60);
+  const s = whole - h * 3600 - m * 60;
+  const secs = String(s).padStart(2, "0") + (options.tenths ? `.${fraction}` : "");
+  if (h > 0 || options.forceHours) return `${sign}${h}:${String(m).padStart(2, "0")}:${secs}`;
+  return `${sign}${String(m).padStart(2, "0")}:${secs}`;
+}
+
+/** Tick labels for a visible span: tenths of a second only when the span is under half a minute. */
+export function elapsedTickLabels(ticks: number[], spanS: number): string[] {
+  const tenths = spanS < 30 && ticks.some((t) => Math.abs(t - Math.round(t)) > 1e-6);
+  const forceHours = ticks.some((t) => Math.abs(t) >= 3600);
+  return ticks.map((t) => formatElapsed(t, { tenths, forceHours }));
+}
+
+/** The wall-clock time of a sample in the site's time zone, or null without a start time. */
+export function clockTimeAt(startedAt: string | null, seconds: number, timeZone: string): string | null {
+  if (!startedAt || !Number.isFinite(seconds)) return null;
+  const start = new Date(startedAt).getTime();
+  if (Number.isNaN(start)) return null;
+  return new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", second: "2-digit", hour12: false, timeZone }).format(
+    new Date(start + seconds * 1000),
+  );
+}
+
+// ---------------------------------------------------------------------------------------------
+// Time chart: traces and data
+
+export type TraceSpec = {
+  /** index into SeriesResponse.channels */
+  channelIndex: number;
+  label: string;
+  header: string;
+  kind: SeriesResponse["channels"][number]["kind"];
+  role: SeriesResponse["channels"][number]["role"];
+  unit: string;
+  scale: "temperature" | "pressure";
+  /** the reference (drain) channel: drawn heavier */
+  emphasis: boolean;
+  dashed: boolean;
+  /** the n-th load channel (0-based), for picking a colour; null for the others */
+  loadIndex: number | null;
+};
+
+const ROLE_ORDER: Record<TraceSpec["role"], number> = { reference: 0, saturation: 1, load: 2, pressure: 3 };
+
+/** One trace per channel: reference first, then the saturation temperature, the load channels, and pressure last. */
+export function chartTraces(series: SeriesResponse): TraceSpec[] {
+  const ordered = series.channels
+    .map((channel, channelIndex) => ({ channel, channelIndex }))
+    .sort((a, b) => ROLE_ORDER[a.channel.role] - ROLE_ORDER[b.channel.role] || a.channelIndex - b.channelIndex);
+  let loads = 0;
+  return ordered.map(({ channel, channelIndex }) => {
+    const isLoad = channel.role === "load";
+    const label =
+      channel.role === "saturation"
+        ? "Saturation temperature from pressure"
+        : channel.role === "reference"
+          ? `${channel.header} (reference)`
+          : channel.header;
+    return {
+      channelIndex,
+      label,
+      header: channel.header,
+      kind: channel.kind,
+      role: channel.role,
+      unit: channel.unit,
+      scale: channel.kind === "pressure" ? "pressure" : "temperature",
+      emphasis: channel.role === "reference",
+      dashed: channel.role === "saturation",
+      loadIndex: isLoad ? loads++ : null,
+    };
+  });
+}
+
+/** uPlot's aligned data: the time axis, then one array per trace in the traces' order. */
+export function alignedData(series: SeriesResponse, traces: TraceSpec[]): Array<Array<number | null>> {
+  return [series.timesS, ...traces.map((t) => series.channels[t.channelIndex].values)];
+}
+
+export function resolutionNote(series: SeriesResponse): string {
+  const shown = series.timesS.length;
+  if (series.fullResolution) {
+    return `Full resolution: every one of the ${shown.toLocaleString("en-GB")} samples in this window.`;
+  }
+  return `Downsampled to ${shown.toLocaleString("en-GB")} points of ${series.totalSamples.toLocaleString("en-GB")} samples, keeping each interval's highest and lowest value. Zoom in for full resolution.`;
+}
+
+export type TimeWindow = { from: number; to: number };
+
+/** A zoomed view is worth fetching again when it is noticeably narrower than the whole record. */
+export function isZoomed(view: TimeWindow, record: TimeWindow): boolean {
+  const span = record.to - record.from;
+  if (!(span > 0)) return false;
+  return view.from > record.from + span * 0.005 || view.to < record.to - span * 0.005;
+}
+
+/**
+ * The window to ask the series API for: the view plus a quarter of its width either side (so a
+ * small pan needs no new request), clamped to the record and rounded so that nearby views share
+ * one request.
+ */
+export function windowToFetch(view: TimeWindow, record: TimeWindow): TimeWindow {
+  const span = Math.max(view.to - view.from, 1e-3);
+  const step = span >= 600 ? 10 : span >= 60 ? 1 : 0.1;
+  const from = Math.max(record.from, Math.floor((view.from - span / 4) / step) * step);
+  const to = Math.min(record.to, Math.ceil((view.to + span / 4) / step) * step);
+  return { from: round(from), to: round(to) };
+}
+
+/** Whether data fetched for `window` covers the whole `view`. */
+export function windowCovers(window: TimeWindow, view: TimeWindow): boolean {
+  const tolerance = 1e-6 * Math.max(1, Math.abs(view.to));
+  return window.from <= view.from + tolerance && window.to >= view.to - tolerance;
+}
+
+/** Zoom around the centre of the view by a factor (< 1 zooms in), kept inside the record. */
+export function zoomWindow(view: TimeWindow, factor: number, record: TimeWindow, minSpanS = 2): TimeWindow {
+  const centre = (view.from + view.to) / 2;
+  const recordSpan = record.to - record.from;
+  const span = Math.min(Math.max((view.to - view.from) * factor, Math.min(minSpanS, recordSpan)), recordSpan);
+  return clampWindow({ from: centre - span / 2, to: centre + span / 2 }, record);
+}
+
+/** Move the view by a fraction of its width (negative = earlier), kept inside the record. */
+export function panWindow(view: TimeWindow, fraction: number, record: TimeWindow): TimeWindow {
+  const shift = (view.to - view.from) * fraction;
+  return clampWindow({ from: view.from + shift, to: view.to + shift }, record);
+}
+
+export function clampWindow(view: TimeWindow, record: TimeWindow): TimeWindow {
+  const span = Math.min(view.to - view.from, record.to - record.from);
+  let from = view.from;
+  if (from < record.from) from = record.from;
+  if (from + span > record.to) from = record.to - span;
+  return { from, to: from + span };
+}
+
+export function seriesUrl(cycleId: string, options: { points: number; window?: TimeWindow | null }): string {
+  const params = new URLSearchParams();
+  if (options.window) {
+    params.set("from", String(options.window.from));
+    params.set("to", String(options.window.to));
+  }
+  params.set("points", String(options.points));
+  return `/api/cycles/${encodeURIComponent(cycleId)}/series?${params.toString()}`;
+}
+
+function round(v: number): number {
+  return Math.round(v * 1000) / 1000;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Text summary of the time chart, for screen readers and for anyone who prefers words
+
+export function describeTimeChart(analysis: AnalysisResult, detail: { sterilizationTempC: number; bandK: number }): string {
+  const parts: string[] = [];
+  const ts = detail.sterilizationTempC;
+  parts.push(
+    `The record runs ${formatElapsed(analysis.record.durationS)} with ${analysis.record.samples.toLocaleString("en-GB")} samples about every ${formatNumberShort(analysis.record.medianSampleIntervalS)} s.`,
+  );
+  if (!analysis.plateau) {
+    parts.push(`The reference channel ${analysis.referenceChannel} never reached the sterilization temperature of ${ts} °C, so no plateau was found.`);
+  } else {
+    parts.push(
+      `The plateau starts at ${formatElapsed(analysis.plateau.start)} when ${analysis.referenceChannel} reaches ${ts} °C and ends at ${formatElapsed(analysis.plateau.end)}; the sterilization band is ${ts} to ${ts + detail.bandK} °C.`,
+    );
+    const hold = analysis.saturationTemperatureDuringHold;
+    if (hold) {
+      parts.push(`During holding the saturation temperature computed from chamber pressure was ${hold.min.toFixed(1)} to ${hold.max.toFixed(1)} °C.`);
+    }
+  }
+  const flags = analysis.saturation.flags;
+  if (flags.length === 0) {
+    if (analysis.plateau) parts.push("No saturation flag: the reference stayed within the limit of saturated steam throughout the plateau.");
+  } else {
+    parts.push(
+      `${flags.length} saturation flag${flags.length === 1 ? "" : "s"}: ` +
+        flags
+          .map(
+            (f) =>
+              `${f.kind === "below" ? "colder than saturation (air or non-condensable gas)" : "hotter than saturation (superheat)"} from ${formatElapsed(f.start)} to ${formatElapsed(f.end)}, worst ${signed(f.worst)} K`,
+          )
+          .join("; ") +
+        ".",
+    );
+  }
+  return parts.join(" ");
+}
+
+function formatNumberShort(v: number): string {
+  return Number.isInteger(v) ? String(v) : v.toFixed(1);
+}
+
+function signed(v: number): string {
+  return `${v > 0 ? "+" : v < 0 ? "−" : ""}${Math.abs(v).toFixed(1)}`;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Phase diagram: pressure–temperature plane, pressure on a log axis
+
+export type PhaseView = "sterilization" | "cycle" | "full";
+export type PhaseRange = { tMinC: number; tMaxC: number; pMinKpa: number; pMaxKpa: number };
+export type PhaseSide = "on-line" | "liquid-side" | "vapour-side";
+export type PhaseSample = { timeS: number; temperatureC: number; pressureKpa: number };
+export type PlateauSample = PhaseSample & { deviationK: number; side: PhaseSide };
+
+/** The whole liquid–vapour line, triple point to critical point, with a margin. */
+export const FULL_PHASE_RANGE: PhaseRange = { tMinC: -10, tMaxC: 400, pMinKpa: 0.3, pMaxKpa: 50_000 };
+
+/**
+ * Deviation of a thermometer reading from saturated steam at the measured pressure. A steam–air
+ * mixture reads colder than Tsat(total pressure): its point lies at higher pressure than the line
+ * at that temperature, the liquid side; superheated steam lies on the vapour side.
+ */
+export function classifySample(temperatureC: number, pressureKpa: number, limitK: number): { deviationK: number; side: PhaseSide } | null {
+  if (!Number.isFinite(temperatureC) || !(pressureKpa >= TRIPLE_POINT.pressureKpa && pressureKpa <= CRITICAL_POINT.pressureKpa)) return null;
+  const deviationK = temperatureC - saturationTemperatureC(pressureKpa);
+  const side: PhaseSide = deviationK < -limitK ? "liquid-side" : deviationK > limitK ? "vapour-side" : "on-line";
+  return { deviationK, side };
+}
+
+/** The reference temperature and chamber pressure paired sample by sample, skipping gaps. */
+export function phaseSamples(series: SeriesResponse): PhaseSample[] {
+  const reference = series.channels.find((c) => c.role === "reference") ?? series.channels.find((c) => c.kind === "temperature");
+  const pressure = series.channels.find((c) => c.kind === "pressure");
+  if (!reference || !pressure) return [];
+  const out: PhaseSample[] = [];
+  for (let i = 0; i < series.timesS.length; i++) {
+    const t = reference.values[i];
+    const p = pressure.values[i];
+    if (t === null || p === null || !Number.isFinite(t) || !(p > 0)) continue;
+    out.push({ timeS: series.timesS[i], temperatureC: t, pressureKpa: p });
+  }
+  return out;
+}
+
+export function plateauSamples(samples: PhaseSample[], plateau: { start: number; end: number } | null, limitK: number): PlateauSample[] {
+  if (!plateau) return [];
+  const out: PlateauSample[] = [];
+  for (const s of samples) {
+    if (s.timeS < plateau.start || s.timeS > plateau.end) continue;
+    const c = classifySample(s.temperatureC, s.pressureKpa, limitK);
+    if (c) out.push({ ...s, ...c });
+  }
+  return out;
+}
+
+export type SideCounts = Record<PhaseSide, number>;
+
+export function countSides(samples: PlateauSample[]): SideCounts {
+  const counts: SideCounts = { "on-line": 0, "liquid-side": 0, "vapour-side": 0 };
+  for (const s of samples) counts[s.side]++;
+  return counts;
+}
+
+/** A sentence on where the plateau sat relative to the line, for the chart's caption and screen readers. */
+export function describePlateauPosition(samples: PlateauSample[], limitK: number): string {
+  if (samples.length === 0) return "No plateau samples to place on the diagram.";
+  const counts = countSides(samples);
+  const n = samples.length;
+  const lowest = Math.min(...samples.map((s) => s.deviationK));
+  const highest = Math.max(...samples.map((s) => s.deviationK));
+  const range = `Reference minus saturation temperature ranged from ${signed(lowest)} to ${signed(highest)} K (limit ±${limitK} K).`;
+  if (counts["on-line"] === n) return `All ${n} plateau samples sit on the liquid–vapour line, within ±${limitK} K: saturated steam. ${range}`;
+  const parts: string[] = [];
+  if (counts["on-line"]) parts.push(`${counts["on-line"]} on the line`);
+  if (counts["liquid-side"]) parts.push(`${counts["liquid-side"]} on the liquid side, colder than saturated steam at that pressure (air or non-condensable gas)`);
+  if (counts["vapour-side"]) parts.push(`${counts["vapour-side"]} on the vapour side, hotter than saturated steam at that pressure (superheat)`);
+  return `Of ${n} plateau samples: ${parts.join("; ")}. ${range}`;
+}
+
+/** The view's ranges. The sterilization view is fixed around the usual bands, the cycle view fits the path. */
+export function phaseRange(view: PhaseView, options: { samples: PhaseSample[]; sterilizationTempC: number; bandK: number }): PhaseRange {
+  if (view === "full") return FULL_PHASE_RANGE;
+  if (view === "sterilization") {
+    const tMinC = Math.min(90, options.sterilizationTempC - 25);
+    const tMaxC = Math.max(145, options.sterilizationTempC + options.bandK + 8);
+    return {
+      tMinC,
+      tMaxC,
+      pMinKpa: Math.min(50, safePsat(tMinC) * 0.7),
+      pMaxKpa: Math.max(450, safePsat(tMaxC) * 1.1),
+    };
+  }
+  const inRange = options.samples.filter((s) => s.pressureKpa >= TRIPLE_POINT.pressureKpa && s.pressureKpa <= CRITICAL_POINT.pressureKpa);
+  if (inRange.length === 0) return phaseRange("sterilization", options);
+  let tMin = Infinity;
+  let tMax = -Infinity;
+  let pMin = Infinity;
+  let pMax = -Infinity;
+  for (const s of inRange) {
+    tMin = Math.min(tMin, s.temperatureC);
+    tMax = Math.max(tMax, s.temperatureC);
+    pMin = Math.min(pMin, s.pressureKpa);
+    pMax = Math.max(pMax, s.pressureKpa);
+  }
+  // Include the line's own extent over the path's pressures, so the line is always in sight.
+  tMin = Math.min(tMin, safeTsat(pMin));
+  tMax = Math.max(tMax, safeTsat(pMax), options.sterilizationTempC + options.bandK);
+  const tPad = Math.max((tMax - tMin) * 0.06, 2);
+  return {
+    tMinC: Math.floor((tMin - tPad) / 5) * 5,
+    tMaxC: Math.ceil((tMax + tPad) / 5) * 5,
+    pMinKpa: Math.max(pMin / 1.4, TRIPLE_POINT.pressureKpa / 2),
+    pMaxKpa: Math.min(pMax * 1.4, CRITICAL_POINT.pressureKpa * 2),
+  };
+}
+
+function safePsat(tC: number): number {
+  return saturationPressureKpa(Math.min(Math.max(tC, TRIPLE_POINT.temperatureC), CRITICAL_POINT.temperatureC));
+}
+
+function safeTsat(pKpa: number): number {
+  return saturationTemperatureC(Math.min(Math.max(pKpa, TRIPLE_POINT.pressureKpa), CRITICAL_POINT.pressureKpa));
+}
+
+/** Points of the IF97 liquid–vapour line that fall inside the range (temperature ascending). */
+export function saturationCurveInRange(range: PhaseRange, points = 160): Array<{ temperatureC: number; pressureKpa: number }> {
+  const fromC = Math.max(TRIPLE_POINT.temperatureC, range.tMinC, safeTsat(Math.max(range.pMinKpa, TRIPLE_POINT.pressureKpa)));
+  const toC = Math.min(CRITICAL_POINT.temperatureC, range.tMaxC, safeTsat(Math.min(range.pMaxKpa, CRITICAL_POINT.pressureKpa)));
+  if (!(fromC < toC)) return [];
+  const line = saturationLine(points, fromC, toC);
+  return line.temperatureC.map((temperatureC, i) => ({ temperatureC, pressureKpa: line.pressureKpa[i] }));
+}
+
+/** The line shifted by ±limit in temperature: the band inside which a sample counts as saturated. */
+export function toleranceBand(range: PhaseRange, limitK: number, points = 120): { colder: Array<[number, number]>; hotter: Array<[number, number]> } {
+  const pFrom = Math.max(range.pMinKpa, TRIPLE_POINT.pressureKpa);
+  const pTo = Math.min(range.pMaxKpa, CRITICAL_POINT.pressureKpa);
+  const colder: Array<[number, number]> = [];
+  const hotter: Array<[number, number]> = [];
+  if (!(pFrom < pTo)) return { colder, hotter };
+  for (let i = 0; i < points; i++) {
+    const p = Math.exp(Math.log(pFrom) + ((Math.log(pTo) - Math.log(pFrom)) * i) / (points - 1));
+    const t = saturationTemperatureC(Math.min(p, CRITICAL_POINT.pressureKpa));
+    colder.push([t - limitK, p]);
+    hotter.push([t + limitK, p]);
+  }
+  return { colder, hotter };
+}
+
+export type Landmark = { id: "triple" | "boiling" | "critical"; label: string; temperatureC: number; pressureKpa: number };
+
+export function phaseLandmarks(range: PhaseRange): Landmark[] {
+  const all: Landmark[] = [
+    { id: "triple", label: "Triple point", temperatureC: TRIPLE_POINT.temperatureC, pressureKpa: TRIPLE_POINT.pressureKpa },
+    {
+      id: "boiling",
+      label: "Boiling at 1 atm",
+      temperatureC: saturationTemperatureC(STANDARD_ATMOSPHERE_KPA),
+      pressureKpa: STANDARD_ATMOSPHERE_KPA,
+    },
+    { id: "critical", label: "Critical point", temperatureC: CRITICAL_POINT.temperatureC, pressureKpa: CRITICAL_POINT.pressureKpa },
+  ];
+  return all.filter((l) => inRange(range, l.temperatureC, l.pressureKpa));
+}
+
+export function inRange(range: PhaseRange, temperatureC: number, pressureKpa: number): boolean {
+  return temperatureC >= range.tMinC && temperatureC <= range.tMaxC && pressureKpa >= range.pMinKpa && pressureKpa <= range.pMaxKpa;
+}
+
+/** "Nice" linear ticks: steps of 1, 2 or 5 × 10^k, about `target` of them. */
+export function linearTicks(min: number, max: number, target = 8): number[] {
+  if (!(max > min)) return [min];
+  const raw = (max - min) / Math.max(target, 1);
+  const magnitude = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 5, 10].map((m) => m * magnitude).find((s) => s >= raw) ?? 10 * magnitude;
+  const ticks: number[] = [];
+  for (let v = Math.ceil(min / step) * step; v <= max + step * 1e-9; v += step) ticks.push(Number(v.toPrecision(12)));
+  return ticks;
+}
+
+/** Log-axis ticks: 1-2-5 per decade when few decades are shown, whole decades when many. */
+export function logTicks(min: number, max: number): Array<{ value: number; major: boolean }> {
+  if (!(min > 0 && max > min)) return [];
+  const decades = Math.log10(max) - Math.log10(min);
+  const mantissas = decades <= 1.2 ? [1, 1.5, 2, 3, 4, 5, 6, 8] : decades <= 2.5 ? [1, 2, 3, 5] : decades <= 5 ? [1, 3] : [1];
+  const out: Array<{ value: number; major: boolean }> = [];
+  for (let k = Math.floor(Math.log10(min)); k <= Math.ceil(Math.log10(max)); k++) {
+    for (const m of mantissas) {
+      const value = Number((m * 10 ** k).toPrecision(12));
+      if (value >= min * (1 - 1e-9) && value <= max * (1 + 1e-9)) out.push({ value, major: m === 1 });
+    }
+  }
+  return out;
+}
+
+export function formatPressureTick(kpa: number): string {
+  if (kpa >= 1000) return `${Number((kpa / 1000).toPrecision(3))} MPa`;
+  if (kpa >= 1) return `${Number(kpa.toPrecision(3))}`;
+  return `${Number(kpa.toPrecision(2))}`;
+}
+
+/** Maps the range onto a plot box: x linear in °C, y logarithmic in kPa (up is higher pressure). */
+export function phaseScales(range: PhaseRange, box: { left: number; top: number; width: number; height: number }) {
+  const logMin = Math.log10(range.pMinKpa);
+  const logMax = Math.log10(range.pMaxKpa);
+  return {
+    x: (temperatureC: number) => box.left + ((temperatureC - range.tMinC) / (range.tMaxC - range.tMinC)) * box.width,
+    y: (pressureKpa: number) => box.top + (1 - (Math.log10(pressureKpa) - logMin) / (logMax - logMin)) * box.height,
+  };
+}
+
+/** An SVG path through points, breaking where a point is missing or not positive. */
+export function svgPath(points: Array<[number, number]>, x: (t: number) => number, y: (p: number) => number): string {
+  let d = "";
+  let pen = false;
+  for (const [t, p] of points) {
+    if (!Number.isFinite(t) || !(p > 0)) {
+      pen = false;
+      continue;
+    }
+    d += `${pen ? "L" : "M"}${x(t).toFixed(1)} ${y(p).toFixed(1)}`;
+    pen = true;
+  }
+  return d;
+}
+
+/** Keeps at most `max` items, evenly spread, always keeping the first and last. */
+export function thin<T>(items: T[], max: number): T[] {
+  if (items.length <= max || max < 2) return items;
+  const out: T[] = [];
+  for (let i = 0; i < max; i++) out.push(items[Math.round((i * (items.length - 1)) / (max - 1))]);
+  return out;
+}

@@ -1,0 +1,113 @@
+/**
+ * Shapes of the cycle API's JSON, shared by the route handlers, the pages and the client
+ * components (and stable for scripts and logger gateways: see DESIGN "Public HTTP API").
+ */
+import type { AnalysisResult } from "@/lib/analysis/types";
+import type { ColumnMapping, Dialect, InspectResult, MappingOverrides } from "@/lib/logger-files/types";
+import type { CycleStatus, SignatureMeaning, TestKind } from "@/db/schema";
+
+export type { AnalysisResult, ColumnMapping, Dialect, InspectResult, MappingOverrides };
+
+export type CycleListItem = {
+  id: string;
+  cycleNumber: string;
+  status: CycleStatus;
+  verdict: "pass" | "fail" | null;
+  testKind: TestKind;
+  startedAt: string | null;
+  createdAt: string;
+  sterilizer: { id: string; name: string };
+  profile: { id: string; name: string };
+  loadDescription: string;
+  createdByName: string;
+};
+
+export type CycleListResponse = { items: CycleListItem[]; total: number; page: number; pageSize: number };
+
+export type CycleFile = { id: string; name: string; size: number; sha256: string; uploadedAt: string; uploadedBy: string; dialect: Dialect | null; mapping: MappingOverrides | null };
+
+export type SignatureView = {
+  id: string;
+  printedName: string;
+  role: string;
+  meaning: SignatureMeaning;
+  reason: string | null;
+  signedAt: string;
+  bundleHash: string;
+  valid: boolean;
+};
+
+export type HistoryEntry = { seq: number; at: string; actorEmail: string | null; action: string; reason: string | null; newValue: string | null };
+
+export type CycleDetail = {
+  id: string;
+  cycleNumber: string;
+  status: CycleStatus;
+  verdict: "pass" | "fail" | null;
+  testKind: TestKind;
+  loadDescription: string;
+  startedAt: string | null;
+  createdAt: string;
+  submittedAt: string | null;
+  createdBy: { id: string; name: string };
+  site: { id: string; name: string; timeZone: string; atmosphereKpa: number };
+  sterilizer: { id: string; name: string; serialNumber: string; chamberVolumeL: number };
+  profile: {
+    id: string;
+    name: string;
+    sterilizationTempC: number;
+    bandK: number;
+    holdingTime: number;
+    holdingTimeS: number;
+    maxEquilibrationS: number;
+    maxSpreadK: number;
+    saturationLimitK: number;
+    f0ReferenceC: number;
+    f0ZK: number;
+    basis: string;
+  };
+  instrument: { id: string; name: string; serialNumber: string } | null;
+  files: CycleFile[];
+  /** the current analysis: the analyze command's JSON and more */
+  analysis: AnalysisResult | null;
+  analysisId: string | null;
+  analysisHistory: Array<{ id: string; createdAt: string; verdict: "pass" | "fail"; engineVersion: string; inputHash: string }>;
+  signatures: SignatureView[];
+  supersedesId: string | null;
+  report: { id: string; reportNumber: string; sha256: string } | null;
+};
+
+/** GET /api/cycles/{id}/series: chart data, downsampled keeping each bucket's extremes. */
+export type SeriesResponse = {
+  startedAt: string | null;
+  /** seconds since the first sample */
+  timesS: number[];
+  channels: Array<{
+    header: string;
+    kind: "temperature" | "pressure" | "saturation";
+    /** "°C" for temperature and saturation, "kPa abs" for pressure */
+    unit: string;
+    role: "reference" | "load" | "pressure" | "saturation";
+    /** null where a value is missing or (saturation) outside the liquid–vapour line */
+    values: Array<number | null>;
+  }>;
+  plateau: { start: number; end: number } | null;
+  band: { low: number; high: number };
+  flags: AnalysisResult["saturation"]["flags"];
+  window: { from: number; to: number };
+  totalSamples: number;
+  fullResolution: boolean;
+};
+
+/** POST /api/logger-files/inspect (multipart `file`, optional `instrumentId`): the guessed mapping. */
+export type InspectResponse = InspectResult & {
+  name: string;
+  size: number;
+  sha256: string;
+  warnings: string[];
+  /** the instrument's saved mapping, if any, applied to this guess */
+  savedMapping: MappingOverrides | null;
+};
+
+/** POST /api/cycles → 201 */
+export type CreateCycleResponse = { id: string; status: CycleStatus; analysis: AnalysisResult };
