@@ -1,0 +1,27 @@
+/**
+ * Size class and equilibration limit of a sterilizer from its chamber volume (DOMAIN.md §2.3 a,
+ * §2.10): EN 13060 covers chambers under 60 l; EN 285 the larger ones, where the equilibration
+ * time may be at most 15 s up to 800 l and 30 s above.
+ */
+export const SMALL_STERILIZER_LIMIT_L = 60;
+export const LARGE_CHAMBER_LIMIT_L = 800;
+
+export type SizeClass = { standard: "EN 13060" | "EN 285"; label: string; maxEquilibrationS: number | null; note: string };
+
+export function sizeClassOf(chamberVolumeL: number): SizeClass {
+  if (chamberVolumeL < SMALL_STERILIZER_LIMIT_L) {
+    return {
+      standard: "EN 13060",
+      label: "Small (EN 13060, under 60 l)",
+      maxEquilibrationS: null,
+      note: "EN 13060 sets no equilibration limit that Papin could confirm; the acceptance profile's limit applies.",
+    };
+  }
+  const maxEquilibrationS = chamberVolumeL <= LARGE_CHAMBER_LIMIT_L ? 15 : 30;
+  return {
+    standard: "EN 285",
+    label: "Large (EN 285, 60 l and over)",
+    maxEquilibrationS,
+    note: `EN 285 / HTM 2010: equilibration time ≤ ${maxEquilibrationS} s for a chamber ${chamberVolumeL <= LARGE_CHAMBER_LIMIT_L ? "up to" : "over"} ${LARGE_CHAMBER_LIMIT_L} l.`,
+  };
+}
