@@ -305,8 +305,8 @@ export function phaseRange(view: PhaseView, options: { samples: PhaseSample[]; s
     return {
       tMinC,
       tMaxC,
-      pMinKpa: Math.min(50, safePsat(tMinC) * 0.7),
-      pMaxKpa: Math.max(450, safePsat(tMaxC) * 1.1),
+      pMinKpa: Math.min(50, safePsat(tMinC) * 0.8),
+      pMaxKpa: Math.max(450, safePsat(tMaxC) * 1.05),
     };
   }
   const inRange = options.samples.filter((s) => s.pressureKpa >= TRIPLE_POINT.pressureKpa && s.pressureKpa <= CRITICAL_POINT.pressureKpa);
