@@ -13,6 +13,10 @@ const N8 = 0.40511340542057e6;
 const N9 = -0.23855557567849;
 const N10 = 0.65017534844798e3;
 
+// Plain numbers: imported bindings compiled to CommonJS are getters, slow in the hot path.
+const KELVIN = KELVIN_OFFSET;
+const TRIPLE_KPA = TRIPLE_POINT.pressureKpa;
+const CRITICAL_KPA = CRITICAL_POINT.pressureKpa;
 const TRIPLE_K = TRIPLE_POINT.temperatureC + KELVIN_OFFSET;
 const CRITICAL_K = CRITICAL_POINT.temperatureC + KELVIN_OFFSET;
 const TRIPLE_MPA = TRIPLE_POINT.pressureKpa / 1000;
@@ -72,8 +76,8 @@ export function saturationPressureKpa(temperatureC: number): number {
 /** Saturation temperature of water in °C at a pressure in kPa absolute, IF97 region 4. */
 export function saturationTemperatureC(pressureKpaAbs: number): number {
   // Comparisons written so that NaN falls through to the error.
-  if (pressureKpaAbs >= TRIPLE_POINT.pressureKpa && pressureKpaAbs <= CRITICAL_POINT.pressureKpa) {
-    return saturationTemperatureKelvinFromMpa(pressureKpaAbs / 1000) - KELVIN_OFFSET;
+  if (pressureKpaAbs >= TRIPLE_KPA && pressureKpaAbs <= CRITICAL_KPA) {
+    return saturationTemperatureKelvinFromMpa(pressureKpaAbs / 1000) - KELVIN;
   }
   return saturationTemperatureSlowPath(pressureKpaAbs);
 }

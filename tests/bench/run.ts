@@ -1,0 +1,122 @@
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { simulateDay, toLoggerCsv } from "../../lib/simulator";
+import { saturationTemperatureC } from "../../lib/steam";
+
+const ROOT = path.resolve(__dirname, "../..");
+const TSX_CLI = path.join(ROOT, "node_modules/tsx/dist/cli.mjs");
+const RUNS = 3;
+
+// The yardstick: what node needs just to read the file, split it and parse every number.
+const BASELINE_SCRIPT = `
+const fs = require("node:fs");
+const text = fs.readFileSync(process.argv[2], "utf8");
+const lines = text.split("\\n");
+let sum = 0;
+for (let i = 1; i < lines.length; i++) {
+  const fields = lines[i].split(",");
+  for (let k = 1; k < fields.length; k++) sum += parseFloat(fields[k]) || 0;
+}
+process.stdout.write(String(sum));
+`;
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.floor(sorted.length / 2)];
+}
+
+function timeProcess(command: string, args: string[], env: NodeJS.ProcessEnv = process.env): { seconds: number; stdout: string; stderr: string; status: number | null } {
+  const started = performance.now();
+  const result = spawnSync(command, args, { cwd: ROOT, env, encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
+  const seconds = (performance.now() - started) / 1000;
+  return { seconds, stdout: result.stdout, stderr: result.stderr, status: result.status };
+}
+
+function tsatEvaluationsPerSecond(): number {
+  const pressures = new Float64Array(1024);
+  for (let i = 0; i < pressures.length; i++) pressures[i] = 1 + (i * 499) / pressures.length;
+  const evaluations = 20_000_000;
+  // A local binding, as a hot loop would hold it: module imports compiled by tsx are property getters.
+  const tsat = saturationTemperatureC;
+  let best = 0;
+  let sink = 0;
+  for (let round = 0; round < 3; round++) {
+    const started = performance.now();
+    for (let i = 0; i < evaluations; i++) sink += tsat(pressures[i & 1023]);
+    const perSecond = evaluations / ((performance.now() - started) / 1000);
+    best = Math.max(best, perSecond);
+  }
+  if (!Number.isFinite(sink)) throw new Error("IF97 loop produced a non-finite sum");
+  return best;
+}
+
+function main(): number {
+  const dir = mkdtempSync(path.join(tmpdir(), "papin-bench-"));
+  try {
+    const sim = simulateDay({ temperatureChannels: 16, samples: 86_400, sterilizationTempC: 134, holdingTimeS: 180 });
+    const file = path.join(dir, "day.csv");
+    const bytes = toLoggerCsv(sim);
+    writeFileSync(file, bytes);
+    const baselineScript = path.join(dir, "baseline.cjs");
+    writeFileSync(baselineScript, BASELINE_SCRIPT);
+
+    const analyzeArgs = [TSX_CLI, "lib/cli/analyze.ts", file, "--sterilization-temp", "134", "--holding-time", "180"];
+    const report = path.join(dir, "resources.json");
+    const env = { ...process.env, PAPIN_RESOURCE_REPORT: report };
+
+    // One warm-up each, so that tsx's compile cache and the disk cache are in the same state for every timed run.
+    timeProcess(process.execPath, [baselineScript, file]);
+    const warm = timeProcess(process.execPath, analyzeArgs, env);
+    if (warm.status !== 0) {
+      console.error(`analyze failed (exit ${warm.status}): ${warm.stderr.trim()}`);
+      return 1;
+    }
+    const output = JSON.parse(warm.stdout) as { verdict: string; plateausFound: number };
+
+    const baselineTimes: number[] = [];
+    const analyzeTimes: number[] = [];
+    const rssKb: number[] = [];
+    for (let run = 0; run < RUNS; run++) {
+      baselineTimes.push(timeProcess(process.execPath, [baselineScript, file]).seconds);
+      const result = timeProcess(process.execPath, analyzeArgs, env);
+      if (result.status !== 0) {
+        console.error(`analyze failed (exit ${result.status}): ${result.stderr.trim()}`);
+        return 1;
+      }
+      analyzeTimes.push(result.seconds);
+      rssKb.push((JSON.parse(readFileSync(report, "utf8")) as { maxRssKb: number }).maxRssKb);
+    }
+    const npmRun = timeProcess("npm", ["run", "--silent", "analyze", "--", file, "--sterilization-temp", "134", "--holding-time", "180"]);
+
+    const baseline = median(baselineTimes);
+    const analyze = median(analyzeTimes);
+    const ratio = analyze / baseline;
+    const peakMb = Math.max(...rssKb) / 1024;
+    const tsatPerSecond = tsatEvaluationsPerSecond();
+
+    const rows: Array<[string, string, string, string, string]> = [
+      ["baseline: node read + split + parseFloat", `${baseline.toFixed(3)} s`, "", "", ""],
+      ["analyze command (tsx lib/cli/analyze.ts)", `${analyze.toFixed(3)} s`, "", "", ""],
+      ["  the same through npm run --silent analyze", `${npmRun.seconds.toFixed(3)} s`, "", "", "(npm's own start-up included)"],
+      ["ratio analyze / baseline", `${ratio.toFixed(2)}×`, "≤ 2×", "≤ 5×", ratio <= 2 ? "goal met" : ratio <= 5 ? "within limit" : "FAILED"],
+      ["peak memory of the analyze process", `${peakMb.toFixed(0)} MB`, "", "≤ 300 MB", peakMb <= 300 ? "within limit" : "FAILED"],
+      ["IF97 Tsat(p) evaluations per second", `${(tsatPerSecond / 1e6).toFixed(1)} million`, "≥ 20 million", "", tsatPerSecond >= 20e6 ? "goal met" : "below goal"],
+    ];
+    const widths = [0, 1, 2, 3, 4].map((k) => Math.max(...rows.map((r) => r[k].length), ["measure", "value", "goal", "must", "status"][k].length));
+    const line = (cells: string[]) => "| " + cells.map((c, k) => c.padEnd(widths[k])).join(" | ") + " |";
+    console.log(`Papin benchmark: a day-long logger file, ${sim.timesS.length.toLocaleString("en")} rows × ${sim.channels.length - 1} temperature channels + 1 pressure, ${(bytes.length / 1e6).toFixed(1)} MB`);
+    console.log(`median of ${RUNS} runs each after one warm-up; node ${process.version}; verdict of the first of ${output.plateausFound} plateaus: ${output.verdict}`);
+    console.log(line(["measure", "value", "goal", "must", "status"]));
+    console.log(line(widths.map((w) => "-".repeat(w))));
+    for (const row of rows) console.log(line(row));
+    const failed = ratio > 5 || peakMb > 300;
+    if (failed) console.log("A must limit was missed.");
+    return failed ? 1 : 0;
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+process.exitCode = main();
