@@ -3,7 +3,6 @@ import { currentUser } from "@/lib/auth/guards";
 import { can } from "@/lib/auth/permissions";
 import { getSiteById } from "@/db/queries/sites";
 import { STANDARD_ATMOSPHERE_KPA, atmosphereAtAltitudeKpa } from "@/lib/steam";
-import { SAFETY_SHORT } from "@/lib/safety";
 import { PageHeader } from "@/components/ui/panel";
 import { SteamCalculator, type SiteAtmosphere } from "@/components/steam/steam-calculator";
 
@@ -28,8 +27,9 @@ export default async function SteamPage() {
       />
       <SteamCalculator site={atmosphere} />
       <p className="mt-6 max-w-3xl rounded-md border border-caution-500/30 bg-caution-50 px-4 py-3 text-sm text-caution-700" role="note">
-        <strong>Caution.</strong> {SAFETY_SHORT} Saturation figures assume pure, dry saturated steam; they do not tell you what a
-        particular sterilizer, gauge or load will do.
+        <strong>Caution.</strong> Saturation figures assume pure, dry saturated steam. They do not tell you what a particular
+        sterilizer, gauge or load will do, and never justify adjusting a sterilizer&apos;s controls or safety valves: follow its
+        instructions, local codes and a competent person&apos;s judgement.
       </p>
     </>
   );
