@@ -1,0 +1,97 @@
+// Papin's notification texts. The expected strings are Papin's own wording (constructed
+// definition tests); the escaping rules are those of the HTML standard for text and attribute
+// values (& < > " ').
+import { describe, expect, it } from "vitest";
+import { SAFETY_SHORT } from "@/lib/safety";
+import { analysisFailedMail, cycleApprovedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl, escapeHtml, portalOrigin } from "@/lib/mail/templates";
+
+const base = { cycleNumber: "P1-20260310-001", sterilizerName: "Porous load 1", url: "https://papin.marlow-bridge.example/cycles/cy-1" };
+const all = [
+  cycleSubmittedMail({ ...base, submitterName: "Tomás Brooks" }),
+  cycleRejectedMail({ ...base, reason: "Drain probe misplaced", signerName: "Adaeze Okafor" }),
+  cycleApprovedMail({ ...base, signerName: "Priya Nair", reportNumber: "MBGH-2026-0042" }),
+  analysisFailedMail({ ...base, summary: "Air in the chamber.", failedChecks: ["Saturation"] }),
+];
+
+describe("every notification", () => {
+  it.each(all.map((m) => [m.subject, m]))("%s: links to the record and carries the safety reminder in HTML and text", (_subject, m) => {
+    expect(m.text).toContain(base.url);
+    expect(m.html).toContain(`href="${base.url}"`);
+    expect(m.text).toContain(SAFETY_SHORT);
+    expect(m.html).toContain(escapeHtml(SAFETY_SHORT));
+    expect(m.subject).not.toMatch(/[\r\n]/);
+    expect(m.html.startsWith("<!doctype html>")).toBe(true);
+  });
+});
+
+describe("escaping", () => {
+  const hostile = '<script>alert("x")</script> & \'co\'';
+  const m = cycleRejectedMail({ cycleNumber: "7<b>", sterilizerName: hostile, url: 'https://p.example/cycles/a"onmouseover="x', reason: hostile, signerName: "<img src=x onerror=alert(1)>" });
+
+  it("turns markup in names and reasons into text in the HTML body", () => {
+    expect(m.html).not.toContain("<script>");
+    expect(m.html).not.toContain("<img");
+    expect(m.html).not.toContain("<b>");
+    expect(m.html).toContain("&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; &amp; &#39;co&#39;");
+  });
+
+  it("cannot break out of the link's attribute", () => {
+    expect(m.html).toContain('href="https://p.example/cycles/a&quot;onmouseover=&quot;x"');
+    expect(m.html).not.toContain('"onmouseover="');
+  });
+
+  it("leaves the plain-text body as written", () => {
+    expect(m.text).toContain(hostile);
+  });
+
+  it("keeps a subject on one line even when a name holds a line break", () => {
+    const s = cycleSubmittedMail({ ...base, sterilizerName: "Porous\r\nBcc: someone@evil.example", submitterName: "x" });
+    expect(s.subject).toBe("Cycle P1-20260310-001 on Porous Bcc: someone@evil.example is ready for review");
+  });
+
+  it("escapes the five characters the HTML standard reserves", () => {
+    expect(escapeHtml(`&<>"'`)).toBe("&amp;&lt;&gt;&quot;&#39;");
+  });
+});
+
+describe("what each says", () => {
+  it("rejected: quotes the reason line by line in the text body", () => {
+    const m = cycleRejectedMail({ ...base, reason: "Holding time short.\nRepeat after the door seal is replaced.", signerName: "Adaeze Okafor" });
+    expect(m.text).toContain("Reason given\n> Holding time short.\n> Repeat after the door seal is replaced.");
+    expect(m.html).toContain("Adaeze Okafor returned cycle P1-20260310-001 on Porous load 1");
+  });
+
+  it("approved: names the signer and the report number", () => {
+    const m = cycleApprovedMail({ ...base, signerName: "Priya Nair", reportNumber: "MBGH-2026-0042" });
+    expect(m.text).toContain("Priya Nair approved cycle P1-20260310-001");
+    expect(m.text).toContain("The signed report MBGH-2026-0042 is in the archive.");
+  });
+
+  it("analysis failed: lists each check not met, and leaves the list out when there is none", () => {
+    const m = analysisFailedMail({ ...base, summary: "Air in the chamber.", failedChecks: ["Saturation: below by 2.4 K", "Holding time: 162 s of 180 s"] });
+    expect(m.text).toContain("Checks not met\n- Saturation: below by 2.4 K\n- Holding time: 162 s of 180 s");
+    expect(m.html).toContain("<li>Holding time: 162 s of 180 s</li>");
+    expect(analysisFailedMail({ ...base, summary: "No plateau reached.", failedChecks: [] }).text).not.toContain("Checks not met");
+  });
+
+  it("submitted: says who submitted", () => {
+    expect(cycleSubmittedMail({ ...base, submitterName: "Tomás Brooks" }).text).toContain("Tomás Brooks submitted cycle P1-20260310-001 on Porous load 1 for review.");
+  });
+});
+
+describe("links", () => {
+  it("use the passed origin, else NEXTAUTH_URL, without a doubled slash", () => {
+    const saved = process.env.NEXTAUTH_URL;
+    try {
+      process.env.NEXTAUTH_URL = "https://papin.example/";
+      expect(portalOrigin()).toBe("https://papin.example");
+      expect(cycleUrl("a b")).toBe("https://papin.example/cycles/a%20b");
+      expect(cycleUrl("c1", "http://127.0.0.1:3205/")).toBe("http://127.0.0.1:3205/cycles/c1");
+      delete process.env.NEXTAUTH_URL;
+      expect(portalOrigin()).toBe("http://localhost:3000");
+    } finally {
+      if (saved === undefined) delete process.env.NEXTAUTH_URL;
+      else process.env.NEXTAUTH_URL = saved;
+    }
+  });
+});
