@@ -113,7 +113,7 @@ export function analyzeRecording(recording: Recording, limits: AcceptanceLimits,
 
   const f0: Record<string, number> = {};
   const f0Values = temperatures.map((c) => lethalityMinutes(timesS, c.values, limits.f0ReferenceC, limits.f0ZK));
-  temperatures.forEach((c, k) => (f0[c.header] = round(f0Values[k], 3)));
+  temperatures.forEach((c, k) => (f0[c.header] = round(f0Values[k], 4)));
 
   const intervals: number[] = [];
   const step = Math.max(1, Math.floor(n / 1000));
@@ -156,7 +156,7 @@ export function analyzeRecording(recording: Recording, limits: AcceptanceLimits,
       minDuringHold: null,
       maxDuringHold: null,
       meanDuringHold: null,
-      f0: round(f0Values[k], 3),
+      f0: round(f0Values[k], 4),
       firstArrival: arrivals[k] ?? null,
       arrivalAfterPlateauStart: arrivals[k] !== null && arrivals[k] !== undefined && startS !== null ? round((arrivals[k] as number) - startS, 3) : null,
     }));
