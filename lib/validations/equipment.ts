@@ -1,0 +1,134 @@
+import { z } from "zod";
+import { PERIODIC_TEST_KINDS } from "@/db/schema";
+
+/** A number typed into a form: decimal comma accepted, an empty field is "missing", not 0. */
+export function numberField(what: string, { min, max, unit = "", integer = false }: { min: number; max: number; unit?: string; integer?: boolean }) {
+  const range = `between ${min} and ${max}${unit ? ` ${unit}` : ""}`;
+  return z
+    .string({ error: `Enter ${what}.` })
+    .trim()
+    .min(1, `Enter ${what}.`)
+    .transform((s) => Number(s.replace(/\s/g, "").replace(",", ".")))
+    .pipe(
+      z
+        .number({ error: `${capitalise(what)} must be a number.` })
+        .refine((n) => Number.isFinite(n), `${capitalise(what)} must be a number.`)
+        .refine((n) => !integer || Number.isInteger(n), `${capitalise(what)} must be a whole number.`)
+        .refine((n) => n >= min && n <= max, `${capitalise(what)} must be ${range}.`),
+    );
+}
+
+/** The same, but an empty field means "not given". */
+export function optionalNumberField(what: string, limits: { min: number; max: number; unit?: string; integer?: boolean }) {
+  const required = numberField(what, limits);
+  return z
+    .string()
+    .optional()
+    .transform((s, ctx): number | null => {
+      if (s === undefined || s.trim() === "") return null;
+      const parsed = required.safeParse(s);
+      if (parsed.success) return parsed.data;
+      ctx.addIssue({ code: "custom", message: parsed.error.issues[0]?.message ?? `Check ${what}.` });
+      return z.NEVER;
+    });
+}
+
+const capitalise = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+
+const optionalText = (max: number) =>
+  z
+    .string()
+    .trim()
+    .max(max, `Keep this under ${max} characters.`)
+    .optional()
+    .transform((s) => (s ? s : null));
+
+// An unticked checkbox sends nothing at all.
+const checkbox = z
+  .string()
+  .optional()
+  .transform((v) => v === "on" || v === "true");
+
+export const reasonField = z.string({ error: "Give a reason for the change; it goes into the audit ledger." }).trim().min(3, "Give a reason for the change; it goes into the audit ledger.").max(500);
+
+const sterilizerFields = {
+  name: z.string({ error: "Enter a name." }).trim().min(2, "Enter a name of at least 2 characters.").max(120),
+  serialNumber: z.string({ error: "Enter the serial number." }).trim().min(1, "Enter the serial number from the rating plate.").max(80),
+  model: optionalText(200),
+  location: optionalText(200),
+  chamberVolumeL: numberField("the chamber volume", { min: 1, max: 20000, unit: "l" }),
+  airDetectorFitted: checkbox,
+  defaultProfileId: z
+    .string()
+    .optional()
+    .transform((s) => (s ? s : null)),
+};
+
+export const createSterilizerSchema = z.object(sterilizerFields);
+export const updateSterilizerSchema = z.object({
+  ...sterilizerFields,
+  id: z.string().min(1),
+  active: checkbox,
+  reason: reasonField,
+});
+export type SterilizerInput = z.infer<typeof createSterilizerSchema>;
+
+export const saveScheduleSchema = z.object({
+  sterilizerId: z.string().min(1),
+  kind: z.enum(PERIODIC_TEST_KINDS, { error: "Choose a test." }),
+  intervalDays: numberField("the interval", { min: 1, max: 1100, unit: "days", integer: true }),
+  reason: z.string().trim().max(500).optional().transform((s) => (s ? s : null)),
+});
+export const removeScheduleSchema = z.object({
+  sterilizerId: z.string().min(1),
+  kind: z.enum(PERIODIC_TEST_KINDS),
+  reason: reasonField,
+});
+
+const profileFields = {
+  name: z.string({ error: "Enter a name." }).trim().min(3, "Enter a name of at least 3 characters, e.g. “134 °C / 3 min porous load”.").max(120),
+  sterilizationTempC: numberField("the sterilization temperature", { min: 100, max: 140, unit: "°C" }),
+  bandK: numberField("the band width", { min: 0.5, max: 10, unit: "K" }),
+  holdingTimeS: numberField("the holding time", { min: 1, max: 36000, unit: "s" }),
+  maxEquilibrationS: numberField("the equilibration limit", { min: 1, max: 600, unit: "s" }),
+  maxSpreadK: numberField("the spread limit", { min: 0.1, max: 10, unit: "K" }),
+  saturationLimitK: numberField("the saturation limit", { min: 0.1, max: 10, unit: "K" }),
+  f0ReferenceC: numberField("the F0 reference temperature", { min: 100, max: 140, unit: "°C" }),
+  f0ZK: numberField("the z-value", { min: 1, max: 50, unit: "K" }),
+  basis: z.string({ error: "Say where these limits come from." }).trim().min(3, "Say where these limits come from (standard, clause, protocol).").max(500),
+};
+export const createProfileSchema = z.object(profileFields);
+export const updateProfileSchema = z.object({ ...profileFields, id: z.string().min(1), reason: reasonField });
+export type ProfileInput = z.infer<typeof createProfileSchema>;
+
+export const INSTRUMENT_KINDS = ["logger", "pressure-sensor", "temperature-probe", "reference-thermometer"] as const;
+
+export const createInstrumentSchema = z.object({
+  name: z.string({ error: "Enter a name." }).trim().min(2, "Enter a name of at least 2 characters.").max(120),
+  serialNumber: z.string({ error: "Enter the serial number." }).trim().min(1, "Enter the serial number.").max(80),
+  kind: z.enum(INSTRUMENT_KINDS, { error: "Choose what kind of instrument this is." }),
+  channelCount: optionalNumberField("the number of channels", { min: 1, max: 256, integer: true }),
+});
+
+const isoDate = (what: string) =>
+  z
+    .string({ error: `Enter ${what}.` })
+    .trim()
+    .regex(/^\d{4}-\d{2}-\d{2}$/, `Enter ${what} as a date.`)
+    .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), `${capitalise(what)} is not a real date.`);
+
+export const addCertificateSchema = z
+  .object({
+    instrumentId: z.string().min(1),
+    certificateNumber: z.string({ error: "Enter the certificate number." }).trim().min(1, "Enter the certificate number.").max(80),
+    issuedBy: z.string({ error: "Enter who issued the certificate." }).trim().min(2, "Enter the calibration laboratory that issued it.").max(160),
+    calibratedOn: isoDate("the calibration date"),
+    dueOn: isoDate("the due date"),
+    uncertaintyK: optionalNumberField("the uncertainty", { min: 0, max: 10, unit: "K" }),
+    notes: optionalText(500),
+  })
+  .superRefine((v, ctx) => {
+    if (v.dueOn <= v.calibratedOn) ctx.addIssue({ code: "custom", path: ["dueOn"], message: "The due date must come after the calibration date." });
+  });
+
+export const clearMappingSchema = z.object({ instrumentId: z.string().min(1), reason: reasonField });
