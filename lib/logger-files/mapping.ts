@@ -245,7 +245,10 @@ export function planColumns(
         const values = sampleNumbers(sampleRows, column.index, decimal);
         const max = Math.max(...values);
         const min = Math.min(...values);
-        if (values.length > 0 && min > -60 && max < 450 && max - min > 1) {
+        const counter = values.length > 1 && values.every((v, i) => Number.isInteger(v) && (i === 0 || v > values[i - 1]));
+        if (counter) {
+          column.unsure.push("whole numbers that only rise, like a row counter; ignored");
+        } else if (values.length > 0 && min > -60 && max < 450 && max - min > 1) {
           column.role = "temperature";
           column.unsure.push("unit-unknown", "the header names no unit or known channel; its values look like temperatures");
         } else {

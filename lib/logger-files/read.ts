@@ -3,7 +3,7 @@ import { kpaPerUnit, type PressureUnit, type TemperatureUnit } from "../steam";
 import { LoggerFileError } from "./errors";
 import { planColumns, type ColumnPlan } from "./mapping";
 import { DECIMAL_CODES, parseDecimal } from "./numbers";
-import { delimiterName, findTable, isBlankLine, lineText, prepareText, splitFields, type PreparedText, type TableLayout } from "./sniff";
+import { delimiterName, findTable, isBlankLine, isDataRow, lineText, prepareText, splitFields, type PreparedText, type TableLayout } from "./sniff";
 import { cellHasOffset, isoFromSeconds, parseTimeCell, type TimeFormat } from "./time";
 import type { Dialect, InspectResult, MappingOverrides, ReadResult, Recording } from "./types";
 
@@ -29,7 +29,7 @@ function spreadSample(prepared: PreparedText, layout: TableLayout): string[][] {
     const line = lineText(prepared, i);
     if (isBlankLine(line, layout.delimiter)) continue;
     const fields = splitFields(line, layout.delimiter);
-    if (fields.length === layout.width) rows.push(fields);
+    if (fields.length === layout.width && isDataRow(fields)) rows.push(fields);
   }
   return rows;
 }

@@ -106,7 +106,7 @@ function isDataCell(cell: string): boolean {
   return c !== "" && (looksNumeric(c) || guessTimeFormat([c]) !== null);
 }
 
-function isDataRow(fields: string[]): boolean {
+export function isDataRow(fields: string[]): boolean {
   let data = 0;
   let nonEmpty = 0;
   for (const f of fields) {
