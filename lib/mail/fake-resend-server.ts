@@ -14,27 +14,9 @@ import { appendFileSync, existsSync, mkdirSync, readFileSync, writeFileSync } fr
 import { createServer, type IncomingMessage, type ServerResponse } from "node:http";
 import type { AddressInfo } from "node:net";
 import path from "node:path";
+import { FAKE_RESEND_SERVICE, type FakeEmail } from "./fake-resend-protocol";
 
-export const FAKE_RESEND_SERVICE = "papin-fake-resend";
-
-export type FakeEmail = {
-  object: "email";
-  id: string;
-  created_at: string;
-  from: string;
-  to: string[];
-  cc: string[] | null;
-  bcc: string[] | null;
-  reply_to: string[] | null;
-  subject: string;
-  html: string | null;
-  text: string | null;
-  headers: Record<string, string> | null;
-  tags: Array<{ name: string; value: string }> | null;
-  scheduled_at: string | null;
-  last_event: "delivered";
-  idempotency_key: string | null;
-};
+export { FAKE_RESEND_SERVICE, type FakeEmail };
 
 export type FakeResendOptions = {
   /** 0 picks a free port. */

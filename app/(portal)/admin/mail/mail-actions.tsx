@@ -1,0 +1,37 @@
+"use client";
+
+import { useActionState } from "react";
+import { IDLE_STATE, type FormState } from "@/components/ui/form-state";
+import { retryMailAction, sendDueMailAction } from "./actions";
+
+function Message({ state }: { state: FormState }) {
+  if (state.status === "idle" || !state.message) return null;
+  return (
+    <p role={state.status === "error" ? "alert" : "status"} className={`mt-1 max-w-xs rounded-md px-2 py-1 text-xs ${state.status === "error" ? "bg-fail-50 text-fail-700" : "bg-pass-50 text-pass-700"}`}>
+      {state.message}
+    </p>
+  );
+}
+
+export function RetryMailButton({ id, subject }: { id: string; subject: string }) {
+  const [state, action, pending] = useActionState(retryMailAction, IDLE_STATE);
+  return (
+    <form action={action}>
+      <input type="hidden" name="id" value={id} />
+      <button className="btn-secondary px-2 py-1 text-xs" disabled={pending} aria-label={`Retry now: ${subject}`}>
+        {pending ? "Sending…" : "Retry now"}
+      </button>
+      <Message state={state} />
+    </form>
+  );
+}
+
+export function SendDueMailButton({ disabled }: { disabled?: boolean }) {
+  const [state, action, pending] = useActionState(sendDueMailAction, IDLE_STATE);
+  return (
+    <form action={action} className="flex flex-col items-end">
+      <button className="btn-primary" disabled={pending || disabled}>{pending ? "Sending…" : "Send due mail now"}</button>
+      <Message state={state} />
+    </form>
+  );
+}
