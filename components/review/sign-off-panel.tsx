@@ -1,11 +1,185 @@
+"use client";
+
+import { useRouter } from "next/navigation";
+import { useState } from "react";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import type { Role } from "@/lib/auth/roles";
 
-export function SignOffPanel({ detail }: { detail: CycleDetail; actor: { id: string; role: Role; name: string } }) {
+const MEANING_WORDS = {
+  reviewed: { label: "Reviewed", statement: "I have reviewed this record; the decision stays open." },
+  approved: { label: "Approved", statement: "I approve this test cycle as meeting its acceptance profile. The record will be locked and its report archived." },
+  rejected: { label: "Rejected", statement: "I return this cycle to the technician for correction, for the reason given." },
+} as const;
+type Meaning = keyof typeof MEANING_WORDS;
+
+async function postJson(url: string, body?: unknown) {
+  const response = await fetch(url, {
+    method: "POST",
+    headers: body ? { "Content-Type": "application/json" } : undefined,
+    body: body ? JSON.stringify(body) : undefined,
+  });
+  const data = await response.json().catch(() => ({}));
+  if (!response.ok) throw new Error(typeof data.error === "string" ? data.error : `The server answered ${response.status}.`);
+  return data;
+}
+
+export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { id: string; role: Role; name: string } }) {
+  const router = useRouter();
+  const [busy, setBusy] = useState(false);
+  const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
+  const [meaning, setMeaning] = useState<Meaning>("approved");
+  const [reason, setReason] = useState("");
+  const [password, setPassword] = useState("");
+  const [correction, setCorrection] = useState<File | null>(null);
+
+  const canSubmit = (actor.role === "technician" || actor.role === "engineer") && (detail.status === "draft" || detail.status === "rejected") && !!detail.analysis;
+  const canSign = actor.role === "engineer" && detail.status === "submitted";
+  const ownUpload = detail.createdBy.id === actor.id;
+  const canCorrect = (actor.role === "technician" || actor.role === "engineer") && (detail.status === "draft" || detail.status === "rejected");
+
+  async function run(action: () => Promise<string>) {
+    setBusy(true);
+    setMessage(null);
+    try {
+      setMessage({ tone: "ok", text: await action() });
+      setPassword("");
+      router.refresh();
+    } catch (error) {
+      setMessage({ tone: "error", text: error instanceof Error ? error.message : "Something went wrong." });
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  const submit = () => run(async () => (await postJson(`/api/cycles/${detail.id}/submit`), "Submitted: the site's engineers have been notified."));
+
+  const sign = (event: React.FormEvent) => {
+    event.preventDefault();
+    if (meaning === "rejected" && !reason.trim()) {
+      setMessage({ tone: "error", text: "Give the reason for rejecting, so the technician knows what to correct." });
+      return;
+    }
+    if (!password) {
+      setMessage({ tone: "error", text: "Enter your password: signing needs it every time." });
+      return;
+    }
+    void run(async () => {
+      const s = await postJson(`/api/cycles/${detail.id}/signatures`, { password, meaning, reason: reason.trim() || null });
+      return `Signed "${MEANING_WORDS[meaning].label}" by ${s.printedName} at ${new Date(s.signedAt).toUTCString()}.`;
+    });
+  };
+
+  const correct = (event: React.FormEvent) => {
+    event.preventDefault();
+    if (!correction) return;
+    void run(async () => {
+      const form = new FormData();
+      form.set("file", correction);
+      const response = await fetch(`/api/cycles/${detail.id}/analyses`, { method: "POST", body: form });
+      const data = await response.json().catch(() => ({}));
+      if (!response.ok) throw new Error(data.error ?? `The server answered ${response.status}.`);
+      setCorrection(null);
+      return `New analysis: ${data.analysis.verdict === "pass" ? "pass" : "fail"}. The earlier analysis stays in the history.`;
+    });
+  };
+
   return (
-    <section className="panel px-panel py-4" aria-label="Sign-off">
-      <h2 className="text-base">Sign-off</h2>
-      <p className="mt-1 text-sm text-ink-muted">{detail.signatures.length} signature(s).</p>
+    <section className="panel" aria-labelledby="sign-off-title" data-testid="sign-off">
+      <header className="border-b border-ink-line px-panel py-3">
+        <h2 id="sign-off-title" className="text-base font-semibold">Review and signatures</h2>
+      </header>
+      <div className="space-y-4 px-panel py-4 text-sm">
+        {detail.signatures.length === 0 ? (
+          <p className="text-ink-muted">No signature yet.</p>
+        ) : (
+          <ol className="space-y-2" data-testid="signatures">
+            {detail.signatures.map((s) => (
+              <li key={s.id} className="rounded-md border border-ink-line px-3 py-2">
+                <p className="font-medium">
+                  {MEANING_WORDS[s.meaning].label} — {s.printedName} <span className="font-normal text-ink-muted">({s.role})</span>
+                </p>
+                <p className="text-xs text-ink-muted">{new Date(s.signedAt).toISOString().replace("T", " ").slice(0, 19)} UTC</p>
+                {s.reason && <p className="mt-1">Reason: {s.reason}</p>}
+                <p className={`mt-1 text-xs ${s.valid ? "text-pass-700" : "text-fail-700"}`}>
+                  {s.valid ? "✓ Signature verifies against the record as stored" : "✕ Signature no longer matches the record — investigate"}
+                </p>
+                <p className="mono mt-0.5 break-all text-ink-faint">{s.bundleHash}</p>
+              </li>
+            ))}
+          </ol>
+        )}
+
+        <p className="flex flex-wrap gap-2">
+          <a className="btn-secondary" href={`/api/cycles/${detail.id}/report`} target="_blank" rel="noreferrer">
+            {detail.report ? "Open the archived report (PDF)" : "Open a draft report (PDF)"}
+          </a>
+        </p>
+        {detail.report && (
+          <p className="text-xs text-ink-muted">
+            Report <span className="mono">{detail.report.reportNumber}</span>, SHA-256 <span className="mono break-all">{detail.report.sha256}</span>
+          </p>
+        )}
+
+        {canSubmit && (
+          <div>
+            <button type="button" className="btn-primary" onClick={submit} disabled={busy}>
+              {detail.status === "rejected" ? "Submit the corrected cycle again" : "Submit for review"}
+            </button>
+            <p className="mt-1 text-xs text-ink-muted">Submitting sends the record to the site&apos;s validation engineers.</p>
+          </div>
+        )}
+
+        {canSign && (
+          <form onSubmit={sign} className="space-y-3 rounded-md border border-steam-100 bg-steam-50/40 p-3" aria-label="Electronic signature">
+            <fieldset>
+              <legend className="field-label">Meaning of your signature</legend>
+              <div className="space-y-1">
+                {(Object.keys(MEANING_WORDS) as Meaning[]).map((m) => {
+                  const blocked = m === "approved" && ownUpload;
+                  return (
+                    <label key={m} className={`flex items-start gap-2 ${blocked ? "opacity-50" : ""}`}>
+                      <input type="radio" name="meaning" value={m} checked={meaning === m} disabled={blocked} onChange={() => setMeaning(m)} className="mt-1" />
+                      <span>
+                        <span className="font-medium">{MEANING_WORDS[m].label}</span>
+                        <span className="block text-xs text-ink-muted">{blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_WORDS[m].statement}</span>
+                      </span>
+                    </label>
+                  );
+                })}
+              </div>
+            </fieldset>
+            <div>
+              <label htmlFor="sign-reason" className="field-label">Reason {meaning === "rejected" ? "(required)" : "(optional)"}</label>
+              <textarea id="sign-reason" className="field-input" rows={2} value={reason} onChange={(e) => setReason(e.target.value)} />
+            </div>
+            <div>
+              <label htmlFor="sign-password" className="field-label">Your password (re-entered to sign)</label>
+              <input id="sign-password" type="password" autoComplete="current-password" className="field-input" value={password} onChange={(e) => setPassword(e.target.value)} />
+            </div>
+            <p className="text-xs text-ink-muted">
+              Signing as <strong>{actor.name}</strong>. Your printed name, the meaning, the time (UTC) and a hash of this record are stored with the signature and printed on
+              the report; the signature is your own and equals a handwritten one.
+            </p>
+            <button type="submit" className="btn-primary" disabled={busy}>{busy ? "Signing…" : "Sign"}</button>
+          </form>
+        )}
+
+        {canCorrect && (
+          <form onSubmit={correct} className="space-y-2" aria-label="Correct the logger file">
+            <label htmlFor="correction-file" className="field-label">Correct with a new logger file</label>
+            <input id="correction-file" type="file" accept=".csv,.txt,.tsv,.dat,.log" onChange={(e) => setCorrection(e.target.files?.[0] ?? null)} className="block text-sm" />
+            <button type="submit" className="btn-secondary" disabled={busy || !correction}>Analyse the new file</button>
+          </form>
+        )}
+
+        {detail.status === "approved" && <p className="text-xs text-ink-muted">Approved records are locked. A correction is a new cycle that refers to this one.</p>}
+
+        {message && (
+          <p role={message.tone === "error" ? "alert" : "status"} className={`rounded-md px-3 py-2 ${message.tone === "error" ? "bg-fail-50 text-fail-700" : "bg-pass-50 text-pass-700"}`}>
+            {message.text}
+          </p>
+        )}
+      </div>
     </section>
   );
 }

@@ -26,6 +26,7 @@ import { saturationTemperatureC, atmosphereAtAltitudeKpa, STANDARD_ATMOSPHERE_KP
 import type { AnalysisResult } from "@/lib/analysis/types";
 import type { CreateCycleResponse, CycleDetail, CycleListItem, CycleListResponse, SeriesResponse, SignatureView } from "@/lib/cycles/contracts";
 import { signatureIsValid } from "./signature-bundle";
+import { enqueueAnalysisFailedMail } from "./mail";
 
 const siteOf = (actor: Actor) => actor.siteId ?? "";
 
@@ -327,6 +328,7 @@ export type CreateCycleInput = {
   mapping?: MappingOverrides;
   saveMapping?: boolean;
   supersedesId?: string | null;
+  origin?: string;
 };
 
 /**
@@ -454,23 +456,16 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
         supersedes: input.supersedesId ?? null,
       },
     });
-    await afterAnalysisHooks.run(tx, { cycleId: cycle.id, cycleNumber, siteId: site.id, sterilizerName: sterilizer.name, result: analysis.result, actor });
+    if (analysis.result.verdict === "fail") await notifyFailure(tx, cycle.id, analysis.result, input.origin);
     return cycle.id;
   });
   return { id, status: "draft", analysis: analysis.result, fileAnalysis: analysis };
 }
 
-/**
- * Work that must join the cycle's transaction when an analysis is stored (for example the mail to
- * the engineers when a cycle fails); registered by the modules that own it.
- */
-type AnalysisHook = (tx: Executor, event: { cycleId: string; cycleNumber: string; siteId: string; sterilizerName: string; result: AnalysisResult; actor: Actor }) => Promise<void>;
-export const afterAnalysisHooks = {
-  hooks: [] as AnalysisHook[],
-  async run(tx: Executor, event: Parameters<AnalysisHook>[1]) {
-    for (const hook of this.hooks) await hook(tx, event);
-  },
-};
+async function notifyFailure(tx: Executor, cycleId: string, result: AnalysisResult, origin?: string) {
+  const failedChecks = result.checks.filter((c) => !c.passed).map((c) => c.label);
+  await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks, origin });
+}
 
 import { createHash } from "node:crypto";
 function sha256Of(bytes: Uint8Array) {
@@ -492,4 +487,66 @@ export async function listCycleIdsByStatus({ actor, statuses }: { actor: Actor; 
     .select({ id: cycles.id })
     .from(cycles)
     .where(and(eq(cycles.siteId, siteOf(actor)), inArray(cycles.status, statuses)));
+}
+
+/**
+ * A correction of a draft or returned cycle: a new file and/or a new mapping gives a new analysis;
+ * earlier files and analyses stay on the record. Submitted and approved cycles are locked.
+ */
+export async function reanalyseCycle({ actor, id, file, mapping }: { actor: Actor; id: string; file?: UploadedFile; mapping?: MappingOverrides }) {
+  const db = getDb();
+  const cycle = await getCycleRow({ actor, id });
+  if (!cycle) throw new AppError(404, "That cycle was not found.");
+  if (cycle.status === "approved") throw new AppError(409, "This cycle is approved and locked; a correction must be a new, linked record.");
+  if (cycle.status === "submitted") throw new AppError(409, "This cycle is waiting for review; it can be corrected once it is returned.");
+  const [profile] = await db.select().from(acceptanceProfiles).where(eq(acceptanceProfiles.id, cycle.profileId)).limit(1);
+  const [site] = await db.select().from(sites).where(eq(sites.id, cycle.siteId)).limit(1);
+  let bytes: Uint8Array;
+  let fileId: string | null = null;
+  if (file) {
+    bytes = file.bytes;
+  } else {
+    const [current] = await db
+      .select({ id: loggerFiles.id, bytes: loggerFiles.bytes, mapping: loggerFiles.mapping })
+      .from(analyses)
+      .innerJoin(loggerFiles, eq(analyses.loggerFileId, loggerFiles.id))
+      .where(eq(analyses.id, cycle.currentAnalysisId ?? ""))
+      .limit(1);
+    if (!current) throw new AppError(409, "This cycle has no logger file to analyse again; upload one.");
+    bytes = new Uint8Array(current.bytes);
+    fileId = current.id;
+  }
+  let analysis: FileAnalysis;
+  try {
+    analysis = analyzeLoggerBytes(bytes, profile, mapping ?? {}, siteAtmosphereKpa(site));
+  } catch (error) {
+    if (error instanceof LoggerFileError) throw new AppError(422, `${file?.name ?? "The stored file"}: ${error.message}`, "file");
+    throw error;
+  }
+  await db.transaction(async (tx) => {
+    if (file) {
+      const [saved] = await tx
+        .insert(loggerFiles)
+        .values({ cycleId: id, name: file.name, sizeBytes: bytes.byteLength, sha256: analysis.sha256, contentType: file.contentType || "text/csv", bytes: Buffer.from(bytes), dialect: analysis.dialect, mapping: analysis.mapping, uploadedBy: actor.id })
+        .returning({ id: loggerFiles.id });
+      fileId = saved.id;
+    }
+    const [saved] = await tx
+      .insert(analyses)
+      .values({ cycleId: id, loggerFileId: fileId!, engineVersion: analysis.engineVersion, inputHash: analysis.inputHash, limits: analysis.limits, result: analysis.result, verdict: analysis.result.verdict, createdBy: actor.id })
+      .returning({ id: analyses.id });
+    await tx.update(cycles).set({ currentAnalysisId: saved.id, verdict: analysis.result.verdict, updatedAt: new Date().toISOString() }).where(eq(cycles.id, id));
+    await appendAuditEvent(tx, {
+      actorId: actor.id,
+      actorEmail: actor.email,
+      siteId: cycle.siteId,
+      action: "cycle.reanalyse",
+      entityType: "cycle",
+      entityId: id,
+      oldValue: { analysis: cycle.currentAnalysisId, verdict: cycle.verdict },
+      newValue: { analysis: saved.id, verdict: analysis.result.verdict, file: file ? { name: file.name, sha256: analysis.sha256 } : null, mapping: mapping ?? null },
+    });
+    if (analysis.result.verdict === "fail") await notifyFailure(tx, id, analysis.result);
+  });
+  return { id, analysis: analysis.result };
 }

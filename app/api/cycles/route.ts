@@ -7,6 +7,8 @@ import { filesOf, readMultipart } from "@/lib/uploads";
 import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
 import { createCycleFieldsSchema, mappingSchema } from "@/lib/validations/cycle-upload";
 import { createCycleFromUpload, listCycles } from "@/db/queries/cycles";
+import { kickMailDelivery } from "@/lib/mail/delivery";
+import { originOf } from "@/lib/request-origin";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -57,6 +59,8 @@ export const POST = route(async (request) => {
     files,
     mapping,
     saveMapping: form.get("saveMapping") === "true",
+    origin: originOf(request),
   });
+  kickMailDelivery();
   return NextResponse.json({ id: created.id, status: created.status, analysis: created.analysis }, { status: 201 });
 });

@@ -1,0 +1,83 @@
+import Link from "next/link";
+import { forbidden } from "next/navigation";
+import { currentUser } from "@/lib/auth/guards";
+import { can } from "@/lib/auth/permissions";
+import { listArchivedReports } from "@/db/queries/reviews";
+import { getSiteById } from "@/db/queries/sites";
+import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
+import { VerdictBadge } from "@/components/ui/badge";
+import { VerifyReport } from "@/components/archive/verify-report";
+import { formatBytes, formatDateTime } from "@/lib/format";
+
+export const metadata = { title: "Signed archive" };
+
+export default async function ArchivePage({ searchParams }: { searchParams: Promise<{ q?: string; from?: string; to?: string }> }) {
+  const user = await currentUser();
+  if (!user) forbidden();
+  const { q, from, to } = await searchParams;
+  const canList = can(user.role, "archive:read");
+  const [rows, site] = await Promise.all([canList ? listArchivedReports({ actor: user, q, from, to }) : Promise.resolve([]), user.siteId ? getSiteById({ id: user.siteId }) : undefined]);
+  const tz = site?.timeZone ?? "UTC";
+  return (
+    <>
+      <PageHeader title="Signed archive" subtitle="Approved reports as they were archived at signing; later software changes never re-render them." />
+      <div className="grid gap-gutter xl:grid-cols-[1fr_24rem]">
+        {canList ? (
+          <Panel title={`${rows.length} archived report${rows.length === 1 ? "" : "s"}`}>
+            <form className="mb-4 flex flex-wrap items-end gap-2" role="search">
+              <div>
+                <label htmlFor="q" className="field-label">Search</label>
+                <input id="q" name="q" defaultValue={q} placeholder="Report, cycle, sterilizer, signer" className="field-input" />
+              </div>
+              <div>
+                <label htmlFor="from" className="field-label">Archived from</label>
+                <input id="from" name="from" type="date" defaultValue={from} className="field-input" />
+              </div>
+              <div>
+                <label htmlFor="to" className="field-label">to</label>
+                <input id="to" name="to" type="date" defaultValue={to} className="field-input" />
+              </div>
+              <button className="btn-secondary">Filter</button>
+            </form>
+            {rows.length === 0 ? (
+              <EmptyState title="No archived report matches.">Reports are archived when an engineer approves a cycle.</EmptyState>
+            ) : (
+              <div className="overflow-x-auto">
+                <table className="data-table" data-testid="archive-table">
+                  <thead>
+                    <tr><th>Report</th><th>Cycle</th><th>Sterilizer</th><th>Verdict</th><th>Approved by</th><th>Archived</th><th>File</th></tr>
+                  </thead>
+                  <tbody>
+                    {rows.map((r) => (
+                      <tr key={r.id}>
+                        <td className="mono">{r.reportNumber}</td>
+                        <td><Link className="mono text-steam-700 underline" href={`/cycles/${r.cycleId}`}>{r.cycleNumber}</Link></td>
+                        <td>{r.sterilizerName}</td>
+                        <td><VerdictBadge verdict={r.verdict} /></td>
+                        <td>{r.signerName ?? "—"}</td>
+                        <td className="text-xs">{formatDateTime(r.createdAt, tz)}</td>
+                        <td>
+                          <a className="text-steam-700 underline" href={`/api/reports/${r.id}`}>Download</a>
+                          <span className="block text-2xs text-ink-muted">{formatBytes(r.sizeBytes)} · <span className="mono" title={r.sha256}>{r.sha256.slice(0, 12)}…</span></span>
+                        </td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            )}
+          </Panel>
+        ) : (
+          <Panel title="Archive">
+            <p className="text-sm text-ink-muted">Your role can check a report against the archive but not browse it.</p>
+          </Panel>
+        )}
+        <div id="verify">
+          <Panel title="Check a report">
+            <VerifyReport />
+          </Panel>
+        </div>
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,22 @@
+import { route } from "@/lib/http";
+import { requireRole } from "@/lib/auth/guards";
+import { getCycleReport } from "@/db/queries/reviews";
+
+export const runtime = "nodejs";
+export const dynamic = "force-dynamic";
+
+type Context = { params: Promise<{ id: string }> };
+
+export const GET = route<Context>(async (_request, { params }) => {
+  const actor = await requireRole("report:read", "open reports");
+  const { id } = await params;
+  const report = await getCycleReport({ actor, id });
+  return new Response(report.bytes as BodyInit, {
+    headers: {
+      "Content-Type": "application/pdf",
+      "Content-Disposition": `inline; filename="${report.fileName}"`,
+      "Cache-Control": "private, no-store",
+      "X-Papin-Report": report.archived ? "archived" : "draft",
+    },
+  });
+});

@@ -1,0 +1,28 @@
+import { NextResponse } from "next/server";
+import { route, zodMessage } from "@/lib/http";
+import { requireRole } from "@/lib/auth/guards";
+import { AppError } from "@/lib/errors";
+import { originOf } from "@/lib/request-origin";
+import { signatureSchema } from "@/lib/validations/reviews";
+import { signCycle } from "@/db/queries/reviews";
+import { kickMailDelivery } from "@/lib/mail/delivery";
+
+export const runtime = "nodejs";
+
+type Context = { params: Promise<{ id: string }> };
+
+export const POST = route<Context>(async (request, { params }) => {
+  const actor = await requireRole("cycle:sign", "sign cycles");
+  let body: unknown;
+  try {
+    body = await request.json();
+  } catch {
+    throw new AppError(400, "Send the signature as JSON: { password, meaning, reason }.");
+  }
+  const parsed = signatureSchema.safeParse(body);
+  if (!parsed.success) throw new AppError(400, zodMessage(parsed.error), String(parsed.error.issues[0]?.path[0] ?? ""));
+  const { id } = await params;
+  const signature = await signCycle({ actor, id, ...parsed.data, origin: originOf(request) });
+  kickMailDelivery();
+  return NextResponse.json(signature, { status: 201 });
+});

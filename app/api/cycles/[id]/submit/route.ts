@@ -1,0 +1,18 @@
+import { NextResponse } from "next/server";
+import { route } from "@/lib/http";
+import { requireRole } from "@/lib/auth/guards";
+import { originOf } from "@/lib/request-origin";
+import { submitCycle } from "@/db/queries/reviews";
+import { kickMailDelivery } from "@/lib/mail/delivery";
+
+export const runtime = "nodejs";
+
+type Context = { params: Promise<{ id: string }> };
+
+export const POST = route<Context>(async (request, { params }) => {
+  const actor = await requireRole("cycle:submit", "submit cycles");
+  const { id } = await params;
+  const result = await submitCycle({ actor, id, origin: originOf(request) });
+  kickMailDelivery();
+  return NextResponse.json(result);
+});

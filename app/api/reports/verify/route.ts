@@ -1,0 +1,16 @@
+import { NextResponse } from "next/server";
+import { route } from "@/lib/http";
+import { requireRole } from "@/lib/auth/guards";
+import { AppError } from "@/lib/errors";
+import { filesOf, readMultipart } from "@/lib/uploads";
+import { verifyReportBytes } from "@/db/queries/reviews";
+
+export const runtime = "nodejs";
+
+export const POST = route(async (request) => {
+  const actor = await requireRole("report:verify", "check reports");
+  const form = await readMultipart(request);
+  const [file] = await filesOf(form, "file");
+  if (!file) throw new AppError(400, "Attach the PDF in the field named file.", "file");
+  return NextResponse.json(await verifyReportBytes({ actor, bytes: file.bytes }));
+});

@@ -1,0 +1,72 @@
+"use client";
+
+import Link from "next/link";
+import { useState } from "react";
+import { useDropzone } from "react-dropzone";
+
+type Outcome =
+  | { match: true; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string }
+  | { match: false; sha256: string };
+
+export function VerifyReport() {
+  const [outcome, setOutcome] = useState<Outcome | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+  const [name, setName] = useState<string>("");
+
+  async function check(file: File) {
+    setBusy(true);
+    setError(null);
+    setOutcome(null);
+    setName(file.name);
+    try {
+      const form = new FormData();
+      form.set("file", file);
+      const response = await fetch("/api/reports/verify", { method: "POST", body: form });
+      const data = await response.json().catch(() => ({}));
+      if (!response.ok) throw new Error(data.error ?? `The server answered ${response.status}.`);
+      setOutcome(data);
+    } catch (e) {
+      setError(e instanceof Error ? e.message : "The check failed.");
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  const { getRootProps, getInputProps, isDragActive } = useDropzone({
+    multiple: false,
+    accept: { "application/pdf": [".pdf"] },
+    maxSize: 50 * 1024 * 1024,
+    onDropAccepted: (files) => void check(files[0]),
+    onDropRejected: (rejections) => setError(rejections[0]?.errors[0]?.code === "file-too-large" ? "That file is over 50 MB; archived reports are much smaller." : "Drop one PDF file."),
+  });
+
+  return (
+    <div className="space-y-3">
+      <div
+        {...getRootProps({
+          className: `cursor-pointer rounded-md border-2 border-dashed px-4 py-8 text-center text-sm ${isDragActive ? "border-steam-500 bg-steam-50" : "border-ink-line bg-paper"}`,
+          "aria-label": "Drop a report PDF here, or press Enter to choose one",
+        })}
+      >
+        <input {...getInputProps()} data-testid="verify-input" />
+        <p className="font-medium">{busy ? "Checking…" : "Drop a report PDF here, or click to choose one"}</p>
+        <p className="mt-1 text-xs text-ink-muted">The file is compared byte for byte with the archive; nothing is stored but the check itself, in the audit ledger.</p>
+      </div>
+      {error && <p role="alert" className="rounded-md bg-fail-50 px-3 py-2 text-sm text-fail-700">{error}</p>}
+      {outcome && (
+        <div role="status" data-testid="verify-outcome" className={`rounded-md px-3 py-2 text-sm ${outcome.match ? "bg-pass-50 text-pass-700" : "bg-fail-50 text-fail-700"}`}>
+          {outcome.match ? (
+            <p>
+              ✓ <strong>{name}</strong> is byte for byte the archived report <span className="mono">{outcome.reportNumber}</span> of cycle{" "}
+              <Link className="underline" href={`/cycles/${outcome.cycleId}`}>{outcome.cycleNumber}</Link>, archived {new Date(outcome.archivedAt).toUTCString()}.
+            </p>
+          ) : (
+            <p>✕ <strong>{name}</strong> does not match any archived report of this site. It may have been altered, or it is a draft.</p>
+          )}
+          <p className="mono mt-1 break-all opacity-80">SHA-256 {outcome.sha256}</p>
+        </div>
+      )}
+    </div>
+  );
+}
