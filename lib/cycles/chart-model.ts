@@ -39,12 +39,21 @@ export function elapsedTickLabels(ticks: number[], spanS: number): string[] {
   return ticks.map((t) => formatElapsed(t, { tenths, forceHours }));
 }
 
-/** The wall-clock time of a sample in the site's time zone, or null without a start time. */
+/** Whether an ISO 8601 date-time names its zone (Z or an offset); logger clocks often do not. */
+export function hasZone(iso: string): boolean {
+  return /(?:[zZ]|[+-]\d{2}:?\d{2})$/.test(iso.trim());
+}
+
+/**
+ * The wall-clock time of a sample in the site's time zone, or null without a start time. A start
+ * time without a zone is the logger's own clock and is shown as it is, not shifted.
+ */
 export function clockTimeAt(startedAt: string | null, seconds: number, timeZone: string): string | null {
   if (!startedAt || !Number.isFinite(seconds)) return null;
-  const start = new Date(startedAt).getTime();
+  const zoned = hasZone(startedAt);
+  const start = new Date(zoned ? startedAt : `${startedAt.trim()}Z`).getTime();
   if (Number.isNaN(start)) return null;
-  return new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", second: "2-digit", hour12: false, timeZone }).format(
+  return new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23", timeZone: zoned ? timeZone : "UTC" }).format(
     new Date(start + seconds * 1000),
   );
 }
@@ -449,4 +458,72 @@ export function thin<T>(items: T[], max: number): T[] {
   const out: T[] = [];
   for (let i = 0; i < max; i++) out.push(items[Math.round((i * (items.length - 1)) / (max - 1))]);
   return out;
+}
+
+export type PhaseRegions = {
+  liquid: Array<[number, number]>;
+  vapour: Array<[number, number]>;
+  /** left of the (nearly upright) melting line through the triple point, where shown */
+  solid: Array<[number, number]> | null;
+  /** above the critical point, where shown */
+  supercritical: Array<[number, number]> | null;
+};
+
+/**
+ * Polygons (temperature °C, pressure kPa) of the liquid and vapour sides within the range, bounded
+ * by the liquid–vapour line. The melting line is drawn upright at the triple-point temperature:
+ * over this chart's pressures it moves by less than a tenth of a kelvin.
+ */
+export function phaseRegions(range: PhaseRange, curve: Array<{ temperatureC: number; pressureKpa: number }>): PhaseRegions | null {
+  if (curve.length < 2) return null;
+  const { tMinC, tMaxC, pMinKpa, pMaxKpa } = range;
+  const line: Array<[number, number]> = curve.map((c) => [c.temperatureC, c.pressureKpa]);
+  const [sT, sP] = line[0];
+  const [eT, eP] = line[line.length - 1];
+  const near = (a: number, b: number) => Math.abs(a - b) <= 1e-6 * Math.max(1, Math.abs(b));
+  const nearP = (a: number, b: number) => Math.abs(Math.log(a / b)) <= 1e-6;
+  const startsAtTriple = near(sT, TRIPLE_POINT.temperatureC) && sT > tMinC && sP > pMinKpa;
+  const endsAtCritical = near(eT, CRITICAL_POINT.temperatureC) && eT < tMaxC && eP < pMaxKpa;
+
+  const liquid: Array<[number, number]> = [...line];
+  const vapour: Array<[number, number]> = [...line];
+  // the far end of the line
+  if (endsAtCritical) {
+    liquid.push([eT, pMaxKpa]);
+    vapour.push([tMaxC, eP]);
+  } else if (nearP(eP, pMaxKpa)) {
+    vapour.push([tMaxC, pMaxKpa]);
+  } else {
+    liquid.push([tMaxC, pMaxKpa]);
+  }
+  vapour.push([tMaxC, pMinKpa]);
+  // the near end of the line
+  if (startsAtTriple) {
+    liquid.push([sT, pMaxKpa]);
+    vapour.push([tMinC, pMinKpa], [tMinC, sP]);
+  } else {
+    liquid.push([tMinC, pMaxKpa]);
+    if (nearP(sP, pMinKpa)) liquid.push([tMinC, pMinKpa]);
+    else vapour.push([tMinC, pMinKpa]);
+  }
+  return {
+    liquid,
+    vapour,
+    solid: startsAtTriple ? [[tMinC, sP], [tMinC, pMaxKpa], [sT, pMaxKpa], [sT, sP]] : null,
+    supercritical: endsAtCritical ? [[eT, eP], [eT, pMaxKpa], [tMaxC, pMaxKpa], [tMaxC, eP]] : null,
+  };
+}
+
+/** Whether a point lies inside a polygon (ray casting in log-pressure space, as drawn). */
+export function insidePolygon(polygon: Array<[number, number]>, temperatureC: number, pressureKpa: number): boolean {
+  const y = Math.log(pressureKpa);
+  let inside = false;
+  for (let i = 0, j = polygon.length - 1; i < polygon.length; j = i++) {
+    const [xi, pi] = polygon[i];
+    const [xj, pj] = polygon[j];
+    const yi = Math.log(pi);
+    const yj = Math.log(pj);
+    if (yi > y !== yj > y && temperatureC < ((xj - xi) * (y - yi)) / (yj - yi) + xi) inside = !inside;
+  }
+  return inside;
 }

@@ -14,6 +14,8 @@ import {
   logTicks,
   panWindow,
   phaseLandmarks,
+  phaseRegions,
+  insidePolygon,
   phaseRange,
   phaseSamples,
   phaseScales,
@@ -75,6 +77,8 @@ describe("the time axis", () => {
     expect(clockTimeAt("2025-03-04T08:00:00.000Z", 65, "Europe/London")).toBe("08:01:05");
     expect(clockTimeAt("2025-03-04T08:00:00.000Z", 65, "Europe/Berlin")).toBe("09:01:05");
     expect(clockTimeAt(null, 65, "Europe/London")).toBeNull();
+    // No zone in the file: the logger's own clock, shown unshifted.
+    expect(clockTimeAt("2025-07-04T08:00:00", 3661, "Europe/Berlin")).toBe("09:01:01");
   });
 });
 
@@ -225,6 +229,30 @@ describe("the phase-diagram view", () => {
     expect(band.colder[0][1]).toBeCloseTo(100, 9);
     expect(band.colder[0][0]).toBeCloseTo(99.605919 - 2, 4); // IF97 Table 36 at 0.1 MPa
     expect(band.hotter[0][0]).toBeCloseTo(99.605919 + 2, 4);
+  });
+
+  it("shades the liquid side above the line and the vapour side below it (IF97: Psat(100 °C) = 101.4 kPa, Psat(140 °C) = 361.5 kPa, from memory)", () => {
+    const range = phaseRange("sterilization", { samples: [], sterilizationTempC: 134, bandK: 3 });
+    const regions = phaseRegions(range, saturationCurveInRange(range))!;
+    expect(insidePolygon(regions.liquid, 100, 300)).toBe(true);
+    expect(insidePolygon(regions.vapour, 100, 300)).toBe(false);
+    expect(insidePolygon(regions.vapour, 140, 200)).toBe(true);
+    expect(insidePolygon(regions.liquid, 140, 200)).toBe(false);
+    expect(insidePolygon(regions.liquid, 140, 400)).toBe(true);
+    expect(regions.solid).toBeNull();
+    expect(regions.supercritical).toBeNull();
+  });
+
+  it("bounds the full view by the triple point and the critical point (IF97 constants: 0.01 °C / 611.657 Pa, 373.946 °C / 22.064 MPa)", () => {
+    const regions = phaseRegions(FULL_PHASE_RANGE, saturationCurveInRange(FULL_PHASE_RANGE, 300))!;
+    expect(insidePolygon(regions.liquid, 50, 1000)).toBe(true);
+    expect(insidePolygon(regions.vapour, 300, 100)).toBe(true);
+    expect(insidePolygon(regions.vapour, 50, 1000)).toBe(false);
+    expect(insidePolygon(regions.solid!, -10, 100)).toBe(true);
+    expect(insidePolygon(regions.liquid, -10, 100)).toBe(false);
+    expect(insidePolygon(regions.supercritical!, 380, 30_000)).toBe(true);
+    expect(insidePolygon(regions.liquid, 380, 30_000)).toBe(false);
+    expect(insidePolygon(regions.vapour, 380, 30_000)).toBe(false);
   });
 
   it("maps temperature linearly and pressure logarithmically, higher pressure upwards", () => {

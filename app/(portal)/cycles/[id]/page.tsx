@@ -1,0 +1,160 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { forbidden, notFound, redirect } from "next/navigation";
+import { currentUser } from "@/lib/auth/guards";
+import { can } from "@/lib/auth/permissions";
+import { getCycleDetail } from "@/db/queries/cycles";
+import { listAuditEventsForEntity } from "@/db/queries/audit";
+import { Panel, EmptyState } from "@/components/ui/panel";
+import { StatusBadge, VerdictBadge } from "@/components/ui/badge";
+import { SignOffPanel } from "@/components/review/sign-off-panel";
+import { Findings } from "@/components/cycles/record/findings";
+import { TimeChart } from "@/components/cycles/record/time-chart";
+import { PhaseDiagram } from "@/components/cycles/record/phase-diagram";
+import {
+  AnalysisHistory,
+  ChannelTable,
+  ChecksTable,
+  FilesList,
+  KeyFigures,
+  ProfileLimits,
+  RecordHistory,
+} from "@/components/cycles/record/record-tables";
+import { SafetyCaution } from "@/components/cycles/record/safety-caution";
+import { formatStartedAt, testKindLabel } from "@/components/cycles/record/record-format";
+import { describeTimeChart } from "@/lib/cycles/chart-model";
+import { formatDateTime } from "@/lib/format";
+
+type Props = { params: Promise<{ id: string }> };
+
+export const metadata: Metadata = { title: "Cycle record" };
+
+export default async function CycleRecordPage({ params }: Props) {
+  // Guard first; a refused role gets a real 403 page rather than an error screen.
+  const actor = await currentUser();
+  if (!actor) redirect("/sign-in");
+  if (!can(actor.role, "cycle:read")) forbidden();
+  const { id } = await params;
+  const detail = await getCycleDetail({ actor, id });
+  if (!detail) notFound();
+  const events = await listAuditEventsForEntity({ entityType: "cycle", entityId: detail.id });
+
+  const tz = detail.site.timeZone;
+  const a = detail.analysis;
+  const profile = detail.profile;
+
+  return (
+    <>
+      <nav aria-label="Breadcrumb" className="mb-2 text-sm text-ink-muted">
+        <Link href="/cycles" className="text-steam-700 hover:underline">Cycles</Link>
+        <span aria-hidden="true"> / </span>
+        <span className="mono">{detail.cycleNumber}</span>
+      </nav>
+      <header className="mb-6 flex flex-wrap items-start justify-between gap-4" data-testid="record-header">
+        <div className="min-w-0">
+          <div className="flex flex-wrap items-center gap-2">
+            <h1>
+              Cycle <span className="mono text-xl">{detail.cycleNumber}</span>
+            </h1>
+            <VerdictBadge verdict={detail.verdict} />
+            <StatusBadge status={detail.status} />
+          </div>
+          <p className="mt-1 text-sm text-ink-soft">
+            {testKindLabel(detail.testKind)} on <span className="font-medium">{detail.sterilizer.name}</span>
+            <span className="text-ink-muted"> (serial {detail.sterilizer.serialNumber}, {detail.sterilizer.chamberVolumeL} L)</span> against{" "}
+            <span className="font-medium">{profile.name}</span>
+          </p>
+          <p className="mt-0.5 text-sm text-ink-muted">
+            Started {formatStartedAt(detail.startedAt, tz)} · registered by {detail.createdBy.name} on {formatDateTime(detail.createdAt, tz)}
+            {detail.submittedAt ? ` · submitted ${formatDateTime(detail.submittedAt, tz)}` : ""}
+            {detail.instrument ? ` · logger ${detail.instrument.name} (${detail.instrument.serialNumber})` : ""}
+          </p>
+          {detail.loadDescription && <p className="mt-0.5 text-sm text-ink-muted">Load: {detail.loadDescription}</p>}
+          {detail.supersedesId && (
+            <p className="mt-0.5 text-sm">
+              <Link href={`/cycles/${detail.supersedesId}`} className="text-steam-700 underline">This record replaces an earlier one</Link>
+            </p>
+          )}
+        </div>
+        {detail.report && (
+          <a href={`/api/cycles/${detail.id}/report`} className="btn-secondary">
+            Report {detail.report.reportNumber} (PDF)
+          </a>
+        )}
+      </header>
+
+      <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_20rem]">
+        <div className="min-w-0 space-y-gutter">
+          <Panel title="What the analysis found">
+            <Findings detail={detail} />
+          </Panel>
+
+          <Panel title="Temperatures and pressure over time">
+            {a ? (
+              <TimeChart
+                cycleId={detail.id}
+                cycleNumber={detail.cycleNumber}
+                timeZone={tz}
+                summary={describeTimeChart(a, { sterilizationTempC: a.limits.sterilizationTempC, bandK: a.limits.bandK })}
+              />
+            ) : (
+              <EmptyState title="No chart without an analysis">The chart appears once a logger file has been analysed.</EmptyState>
+            )}
+          </Panel>
+
+          <Panel title="The cycle on the water phase diagram">
+            {a ? (
+              <PhaseDiagram
+                cycleId={detail.id}
+                cycleNumber={detail.cycleNumber}
+                plateau={a.plateau}
+                sterilizationTempC={a.limits.sterilizationTempC}
+                bandK={a.limits.bandK}
+                saturationLimitK={a.limits.saturationLimitK}
+                referenceChannel={a.referenceChannel}
+                pressureChannel={a.pressureChannel}
+              />
+            ) : (
+              <EmptyState title="No phase diagram without an analysis" />
+            )}
+          </Panel>
+
+          <Panel title="Checks">
+            {a ? <ChecksTable analysis={a} /> : <EmptyState title="No checks without an analysis" />}
+          </Panel>
+
+          <Panel title="Channels">
+            {a ? <ChannelTable analysis={a} /> : <EmptyState title="No channel figures without an analysis" />}
+          </Panel>
+
+          <Panel title={`Files (${detail.files.length})`}>
+            <FilesList files={detail.files} timeZone={tz} />
+          </Panel>
+
+          <div className="grid gap-gutter lg:grid-cols-2">
+            <Panel title="Analyses">
+              <AnalysisHistory history={detail.analysisHistory} currentId={detail.analysisId} timeZone={tz} />
+            </Panel>
+            <Panel title="Record history">
+              <RecordHistory
+                events={events.map((e) => ({ seq: e.seq, at: e.at, actorEmail: e.actorEmail, action: e.action, reason: e.reason, newValue: e.newValue }))}
+                timeZone={tz}
+              />
+            </Panel>
+          </div>
+        </div>
+
+        <aside className="space-y-gutter" aria-label="Figures and sign-off">
+          <Panel title="Key figures">
+            <KeyFigures analysis={a} />
+          </Panel>
+          <SignOffPanel detail={detail} actor={{ id: actor.id, role: actor.role, name: actor.name }} />
+          <Panel title="Acceptance profile">
+            <ProfileLimits profile={profile} />
+          </Panel>
+          <SafetyCaution />
+        </aside>
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,229 @@
+import type { AnalysisResult } from "@/lib/analysis/types";
+import type { CycleDetail } from "@/lib/cycles/contracts";
+import { EmptyState } from "@/components/ui/panel";
+import { Badge, VerdictBadge } from "@/components/ui/badge";
+import { formatBytes, formatDateTime, formatNumber, formatSeconds } from "@/lib/format";
+import { formatElapsed } from "@/lib/cycles/chart-model";
+import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
+
+export function ChecksTable({ analysis }: { analysis: AnalysisResult }) {
+  return (
+    <div className="overflow-x-auto">
+      <table className="data-table" data-testid="checks-table">
+        <caption className="sr-only">Checks against the acceptance profile</caption>
+        <thead>
+          <tr>
+            <th scope="col">Check</th>
+            <th scope="col">Measured</th>
+            <th scope="col">Limit</th>
+            <th scope="col">Basis</th>
+            <th scope="col">Result</th>
+          </tr>
+        </thead>
+        <tbody>
+          {analysis.checks.map((c) => (
+            <tr key={c.id} className={c.passed ? "" : "bg-fail-50/60"}>
+              <td className="font-medium">{c.label}</td>
+              <td className="whitespace-nowrap tabular-nums">{formatFigure(c.measured, c.unit)}</td>
+              <td className="whitespace-nowrap tabular-nums">{formatLimit(c)}</td>
+              <td className="text-xs text-ink-muted">{c.basis}</td>
+              <td>{c.passed ? <Badge tone="pass">✓ Pass</Badge> : <Badge tone="fail">✕ Fail</Badge>}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
+  const ref = analysis.limits.f0ReferenceC;
+  const z = analysis.limits.f0ZK;
+  const hold = analysis.saturationTemperatureDuringHold;
+  return (
+    <>
+      <div className="overflow-x-auto">
+        <table className="data-table" data-testid="channel-table">
+          <caption className="sr-only">Temperature channels during holding</caption>
+          <thead>
+            <tr>
+              <th scope="col">Channel</th>
+              <th scope="col">Role</th>
+              <th scope="col" className="text-right">Min (°C)</th>
+              <th scope="col" className="text-right">Max (°C)</th>
+              <th scope="col" className="text-right">Mean (°C)</th>
+              <th scope="col" className="text-right">Reached Ts after plateau start</th>
+              <th scope="col" className="text-right">F0 (min)</th>
+            </tr>
+          </thead>
+          <tbody>
+            {analysis.channels.map((ch) => (
+              <tr key={ch.header}>
+                <td className="font-medium">{ch.header}</td>
+                <td>{ch.role === "reference" ? <Badge tone="steam">Reference (drain)</Badge> : "Load"}</td>
+                <td className="text-right tabular-nums">{formatNumber(ch.minDuringHold, 2)}</td>
+                <td className="text-right tabular-nums">{formatNumber(ch.maxDuringHold, 2)}</td>
+                <td className="text-right tabular-nums">{formatNumber(ch.meanDuringHold, 2)}</td>
+                <td className="text-right tabular-nums">
+                  {ch.arrivalAfterPlateauStart === null ? (
+                    <span className="text-fail-700">never</span>
+                  ) : (
+                    `${formatNumber(ch.arrivalAfterPlateauStart, ch.arrivalAfterPlateauStart < 10 ? 1 : 0)} s`
+                  )}
+                </td>
+                <td className="text-right tabular-nums">{formatNumber(ch.f0, 1)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <p className="mt-2 text-xs text-ink-muted">
+        Min, max and mean over the holding time{analysis.holdingTime === null ? " (none here, so no figures)" : ""}. F0 over the whole record with
+        T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber pressure from {analysis.pressureChannel}
+        {hold ? `; its saturation temperature during holding was ${formatNumber(hold.min, 2)} to ${formatNumber(hold.max, 2)} °C (mean ${formatNumber(hold.mean, 2)} °C).` : "."}
+      </p>
+    </>
+  );
+}
+
+export function KeyFigures({ analysis }: { analysis: AnalysisResult | null }) {
+  if (!analysis) return <EmptyState title="No figures without an analysis" />;
+  const rows: Array<[string, string]> = [
+    ["Plateau", analysis.plateau ? `${formatElapsed(analysis.plateau.start)} – ${formatElapsed(analysis.plateau.end)}` : "not reached"],
+    ["Equilibration time", formatSeconds(analysis.equilibrationTime)],
+    ["Holding time", formatSeconds(analysis.holdingTime)],
+    [
+      "Deviation from saturation",
+      analysis.saturation.lowestDeviation === null || analysis.saturation.highestDeviation === null
+        ? "—"
+        : `${signed(analysis.saturation.lowestDeviation)} to ${signed(analysis.saturation.highestDeviation)} K`,
+    ],
+    ["F0 of the reference", `${formatNumber(analysis.f0[analysis.referenceChannel] ?? null, 1)} min`],
+    ["Samples", `${analysis.record.samples.toLocaleString("en-GB")} over ${formatElapsed(analysis.record.durationS)}, every ${formatNumber(analysis.record.medianSampleIntervalS, analysis.record.medianSampleIntervalS < 10 ? 1 : 0)} s`],
+  ];
+  return (
+    <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1.5 text-sm" data-testid="key-figures">
+      {rows.map(([k, v]) => (
+        <div key={k} className="contents">
+          <dt className="text-ink-muted">{k}</dt>
+          <dd className="text-right font-medium tabular-nums">{v}</dd>
+        </div>
+      ))}
+    </dl>
+  );
+}
+
+export function ProfileLimits({ profile }: { profile: CycleDetail["profile"] }) {
+  const rows: Array<[string, string]> = [
+    ["Sterilization temperature", `${profile.sterilizationTempC} °C`],
+    ["Band above it", `${profile.bandK} K`],
+    ["Minimum holding time", formatSeconds(profile.holdingTimeS)],
+    ["Longest equilibration", `${profile.maxEquilibrationS} s`],
+    ["Largest spread", `${profile.maxSpreadK} K`],
+    ["Saturation limit", `± ${profile.saturationLimitK} K`],
+    ["F0 reference, z", `${profile.f0ReferenceC} °C, ${profile.f0ZK} K`],
+  ];
+  return (
+    <>
+      <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1.5 text-sm">
+        {rows.map(([k, v]) => (
+          <div key={k} className="contents">
+            <dt className="text-ink-muted">{k}</dt>
+            <dd className="text-right tabular-nums">{v}</dd>
+          </div>
+        ))}
+      </dl>
+      {profile.basis && <p className="mt-2 text-xs text-ink-muted">{profile.basis}</p>}
+    </>
+  );
+}
+
+export function FilesList({ files, timeZone }: { files: CycleDetail["files"]; timeZone: string }) {
+  if (files.length === 0) return <EmptyState title="No files on this record" />;
+  return (
+    <ul className="divide-y divide-ink-line/60" data-testid="files-list">
+      {files.map((f) => {
+        const mapping = describeMapping(f.mapping);
+        return (
+          <li key={f.id} className="py-3 first:pt-0 last:pb-0">
+            <div className="flex flex-wrap items-baseline justify-between gap-2">
+              <p className="font-medium break-all">{f.name}</p>
+              <p className="text-xs text-ink-muted">
+                {formatBytes(f.size)} · uploaded by {f.uploadedBy} · {formatDateTime(f.uploadedAt, timeZone)}
+              </p>
+            </div>
+            <p className="mt-1 text-xs text-ink-muted">
+              SHA-256 <span className="mono break-all text-ink-soft" data-testid="file-sha256">{f.sha256}</span>
+            </p>
+            <p className="mt-1 text-xs text-ink-soft">{describeDialect(f.dialect)}</p>
+            {f.dialect && (
+              <p className="mt-1 text-xs text-ink-soft">
+                Mapping: {mapping.length ? mapping.join("; ") : "as guessed from the headers and values, no corrections"}.
+              </p>
+            )}
+          </li>
+        );
+      })}
+    </ul>
+  );
+}
+
+export function AnalysisHistory({ history, currentId, timeZone }: { history: CycleDetail["analysisHistory"]; currentId: string | null; timeZone: string }) {
+  if (history.length === 0) return <EmptyState title="Not analysed yet" />;
+  return (
+    <div className="overflow-x-auto">
+      <table className="data-table" data-testid="analysis-history">
+        <thead>
+          <tr>
+            <th scope="col">When</th>
+            <th scope="col">Verdict</th>
+            <th scope="col">Engine</th>
+            <th scope="col">Input hash (SHA-256 of file, mapping and limits)</th>
+          </tr>
+        </thead>
+        <tbody>
+          {history.map((h) => (
+            <tr key={h.id}>
+              <td className="whitespace-nowrap">
+                {formatDateTime(h.createdAt, timeZone)}
+                {h.id === currentId && <span className="ml-2"><Badge tone="steam">current</Badge></span>}
+              </td>
+              <td><VerdictBadge verdict={h.verdict} /></td>
+              <td className="mono">{h.engineVersion}</td>
+              <td className="mono break-all">{h.inputHash}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+export type HistoryEvent = { seq: number; at: string; actorEmail: string | null; action: string; reason: string | null; newValue: string | null };
+
+export function RecordHistory({ events, timeZone }: { events: HistoryEvent[]; timeZone: string }) {
+  if (events.length === 0) return <EmptyState title="No events recorded for this cycle" />;
+  return (
+    <ol className="relative space-y-3 border-l border-ink-line pl-4" data-testid="record-history">
+      {events.map((e) => {
+        const summary = summariseAuditValue(e.newValue);
+        return (
+          <li key={e.seq} className="text-sm">
+            <span aria-hidden="true" className="absolute -left-[5px] mt-1.5 h-2.5 w-2.5 rounded-full border border-ink-line bg-paper-raised" />
+            <p>
+              <span className="font-medium">{actionLabel(e.action)}</span>
+              <span className="text-ink-muted"> · {formatDateTime(e.at, timeZone)} · {e.actorEmail ?? "system"}</span>
+            </p>
+            {e.reason && <p className="text-ink-soft">Reason: {e.reason}</p>}
+            {summary && <p className="mono text-ink-muted break-all">{summary}</p>}
+            <p className="text-2xs text-ink-faint">Ledger event #{e.seq} · {e.action}</p>
+          </li>
+        );
+      })}
+    </ol>
+  );
+}
+
+function signed(v: number): string {
+  return `${v > 0 ? "+" : v < 0 ? "−" : ""}${Math.abs(v).toFixed(2)}`;
+}
