@@ -91,15 +91,17 @@ function sampleNumbers(rows: string[][], index: number, decimal: DecimalMark): n
   return values;
 }
 
+/** Mostly numbers: the odd text cell is left for the reader to report with its row. */
 function columnIsNumeric(rows: string[][], index: number): boolean {
-  let seen = 0;
+  let filled = 0;
+  let numeric = 0;
   for (const row of rows) {
     const cell = (row[index] ?? "").trim();
     if (cell === "") continue;
-    if (!looksNumeric(cell)) return false;
-    seen++;
+    filled++;
+    if (looksNumeric(cell)) numeric++;
   }
-  return seen > 0;
+  return numeric > 0 && numeric >= Math.ceil(filled * 0.6);
 }
 
 function columnIsEmpty(rows: string[][], index: number): boolean {

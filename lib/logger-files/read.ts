@@ -125,7 +125,7 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
   const fieldEnds = new Int32Array(width + 1);
 
   const failRow = (lineIndex: number, message: string): never => {
-    throw new LoggerFileError(`Row ${lineIndex + 1}, ${message}`);
+    throw new LoggerFileError(`Row ${lineIndex + 1}${message.startsWith("column") ? ", " : " "}${message}`);
   };
   let footerFrom = -1;
 

@@ -147,7 +147,7 @@ export function findTable(prepared: PreparedText): TableLayout {
     let width = 0;
     let best = 0;
     for (const [c, n] of frequency) if (n > best || (n === best && c > width)) [width, best] = [c, n];
-    if (width >= 2 && best / tail.length >= 0.8) {
+    if (width >= 2 && best / tail.length >= 0.6) {
       chosen = { delimiter, width };
       break;
     }

@@ -172,8 +172,11 @@ export type TimeFormatGuess = { format: TimeFormat; unsure: string[] } | null;
 
 /** Guesses the date-time format of a column from sample cells; null if they are not date-times or clock times. */
 export function guessTimeFormat(cells: string[]): TimeFormatGuess {
-  const nonEmpty = cells.filter((c) => c.trim() !== "");
-  if (nonEmpty.length === 0) return null;
+  const filled = cells.filter((c) => c.trim() !== "");
+  if (filled.length === 0) return null;
+  // A stray cell (a typo, a comment) must not hide the column: the reader reports it by row later.
+  const nonEmpty = filled.filter((c) => ISO_RE.test(c) || CLOCK_RE.test(c) || DATE_TIME_RE.test(c));
+  if (nonEmpty.length === 0 || nonEmpty.length < Math.ceil(filled.length * 0.6)) return null;
   if (nonEmpty.every((c) => ISO_RE.test(c))) return { format: "iso", unsure: [] };
   if (nonEmpty.every((c) => CLOCK_RE.test(c))) return { format: "clock", unsure: [] };
   const matches = nonEmpty.map((c) => DATE_TIME_RE.exec(c));
