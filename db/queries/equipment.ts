@@ -4,6 +4,7 @@ import { getDb } from "@/db";
 import {
   acceptanceProfiles,
   analyses,
+  auditEvents,
   calibrationCertificates,
   cycles,
   instruments,
@@ -224,7 +225,21 @@ export async function getProfile({ actor, id }: { actor: Actor; id: string }) {
   const [row] = await getDb().select().from(acceptanceProfiles).where(and(eq(acceptanceProfiles.id, id), eq(acceptanceProfiles.siteId, siteOf(actor)))).limit(1);
   if (!row) throw new AppError(404, "That acceptance profile was not found on your site.");
   const [{ n }] = await getDb().select({ n: count() }).from(cycles).where(eq(cycles.profileId, id));
-  return { ...row, cycleCount: n };
+  let replacedBy: { id: string; name: string } | null = null;
+  if (!row.active) {
+    const [retire] = await getDb()
+      .select({ newValue: auditEvents.newValue })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.entityType, "acceptance-profile"), eq(auditEvents.entityId, id), eq(auditEvents.action, "profile.retire")))
+      .orderBy(desc(auditEvents.seq))
+      .limit(1);
+    const successorId = retire?.newValue ? (JSON.parse(retire.newValue) as { replacedBy?: string }).replacedBy : undefined;
+    if (successorId) {
+      const [next] = await getDb().select({ id: acceptanceProfiles.id, name: acceptanceProfiles.name }).from(acceptanceProfiles).where(eq(acceptanceProfiles.id, successorId)).limit(1);
+      replacedBy = next ?? null;
+    }
+  }
+  return { ...row, cycleCount: n, replacedBy };
 }
 
 const PROFILE_LIMIT_KEYS = ["name", "sterilizationTempC", "bandK", "holdingTimeS", "maxEquilibrationS", "maxSpreadK", "saturationLimitK", "f0ReferenceC", "f0ZK", "basis"] as const;

@@ -15,6 +15,7 @@ export const updateProfileAction = formAction("equipment:manage", updateProfileS
   const outcome = await updateProfile({ actor, id, input, reason });
   revalidatePath("/profiles");
   revalidatePath("/sterilizers");
+  revalidatePath(`/profiles/${id}`);
   if (outcome.mode === "unchanged") return "Nothing changed.";
   if (outcome.mode === "in-place") return "The profile was updated. No cycle had been analysed against it yet.";
   return `Cycles were analysed against the old limits, so a new version was created and the old one retired${outcome.moved ? `; ${outcome.moved} sterilizer${outcome.moved === 1 ? " now uses" : "s now use"} the new version by default` : ""}.`;

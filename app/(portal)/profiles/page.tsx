@@ -1,0 +1,79 @@
+import Link from "next/link";
+import { pageActor } from "@/components/equipment/page-actor";
+import { can } from "@/lib/auth/permissions";
+import { listProfiles } from "@/db/queries/equipment";
+import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
+import { Badge } from "@/components/ui/badge";
+import { ProfileForm } from "@/components/equipment/profile-form";
+import { formatDate, formatSeconds } from "@/lib/format";
+
+export const metadata = { title: "Acceptance profiles" };
+
+export default async function ProfilesPage() {
+  const actor = await pageActor("equipment:read");
+  const manage = can(actor.role, "equipment:manage");
+  const rows = await listProfiles({ actor });
+  const active = rows.filter((r) => r.active);
+  const retired = rows.filter((r) => !r.active);
+  return (
+    <>
+      <PageHeader
+        title="Acceptance profiles"
+        subtitle="The limits each cycle is judged against. A profile that cycles were analysed with is never changed in place: an edit creates a new version and retires the old one."
+        actions={<Link href="/sterilizers" className="btn-secondary">Sterilizers</Link>}
+      />
+      <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[1fr_26rem]" : ""}`}>
+        <div className="space-y-gutter">
+          <Panel title={`${active.length} profile${active.length === 1 ? "" : "s"} in use`}>
+            {active.length === 0 ? <EmptyState title="No acceptance profile yet." /> : <ProfileTable rows={active} />}
+          </Panel>
+          {retired.length > 0 && (
+            <Panel title={`${retired.length} retired version${retired.length === 1 ? "" : "s"}`}>
+              <p className="mb-3 text-sm text-ink-muted">Kept because cycles were analysed against them; they cannot be chosen for new cycles.</p>
+              <ProfileTable rows={retired} />
+            </Panel>
+          )}
+        </div>
+        {manage && (
+          <Panel title="New acceptance profile">
+            <ProfileForm />
+          </Panel>
+        )}
+      </div>
+    </>
+  );
+}
+
+function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof listProfiles>> }) {
+  return (
+    <div className="overflow-x-auto">
+      <table className="data-table" data-testid="profiles-table">
+        <thead>
+          <tr><th>Profile</th><th>Band</th><th>Hold ≥</th><th>Equil. ≤</th><th>Spread ≤</th><th>Saturation ±</th><th>F0</th><th>Used by</th></tr>
+        </thead>
+        <tbody>
+          {rows.map((p) => (
+            <tr key={p.id}>
+              <td>
+                <Link href={`/profiles/${p.id}`} className="font-medium text-steam-700 hover:underline">{p.name}</Link>
+                {!p.active && <> <Badge>Retired</Badge></>}
+                <p className="max-w-xs text-xs text-ink-muted">{p.basis}</p>
+                <p className="text-2xs text-ink-faint">Created {formatDate(p.createdAt)}</p>
+              </td>
+              <td className="whitespace-nowrap">{p.sterilizationTempC}–{+(p.sterilizationTempC + p.bandK).toFixed(2)} °C</td>
+              <td className="whitespace-nowrap">{formatSeconds(p.holdingTimeS)}</td>
+              <td>{p.maxEquilibrationS} s</td>
+              <td>{p.maxSpreadK} K</td>
+              <td>{p.saturationLimitK} K</td>
+              <td className="whitespace-nowrap text-xs">{p.f0ReferenceC} °C, z {p.f0ZK} K</td>
+              <td className="text-xs">
+                {p.cycleCount} cycle{p.cycleCount === 1 ? "" : "s"}
+                {p.defaultFor.length > 0 && <p className="text-ink-muted">Default for {p.defaultFor.join(", ")}</p>}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

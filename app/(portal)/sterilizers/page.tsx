@@ -1,0 +1,107 @@
+import Link from "next/link";
+import { pageActor } from "@/components/equipment/page-actor";
+import { can } from "@/lib/auth/permissions";
+import { listActiveProfileChoices, listSterilizers, getSiteContext } from "@/db/queries/equipment";
+import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
+import { Badge, VerdictBadge } from "@/components/ui/badge";
+import { SterilizerForm } from "@/components/equipment/sterilizer-form";
+import { formatDateTime, PERIODIC_TEST_LABELS } from "@/lib/format";
+
+export const metadata = { title: "Sterilizers" };
+
+export default async function SterilizersPage() {
+  const actor = await pageActor("equipment:read");
+  const manage = can(actor.role, "equipment:manage");
+  const [rows, profiles, { timeZone }] = await Promise.all([listSterilizers({ actor }), manage ? listActiveProfileChoices({ actor }) : Promise.resolve([]), getSiteContext({ actor })]);
+  return (
+    <>
+      <PageHeader
+        title="Sterilizers"
+        subtitle="Each chamber with its size class, default acceptance profile, latest cycle and the periodic tests that need doing."
+        actions={
+          <>
+            <Link href="/profiles" className="btn-secondary">Acceptance profiles</Link>
+            <Link href="/periodic-tests" className="btn-secondary">Periodic tests</Link>
+          </>
+        }
+      />
+      <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[1fr_22rem]" : ""}`}>
+        <Panel title={`${rows.length} sterilizer${rows.length === 1 ? "" : "s"}`}>
+          {rows.length === 0 ? (
+            <EmptyState title="No sterilizer is registered for this site yet.">{manage ? "Add the first one with the form beside this list." : "An engineer adds sterilizers."}</EmptyState>
+          ) : (
+            <div className="overflow-x-auto">
+              <table className="data-table" data-testid="sterilizers-table">
+                <thead>
+                  <tr>
+                    <th>Sterilizer</th>
+                    <th>Chamber</th>
+                    <th>Default profile</th>
+                    <th>Latest cycle</th>
+                    <th>Tests needing action</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {rows.map((s) => (
+                    <tr key={s.id} className={s.active ? "" : "opacity-60"}>
+                      <td>
+                        <Link href={`/sterilizers/${s.id}`} className="font-medium text-steam-700 hover:underline">{s.name}</Link>
+                        <p className="mono text-ink-muted">{s.serialNumber}</p>
+                        {!s.active && <Badge>Retired</Badge>}
+                      </td>
+                      <td>
+                        <p className="tabular-nums">{s.chamberVolumeL} l</p>
+                        <p className="text-xs text-ink-muted">{s.sizeClass.standard}{s.sizeClass.maxEquilibrationS !== null && <> · equilibration ≤ {s.sizeClass.maxEquilibrationS} s</>}</p>
+                      </td>
+                      <td className="text-sm">
+                        {s.defaultProfile ? (
+                          <Link href={`/profiles/${s.defaultProfile.id}`} className="hover:underline">{s.defaultProfile.name}</Link>
+                        ) : (
+                          <span className="text-ink-muted">None set</span>
+                        )}
+                      </td>
+                      <td>
+                        {s.lastCycle ? (
+                          <div className="space-y-1">
+                            <Link href={`/cycles/${s.lastCycle.id}`} className="mono font-medium text-steam-700 hover:underline">{s.lastCycle.cycleNumber}</Link>
+                            <p className="text-xs text-ink-muted">{formatDateTime(s.lastCycle.startedAt ?? s.lastCycle.createdAt, timeZone)}</p>
+                            <VerdictBadge verdict={s.lastCycle.verdict} />
+                          </div>
+                        ) : (
+                          <span className="text-sm text-ink-muted">No cycle yet</span>
+                        )}
+                      </td>
+                      <td>
+                        {s.scheduledTests === 0 ? (
+                          <span className="text-sm text-ink-muted">No schedule set</span>
+                        ) : s.testsNeedingAction.length === 0 ? (
+                          <Badge tone="pass">✓ All up to date</Badge>
+                        ) : (
+                          <ul className="space-y-1">
+                            {s.testsNeedingAction.map((t) => (
+                              <li key={t.kind}>
+                                <Badge tone={t.status.state === "due-today" ? "caution" : "fail"}>
+                                  {t.status.state === "due-today" ? "▲" : "✕"} {PERIODIC_TEST_LABELS[t.kind]}
+                                  {t.status.state === "overdue" ? " · overdue" : t.status.state === "due-today" ? " · today" : t.status.state === "failed" ? " · failed" : " · never done"}
+                                </Badge>
+                              </li>
+                            ))}
+                          </ul>
+                        )}
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          )}
+        </Panel>
+        {manage && (
+          <Panel title="Add a sterilizer">
+            <SterilizerForm profiles={profiles} />
+          </Panel>
+        )}
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,79 @@
+"use client";
+
+import { useState } from "react";
+import { createProfileAction, updateProfileAction } from "@/app/(portal)/profiles/actions";
+import { FormMessage, TextInput, useFormAction } from "./form-bits";
+
+type Values = Record<(typeof KEYS)[number], string>;
+const KEYS = ["name", "sterilizationTempC", "bandK", "holdingTimeS", "maxEquilibrationS", "maxSpreadK", "saturationLimitK", "f0ReferenceC", "f0ZK", "basis"] as const;
+
+// DOMAIN.md §2.2 / §2.3: EN 285 bands and minimum holding times; F0 at 121.1 °C, z = 10 K (US/PDA practice).
+const PRESETS: Array<{ label: string; values: Partial<Values> }> = [
+  { label: "134 °C / 3 min", values: { name: "134 °C / 3 min", sterilizationTempC: "134", holdingTimeS: "180", basis: "EN 285 / HTM 01-01: band 134–137 °C, holding time ≥ 3 min" } },
+  { label: "126 °C / 10 min", values: { name: "126 °C / 10 min", sterilizationTempC: "126", holdingTimeS: "600", basis: "EN 285 / HTM 01-01: band 126–129 °C, holding time ≥ 10 min" } },
+  { label: "121 °C / 15 min", values: { name: "121 °C / 15 min", sterilizationTempC: "121", holdingTimeS: "900", basis: "EN 285 / HTM 01-01: band 121–124 °C, holding time ≥ 15 min" } },
+];
+
+const DEFAULTS: Values = {
+  name: "",
+  sterilizationTempC: "134",
+  bandK: "3",
+  holdingTimeS: "180",
+  maxEquilibrationS: "15",
+  maxSpreadK: "2",
+  saturationLimitK: "2",
+  f0ReferenceC: "121.1",
+  f0ZK: "10",
+  basis: "",
+};
+
+export type ProfileFormValues = { id: string; cycleCount: number } & { [K in (typeof KEYS)[number]]: string | number };
+
+export function ProfileForm({ profile }: { profile?: ProfileFormValues }) {
+  const editing = !!profile;
+  const { state, pending, formRef, onSubmit, errors } = useFormAction(editing ? updateProfileAction : createProfileAction);
+  const [values, setValues] = useState<Values>(() => (profile ? (Object.fromEntries(KEYS.map((k) => [k, String(profile[k])])) as Values) : DEFAULTS));
+  const set = (k: keyof Values) => (v: string) => setValues((old) => ({ ...old, [k]: v }));
+  const p = editing ? "edit-profile" : "new-profile";
+  const ts = Number(values.sterilizationTempC);
+  const band = Number(values.bandK);
+  return (
+    <form ref={formRef} onSubmit={onSubmit} className="space-y-3" noValidate aria-label={editing ? "Edit acceptance profile" : "New acceptance profile"}>
+      {editing && <input type="hidden" name="id" value={profile.id} />}
+      {!editing && (
+        <div>
+          <p className="field-label">Start from</p>
+          <div className="flex flex-wrap gap-2">
+            {PRESETS.map((pr) => (
+              <button key={pr.label} type="button" className="btn-secondary px-2 py-1 text-xs" onClick={() => setValues({ ...DEFAULTS, ...pr.values })}>
+                {pr.label}
+              </button>
+            ))}
+          </div>
+        </div>
+      )}
+      {editing && profile.cycleCount > 0 && (
+        <p className="rounded-md bg-caution-50 px-3 py-2 text-sm text-caution-700" role="note">
+          ▲ {profile.cycleCount} cycle{profile.cycleCount === 1 ? " was" : "s were"} analysed against this profile. Saving creates a <strong>new version</strong> with these limits and retires this one, so those records keep the limits they were judged by. Sterilizers that use it by default move to the new version.
+        </p>
+      )}
+      <TextInput id={`${p}-name`} name="name" label="Name" error={errors.name} value={values.name} onChange={set("name")} />
+      <div className="grid grid-cols-2 gap-3">
+        <TextInput id={`${p}-ts`} name="sterilizationTempC" label="Sterilization temperature" suffix="°C" inputMode="decimal" error={errors.sterilizationTempC} value={values.sterilizationTempC} onChange={set("sterilizationTempC")} hint="100–140 °C" />
+        <TextInput id={`${p}-band`} name="bandK" label="Band width" suffix="K" inputMode="decimal" error={errors.bandK} value={values.bandK} onChange={set("bandK")} hint={Number.isFinite(ts + band) ? `Band ${ts}–${+(ts + band).toFixed(2)} °C` : undefined} />
+        <TextInput id={`${p}-hold`} name="holdingTimeS" label="Minimum holding time" suffix="s" inputMode="decimal" error={errors.holdingTimeS} value={values.holdingTimeS} onChange={set("holdingTimeS")} hint={Number(values.holdingTimeS) > 0 ? `${+(Number(values.holdingTimeS) / 60).toFixed(2)} min` : undefined} />
+        <TextInput id={`${p}-eq`} name="maxEquilibrationS" label="Longest equilibration" suffix="s" inputMode="decimal" error={errors.maxEquilibrationS} value={values.maxEquilibrationS} onChange={set("maxEquilibrationS")} hint="EN 285: 15 s up to 800 l, 30 s above" />
+        <TextInput id={`${p}-spread`} name="maxSpreadK" label="Largest spread" suffix="K" inputMode="decimal" error={errors.maxSpreadK} value={values.maxSpreadK} onChange={set("maxSpreadK")} hint="Between channels during holding" />
+        <TextInput id={`${p}-sat`} name="saturationLimitK" label="Saturation limit" suffix="K" inputMode="decimal" error={errors.saturationLimitK} value={values.saturationLimitK} onChange={set("saturationLimitK")} hint="|reference − Tsat(p)|" />
+        <TextInput id={`${p}-f0ref`} name="f0ReferenceC" label="F0 reference" suffix="°C" inputMode="decimal" error={errors.f0ReferenceC} value={values.f0ReferenceC} onChange={set("f0ReferenceC")} hint="121.1 (US/PDA) or 121 (Ph. Eur.)" />
+        <TextInput id={`${p}-z`} name="f0ZK" label="z-value" suffix="K" inputMode="decimal" error={errors.f0ZK} value={values.f0ZK} onChange={set("f0ZK")} />
+      </div>
+      <TextInput id={`${p}-basis`} name="basis" label="Basis of these limits" error={errors.basis} value={values.basis} onChange={set("basis")} hint="Standard, clause or protocol; shown beside every check." />
+      {editing && <TextInput id={`${p}-reason`} name="reason" label="Reason for the change" error={errors.reason} hint="Written to the audit ledger with the old and new limits." />}
+      <FormMessage state={state} />
+      <button className="btn-primary w-full" disabled={pending}>
+        {pending ? "Saving…" : editing ? (profile.cycleCount > 0 ? "Save as a new version" : "Save changes") : "Create profile"}
+      </button>
+    </form>
+  );
+}

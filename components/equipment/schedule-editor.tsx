@@ -1,0 +1,117 @@
+"use client";
+
+import { useState } from "react";
+import { removeScheduleAction, saveScheduleAction } from "@/app/(portal)/sterilizers/actions";
+import { PERIODIC_TEST_LABELS } from "@/lib/format";
+import { Field, FormMessage, TextInput, useFormAction } from "./form-bits";
+
+type Row = { kind: string; intervalDays: number };
+
+// Common practice (DOMAIN.md §2.12, HTM 01-01 Part C in outline): offered as starting values only.
+const SUGGESTED_INTERVAL: Record<string, number> = {
+  "bowie-dick": 1,
+  "air-leakage": 7,
+  "thermometric-small-load": 91,
+  "thermometric-full-load": 365,
+  "steam-non-condensable-gas": 365,
+  "steam-superheat": 365,
+  "steam-dryness": 365,
+};
+
+export function ScheduleEditor({ sterilizerId, rows, kinds }: { sterilizerId: string; rows: Row[]; kinds: readonly string[] }) {
+  const unscheduled = kinds.filter((k) => !rows.some((r) => r.kind === k));
+  return (
+    <div className="space-y-4">
+      {rows.map((r) => (
+        <ScheduleRowForm key={r.kind} sterilizerId={sterilizerId} row={r} />
+      ))}
+      {unscheduled.length > 0 && <AddSchedule sterilizerId={sterilizerId} kinds={unscheduled} />}
+    </div>
+  );
+}
+
+function ScheduleRowForm({ sterilizerId, row }: { sterilizerId: string; row: Row }) {
+  const save = useFormAction(saveScheduleAction);
+  const remove = useFormAction(removeScheduleAction);
+  const [removing, setRemoving] = useState(false);
+  const id = `sched-${row.kind}`;
+  return (
+    <div className="rounded-md border border-ink-line p-3">
+      <p className="text-sm font-medium">{PERIODIC_TEST_LABELS[row.kind] ?? row.kind}</p>
+      <form onSubmit={save.onSubmit} className="mt-2 grid gap-2 sm:grid-cols-[8rem_1fr_auto] sm:items-end" noValidate>
+        <input type="hidden" name="sterilizerId" value={sterilizerId} />
+        <input type="hidden" name="kind" value={row.kind} />
+        <TextInput id={`${id}-interval`} name="intervalDays" label="Interval" suffix="days" inputMode="numeric" defaultValue={row.intervalDays} error={save.errors.intervalDays} />
+        <TextInput id={`${id}-reason`} name="reason" label="Reason for a change" error={save.errors.reason} />
+        <button className="btn-secondary" disabled={save.pending}>
+          {save.pending ? "Saving…" : "Save"}
+        </button>
+      </form>
+      <div className="mt-2">
+        <FormMessage state={save.state} />
+      </div>
+      {!removing ? (
+        <button type="button" className="mt-2 text-xs text-fail-700 underline" onClick={() => setRemoving(true)}>
+          Take off the schedule…
+        </button>
+      ) : (
+        <form onSubmit={remove.onSubmit} className="mt-2 flex flex-wrap items-end gap-2" noValidate>
+          <input type="hidden" name="sterilizerId" value={sterilizerId} />
+          <input type="hidden" name="kind" value={row.kind} />
+          <div className="min-w-[14rem] flex-1">
+            <TextInput id={`${id}-remove-reason`} name="reason" label="Why is this test no longer scheduled?" error={remove.errors.reason} />
+          </div>
+          <button className="btn-danger" disabled={remove.pending}>
+            Remove
+          </button>
+          <button type="button" className="btn-secondary" onClick={() => setRemoving(false)}>
+            Cancel
+          </button>
+        </form>
+      )}
+      <div className="mt-2">
+        <FormMessage state={remove.state} />
+      </div>
+    </div>
+  );
+}
+
+function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: string[] }) {
+  const { state, pending, onSubmit, errors } = useFormAction(saveScheduleAction);
+  const [kind, setKind] = useState(kinds[0]);
+  const [interval, setInterval] = useState(String(SUGGESTED_INTERVAL[kinds[0]] ?? 7));
+  return (
+    <form onSubmit={onSubmit} className="rounded-md border border-dashed border-ink-line p-3" noValidate aria-label="Add a test to the schedule">
+      <p className="text-sm font-medium">Add a test to the schedule</p>
+      <input type="hidden" name="sterilizerId" value={sterilizerId} />
+      <div className="mt-2 grid gap-2 sm:grid-cols-[1fr_8rem_auto] sm:items-end">
+        <Field id="add-sched-kind" label="Test" error={errors.kind}>
+          <select
+            id="add-sched-kind"
+            name="kind"
+            className="field-input"
+            value={kind}
+            onChange={(e) => {
+              setKind(e.target.value);
+              setInterval(String(SUGGESTED_INTERVAL[e.target.value] ?? 7));
+            }}
+          >
+            {kinds.map((k) => (
+              <option key={k} value={k}>
+                {PERIODIC_TEST_LABELS[k] ?? k}
+              </option>
+            ))}
+          </select>
+        </Field>
+        <TextInput id="add-sched-interval" name="intervalDays" label="Interval" suffix="days" inputMode="numeric" value={interval} onChange={setInterval} error={errors.intervalDays} />
+        <button className="btn-primary" disabled={pending}>
+          Add
+        </button>
+      </div>
+      <p className="mt-1 text-xs text-ink-muted">Suggested intervals follow common practice (daily Bowie-Dick, weekly air leakage, quarterly and yearly thermometric and steam quality tests); your written scheme decides.</p>
+      <div className="mt-2">
+        <FormMessage state={state} />
+      </div>
+    </form>
+  );
+}
