@@ -5,7 +5,7 @@ import path from "node:path";
 import { simulateDay, toLoggerCsv } from "../../lib/simulator";
 import { saturationTemperatureC } from "../../lib/steam";
 
-const ROOT = path.resolve(__dirname, "../..");
+const ROOT = path.resolve(import.meta.dirname, "../..");
 const TSX_CLI = path.join(ROOT, "node_modules/tsx/dist/cli.mjs");
 const RUNS = 3;
 
