@@ -23,7 +23,7 @@ beforeAll(async () => {
   sterilizerId = s.id;
   const profiles = await ctx.db.select().from(acceptanceProfiles);
   profileId = profiles.find((p) => p.sterilizationTempC === 134 && p.maxEquilibrationS === 15)!.id;
-});
+}, 180_000);
 afterAll(() => ctx.cleanup());
 
 const as = (role: string) => (session.current = { user: { id: people[role] } });

@@ -27,7 +27,7 @@ beforeAll(async () => {
   secondEngineer = e2.id;
   sterilizerId = (await ctx.db.select().from(sterilizers).limit(1))[0].id;
   profileId = (await ctx.db.select().from(acceptanceProfiles)).find((p) => p.sterilizationTempC === 134 && p.maxEquilibrationS === 15)!.id;
-});
+}, 180_000);
 afterAll(() => ctx.cleanup());
 
 const as = (id: string | null) => (session.current = id ? { user: { id } } : null);
