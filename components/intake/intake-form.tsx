@@ -26,6 +26,15 @@ type Busy = { label: string; progress: SendProgress; cancel: () => void } | null
 const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind"];
 
 const DELIMITER_WORDS: Record<string, string> = { ",": "comma", ";": "semicolon", "\t": "tab" };
+const TIME_FORMAT_WORDS: Record<string, string> = {
+  iso: "year-month-day dates",
+  dmy: "day.month.year dates",
+  mdy: "month/day/year dates",
+  "mdy-ampm": "month/day/year dates with AM/PM",
+  "dmy-ampm": "day/month/year dates with AM/PM",
+  clock: "clock times",
+  "elapsed-seconds": "elapsed time",
+};
 
 function columnsFrom(inspect: InspectResponse): MappedColumn[] {
   return inspect.columns.map((c) => ({ index: c.index, header: c.header, role: c.role, unit: c.unit, gauge: c.gauge, unsure: c.unsure, edited: false }));
@@ -122,6 +131,7 @@ export function IntakeForm({
   function setField<K extends keyof Fields>(name: K, value: Fields[K]) {
     setFields((f) => ({ ...f, [name]: value }));
     setFieldErrors((e) => ({ ...e, [name]: undefined }));
+    setTopError(null);
   }
 
   async function inspectFile(file: File, instrumentId: string, options: { keepOnFailure: boolean }) {
@@ -184,6 +194,7 @@ export function IntakeForm({
     const sterilizer = sterilizers.find((s) => s.id === id);
     setFields((f) => ({ ...f, sterilizerId: id, profileId: sterilizer?.defaultProfileId ?? f.profileId }));
     setFieldErrors((e) => ({ ...e, sterilizerId: undefined, profileId: undefined }));
+    setTopError(null);
   }
 
   function chooseInstrument(id: string) {
@@ -198,6 +209,7 @@ export function IntakeForm({
     setColumns(next);
     setReferenceColumn((r) => settleReference(next, r));
     setMappingErrors([]);
+    setTopError(null);
   }
 
   async function analyse(event: FormEvent) {
@@ -274,7 +286,7 @@ export function IntakeForm({
         {files.length === 0 ? (
           <LoggerDropzone limitMb={limitMb} disabled={Boolean(busy)} onFiles={addFiles} onRejected={setRejections} />
         ) : (
-          <div className="grid gap-4 lg:grid-cols-[1fr_16rem]">
+          <div className="grid items-start gap-4 lg:grid-cols-[1fr_16rem]">
             <ul className="divide-y divide-ink-line/60 rounded-md border border-ink-line" aria-label="Files for this cycle">
               {files.map((file, i) => (
                 <li key={`${file.name}-${i}`} className="flex items-center justify-between gap-3 px-3 py-2 text-sm">
@@ -319,7 +331,7 @@ export function IntakeForm({
           action={
             <span className="text-xs text-ink-muted">
               {DELIMITER_WORDS[inspect.dialect.delimiter] ?? inspect.dialect.delimiter}-separated · decimal &ldquo;{inspect.dialect.decimal}&rdquo; · {inspect.dialect.encoding}
-              {inspect.dialect.preambleLines > 0 ? ` · ${inspect.dialect.preambleLines} lines above the header` : ""} · time as {inspect.dialect.timeFormat}
+              {inspect.dialect.preambleLines > 0 ? ` · ${inspect.dialect.preambleLines} lines above the header` : ""} · {TIME_FORMAT_WORDS[inspect.dialect.timeFormat] ?? inspect.dialect.timeFormat}
             </span>
           }
         >
@@ -345,6 +357,7 @@ export function IntakeForm({
             referenceColumn={referenceColumn}
             preview={inspect.preview}
             rowCount={inspect.rowCount}
+            guessedReference={inspect.referenceColumn}
             onColumnChange={updateColumn}
             onReferenceChange={(h) => {
               setReferenceColumn(h);

@@ -97,6 +97,7 @@ export function MappingTable({
   onColumnChange,
   onReferenceChange,
   idPrefix,
+  guessedReference,
 }: {
   columns: MappedColumn[];
   referenceColumn: string | null;
@@ -105,8 +106,13 @@ export function MappingTable({
   onColumnChange: (index: number, patch: Partial<EditableColumn>) => void;
   onReferenceChange: (header: string) => void;
   idPrefix: string;
+  /** the reference channel the server guessed; reasons about it are settled once the user picks another */
+  guessedReference: string | null;
 }) {
   const temperatures = columns.filter((c) => c.role === "temperature");
+  const time = columns.find((c) => c.role === "time");
+  const pressure = columns.find((c) => c.role === "pressure");
+  const referenceSettled = referenceColumn !== guessedReference;
   return (
     <div>
       <div className="mb-3 flex flex-wrap items-end gap-4">
@@ -129,6 +135,13 @@ export function MappingTable({
           the steam temperature computed from the chamber pressure.
         </p>
       </div>
+      <p className="mb-2 text-sm" data-testid="mapping-summary">
+        <span className="text-ink-muted">Time:</span> <span className="mono">{time?.header ?? "none"}</span>
+        <span className="text-ink-muted"> · Chamber pressure:</span>{" "}
+        <span className="mono">{pressure ? `${pressure.header} (${pressure.unit ?? "unit?"} ${pressure.gauge ? "gauge" : "abs"})` : "none"}</span>
+        <span className="text-ink-muted"> · Temperatures:</span> {temperatures.length}
+        <span className="text-ink-muted"> · Reference:</span> <span className="mono">{referenceColumn ?? "none"}</span>
+      </p>
       <div className="overflow-x-auto rounded-md border border-ink-line">
         <table className="data-table" data-testid="mapping-table">
           <thead className="bg-paper-sunk/60">
@@ -168,7 +181,10 @@ export function MappingTable({
                       {c.unsure.length > 0 && (
                         <ul className="space-y-0.5" aria-label={`What the guess was unsure of for ${c.header}`}>
                           {c.unsure.map((reason) => (
-                            <li key={reason} className={`text-2xs leading-snug ${c.edited ? "text-ink-muted" : "text-caution-700"}`}>
+                            <li
+                              key={reason}
+                              className={`text-2xs leading-snug ${c.edited || (referenceSettled && /reference/i.test(reason)) ? "text-ink-muted" : "text-caution-700"}`}
+                            >
                               <span aria-hidden="true">⚠ </span>
                               {reason}
                             </li>

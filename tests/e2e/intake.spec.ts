@@ -1,0 +1,158 @@
+import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import type { Page } from "@playwright/test";
+import { simulateCycle, toLoggerCsv } from "../../lib/simulator";
+import { expect, signIn, test } from "./fixtures";
+
+const shots = "test-results/screenshots";
+mkdirSync(shots, { recursive: true });
+const workDir = mkdtempSync(path.join(tmpdir(), "papin-intake-e2e-"));
+
+/**
+ * A 134 °C / 3 min cycle from the project's simulator, written the way a generic logger exports it:
+ * channels named CH1…CH7 with the drain probe last, so the guess cannot know which one is the
+ * reference and takes CH1; and the pressure header without a unit ("Chamber pressure").
+ */
+function genericLoggerFile(name: string, seed: number): string {
+  const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134, holdingTimeS: 180, seed });
+  const text = new TextDecoder().decode(toLoggerCsv(sim, { delimiter: ",", decimal: ".", timeFormat: "iso", pressureUnit: "bar", gauge: false }));
+  const lines = text.split(/\r?\n/).filter((l) => l !== "");
+  const header = lines[0].split(",");
+  const drainAt = header.findIndex((h) => /drain/i.test(h));
+  const pressureAt = header.findIndex((h) => /chamber/i.test(h));
+  expect(drainAt).toBeGreaterThan(0);
+  expect(pressureAt).toBeGreaterThan(0);
+  const order = [0, ...header.map((_, i) => i).filter((i) => i !== 0 && i !== drainAt && i !== pressureAt), drainAt, pressureAt];
+  const renamed = order.map((i, n) => (i === 0 ? "Time" : i === pressureAt ? "Chamber pressure" : `CH${n} (°C)`));
+  const out = [renamed.join(","), ...lines.slice(1).map((line) => {
+    const cells = line.split(",");
+    return order.map((i) => cells[i]).join(",");
+  })];
+  const file = path.join(workDir, name);
+  writeFileSync(file, out.join("\r\n") + "\r\n");
+  return file;
+}
+
+/** Drops files on the drop area the way a browser does: a drop event carrying a DataTransfer. */
+async function dropFiles(page: Page, files: Array<{ name: string; type: string; base64?: string; sizeBytes?: number }>) {
+  const dataTransfer = await page.evaluateHandle((list) => {
+    const dt = new DataTransfer();
+    for (const f of list) {
+      const bytes = f.base64 ? Uint8Array.from(atob(f.base64), (c) => c.charCodeAt(0)) : new Uint8Array(f.sizeBytes ?? 0);
+      dt.items.add(new File([bytes], f.name, { type: f.type }));
+    }
+    return dt;
+  }, files);
+  const zone = page.getByTestId("logger-dropzone");
+  await zone.dispatchEvent("dragenter", { dataTransfer });
+  await zone.dispatchEvent("drop", { dataTransfer });
+}
+
+const asDropped = (file: string) => ({ name: path.basename(file), type: "text/csv", base64: readFileSync(file).toString("base64") });
+
+async function chooseByText(page: Page, label: string, text: string) {
+  const select = page.getByLabel(label, { exact: true });
+  const value = await select.locator("option", { hasText: text }).first().getAttribute("value");
+  expect(value, `an option "${text}" in ${label}`).toBeTruthy();
+  await select.selectOption(value!);
+}
+
+async function signInAs(page: Page, role: "technician" | "auditor") {
+  await signIn(page, role);
+  await expect(page.getByRole("heading", { name: /Welcome/ })).toBeVisible();
+}
+
+test.describe.configure({ mode: "serial" });
+
+test("the drop area refuses a file that is too large or not a logger export, saying why", async ({ page }) => {
+  await signInAs(page, "technician");
+  await page.goto("/cycles/new");
+  await expect(page.getByText("up to 50 MB per file")).toBeVisible();
+  await dropFiles(page, [
+    { name: "day-export.csv", type: "text/csv", sizeBytes: 51 * 1024 * 1024 },
+    { name: "chamber-photo.png", type: "image/png", sizeBytes: 2048 },
+  ]);
+  const rejections = page.getByTestId("dropzone-rejections");
+  await expect(rejections).toContainText("day-export.csv is 51.0 MiB; the limit is 50 MB per file");
+  await expect(rejections).toContainText("chamber-photo.png is not a logger text file");
+  await expect(page.getByTestId("mapping-table")).toHaveCount(0);
+  await page.screenshot({ path: `${shots}/intake-rejected.png`, fullPage: true });
+});
+
+test("a technician drops a simulated logger file, corrects the mapping, analyses and sees the verdict", async ({ page }) => {
+  const file = genericLoggerFile("generic-logger-134.csv", 21);
+  await signInAs(page, "technician");
+  await page.goto("/cycles/new");
+  await dropFiles(page, [asDropped(file)]);
+
+  const table = page.getByTestId("mapping-table");
+  await expect(table).toBeVisible();
+  // The guess had no drain or reference header to go by: it takes CH1 and says it is unsure.
+  const reference = page.getByLabel("Reference channel (chamber drain)");
+  await expect(reference).toHaveValue("CH1 (°C)");
+  await expect(table.locator('th[data-column="CH1 (°C)"]')).toContainText("no header names the drain or reference point");
+  await expect(page.getByText(/generic-logger-134\.csv/)).toBeVisible();
+  await page.screenshot({ path: `${shots}/intake-guessed.png`, fullPage: true });
+
+  // Corrections: the drain probe is CH7; the chamber transducer reads bar absolute.
+  await reference.selectOption("CH7 (°C)");
+  await page.getByLabel("Unit of Chamber pressure").selectOption("bar");
+  await table.locator('th[data-column="Chamber pressure"]').getByRole("radio", { name: "absolute", exact: true }).check();
+  await expect(table.locator('th[data-column="CH7 (°C)"]')).toContainText("reference");
+
+  // Client-side validation first: no sterilizer chosen yet.
+  await page.getByRole("button", { name: "Analyse" }).click();
+  await expect(page.getByTestId("intake-error")).toBeVisible();
+  await expect(page.locator('[data-field-error="sterilizerId"]')).toHaveText("Choose the sterilizer that ran this cycle.");
+
+  await chooseByText(page, "Sterilizer", "Porous load 1");
+  // The sterilizer's default profile is preselected.
+  await expect(page.getByLabel("Acceptance profile")).toHaveValue(/.+/);
+  await expect(page.getByLabel("Acceptance profile").locator("option:checked")).toHaveText("134 °C / 3 min porous load");
+  await chooseByText(page, "Logger (instrument)", "TL-12 (unit A)");
+  await page.getByLabel("Cycle number").fill("E2E-0001");
+  await page.getByLabel("Load description").fill("Standard test pack, 6 probes in the pack, drain probe CH7");
+  await page.getByLabel(/Save this column mapping for the instrument/).check();
+  await page.screenshot({ path: `${shots}/intake-corrected.png`, fullPage: true });
+
+  await page.getByRole("button", { name: "Analyse" }).click();
+  await expect(page.getByTestId("intake-progress")).toBeVisible();
+  await page.waitForURL(/\/cycles\/[0-9a-f-]{36}$/, { timeout: 30_000 });
+  const id = page.url().split("/").pop()!;
+
+  await expect(page.getByTestId("record-header")).toContainText("E2E-0001");
+  await expect(page.getByTestId("record-header")).toContainText("Pass");
+  await expect(page.getByTestId("verdict")).toBeVisible();
+  await expect(page.getByTestId("time-chart")).toBeVisible();
+  await expect(page.getByTestId("phase-diagram")).toBeVisible();
+  await page.waitForTimeout(500);
+  await page.screenshot({ path: `${shots}/intake-record.png`, fullPage: true });
+
+  // The record was analysed with the corrected mapping, and the file kept byte for byte.
+  const detail = await (await page.request.get(`/api/cycles/${id}`)).json();
+  expect(detail.analysis.referenceChannel).toBe("CH7 (°C)");
+  expect(detail.analysis.verdict).toBe("pass");
+  expect(detail.files[0].name).toBe("generic-logger-134.csv");
+  expect(detail.files[0].size).toBe(readFileSync(file).byteLength);
+});
+
+test("the instrument's saved mapping is applied to its next file", async ({ page }) => {
+  const file = genericLoggerFile("generic-logger-134-next.csv", 22);
+  await signInAs(page, "technician");
+  await page.goto("/cycles/new");
+  await chooseByText(page, "Logger (instrument)", "TL-12 (unit A)");
+  await dropFiles(page, [asDropped(file)]);
+  await expect(page.getByTestId("mapping-notice")).toContainText("The mapping saved for Thermocouple logger TL-12 (unit A) was applied");
+  await expect(page.getByLabel("Reference channel (chamber drain)")).toHaveValue("CH7 (°C)");
+  await expect(page.getByLabel("Unit of Chamber pressure")).toHaveValue("bar");
+  await page.screenshot({ path: `${shots}/intake-saved-mapping.png`, fullPage: true });
+});
+
+test("an auditor cannot open the intake page", async ({ page }) => {
+  await signInAs(page, "auditor");
+  const response = await page.goto("/cycles/new");
+  expect(response?.status()).toBe(403);
+  await expect(page.getByTestId("forbidden")).toBeVisible();
+  await expect(page.getByTestId("logger-dropzone")).toHaveCount(0);
+});
