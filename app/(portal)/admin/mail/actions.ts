@@ -8,6 +8,7 @@ import { getOutboxMail, retryMail } from "@/db/queries/mail";
 import { deliverPendingMail } from "@/lib/mail/delivery";
 import { formatDateTime } from "@/lib/format";
 
+const sentence = (text: string | null | undefined) => (text ?? "no reason given").replace(/[.\s]+$/, "");
 const NOT_CONFIGURED = "Mail is not configured (RESEND_API_KEY, or RESEND_BASE_URL for the local fake), so nothing can be sent yet.";
 
 export const retryMailAction = formAction(
@@ -20,9 +21,9 @@ export const retryMailAction = formAction(
     if (!report.configured) throw new AppError(503, `The e-mail is queued again. ${NOT_CONFIGURED}`);
     const row = await getOutboxMail({ id });
     if (row?.status === "sent") return `Sent to ${row.to.join(", ")}.`;
-    if (row?.status === "failed") throw new AppError(503, `Tried again and gave up after ${row.attempts} attempts: ${row.lastError ?? "no reason given"}.`);
+    if (row?.status === "failed") throw new AppError(503, `Tried again and gave up after ${row.attempts} attempts: ${sentence(row.lastError)}.`);
     if (report.attempted === 0) return "The e-mail is queued again; another sender is handling it right now.";
-    throw new AppError(503, `Tried again without success: ${row?.lastError ?? "no reason given"}. Next try ${formatDateTime(row?.nextAttemptAt)} UTC.`);
+    throw new AppError(503, `Tried again without success: ${sentence(row?.lastError)}. Next try ${formatDateTime(row?.nextAttemptAt)} UTC.`);
   },
 );
 

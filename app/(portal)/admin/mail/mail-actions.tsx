@@ -13,12 +13,17 @@ function Message({ state }: { state: FormState }) {
   );
 }
 
-export function RetryMailButton({ id, subject }: { id: string; subject: string }) {
+/**
+ * Rendered on every row, so that the outcome of a retry stays on screen after the row turns
+ * "sent" and the button goes away.
+ */
+export function RetryMailButton({ id, subject, canRetry }: { id: string; subject: string; canRetry: boolean }) {
   const [state, action, pending] = useActionState(retryMailAction, IDLE_STATE);
+  if (!canRetry) return <Message state={state} />;
   return (
     <form action={action}>
       <input type="hidden" name="id" value={id} />
-      <button className="btn-secondary px-2 py-1 text-xs" disabled={pending} aria-label={`Retry now: ${subject}`}>
+      <button className="btn-secondary whitespace-nowrap px-2 py-1 text-xs" disabled={pending} aria-label={`Retry now: ${subject}`}>
         {pending ? "Sending…" : "Retry now"}
       </button>
       <Message state={state} />

@@ -95,7 +95,7 @@ export default async function MailPage({ searchParams }: { searchParams: Promise
                     <td className="whitespace-nowrap text-xs text-ink-muted">
                       {m.status === "sent" ? formatDateTime(m.sentAt) : m.status === "pending" ? (m.nextAttemptAt ? `next ${formatDateTime(m.nextAttemptAt)}` : "due now") : "—"}
                     </td>
-                    <td>{m.status !== "sent" && <RetryMailButton id={m.id} subject={m.subject} />}</td>
+                    <td><RetryMailButton id={m.id} subject={m.subject} canRetry={m.status !== "sent"} /></td>
                   </tr>
                 ))}
               </tbody>
@@ -160,7 +160,7 @@ function FakeMailboxPanel({ mailbox }: { mailbox: Extract<FakeMailbox, { state: 
                   </dl>
                   {m.html && (
                     // An empty sandbox: no scripts, no forms, no access to the portal's origin.
-                    <iframe sandbox="" referrerPolicy="no-referrer" srcDoc={m.html} title={`HTML body of “${m.subject}”`} className="h-96 w-full rounded-md border border-ink-line bg-white" />
+                    <iframe sandbox="" loading="lazy" referrerPolicy="no-referrer" srcDoc={m.html} title={`HTML body of “${m.subject}”`} className="h-96 w-full rounded-md border border-ink-line bg-white" />
                   )}
                   {m.text && (
                     <details>
