@@ -8,7 +8,7 @@ import { cellHasOffset, isoFromSeconds, parseTimeCell, type TimeFormat } from ".
 import type { Dialect, InspectResult, MappingOverrides, ReadResult, Recording } from "./types";
 
 const PREVIEW_ROWS = 10;
-const MAPPING_SAMPLE_ROWS = 1500;
+const MAPPING_SAMPLE_ROWS = 600;
 export const MIN_DATA_ROWS = 3;
 
 type Analysed = { prepared: PreparedText; layout: TableLayout; plan: ColumnPlan; dialect: Dialect; preview: string[][] };

@@ -90,6 +90,24 @@ function scanGroups(text: string, start: number, end: number, out: Float64Array,
   return count;
 }
 
+function digitsAt(text: string, at: number, count: number): number {
+  let value = 0;
+  for (let i = 0; i < count; i++) {
+    const d = text.charCodeAt(at + i) - 48;
+    if (d < 0 || d > 9) return NaN;
+    value = value * 10 + d;
+  }
+  return value;
+}
+
+/** "YYYY-MM-DD HH:MM:SS" or with a T: the layout nearly every logger writes, read without scanning. */
+function fixedIsoSeconds(text: string, at: number): number {
+  if (text.charCodeAt(at + 4) !== 45 || text.charCodeAt(at + 7) !== 45 || text.charCodeAt(at + 13) !== 58 || text.charCodeAt(at + 16) !== 58) return NaN;
+  const middle = text.charCodeAt(at + 10);
+  if (middle !== 32 && middle !== 84 && middle !== 116) return NaN;
+  return dateSeconds(digitsAt(text, at, 4), digitsAt(text, at + 5, 2), digitsAt(text, at + 8, 2), digitsAt(text, at + 11, 2), digitsAt(text, at + 14, 2), digitsAt(text, at + 17, 2));
+}
+
 const scanState = { ampm: 0, offsetMinutes: 0, hasOffset: false, fraction: 0, separators: "" };
 
 function hourWithAmPm(hour: number, ampm: number): number {
@@ -128,6 +146,10 @@ function dateSeconds(year: number, month: number, day: number, hour: number, min
  */
 export function parseTimeCell(text: string, start: number, end: number, format: TimeFormat): number {
   if (format === "elapsed-seconds") return NaN; // handled by the number parser
+  if (format === "iso" && end - start === 19) {
+    const fast = fixedIsoSeconds(text, start);
+    if (fast === fast) return fast;
+  }
   const g = DIGIT_GROUPS;
   const count = scanGroups(text, start, end, g, scanState);
   if (count < 0) return NaN;
