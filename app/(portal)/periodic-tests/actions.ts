@@ -12,11 +12,13 @@ import type { PeriodicTestKind } from "@/db/schema";
 import type { Actor } from "@/db/queries/users";
 
 /** The server recomputes every result from the raw readings; the preview in the form is only a preview. */
-function compute<T>(field: string, fn: () => T): T {
+function compute<T>(field: string | ((message: string) => string), fn: () => T): T {
   try {
     return fn();
   } catch (error) {
-    if (error instanceof RangeError || error instanceof SteamRangeError) throw new AppError(422, error.message, field);
+    if (error instanceof RangeError || error instanceof SteamRangeError) {
+      throw new AppError(422, error.message, typeof field === "string" ? field : field(error.message));
+    }
     throw error;
   }
 }
@@ -36,7 +38,7 @@ async function save(
 }
 
 export const recordAirLeakageAction = formAction("periodic-test:record", airLeakageSchema, async (input, actor) => {
-  const r = compute("p3", () => evaluateAirLeakage({ p1: input.p1, p2: input.p2, p3: input.p3, unit: input.unit }));
+  const r = compute((m) => (/^p[123]/.test(m) ? m.slice(0, 2) : "p3"), () => evaluateAirLeakage({ p1: input.p1, p2: input.p2, p3: input.p3, unit: input.unit }));
   return save(actor, input, "air-leakage", r.passed, {
     unit: input.unit,
     p1: input.p1,
@@ -87,7 +89,9 @@ export const recordSuperheatAction = formAction("periodic-test:record", superhea
 });
 
 export const recordDrynessAction = formAction("periodic-test:record", drynessSchema, async (input, actor) => {
-  const r = compute("finalWaterTempC", () => evaluateDryness(input));
+  const fieldOf = (message: string) =>
+    /condensate mass/.test(message) ? "condensateMassKg" : /water mass/.test(message) ? "waterMassKg" : /steam temperature/.test(message) ? "steamTempC" : "finalWaterTempC";
+  const r = compute(fieldOf, () => evaluateDryness(input));
   return save(actor, input, "steam-dryness", r.passed, {
     initialWaterTempC: input.initialWaterTempC,
     finalWaterTempC: input.finalWaterTempC,

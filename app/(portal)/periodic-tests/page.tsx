@@ -1,0 +1,169 @@
+import Link from "next/link";
+import { pageActor } from "@/components/equipment/page-actor";
+import { can } from "@/lib/auth/permissions";
+import { getScheduleOverview, listPeriodicTests, listSterilizerChoices } from "@/db/queries/periodic-tests";
+import { periodicTestFiltersSchema } from "@/lib/validations/periodic-tests";
+import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
+import { intervalWords, ResultBadge, ScheduleBadge } from "@/components/equipment/state-badges";
+import { keyFigure, measurementRows } from "@/components/periodic-tests/summary";
+import { isRecordable } from "@/components/periodic-tests/kinds";
+import { formatDate, formatDateTime, PERIODIC_TEST_LABELS } from "@/lib/format";
+import { PERIODIC_TEST_KINDS } from "@/db/schema";
+
+export const metadata = { title: "Periodic tests" };
+
+type Search = Record<string, string | string[] | undefined>;
+
+export default async function PeriodicTestsPage({ searchParams }: { searchParams: Promise<Search> }) {
+  const actor = await pageActor("equipment:read");
+  const mayRecord = can(actor.role, "periodic-test:record");
+  const raw = await searchParams;
+  const first = (k: string) => (Array.isArray(raw[k]) ? raw[k]![0] : (raw[k] as string | undefined)) || undefined;
+  const filter = periodicTestFiltersSchema.parse({ sterilizer: first("sterilizer"), kind: first("kind"), result: first("result"), from: first("from"), to: first("to"), page: first("page") });
+  const [overview, history, choices] = await Promise.all([
+    getScheduleOverview({ actor }),
+    listPeriodicTests({ actor, filter: { ...filter, pageSize: 25 } }),
+    listSterilizerChoices({ actor }),
+  ]);
+  const { rows, timeZone } = overview;
+  const actionNeeded = rows.filter((r) => r.needsAction).length;
+  const pages = Math.max(1, Math.ceil(history.total / history.pageSize));
+  const pageHref = (page: number) => {
+    const q = new URLSearchParams();
+    for (const [k, v] of Object.entries(filter)) if (v !== undefined && k !== "page") q.set(k, String(v));
+    q.set("page", String(page));
+    return `/periodic-tests?${q.toString()}#history`;
+  };
+  const bySterilizer = new Map<string, typeof rows>();
+  for (const r of [...rows].sort((a, b) => a.sterilizerName.localeCompare(b.sterilizerName))) {
+    if (!bySterilizer.has(r.sterilizerId)) bySterilizer.set(r.sterilizerId, []);
+    bySterilizer.get(r.sterilizerId)!.push(r);
+  }
+  return (
+    <>
+      <PageHeader
+        title="Periodic tests"
+        subtitle="What each sterilizer's written scheme asks for, when it was last passed, and every recorded result."
+        actions={mayRecord ? <Link href="/periodic-tests/new" className="btn-primary">Record a test</Link> : undefined}
+      />
+      <div className="space-y-gutter">
+        <Panel title={`Schedule${actionNeeded ? ` · ${actionNeeded} need${actionNeeded === 1 ? "s" : ""} action` : ""}`}>
+          {rows.length === 0 ? (
+            <EmptyState title="No sterilizer has a test schedule yet.">An engineer sets the schedule on each sterilizer&apos;s page.</EmptyState>
+          ) : (
+            <div className="overflow-x-auto">
+              <table className="data-table" data-testid="schedule-table">
+                <thead>
+                  <tr><th>Sterilizer</th><th>Test</th><th>Interval</th><th>Last pass</th><th>Next due</th><th>State</th><th><span className="sr-only">Record</span></th></tr>
+                </thead>
+                <tbody>
+                  {[...bySterilizer.values()].flatMap((group) =>
+                    group.map((r, i) => (
+                      <tr key={`${r.sterilizerId}:${r.kind}`} className={r.sterilizerActive ? "" : "opacity-60"}>
+                        <td className="font-medium">{i === 0 && <Link href={`/sterilizers/${r.sterilizerId}`} className="text-steam-700 hover:underline">{r.sterilizerName}</Link>}</td>
+                        <td>{PERIODIC_TEST_LABELS[r.kind]}</td>
+                        <td className="text-sm">{intervalWords(r.intervalDays)}</td>
+                        <td className="whitespace-nowrap text-sm">{r.status.lastPassOn ? formatDate(r.status.lastPassOn) : "—"}</td>
+                        <td className="whitespace-nowrap text-sm">{r.status.dueOn ? formatDate(r.status.dueOn) : "Now"}</td>
+                        <td>
+                          <ScheduleBadge status={r.status} />
+                          {r.awaitingSignOff > 0 && <p className="mt-1 text-xs text-ink-muted">{r.awaitingSignOff} passing cycle{r.awaitingSignOff === 1 ? "" : "s"} awaiting sign-off</p>}
+                        </td>
+                        <td>
+                          {mayRecord && r.sterilizerActive && isRecordable(r.kind) ? (
+                            <Link href={`/periodic-tests/new?kind=${r.kind}&sterilizer=${r.sterilizerId}`} className="text-sm text-steam-700 underline">Record</Link>
+                          ) : mayRecord && r.kind.startsWith("thermometric") ? (
+                            <Link href="/cycles/new" className="text-sm text-steam-700 underline">Upload cycle</Link>
+                          ) : null}
+                        </td>
+                      </tr>
+                    )),
+                  )}
+                </tbody>
+              </table>
+            </div>
+          )}
+          <p className="mt-2 text-xs text-ink-muted">Dates in {timeZone}. The next test is due one interval after the last pass; a failure after it needs a repeat before the sterilizer is used. Thermometric tests are logged cycles and count once approved.</p>
+        </Panel>
+
+        <Panel title={`History · ${history.total} record${history.total === 1 ? "" : "s"}`}>
+          <form method="get" action="/periodic-tests#history" className="mb-4 grid gap-3 sm:grid-cols-3 lg:grid-cols-6 lg:items-end" id="history" aria-label="Filter the history">
+            <div>
+              <label className="field-label" htmlFor="f-sterilizer">Sterilizer</label>
+              <select id="f-sterilizer" name="sterilizer" defaultValue={filter.sterilizer ?? ""} className="field-input">
+                <option value="">All</option>
+                {choices.sterilizers.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
+              </select>
+            </div>
+            <div>
+              <label className="field-label" htmlFor="f-kind">Test</label>
+              <select id="f-kind" name="kind" defaultValue={filter.kind ?? ""} className="field-input">
+                <option value="">All</option>
+                {PERIODIC_TEST_KINDS.map((k) => <option key={k} value={k}>{PERIODIC_TEST_LABELS[k]}</option>)}
+              </select>
+            </div>
+            <div>
+              <label className="field-label" htmlFor="f-result">Result</label>
+              <select id="f-result" name="result" defaultValue={filter.result ?? ""} className="field-input">
+                <option value="">Any</option>
+                <option value="pass">Pass</option>
+                <option value="fail">Fail</option>
+              </select>
+            </div>
+            <div>
+              <label className="field-label" htmlFor="f-from">From</label>
+              <input id="f-from" name="from" type="date" defaultValue={filter.from ?? ""} className="field-input" />
+            </div>
+            <div>
+              <label className="field-label" htmlFor="f-to">To</label>
+              <input id="f-to" name="to" type="date" defaultValue={filter.to ?? ""} className="field-input" />
+            </div>
+            <div className="flex gap-2">
+              <button className="btn-secondary">Filter</button>
+              <Link href="/periodic-tests#history" className="btn-secondary">Clear</Link>
+            </div>
+          </form>
+          {history.items.length === 0 ? (
+            <EmptyState title="No recorded test matches these filters." />
+          ) : (
+            <div className="overflow-x-auto">
+              <table className="data-table" data-testid="history-table">
+                <thead><tr><th>Done at</th><th>Sterilizer</th><th>Test</th><th>Result</th><th>Measured</th><th>By</th></tr></thead>
+                <tbody>
+                  {history.items.map((t) => (
+                    <tr key={t.id}>
+                      <td className="whitespace-nowrap text-sm">{formatDateTime(t.performedAt, timeZone)}</td>
+                      <td className="text-sm">{t.sterilizerName}</td>
+                      <td className="text-sm">{PERIODIC_TEST_LABELS[t.kind]}</td>
+                      <td><ResultBadge result={t.result} /></td>
+                      <td className="text-sm">
+                        {keyFigure(t.kind, t.measurements)}
+                        <details className="mt-1">
+                          <summary className="cursor-pointer text-xs text-steam-700">Readings and notes</summary>
+                          <dl className="mt-1 grid grid-cols-[12rem_1fr] gap-x-2 text-xs">
+                            {measurementRows(t.measurements).map(([k, v], i) => (
+                              <div key={`${k}-${i}`} className="contents"><dt className="text-ink-muted">{k}</dt><dd>{v}</dd></div>
+                            ))}
+                            {t.notes && <div className="contents"><dt className="text-ink-muted">Notes</dt><dd>{t.notes}</dd></div>}
+                          </dl>
+                        </details>
+                      </td>
+                      <td className="text-sm">{t.performedByName}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          )}
+          {pages > 1 && (
+            <nav className="mt-3 flex items-center gap-3 text-sm" aria-label="Pages">
+              {history.page > 1 && <Link href={pageHref(history.page - 1)} className="btn-secondary px-2 py-1">← Newer</Link>}
+              <span className="text-ink-muted">Page {history.page} of {pages}</span>
+              {history.page < pages && <Link href={pageHref(history.page + 1)} className="btn-secondary px-2 py-1">Older →</Link>}
+            </nav>
+          )}
+        </Panel>
+      </div>
+    </>
+  );
+}
