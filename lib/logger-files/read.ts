@@ -171,7 +171,7 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
     sink.count = n + 1;
   };
 
-  if (!layout.quoted) {
+  if (!layout.dataQuoted) {
     for (let i = layout.firstDataLineIndex; i < lineCount; i++) {
       const start = lineStarts[i];
       const end = lineEnds[i];

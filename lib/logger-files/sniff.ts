@@ -125,7 +125,10 @@ export type TableLayout = {
   firstDataLineIndex: number;
   headers: string[];
   decimal: DecimalMark;
+  /** quotes anywhere in the header or the data */
   quoted: boolean;
+  /** quotes below the header: the data needs the quote-aware reader */
+  dataQuoted: boolean;
 };
 
 const SAMPLE_LINES = 200;
@@ -207,10 +210,8 @@ export function findTable(prepared: PreparedText): TableLayout {
     if (commas > points) decimal = ",";
   }
 
-  let quoted = false;
-  const dataStart = prepared.lineStarts[firstDataLineIndex];
-  if (prepared.text.indexOf('"', dataStart) >= 0) quoted = true;
-  if (headerLineIndex >= 0 && lineText(prepared, headerLineIndex).includes('"')) quoted = true;
+  const dataQuoted = prepared.text.indexOf('"', prepared.lineStarts[firstDataLineIndex]) >= 0;
+  const quoted = dataQuoted || (headerLineIndex >= 0 && lineText(prepared, headerLineIndex).includes('"'));
 
-  return { delimiter, width, headerLineIndex, firstDataLineIndex, headers, decimal, quoted };
+  return { delimiter, width, headerLineIndex, firstDataLineIndex, headers, decimal, quoted, dataQuoted };
 }

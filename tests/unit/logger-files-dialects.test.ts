@@ -261,3 +261,13 @@ describe("inspecting and overriding the mapping", () => {
     expect(recording.temperatures[0].values[0]).toBeCloseTo(((20 - 32) * 5) / 9, 9);
   });
 });
+
+describe("quoted headers above plain data", () => {
+  it("reads the headers without quotes and the data by the fast path", () => {
+    const file = utf8('"Time (s)";"Drain (°C)";"Pack (°C)";"P (kPa abs)"\n0;134,1;134;304,2\n1;134,2;134,1;304,9\n2;134,3;134,2;305,6\n');
+    const { recording, dialect } = readLoggerFile(file);
+    expect(dialect.quoted).toBe(true);
+    expect(recording.temperatures.map((t) => t.header)).toEqual(["Drain (°C)", "Pack (°C)"]);
+    expect(values(recording.pressure.values)).toEqual([304.2, 304.9, 305.6]);
+  });
+});
