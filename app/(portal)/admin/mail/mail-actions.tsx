@@ -1,17 +1,9 @@
 "use client";
 
 import { useActionState } from "react";
-import { IDLE_STATE, type FormState } from "@/components/ui/form-state";
+import { IDLE_STATE } from "@/components/ui/form-state";
+import { ActionMessage } from "@/components/ui/action-message";
 import { retryMailAction, sendDueMailAction } from "./actions";
-
-function Message({ state }: { state: FormState }) {
-  if (state.status === "idle" || !state.message) return null;
-  return (
-    <p role={state.status === "error" ? "alert" : "status"} className={`mt-1 max-w-xs rounded-md px-2 py-1 text-xs ${state.status === "error" ? "bg-fail-50 text-fail-700" : "bg-pass-50 text-pass-700"}`}>
-      {state.message}
-    </p>
-  );
-}
 
 /**
  * Rendered on every row, so that the outcome of a retry stays on screen after the row turns
@@ -19,14 +11,14 @@ function Message({ state }: { state: FormState }) {
  */
 export function RetryMailButton({ id, subject, canRetry }: { id: string; subject: string; canRetry: boolean }) {
   const [state, action, pending] = useActionState(retryMailAction, IDLE_STATE);
-  if (!canRetry) return <Message state={state} />;
+  if (!canRetry) return <ActionMessage state={state} className="mt-1 max-w-xs" />;
   return (
     <form action={action}>
       <input type="hidden" name="id" value={id} />
       <button className="btn-secondary whitespace-nowrap px-2 py-1 text-xs" disabled={pending} aria-label={`Retry now: ${subject}`}>
         {pending ? "Sending…" : "Retry now"}
       </button>
-      <Message state={state} />
+      <ActionMessage state={state} className="mt-1 max-w-xs" />
     </form>
   );
 }
@@ -36,7 +28,7 @@ export function SendDueMailButton({ disabled }: { disabled?: boolean }) {
   return (
     <form action={action} className="flex flex-col items-end">
       <button className="btn-primary" disabled={pending || disabled}>{pending ? "Sending…" : "Send due mail now"}</button>
-      <Message state={state} />
+      <ActionMessage state={state} className="mt-1 max-w-xs" />
     </form>
   );
 }
