@@ -7,7 +7,7 @@ import { saturationTemperatureC } from "../../lib/steam";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const TSX_CLI = path.join(ROOT, "node_modules/tsx/dist/cli.mjs");
-const RUNS = 3;
+const RUNS = 5;
 
 // The yardstick: what node needs just to read the file, split it and parse every number.
 const BASELINE_SCRIPT = `
