@@ -9,11 +9,13 @@ export const DEMO = {
 } as const;
 export type DemoRole = keyof typeof DEMO;
 
+/** Signs in through the form; with the right password, waits until the overview has loaded. */
 export async function signIn(page: Page, role: DemoRole, password = DEMO_PASSWORD) {
   await page.goto("/sign-in");
   await page.getByLabel("E-mail").fill(DEMO[role].email);
   await page.getByLabel("Password").fill(password);
   await page.getByRole("button", { name: "Sign in" }).click();
+  if (password === DEMO_PASSWORD) await expect(page.getByRole("heading", { name: `Welcome, ${DEMO[role].name}` })).toBeVisible();
 }
 
 export const test = base;

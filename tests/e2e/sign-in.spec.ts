@@ -14,7 +14,7 @@ test("an anonymous visitor is sent to sign-in", async ({ page }) => {
 
 test("a wrong password gets a clear message and no session", async ({ page }) => {
   await signIn(page, "engineer", "not-the-password");
-  await expect(page.getByRole("alert")).toHaveText("That e-mail and password do not match an account.");
+  await expect(page.getByText("That e-mail and password do not match an account.")).toBeVisible();
   await page.goto("/");
   await expect(page).toHaveURL(/\/sign-in/);
 });
