@@ -323,6 +323,12 @@ async function seedPeriodicTests(
       });
     }
   }
+  const longAgo = (days: number) => new Date(now.getTime() - days * DAY_MS).toISOString();
+  rows.push(
+    { siteId, sterilizerId, kind: "thermometric-small-load", performedAt: longAgo(40 + index * 9), performedBy: technicianId, result: "pass", notes: "Quarterly small-load test, logger TL-12." },
+    // NCG % = 100·Vg/Vc; limit 3.5 ml per 100 ml condensate (EN 285 / HTM 2010).
+    { siteId, sterilizerId, kind: "steam-non-condensable-gas", performedAt: longAgo(120 + index * 20), performedBy: technicianId, result: "pass", measurements: { gasMl: 1.2, condensateMl: 100, percent: 1.2 } },
+  );
   await tx.insert(periodicTests).values(rows);
 }
 
