@@ -27,7 +27,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
   const router = useRouter();
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
-  const [meaning, setMeaning] = useState<Meaning>("approved");
+  const [meaning, setMeaning] = useState<Meaning>(detail.verdict === "pass" && detail.createdBy.id !== actor.id ? "approved" : detail.verdict === "pass" ? "reviewed" : "rejected");
   const [reason, setReason] = useState("");
   const [password, setPassword] = useState("");
   const [correction, setCorrection] = useState<File | null>(null);
@@ -135,13 +135,14 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
               <legend className="field-label">Meaning of your signature</legend>
               <div className="space-y-1">
                 {(Object.keys(MEANING_WORDS) as Meaning[]).map((m) => {
-                  const blocked = m === "approved" && ownUpload;
+                  const failing = m === "approved" && detail.verdict !== "pass";
+                  const blocked = m === "approved" && (ownUpload || failing);
                   return (
                     <label key={m} className={`flex items-start gap-2 ${blocked ? "opacity-50" : ""}`}>
                       <input type="radio" name="meaning" value={m} checked={meaning === m} disabled={blocked} onChange={() => setMeaning(m)} className="mt-1" />
                       <span>
                         <span className="font-medium">{MEANING_WORDS[m].label}</span>
-                        <span className="block text-xs text-ink-muted">{blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_WORDS[m].statement}</span>
+                        <span className="block text-xs text-ink-muted">{failing ? "The analysis failed, so this cycle cannot be approved." : blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_WORDS[m].statement}</span>
                       </span>
                     </label>
                   );

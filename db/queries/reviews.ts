@@ -99,6 +99,9 @@ export async function signCycle({ actor, id, password, meaning, reason, origin }
     const state = cycle.status === "approved" ? "already approved and locked" : cycle.status === "rejected" ? "returned for correction" : "a draft that has not been submitted";
     throw new AppError(409, `This cycle is ${state}; only a submitted cycle can be signed.`);
   }
+  if (meaning === "approved" && cycle.verdict !== "pass") {
+    throw new AppError(409, "A cycle whose analysis failed cannot be approved; reject it with the reason, or correct it and analyse again.");
+  }
   if (meaning === "approved") {
     const uploaders = await db.select({ by: loggerFiles.uploadedBy }).from(loggerFiles).where(eq(loggerFiles.cycleId, id));
     if (cycle.createdBy === actor.id || uploaders.some((u) => u.by === actor.id)) {

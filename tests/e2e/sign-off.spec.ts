@@ -1,0 +1,66 @@
+import { mkdirSync, writeFileSync } from "node:fs";
+import { execFileSync } from "node:child_process";
+import { DEMO, expect, signIn, test } from "./fixtures";
+
+const shots = "test-results/screenshots";
+mkdirSync(shots, { recursive: true });
+
+test("a technician submits, an engineer signs with a password, an auditor downloads and verifies the report", async ({ browser, baseURL }) => {
+  test.setTimeout(180_000);
+  const technician = await browser.newPage();
+  await signIn(technician, "technician");
+  const list = await (await technician.request.get("/api/cycles?status=draft&verdict=pass")).json();
+  expect(list.total).toBeGreaterThan(0);
+  const { id, cycleNumber } = list.items[0];
+  const url = `/cycles/${id}`;
+  await technician.goto(url);
+  await expect(technician.getByText(cycleNumber).first()).toBeVisible();
+  await technician.getByRole("button", { name: /Submit for review/ }).click();
+  await expect(technician.getByText(/Submitted: the site's engineers have been notified/)).toBeVisible();
+
+  const engineer = await browser.newPage();
+  await signIn(engineer, "engineer");
+  await engineer.goto(url);
+  const signOff = engineer.getByTestId("sign-off");
+  await signOff.getByLabel(/Approved/).check();
+  await signOff.getByLabel(/Your password/).fill("wrong password");
+  await signOff.getByRole("button", { name: "Sign" }).click();
+  await expect(signOff.getByText(/password is not correct/)).toBeVisible();
+  await signOff.getByLabel(/Your password/).fill("papin-demo");
+  await signOff.getByRole("button", { name: "Sign" }).click();
+  await expect(signOff.getByText(new RegExp(`Signed "Approved" by ${DEMO.engineer.name}`))).toBeVisible({ timeout: 30_000 });
+  await expect(signOff.getByTestId("signatures")).toContainText("Signature verifies");
+  await engineer.screenshot({ path: `${shots}/record-signed.png`, fullPage: true });
+
+  const auditor = await browser.newPage();
+  await signIn(auditor, "auditor");
+  await auditor.goto("/archive");
+  const row = auditor.getByTestId("archive-table").getByRole("row", { name: new RegExp(cycleNumber) });
+  await expect(row).toBeVisible();
+  const download = auditor.waitForEvent("download");
+  await row.getByRole("link", { name: "Download" }).click();
+  const file = await download;
+  const pdfPath = `${shots}/archived-report.pdf`;
+  await file.saveAs(pdfPath);
+  const text = execFileSync("pdftotext", ["-layout", pdfPath, "-"], { encoding: "utf8" });
+  expect(text).toContain(DEMO.engineer.name);
+  expect(text).toMatch(/competent person/i);
+  execFileSync("pdftoppm", ["-png", "-r", "60", "-f", "1", "-l", "1", pdfPath, `${shots}/archived-report`]);
+
+  await auditor.getByTestId("verify-input").setInputFiles(pdfPath);
+  await expect(auditor.getByTestId("verify-outcome")).toContainText(`is byte for byte the archived report`);
+  const bytes = (await import("node:fs")).readFileSync(pdfPath);
+  bytes[Math.floor(bytes.length / 2)] ^= 1;
+  writeFileSync(`${shots}/altered-report.pdf`, bytes);
+  await auditor.getByTestId("verify-input").setInputFiles(`${shots}/altered-report.pdf`);
+  await expect(auditor.getByTestId("verify-outcome")).toContainText("does not match any archived report");
+  await auditor.screenshot({ path: `${shots}/archive-verify.png`, fullPage: true });
+
+  await auditor.goto("/audit");
+  await expect(auditor.getByTestId("chain-state")).toContainText("Chain intact");
+  await expect(auditor.getByTestId("audit-table")).toContainText("cycle.sign.approved");
+
+  const mailbox = await (await fetch(`${new URL(baseURL!).origin.replace(/:(\d+)$/, (_, p) => `:${Number(p) + 1}`)}/emails`)).json();
+  const subjects = (mailbox.data ?? mailbox).map((m: { subject: string; to: string[] | string }) => `${m.subject} → ${[m.to].flat().join(",")}`);
+  expect(subjects.some((s: string) => s.includes(cycleNumber) && s.includes(DEMO.technician.email))).toBe(true);
+});
