@@ -1,0 +1,19 @@
+import type { CycleDetail, SeriesResponse } from "@/lib/cycles/contracts";
+
+/** Everything a cycle report prints. Rendering is a pure function of this object. */
+export type ReportModel = {
+  detail: CycleDetail;
+  series: SeriesResponse;
+  reportNumber: string;
+  /** ISO 8601; also the PDF's creation and modification date, so the same model gives the same bytes */
+  generatedAt: string;
+  /** how a reader checks the copy, e.g. "Drop this PDF on Signed archive → Check a report in Papin, or POST it to /api/reports/verify" */
+  verifyHint: string;
+  /** true until the cycle is approved: every page then carries "DRAFT — NOT APPROVED" */
+  draft: boolean;
+};
+
+/** Points per trace in the report's charts: far more than A4 at print resolution can separate. */
+export const REPORT_CHART_POINTS = 1200;
+/** Samples on the phase diagram's path. */
+export const REPORT_PHASE_POINTS = 700;

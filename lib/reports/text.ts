@@ -1,0 +1,95 @@
+import { PERIODIC_TEST_LABELS } from "@/lib/format";
+
+/**
+ * The shipped Inter and JetBrains Mono files are the "latin" subsets: Basic Latin, Latin-1,
+ * general punctuation (U+2000–206F) and a few symbols. Anything else would print as an empty box,
+ * so it is written out in characters the fonts carry.
+ */
+const REPLACEMENTS: Record<string, string> = {
+  "≤": "<=",
+  "≥": ">=",
+  "≈": "~",
+  "≠": "!=",
+  "→": "›",
+  "←": "‹",
+  "⇒": "›",
+  "Δ": "delta ",
+  "∆": "delta ",
+  "✓": "yes",
+  "✗": "no",
+  "×": "x",
+  "\u202f": " ",
+};
+
+const EXTRA_COVERED = new Set([0x0131, 0x0152, 0x0153, 0x02bb, 0x02bc, 0x02c6, 0x02da, 0x02dc, 0x20ac, 0x2122, 0x2191, 0x2193, 0x2212, 0x2215]);
+
+/** True when the shipped latin subsets draw this code point. */
+export function fontCovers(codePoint: number): boolean {
+  return (
+    (codePoint >= 0x20 && codePoint <= 0x7e) ||
+    (codePoint >= 0xa0 && codePoint <= 0xff) ||
+    (codePoint >= 0x2000 && codePoint <= 0x206f && codePoint !== 0x202f) ||
+    EXTRA_COVERED.has(codePoint)
+  );
+}
+
+/** Text made safe for the report's fonts: known symbols spelt out, control characters dropped, the rest as "?". */
+export function pdfText(value: string | number | null | undefined): string {
+  if (value === null || value === undefined) return "";
+  const text = String(value);
+  let out = "";
+  for (const char of text) {
+    const replacement = REPLACEMENTS[char];
+    if (replacement !== undefined) {
+      out += replacement;
+      continue;
+    }
+    const code = char.codePointAt(0) ?? 0;
+    if (code === 0x0a) out += "\n";
+    else if (code === 0x09) out += " ";
+    else if (code < 0x20 || (code >= 0x7f && code < 0xa0)) continue;
+    else if (fontCovers(code)) out += char;
+    else out += "?";
+  }
+  return out;
+}
+
+export function testKindLabel(kind: string): string {
+  if (PERIODIC_TEST_LABELS[kind]) return PERIODIC_TEST_LABELS[kind];
+  if (kind === "steam-quality") return "Steam quality test";
+  const words = kind.replace(/[-_]+/g, " ").trim();
+  return words.charAt(0).toUpperCase() + words.slice(1);
+}
+
+export function fixed(value: number | null | undefined, digits: number): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return "—";
+  const text = value.toFixed(digits);
+  return text.startsWith("-") ? `−${text.slice(1)}` : text;
+}
+
+export function signed(value: number | null | undefined, digits: number): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return "—";
+  return value > 0 ? `+${value.toFixed(digits)}` : fixed(value, digits);
+}
+
+/** A duration the way a technician reads it: "8.0 s", "95 s", "3 min 05 s", "2 h 04 min". */
+export function duration(seconds: number | null | undefined): string {
+  if (seconds === null || seconds === undefined || !Number.isFinite(seconds)) return "—";
+  const s = Math.abs(seconds);
+  const sign = seconds < 0 ? "−" : "";
+  if (s < 10) return `${sign}${s.toFixed(1)} s`;
+  if (s < 120) return `${sign}${Math.round(s)} s`;
+  if (s < 3600) {
+    const whole = Math.round(s);
+    return `${sign}${Math.floor(whole / 60)} min ${String(whole % 60).padStart(2, "0")} s`;
+  }
+  const minutes = Math.round(s / 60);
+  return `${sign}${Math.floor(minutes / 60)} h ${String(minutes % 60).padStart(2, "0")} min`;
+}
+
+export function bytes(n: number): string {
+  const grouped = Math.round(n).toLocaleString("en-GB");
+  if (n < 1024) return `${grouped} bytes`;
+  const unit = n < 1024 * 1024 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1024 / 1024).toFixed(2)} MiB`;
+  return `${unit} (${grouped} bytes)`;
+}
