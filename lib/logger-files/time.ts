@@ -225,7 +225,7 @@ export function guessTimeFormat(cells: string[]): TimeFormatGuess {
 }
 
 /** Header words that name a time column. */
-export const TIME_HEADER_RE = /(^|[^a-z])(time|date|datetime|timestamp|zeit|datum|uhrzeit|elapsed|seconds|secs?|tid|heure|hora|tempo|t)([^a-z]|$)/i;
+export const TIME_HEADER_RE = /(^|[^a-z])(time|date|datetime|timestamp|zeit|datum|uhrzeit|elapsed|seconds|secs?|tid|heure|hora|tempo)([^a-z]|$)/i;
 
 /** Reads the unit of an elapsed-time header: seconds by default. */
 export function elapsedScaleFromHeader(header: string): { scale: number; unit: string } {

@@ -271,3 +271,12 @@ describe("quoted headers above plain data", () => {
     expect(values(recording.pressure.values)).toEqual([304.2, 304.9, 305.6]);
   });
 });
+
+describe("the time column is found by its header before its content", () => {
+  it("a rising probe named T1 is not mistaken for elapsed time", () => {
+    const file = utf8("T1,T2,Time (s),P (kPa abs)\n120.1,119.0,0,198.7\n121.3,120.2,1,206.0\n122.0,121.1,2,211.0\n");
+    const { columns, recording } = readLoggerFile(file);
+    expect(columns.map((c) => c.role)).toEqual(["temperature", "temperature", "time", "pressure"]);
+    expect(values(recording.timesS)).toEqual([0, 1, 2]);
+  });
+});
