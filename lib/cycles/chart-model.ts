@@ -135,12 +135,21 @@ export function isZoomed(view: TimeWindow, record: TimeWindow): boolean {
  * small pan needs no new request), clamped to the record and rounded so that nearby views share
  * one request.
  */
-export function windowToFetch(view: TimeWindow, record: TimeWindow): TimeWindow {
+export function windowToFetch(view: TimeWindow, record: TimeWindow, fullResolutionSpanS = Infinity): TimeWindow {
   const span = Math.max(view.to - view.from, 1e-3);
   const step = span >= 600 ? 10 : span >= 60 ? 1 : 0.1;
-  const from = Math.max(record.from, Math.floor((view.from - span / 4) / step) * step);
-  const to = Math.min(record.to, Math.ceil((view.to + span / 4) / step) * step);
+  // Keep the margin small enough that a view which fits at full resolution still does.
+  const margin = span <= fullResolutionSpanS ? Math.min(span / 4, Math.max(0, (fullResolutionSpanS * 0.98 - span) / 2 - step)) : span / 4;
+  const from = Math.max(record.from, Math.floor((view.from - margin) / step) * step);
+  const to = Math.min(record.to, Math.ceil((view.to + margin) / step) * step);
   return { from: round(from), to: round(to) };
+}
+
+/** The widest window the series API returns at full resolution for `points`, from the record's sampling density. */
+export function fullResolutionSpan(totalSamples: number, record: TimeWindow, points: number): number {
+  const duration = record.to - record.from;
+  if (!(totalSamples > 1 && duration > 0)) return Infinity;
+  return (points * duration) / (totalSamples - 1);
 }
 
 /** Whether data fetched for `window` covers the whole `view`. */
@@ -241,7 +250,7 @@ export type PhaseSample = { timeS: number; temperatureC: number; pressureKpa: nu
 export type PlateauSample = PhaseSample & { deviationK: number; side: PhaseSide };
 
 /** The whole liquid–vapour line, triple point to critical point, with a margin. */
-export const FULL_PHASE_RANGE: PhaseRange = { tMinC: -10, tMaxC: 400, pMinKpa: 0.3, pMaxKpa: 50_000 };
+export const FULL_PHASE_RANGE: PhaseRange = { tMinC: -20, tMaxC: 440, pMinKpa: 0.3, pMaxKpa: 50_000 };
 
 /**
  * Deviation of a thermometer reading from saturated steam at the measured pressure. A steam–air
@@ -255,17 +264,32 @@ export function classifySample(temperatureC: number, pressureKpa: number, limitK
   return { deviationK, side };
 }
 
-/** The reference temperature and chamber pressure paired sample by sample, skipping gaps. */
+/**
+ * The reference temperature and chamber pressure paired sample by sample, skipping gaps. A
+ * downsampled series keeps each interval's extremes per channel, so its n-th temperature and n-th
+ * pressure need not come from one instant: there each interval's two points become their mean.
+ */
 export function phaseSamples(series: SeriesResponse): PhaseSample[] {
   const reference = series.channels.find((c) => c.role === "reference") ?? series.channels.find((c) => c.kind === "temperature");
   const pressure = series.channels.find((c) => c.kind === "pressure");
   if (!reference || !pressure) return [];
   const out: PhaseSample[] = [];
-  for (let i = 0; i < series.timesS.length; i++) {
-    const t = reference.values[i];
-    const p = pressure.values[i];
-    if (t === null || p === null || !Number.isFinite(t) || !(p > 0)) continue;
-    out.push({ timeS: series.timesS[i], temperatureC: t, pressureKpa: p });
+  const ok = (t: number | null, p: number | null): t is number => t !== null && p !== null && Number.isFinite(t) && p > 0;
+  if (series.fullResolution) {
+    for (let i = 0; i < series.timesS.length; i++) {
+      const t = reference.values[i];
+      const p = pressure.values[i];
+      if (ok(t, p)) out.push({ timeS: series.timesS[i], temperatureC: t, pressureKpa: p as number });
+    }
+    return out;
+  }
+  for (let i = 0; i + 1 < series.timesS.length; i += 2) {
+    const t0 = reference.values[i];
+    const t1 = reference.values[i + 1];
+    const p0 = pressure.values[i];
+    const p1 = pressure.values[i + 1];
+    if (!ok(t0, p0) || !ok(t1, p1)) continue;
+    out.push({ timeS: (series.timesS[i] + series.timesS[i + 1]) / 2, temperatureC: (t0 + t1) / 2, pressureKpa: Math.sqrt((p0 as number) * (p1 as number)) });
   }
   return out;
 }

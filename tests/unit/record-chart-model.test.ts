@@ -28,6 +28,7 @@ import {
   toleranceBand,
   windowCovers,
   windowToFetch,
+  fullResolutionSpan,
   zoomWindow,
   FULL_PHASE_RANGE,
 } from "@/lib/cycles/chart-model";
@@ -121,6 +122,13 @@ describe("zoom and pan", () => {
     expect(windowToFetch({ from: 400, to: 600 }, record)).toEqual({ from: 350, to: 650 });
     expect(windowToFetch({ from: 10, to: 210 }, record)).toEqual({ from: 0, to: 260 });
     expect(windowCovers({ from: 350, to: 650 }, { from: 380, to: 620 })).toBe(true);
+    // a day at 1 s: 4000 points hold 4000 s at full resolution, so a 3600 s view gets a margin that fits
+    const day = { from: 0, to: 86_399 };
+    const span = fullResolutionSpan(86_400, day, 4000);
+    expect(span).toBeCloseTo(4000, 6);
+    const w = windowToFetch({ from: 30_000, to: 33_600 }, day, span);
+    expect(w.to - w.from).toBeLessThanOrEqual(4000);
+    expect(windowCovers(w, { from: 30_000, to: 33_600 })).toBe(true);
     expect(windowCovers({ from: 350, to: 650 }, { from: 300, to: 500 })).toBe(false);
   });
 
@@ -163,6 +171,18 @@ describe("the phase-diagram view", () => {
     const samples = phaseSamples(series());
     expect(samples.map((s) => s.timeS)).toEqual([0, 2, 3, 4]);
     expect(samples[1]).toEqual({ timeS: 2, temperatureC: 134.2, pressureKpa: 310 });
+  });
+
+  it("pairs a downsampled series by interval, since its extremes need not share an instant", () => {
+    const s = series({ fullResolution: false, timesS: [0, 9, 10, 19], channels: [
+      { header: "Drain (°C)", kind: "temperature", unit: "°C", role: "reference", values: [100, 110, 120, 130] },
+      { header: "Chamber (kPa abs)", kind: "pressure", unit: "kPa abs", role: "pressure", values: [100, 400, 200, 200] },
+    ] });
+    const samples = phaseSamples(s);
+    expect(samples).toHaveLength(2);
+    expect(samples[0].timeS).toBeCloseTo(4.5, 9);
+    expect(samples[0].temperatureC).toBeCloseTo(105, 9);
+    expect(samples[0].pressureKpa).toBeCloseTo(200, 9); // geometric mean, as drawn on the log axis
   });
 
   it("classifies only the plateau's samples and says where they sat (IF97: Tsat(310 kPa) ≈ 134.6 °C)", () => {

@@ -205,7 +205,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
           {path.length > 0 && (
             <g>
               <circle cx={x(path[0].temperatureC)} cy={y(path[0].pressureKpa)} r={3.5} fill={CHART.raised} stroke={CHART.inkSoft} />
-              <text x={x(path[0].temperatureC) + 6} y={y(path[0].pressureKpa) - 5} fontSize={10} fill={CHART.inkSoft}>start</text>
+              <text x={x(path[0].temperatureC) + 6} y={y(path[0].pressureKpa) - 5} fontSize={10} fill={CHART.inkSoft} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">start</text>
             </g>
           )}
           {/* plateau samples */}
@@ -215,7 +215,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
           {hover && <circle cx={x(hover.temperatureC)} cy={y(hover.pressureKpa)} r={6} fill="none" stroke={CHART.ink} strokeWidth={1.5} />}
           {/* names */}
           {lineLabel && (
-            <text x={lineLabel.x} y={lineLabel.y} fontSize={11} fill={CHART.ink} textAnchor="middle" transform={`rotate(${lineLabel.angle} ${lineLabel.x} ${lineLabel.y})`} fontWeight={600}>
+            <text x={lineLabel.x} y={lineLabel.y} fontSize={11} fill={CHART.ink} textAnchor="middle" transform={`rotate(${lineLabel.angle} ${lineLabel.x} ${lineLabel.y})`} fontWeight={600} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">
               liquid–vapour line (IF97)
             </text>
           )}
@@ -246,7 +246,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
             return (
               <g key={l.id}>
                 <circle cx={cx} cy={cy} r={4.5} fill={CHART.raised} stroke={CHART.ink} strokeWidth={1.5} />
-                <text x={cx + (right ? 8 : -8)} y={cy + (l.id === "critical" ? 14 : -8)} fontSize={10.5} fill={CHART.ink} textAnchor={right ? "start" : "end"}>
+                <text x={cx + (right ? 9 : -9)} y={cy + (l.id === "critical" ? -9 : 15)} fontSize={10.5} fill={CHART.ink} textAnchor={right ? "start" : "end"} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">
                   {`${l.label} (${formatLandmark(l.temperatureC)} °C, ${formatPressureTick(l.pressureKpa)}${l.pressureKpa >= 1000 ? "" : " kPa"})`}
                 </text>
               </g>

@@ -27,7 +27,7 @@ export function ChecksTable({ analysis }: { analysis: AnalysisResult }) {
               <td className="whitespace-nowrap tabular-nums">{formatFigure(c.measured, c.unit)}</td>
               <td className="whitespace-nowrap tabular-nums">{formatLimit(c)}</td>
               <td className="text-xs text-ink-muted">{c.basis}</td>
-              <td>{c.passed ? <Badge tone="pass">✓ Pass</Badge> : <Badge tone="fail">✕ Fail</Badge>}</td>
+              <td className="whitespace-nowrap">{c.passed ? <Badge tone="pass">✓ Pass</Badge> : <Badge tone="fail">✕ Fail</Badge>}</td>
             </tr>
           ))}
         </tbody>
@@ -59,14 +59,14 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
           <tbody>
             {analysis.channels.map((ch) => (
               <tr key={ch.header}>
-                <td className="font-medium">{ch.header}</td>
-                <td>{ch.role === "reference" ? <Badge tone="steam">Reference (drain)</Badge> : "Load"}</td>
+                <td className="whitespace-nowrap font-medium">{ch.header}</td>
+                <td className="whitespace-nowrap">{ch.role === "reference" ? <Badge tone="steam">Reference (drain)</Badge> : "Load"}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.minDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.maxDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.meanDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">
                   {ch.arrivalAfterPlateauStart === null ? (
-                    <span className="text-fail-700">never</span>
+                    analysis.plateau ? <span className="text-fail-700">never</span> : "—"
                   ) : (
                     `${formatNumber(ch.arrivalAfterPlateauStart, ch.arrivalAfterPlateauStart < 10 ? 1 : 0)} s`
                   )}
@@ -88,25 +88,27 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
 
 export function KeyFigures({ analysis }: { analysis: AnalysisResult | null }) {
   if (!analysis) return <EmptyState title="No figures without an analysis" />;
+  const interval = analysis.record.medianSampleIntervalS;
   const rows: Array<[string, string]> = [
-    ["Plateau", analysis.plateau ? `${formatElapsed(analysis.plateau.start)} – ${formatElapsed(analysis.plateau.end)}` : "not reached"],
+    ["Plateau", analysis.plateau ? `${formatElapsed(analysis.plateau.start)}–${formatElapsed(analysis.plateau.end)}` : "not reached"],
     ["Equilibration time", formatSeconds(analysis.equilibrationTime)],
     ["Holding time", formatSeconds(analysis.holdingTime)],
     [
-      "Deviation from saturation",
+      "Reference − saturation",
       analysis.saturation.lowestDeviation === null || analysis.saturation.highestDeviation === null
         ? "—"
         : `${signed(analysis.saturation.lowestDeviation)} to ${signed(analysis.saturation.highestDeviation)} K`,
     ],
     ["F0 of the reference", `${formatNumber(analysis.f0[analysis.referenceChannel] ?? null, 1)} min`],
-    ["Samples", `${analysis.record.samples.toLocaleString("en-GB")} over ${formatElapsed(analysis.record.durationS)}, every ${formatNumber(analysis.record.medianSampleIntervalS, analysis.record.medianSampleIntervalS < 10 ? 1 : 0)} s`],
+    ["Record length", formatElapsed(analysis.record.durationS)],
+    ["Samples", `${analysis.record.samples.toLocaleString("en-GB")}, every ${formatNumber(interval, interval < 10 && !Number.isInteger(interval) ? 1 : 0)} s`],
   ];
   return (
-    <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1.5 text-sm" data-testid="key-figures">
+    <dl className="grid grid-cols-[minmax(0,1fr)_auto] gap-x-3 gap-y-1.5 text-sm" data-testid="key-figures">
       {rows.map(([k, v]) => (
         <div key={k} className="contents">
           <dt className="text-ink-muted">{k}</dt>
-          <dd className="text-right font-medium tabular-nums">{v}</dd>
+          <dd className="whitespace-nowrap text-right font-medium tabular-nums">{v}</dd>
         </div>
       ))}
     </dl>
@@ -125,11 +127,11 @@ export function ProfileLimits({ profile }: { profile: CycleDetail["profile"] }) 
   ];
   return (
     <>
-      <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1.5 text-sm">
+      <dl className="grid grid-cols-[minmax(0,1fr)_auto] gap-x-3 gap-y-1.5 text-sm">
         {rows.map(([k, v]) => (
           <div key={k} className="contents">
             <dt className="text-ink-muted">{k}</dt>
-            <dd className="text-right tabular-nums">{v}</dd>
+            <dd className="whitespace-nowrap text-right tabular-nums">{v}</dd>
           </div>
         ))}
       </dl>

@@ -10,6 +10,7 @@ import {
   clockTimeAt,
   elapsedTickLabels,
   formatElapsed,
+  fullResolutionSpan,
   isZoomed,
   panWindow,
   resolutionNote,
@@ -46,6 +47,7 @@ export function TimeChart({ cycleId, cycleNumber, timeZone, summary }: Props) {
     view && zoomed.data && windowCovers(zoomed.data.window, view) ? zoomed.data : overview.data;
   const loadingWindow = view !== null && shown === overview.data && zoomed.isLoading;
 
+  const fullSpan = overview.data ? fullResolutionSpan(overview.data.totalSamples, overview.data.window, WINDOW_POINTS) : Infinity;
   const onViewChange = useCallback(
     (next: TimeWindow, whole: TimeWindow) => {
       if (!isZoomed(next, whole)) {
@@ -54,9 +56,15 @@ export function TimeChart({ cycleId, cycleNumber, timeZone, summary }: Props) {
         return;
       }
       setView(next);
-      setFetchWindow((current) => (current && windowCovers(current, next) && current.to - current.from < (next.to - next.from) * 3 ? current : windowToFetch(next, whole)));
+      setFetchWindow((current) => {
+        if (!current || !windowCovers(current, next)) return windowToFetch(next, whole, fullSpan);
+        const currentSpan = current.to - current.from;
+        const nextSpan = next.to - next.from;
+        const resolutionStillRight = currentSpan <= fullSpan || nextSpan > fullSpan;
+        return resolutionStillRight && currentSpan < nextSpan * 3 ? current : windowToFetch(next, whole, fullSpan);
+      });
     },
-    [],
+    [fullSpan],
   );
 
   if (overview.error) {
@@ -207,7 +215,7 @@ function ChartCanvas({ series, shown, view, record, timeZone, label, describedBy
       <div ref={plotRef} role="img" aria-label={label} aria-describedby={describedBy} className="w-full" data-testid="time-chart-plot" />
       <div
         ref={legendRef}
-        className="mt-1 [&_.u-legend]:text-left [&_.u-legend]:text-xs [&_.u-legend_th]:cursor-pointer [&_.u-legend_th]:font-normal [&_.u-legend_.u-off]:opacity-40 [&_.u-legend_th:focus-visible]:outline-2 [&_.u-legend_th:focus-visible]:outline-steam-500 [&_.u-legend_.u-value]:font-mono [&_.u-legend_.u-value]:tabular-nums"
+        className="mt-1 [&_.u-legend]:text-left [&_.u-legend]:text-xs [&_.u-legend_th]:cursor-pointer [&_.u-legend_th]:font-normal [&_.u-legend_.u-off]:opacity-40 [&_.u-legend_.u-off_.u-label]:line-through [&_.u-legend_th:focus-visible]:outline-2 [&_.u-legend_th:focus-visible]:outline-steam-500 [&_.u-legend_.u-value]:font-mono [&_.u-legend_.u-value]:tabular-nums"
         data-testid="time-chart-legend"
       />
       <p className="mt-1 text-xs text-ink-muted">Click a channel in the legend (or Tab to it and press Enter) to hide or show it; the values are those under the cursor.</p>
@@ -390,19 +398,36 @@ function chartOptions({
             ctx.strokeStyle = CHART.plateau;
             ctx.fillStyle = CHART.plateau;
             ctx.lineWidth = 1.5 * px;
+            // Start label to the left of its line, end label to the right: they never collide.
             const marks: Array<[number, string, CanvasTextAlign]> = [
-              [plateau.start, `Plateau start ${formatElapsed(plateau.start)}`, "left"],
-              [plateau.end, `Plateau end ${formatElapsed(plateau.end)}`, "right"],
+              [plateau.start, `Plateau start ${formatElapsed(plateau.start)}`, "right"],
+              [plateau.end, `Plateau end ${formatElapsed(plateau.end)}`, "left"],
             ];
-            for (const [t, text, align] of marks) {
-              const x = Math.round(u.valToPos(t, "x", true)) + 0.5;
+            const xs = marks.map(([t]) => Math.round(u.valToPos(t, "x", true)) + 0.5);
+            for (const x of xs) {
               if (x < left || x > left + width) continue;
               ctx.beginPath();
               ctx.moveTo(x, top);
               ctx.lineTo(x, top + height);
               ctx.stroke();
-              ctx.textAlign = align;
-              ctx.fillText(text, x + (align === "left" ? 4 : -4) * px, top - 3 * px);
+            }
+            const canvasWidth = u.ctx.canvas.width;
+            const widths = marks.map(([, text]) => ctx.measureText(text).width);
+            const startFits = xs[0] - widths[0] - 4 * px >= 0;
+            const endFits = xs[1] + widths[1] + 4 * px <= canvasWidth;
+            if (startFits && endFits) {
+              marks.forEach(([, text, align], i) => {
+                if (xs[i] < left || xs[i] > left + width) return;
+                ctx.textAlign = align;
+                ctx.fillText(text, xs[i] + (align === "left" ? 4 : -4) * px, top - 3 * px);
+              });
+            } else {
+              // near an edge: one label for both lines, kept inside the canvas
+              const text = `Plateau ${formatElapsed(plateau.start)}–${formatElapsed(plateau.end)}`;
+              const w = ctx.measureText(text).width;
+              const centre = Math.min(Math.max((xs[0] + xs[1]) / 2, w / 2 + 2 * px), canvasWidth - w / 2 - 2 * px);
+              ctx.textAlign = "center";
+              ctx.fillText(text, centre, top - 3 * px);
             }
           }
 

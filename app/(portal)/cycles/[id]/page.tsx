@@ -89,6 +89,10 @@ export default async function CycleRecordPage({ params }: Props) {
             <Findings detail={detail} />
           </Panel>
 
+          <Panel title="Checks">
+            {a ? <ChecksTable analysis={a} /> : <EmptyState title="No checks without an analysis" />}
+          </Panel>
+
           <Panel title="Temperatures and pressure over time">
             {a ? (
               <TimeChart
@@ -119,10 +123,6 @@ export default async function CycleRecordPage({ params }: Props) {
             )}
           </Panel>
 
-          <Panel title="Checks">
-            {a ? <ChecksTable analysis={a} /> : <EmptyState title="No checks without an analysis" />}
-          </Panel>
-
           <Panel title="Channels">
             {a ? <ChannelTable analysis={a} /> : <EmptyState title="No channel figures without an analysis" />}
           </Panel>
@@ -131,17 +131,15 @@ export default async function CycleRecordPage({ params }: Props) {
             <FilesList files={detail.files} timeZone={tz} />
           </Panel>
 
-          <div className="grid gap-gutter lg:grid-cols-2">
-            <Panel title="Analyses">
-              <AnalysisHistory history={detail.analysisHistory} currentId={detail.analysisId} timeZone={tz} />
-            </Panel>
-            <Panel title="Record history">
-              <RecordHistory
-                events={events.map((e) => ({ seq: e.seq, at: e.at, actorEmail: e.actorEmail, action: e.action, reason: e.reason, newValue: e.newValue }))}
-                timeZone={tz}
-              />
-            </Panel>
-          </div>
+          <Panel title="Analyses">
+            <AnalysisHistory history={detail.analysisHistory} currentId={detail.analysisId} timeZone={tz} />
+          </Panel>
+          <Panel title="Record history">
+            <RecordHistory
+              events={events.map((e) => ({ seq: e.seq, at: e.at, actorEmail: e.actorEmail, action: e.action, reason: e.reason, newValue: e.newValue }))}
+              timeZone={tz}
+            />
+          </Panel>
         </div>
 
         <aside className="space-y-gutter" aria-label="Figures and sign-off">
