@@ -38,14 +38,16 @@ function ScheduleRowForm({ sterilizerId, row }: { sterilizerId: string; row: Row
   return (
     <div className="rounded-md border border-ink-line p-3">
       <p className="text-sm font-medium">{PERIODIC_TEST_LABELS[row.kind] ?? row.kind}</p>
-      <form onSubmit={save.onSubmit} className="mt-2 grid gap-2 sm:grid-cols-[8rem_1fr_auto] sm:items-end" noValidate>
+      <form onSubmit={save.onSubmit} className="mt-2 space-y-2" noValidate>
         <input type="hidden" name="sterilizerId" value={sterilizerId} />
         <input type="hidden" name="kind" value={row.kind} />
-        <TextInput id={`${id}-interval`} name="intervalDays" label="Interval" suffix="days" inputMode="numeric" defaultValue={row.intervalDays} error={save.errors.intervalDays} />
+        <div className="grid grid-cols-[1fr_auto] items-end gap-2">
+          <TextInput id={`${id}-interval`} name="intervalDays" label="Interval" suffix="days" inputMode="numeric" defaultValue={row.intervalDays} error={save.errors.intervalDays} />
+          <button className="btn-secondary" disabled={save.pending}>
+            {save.pending ? "Saving…" : "Save"}
+          </button>
+        </div>
         <TextInput id={`${id}-reason`} name="reason" label="Reason for a change" error={save.errors.reason} />
-        <button className="btn-secondary" disabled={save.pending}>
-          {save.pending ? "Saving…" : "Save"}
-        </button>
       </form>
       <div className="mt-2">
         <FormMessage state={save.state} />
@@ -84,7 +86,7 @@ function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: str
     <form onSubmit={onSubmit} className="rounded-md border border-dashed border-ink-line p-3" noValidate aria-label="Add a test to the schedule">
       <p className="text-sm font-medium">Add a test to the schedule</p>
       <input type="hidden" name="sterilizerId" value={sterilizerId} />
-      <div className="mt-2 grid gap-2 sm:grid-cols-[1fr_8rem_auto] sm:items-end">
+      <div className="mt-2 space-y-2">
         <Field id="add-sched-kind" label="Test" error={errors.kind}>
           <select
             id="add-sched-kind"
@@ -103,10 +105,12 @@ function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: str
             ))}
           </select>
         </Field>
-        <TextInput id="add-sched-interval" name="intervalDays" label="Interval" suffix="days" inputMode="numeric" value={interval} onChange={setInterval} error={errors.intervalDays} />
-        <button className="btn-primary" disabled={pending}>
-          Add
-        </button>
+        <div className="grid grid-cols-[1fr_auto] items-end gap-2">
+          <TextInput id="add-sched-interval" name="intervalDays" label="Interval" suffix="days" inputMode="numeric" value={interval} onChange={setInterval} error={errors.intervalDays} />
+          <button className="btn-primary" disabled={pending}>
+            Add
+          </button>
+        </div>
       </div>
       <p className="mt-1 text-xs text-ink-muted">Suggested intervals follow common practice (daily Bowie-Dick, weekly air leakage, quarterly and yearly thermometric and steam quality tests); your written scheme decides.</p>
       <div className="mt-2">

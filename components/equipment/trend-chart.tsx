@@ -2,8 +2,8 @@ import type { TrendFigure } from "@/lib/periodic-tests/trends";
 import { formatDate } from "@/lib/format";
 
 const W = 520;
-const H = 170;
-const PAD = { left: 46, right: 12, top: 12, bottom: 26 };
+const H = 200;
+const PAD = { left: 52, right: 14, top: 14, bottom: 30 };
 
 function niceMax(v: number): number {
   if (v <= 0) return 1;
@@ -63,17 +63,17 @@ export function TrendChart({ figure, timeZone }: { figure: TrendFigure; timeZone
         {ticks.map((t) => (
           <g key={t}>
             <line x1={PAD.left} x2={W - PAD.right} y1={y(t)} y2={y(t)} className="stroke-ink-line" strokeWidth={0.5} />
-            <text x={PAD.left - 6} y={y(t) + 3} textAnchor="end" className="fill-ink-muted" fontSize={10}>
+            <text x={PAD.left - 6} y={y(t) + 3} textAnchor="end" className="fill-ink-muted" fontSize={12}>
               {figure.unit === "s" ? `${t.toFixed(0)} s` : `${t.toFixed(1)} K`}
             </text>
           </g>
         ))}
-        <text x={PAD.left} y={H - 8} className="fill-ink-muted" fontSize={10}>{formatDate(new Date(t0).toISOString(), timeZone)}</text>
-        <text x={W - PAD.right} y={H - 8} textAnchor="end" className="fill-ink-muted" fontSize={10}>{formatDate(new Date(t1).toISOString(), timeZone)}</text>
+        <text x={PAD.left} y={H - 8} className="fill-ink-muted" fontSize={12}>{formatDate(new Date(t0).toISOString(), timeZone)}</text>
+        <text x={W - PAD.right} y={H - 8} textAnchor="end" className="fill-ink-muted" fontSize={12}>{formatDate(new Date(t1).toISOString(), timeZone)}</text>
         {limitPath && (
           <>
             <path d={limitPath} fill="none" className="stroke-caution-500" strokeWidth={1.5} strokeDasharray="5 3" />
-            <text x={W - PAD.right} y={y(figure.points.at(-1)?.limit ?? 0) - 4} textAnchor="end" className="fill-caution-700" fontSize={10}>
+            <text x={W - PAD.right} y={y(figure.points.at(-1)?.limit ?? 0) - 4} textAnchor="end" className="fill-caution-700" fontSize={12}>
               limit
             </text>
           </>

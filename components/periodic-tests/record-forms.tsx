@@ -83,9 +83,17 @@ function ResultPreview({ preview, waiting }: { preview: Preview; waiting: string
 }
 
 function SaveBar({ state, pending, label = "Save test record" }: { state: FormState; pending: boolean; label?: string }) {
+  // Saved, but the test itself failed: say both, without the reassuring green.
+  const savedFail = state.status === "ok" && /recorded: FAIL/.test(state.message ?? "");
   return (
     <div className="space-y-2">
-      <FormMessage state={state} />
+      {savedFail ? (
+        <p role="status" className="rounded-md border border-fail-500/40 bg-fail-50 px-3 py-2 text-sm text-fail-700">
+          Saved. ✕ {state.message}
+        </p>
+      ) : (
+        <FormMessage state={state} />
+      )}
       <button className="btn-primary" disabled={pending}>{pending ? "Saving…" : label}</button>
     </div>
   );

@@ -22,7 +22,7 @@ export default async function ProfilesPage() {
         subtitle="The limits each cycle is judged against. A profile that cycles were analysed with is never changed in place: an edit creates a new version and retires the old one."
         actions={<Link href="/sterilizers" className="btn-secondary">Sterilizers</Link>}
       />
-      <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[1fr_26rem]" : ""}`}>
+      <div className={`grid gap-gutter ${manage ? "2xl:grid-cols-[1fr_26rem]" : ""}`}>
         <div className="space-y-gutter">
           <Panel title={`${active.length} profile${active.length === 1 ? "" : "s"} in use`}>
             {active.length === 0 ? <EmptyState title="No acceptance profile yet." /> : <ProfileTable rows={active} />}
@@ -54,7 +54,7 @@ function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof listProfiles>>
         <tbody>
           {rows.map((p) => (
             <tr key={p.id}>
-              <td>
+              <td className="min-w-[15rem]">
                 <Link href={`/profiles/${p.id}`} className="font-medium text-steam-700 hover:underline">{p.name}</Link>
                 {!p.active && <> <Badge>Retired</Badge></>}
                 <p className="max-w-xs text-xs text-ink-muted">{p.basis}</p>
@@ -66,7 +66,7 @@ function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof listProfiles>>
               <td>{p.maxSpreadK} K</td>
               <td>{p.saturationLimitK} K</td>
               <td className="whitespace-nowrap text-xs">{p.f0ReferenceC} °C, z {p.f0ZK} K</td>
-              <td className="text-xs">
+              <td className="min-w-[9rem] text-xs">
                 {p.cycleCount} cycle{p.cycleCount === 1 ? "" : "s"}
                 {p.defaultFor.length > 0 && <p className="text-ink-muted">Default for {p.defaultFor.join(", ")}</p>}
               </td>

@@ -63,7 +63,7 @@ export default async function SterilizersPage() {
                       <td>
                         {s.lastCycle ? (
                           <div className="space-y-1">
-                            <Link href={`/cycles/${s.lastCycle.id}`} className="mono font-medium text-steam-700 hover:underline">{s.lastCycle.cycleNumber}</Link>
+                            <Link href={`/cycles/${s.lastCycle.id}`} className="mono whitespace-nowrap font-medium text-steam-700 hover:underline">{s.lastCycle.cycleNumber}</Link>
                             <p className="text-xs text-ink-muted">{formatDateTime(s.lastCycle.startedAt ?? s.lastCycle.createdAt, timeZone)}</p>
                             <VerdictBadge verdict={s.lastCycle.verdict} />
                           </div>
@@ -77,15 +77,17 @@ export default async function SterilizersPage() {
                         ) : s.testsNeedingAction.length === 0 ? (
                           <Badge tone="pass">✓ All up to date</Badge>
                         ) : (
-                          <ul className="space-y-1">
-                            {s.testsNeedingAction.map((t) => (
-                              <li key={t.kind}>
-                                <Badge tone={t.status.state === "due-today" ? "caution" : "fail"}>
-                                  {t.status.state === "due-today" ? "▲" : "✕"} {PERIODIC_TEST_LABELS[t.kind]}
-                                  {t.status.state === "overdue" ? " · overdue" : t.status.state === "due-today" ? " · today" : t.status.state === "failed" ? " · failed" : " · never done"}
-                                </Badge>
-                              </li>
-                            ))}
+                          <ul className="space-y-1 text-sm">
+                            {s.testsNeedingAction.map((t) => {
+                              const today = t.status.state === "due-today";
+                              const word = { overdue: "overdue", "due-today": "due today", failed: "failed, repeat", never: "never passed" }[t.status.state as string] ?? "";
+                              return (
+                                <li key={t.kind} className={today ? "text-caution-700" : "text-fail-700"}>
+                                  <span aria-hidden>{today ? "▲ " : "✕ "}</span>
+                                  {PERIODIC_TEST_LABELS[t.kind]}: <strong className="font-semibold">{word}</strong>
+                                </li>
+                              );
+                            })}
                           </ul>
                         )}
                       </td>

@@ -71,7 +71,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
             {trends.analysed === 0 ? (
               <EmptyState title="No analysed cycle in this period.">Trends appear once cycles of this sterilizer have been analysed.</EmptyState>
             ) : (
-              <div className="grid gap-6 lg:grid-cols-2">
+              <div className="grid gap-6 md:grid-cols-2">
                 {trends.figures.map((f) => (
                   <TrendChart key={f.id} figure={f} timeZone={timeZone} />
                 ))}
