@@ -64,7 +64,7 @@ export function TrendChart({ figure, timeZone }: { figure: TrendFigure; timeZone
           <g key={t}>
             <line x1={PAD.left} x2={W - PAD.right} y1={y(t)} y2={y(t)} className="stroke-ink-line" strokeWidth={0.5} />
             <text x={PAD.left - 6} y={y(t) + 3} textAnchor="end" className="fill-ink-muted" fontSize={12}>
-              {figure.unit === "s" ? `${t.toFixed(0)} s` : `${t.toFixed(1)} K`}
+              {figure.unit === "s" ? `${+t.toFixed(0)} s` : `${+t.toFixed(2)} K`}
             </text>
           </g>
         ))}
