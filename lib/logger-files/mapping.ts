@@ -316,6 +316,7 @@ export function planColumns(
   }
 
   resolvePressureUnit(pressure, referenceColumn, sampleRows, decimal, overrides, atmosphereKpa);
+  for (const c of columns) c.unsure = c.unsure.filter((u) => u !== "unit-unknown" && u !== "gauge-or-absolute");
 
   return {
     columns,

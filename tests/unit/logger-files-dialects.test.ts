@@ -280,3 +280,13 @@ describe("the time column is found by its header before its content", () => {
     expect(values(recording.timesS)).toEqual([0, 1, 2]);
   });
 });
+
+describe("several pressure columns", () => {
+  it("uses the chamber pressure and says why the other is left out", () => {
+    const file = utf8("Time (s),Drain (°C),Pack (°C),Jacket pressure,Chamber pressure (kPa)\n0,134.1,134,320,304.2\n1,134.2,134.1,321,304.9\n2,134.3,134.2,320,305.6\n");
+    const { columns, recording } = readLoggerFile(file);
+    expect(recording.pressure.header).toBe("Chamber pressure (kPa)");
+    expect(columns[3].role).toBe("ignored");
+    expect(columns[3].unsure).toEqual(['another pressure column; "Chamber pressure (kPa)" is used as the chamber pressure']);
+  });
+});
