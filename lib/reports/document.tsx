@@ -12,6 +12,7 @@ import { bytes, duration, fixed, pdfText, signed, testKindLabel } from "./text";
 import { CONTENT_WIDTH, colour, loadChannelStyle, seriesStyle } from "./theme";
 import { bothClocks, instantOf, siteClockAt } from "./time";
 import { TimeChart } from "./time-chart";
+import { DraftWatermark } from "./watermark";
 
 type Style = (typeof s)[keyof typeof s];
 type Styles = Style | Style[] | Record<string, string | number>;
@@ -431,11 +432,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
       modificationDate={new Date(generatedAt)}
     >
       <Page size="A4" style={draft ? [s.page, s.draftPage] : s.page}>
-        {draft ? (
-          <T style={s.watermark} fixed>
-            DRAFT
-          </T>
-        ) : null}
+        {draft ? <DraftWatermark /> : null}
         <View style={s.header} fixed>
           <View style={{ flexDirection: "row", alignItems: "flex-end" }}>
             <T style={s.brand}>PAPIN</T>
@@ -609,21 +606,23 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
         <View wrap={false}>
           <Heading>This report and how to verify it</Heading>
           <View style={s.identity}>
-            <View style={{ flexDirection: "row" }}>
-              <View style={{ flex: 1 }}>
-                <T style={s.small}>Report number</T>
-                <T style={[s.mono, { fontSize: 11, fontWeight: 500 }]}>{reportNumber}</T>
-              </View>
-              <View style={{ flex: 1.4 }}>
-                <T style={s.small}>Generated</T>
-                <T>{generated.utc}</T>
-                <T style={s.small}>{generated.site}</T>
-              </View>
+            <View style={s.identityRow}>
+              <T style={s.identityLabel}>Report number</T>
+              <T style={[s.mono, { fontSize: 11, fontWeight: 500 }]}>{reportNumber}</T>
             </View>
-            <T style={[s.small, { marginTop: 4 }]}>Cycle record</T>
-            <T style={s.mono}>{detail.id}</T>
-            <T style={{ marginTop: 5 }}>{verifyHint}</T>
-            <T style={[s.small, { marginTop: 3 }]}>
+            <View style={s.identityRow}>
+              <T style={s.identityLabel}>Generated</T>
+              <T>{`${generated.utc}  ·  ${generated.site}`}</T>
+            </View>
+            <View style={s.identityRow}>
+              <T style={s.identityLabel}>Cycle record</T>
+              <T style={s.mono}>{detail.id}</T>
+            </View>
+            <View style={[s.identityRow, { marginTop: 4 }]}>
+              <T style={s.identityLabel}>How to verify</T>
+              <T style={{ flex: 1 }}>{verifyHint}</T>
+            </View>
+            <T style={[s.small, { marginTop: 3, marginLeft: 92 }]}>
               {draft
                 ? "This is a draft. Only the copy rendered at approval is archived; a draft never verifies as an archived report."
                 : "At approval this report was rendered once and its SHA-256 archived. Only a byte-for-byte copy verifies; a re-export, print-out, scan or edited file does not."}

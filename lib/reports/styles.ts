@@ -29,7 +29,7 @@ export const s = StyleSheet.create({
     borderBottomColor: colour.brass500,
     paddingBottom: 4,
   },
-  brand: { fontSize: 10, fontWeight: 700, letterSpacing: 2.2, color: colour.brass600 },
+  brand: { fontSize: 10.5, fontWeight: 700, letterSpacing: 0.4, color: colour.brass600 },
   headerTitle: { fontSize: 8, color: colour.inkMuted, marginLeft: 8, marginBottom: 0.6 },
   headerRight: { fontSize: 8, color: colour.inkSoft, fontFamily: FONT_MONO },
 
@@ -47,21 +47,8 @@ export const s = StyleSheet.create({
     flexDirection: "row",
     alignItems: "center",
   },
-  draftBannerStrong: { fontSize: 8.6, fontWeight: 700, color: colour.caution700, letterSpacing: 0.6, marginRight: 8 },
+  draftBannerStrong: { fontSize: 8.6, fontWeight: 700, color: colour.caution700, letterSpacing: 0.3, marginRight: 8 },
   draftBannerText: { fontSize: 7.4, color: colour.caution700 },
-  watermark: {
-    position: "absolute",
-    top: A4.height / 2 - 40,
-    left: -40,
-    width: A4.width + 80,
-    textAlign: "center",
-    transform: "rotate(-38deg)",
-    fontSize: 120,
-    fontWeight: 700,
-    color: colour.caution500,
-    opacity: 0.07,
-    letterSpacing: 12,
-  },
 
   // Placed from the top: react-pdf 4.9 drops a page-number (render) text positioned with "bottom".
   footer: {
@@ -86,8 +73,8 @@ export const s = StyleSheet.create({
 
   verdict: { flexDirection: "row", borderRadius: 3, borderWidth: 1, marginBottom: 10 },
   verdictWordBox: { width: 128, paddingVertical: 10, paddingHorizontal: 12, justifyContent: "center" },
-  verdictCaption: { fontSize: 7, letterSpacing: 1, fontWeight: 600 },
-  verdictWord: { fontSize: 30, fontWeight: 700, letterSpacing: 1.5, lineHeight: 1.1 },
+  verdictCaption: { fontSize: 7, letterSpacing: 0.3, fontWeight: 600 },
+  verdictWord: { fontSize: 30, fontWeight: 700, letterSpacing: 0.5, lineHeight: 1.1 },
   verdictBody: { flex: 1, paddingVertical: 9, paddingHorizontal: 12, borderLeftWidth: 1, justifyContent: "center" },
   verdictSummary: { fontSize: 9.6, lineHeight: 1.4, color: colour.ink },
 
@@ -102,7 +89,7 @@ export const s = StyleSheet.create({
     paddingHorizontal: 6,
   },
   readoutGap: { marginLeft: 5 },
-  readoutLabel: { fontSize: 6.4, color: colour.inkMuted, textTransform: "uppercase", letterSpacing: 0.5 },
+  readoutLabel: { fontSize: 6.4, color: colour.inkMuted, textTransform: "uppercase", letterSpacing: 0.3 },
   readoutValue: { fontFamily: FONT_MONO, fontSize: 10.5, fontWeight: 500, color: colour.ink, marginTop: 1.5, lineHeight: 1.2 },
   readoutNote: { fontSize: 6.4, color: colour.inkMuted, marginTop: 1.5 },
 
@@ -156,6 +143,8 @@ export const s = StyleSheet.create({
   signatureBlank: { borderWidth: 0.8, borderColor: colour.inkFaint, borderStyle: "dashed", borderRadius: 2, padding: 8, marginBottom: 6, color: colour.inkMuted },
 
   identity: { borderWidth: 0.8, borderColor: colour.steam500, backgroundColor: colour.steam50, borderRadius: 2, padding: 8 },
+  identityRow: { flexDirection: "row", alignItems: "baseline", marginBottom: 2 },
+  identityLabel: { width: 92, fontSize: 7.6, color: colour.inkMuted },
   safety: { borderWidth: 0.8, borderColor: colour.caution500, borderRadius: 2, padding: 8, backgroundColor: colour.caution50 },
   safetyItem: { marginBottom: 4 },
   safetyTitle: { fontWeight: 700, color: colour.caution700 },
