@@ -87,12 +87,13 @@ export function chartTraces(series: SeriesResponse): TraceSpec[] {
   let loads = 0;
   return ordered.map(({ channel, channelIndex }) => {
     const isLoad = channel.role === "load";
+    const shown = displayedHeader(channel.header, channel.kind);
     const label =
       channel.role === "saturation"
         ? "Saturation temperature from pressure"
         : channel.role === "reference"
-          ? `${channel.header} (reference)`
-          : channel.header;
+          ? `${shown} (reference)`
+          : shown;
     return {
       channelIndex,
       label,
@@ -106,6 +107,16 @@ export function chartTraces(series: SeriesResponse): TraceSpec[] {
       loadIndex: isLoad ? loads++ : null,
     };
   });
+}
+
+/**
+ * A channel's name for the chart. The API converts every value to °C or kPa abs, so a header that
+ * names another unit ("Chamber (bar g)", "Probe (°F)") says what the plotted numbers are.
+ */
+export function displayedHeader(header: string, kind: SeriesResponse["channels"][number]["kind"]): string {
+  if (kind === "pressure") return /kpa\s*(abs|a)\b/i.test(header) ? header : `${header}, as kPa abs`;
+  if (kind === "temperature") return /°\s*F|deg\s*F|\(\s*F\s*\)|\(\s*K\s*\)|fahrenheit|kelvin/i.test(header) ? `${header}, as °C` : header;
+  return header;
 }
 
 /** uPlot's aligned data: the time axis, then one array per trace in the traces' order. */

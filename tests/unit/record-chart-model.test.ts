@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import {
   alignedData,
   chartTraces,
+  displayedHeader,
   classifySample,
   clockTimeAt,
   countSides,
@@ -91,6 +92,13 @@ describe("the time chart's traces", () => {
     expect(traces[1]).toMatchObject({ dashed: true, label: "Saturation temperature from pressure" });
     expect(traces[4]).toMatchObject({ scale: "pressure", unit: "kPa abs" });
     expect(traces.map((t) => t.loadIndex)).toEqual([null, null, 0, 1, null]);
+  });
+
+  it("says that values from a bar-gauge or °F column are plotted as kPa abs and °C", () => {
+    expect(displayedHeader("Chamber (bar g)", "pressure")).toBe("Chamber (bar g), as kPa abs");
+    expect(displayedHeader("Chamber (kPa abs)", "pressure")).toBe("Chamber (kPa abs)");
+    expect(displayedHeader("Probe 3 (°F)", "temperature")).toBe("Probe 3 (°F), as °C");
+    expect(displayedHeader("Drain (°C)", "temperature")).toBe("Drain (°C)");
   });
 
   it("hands uPlot the time axis and each trace's values in the traces' order, gaps kept as null", () => {

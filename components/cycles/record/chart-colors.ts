@@ -28,7 +28,7 @@ export const CHART = {
 } as const;
 
 // Load channels: a colour-blind-aware categorical set (after Okabe & Ito), darkened for paper.
-const LOAD_COLOURS = ["#0072b2", "#d55e00", "#009e73", "#cc79a7", "#56a0d3", "#2f8f8a", "#c4473a", "#5a6f1e", "#44546a", "#e69f00"];
+const LOAD_COLOURS = ["#0072b2", "#d55e00", "#009e73", "#cc79a7", "#56a0d3", "#e69f00", "#44546a", "#c4473a", "#5a6f1e", "#2f8f8a"];
 
 export function loadColour(index: number): string {
   return LOAD_COLOURS[index % LOAD_COLOURS.length];

@@ -21,7 +21,7 @@ export function Findings({ detail }: { detail: CycleDetail }) {
         <p className={`text-sm font-semibold ${a.verdict === "pass" ? "text-pass-700" : "text-fail-700"}`} data-testid="verdict">
           {a.verdict === "pass" ? "✓ Pass: every check met its limit" : `✕ Fail: ${failed.length} of ${a.checks.length} checks did not meet their limit`}
         </p>
-        <p className="mt-1 text-sm text-ink">{a.summary}</p>
+        <p className="mt-1 text-sm text-ink">{a.summary.replace(/^(pass|fail)\s*:\s*/i, "").replace(/^./, (c) => c.toUpperCase())}</p>
       </div>
 
       {!a.plateau && (

@@ -79,7 +79,7 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
       </div>
       <p className="mt-2 text-xs text-ink-muted">
         Min, max and mean over the holding time{analysis.holdingTime === null ? " (none here, so no figures)" : ""}. F0 over the whole record with
-        T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber pressure from {analysis.pressureChannel}
+        T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber pressure from {analysis.pressureChannel}, in kPa absolute
         {hold ? `; its saturation temperature during holding was ${formatNumber(hold.min, 2)} to ${formatNumber(hold.max, 2)} °C (mean ${formatNumber(hold.mean, 2)} °C).` : "."}
       </p>
     </>

@@ -411,23 +411,23 @@ function chartOptions({
               ctx.lineTo(x, top + height);
               ctx.stroke();
             }
-            const canvasWidth = u.ctx.canvas.width;
+            const visible = xs.map((x) => x >= left && x <= left + width);
             const widths = marks.map(([, text]) => ctx.measureText(text).width);
-            const startFits = xs[0] - widths[0] - 4 * px >= 0;
-            const endFits = xs[1] + widths[1] + 4 * px <= canvasWidth;
-            if (startFits && endFits) {
-              marks.forEach(([, text, align], i) => {
-                if (xs[i] < left || xs[i] > left + width) return;
-                ctx.textAlign = align;
-                ctx.fillText(text, xs[i] + (align === "left" ? 4 : -4) * px, top - 3 * px);
-              });
-            } else {
-              // near an edge: one label for both lines, kept inside the canvas
+            const fits = [xs[0] - widths[0] - 4 * px >= left, xs[1] + widths[1] + 4 * px <= left + width];
+            if (visible[0] && visible[1] && !(fits[0] && fits[1])) {
+              // near an edge: one label for both lines, kept inside the plot
               const text = `Plateau ${formatElapsed(plateau.start)}–${formatElapsed(plateau.end)}`;
               const w = ctx.measureText(text).width;
-              const centre = Math.min(Math.max((xs[0] + xs[1]) / 2, w / 2 + 2 * px), canvasWidth - w / 2 - 2 * px);
+              const centre = Math.min(Math.max((xs[0] + xs[1]) / 2, left + w / 2 + 2 * px), left + width - w / 2 - 2 * px);
               ctx.textAlign = "center";
               ctx.fillText(text, centre, top - 3 * px);
+            } else {
+              marks.forEach(([, text, align], i) => {
+                if (!visible[i]) return;
+                const side: CanvasTextAlign = fits[i] ? align : align === "left" ? "right" : "left";
+                ctx.textAlign = side;
+                ctx.fillText(text, xs[i] + (side === "left" ? 4 : -4) * px, top - 3 * px);
+              });
             }
           }
 
