@@ -8,6 +8,8 @@ import { expect, signIn, test } from "./fixtures";
 const shots = "test-results/screenshots";
 mkdirSync(shots, { recursive: true });
 const workDir = mkdtempSync(path.join(tmpdir(), "papin-intake-e2e-"));
+// Unique per run, so that the list search finds this run's cycle only.
+const cycleNumber = `E2E-${Date.now().toString(36).toUpperCase()}`;
 
 /**
  * A 134 °C / 3 min cycle from the project's simulator, written the way a generic logger exports it:
@@ -111,7 +113,7 @@ test("a technician drops a simulated logger file, corrects the mapping, analyses
   await expect(page.getByLabel("Acceptance profile")).toHaveValue(/.+/);
   await expect(page.getByLabel("Acceptance profile").locator("option:checked")).toHaveText("134 °C / 3 min porous load");
   await chooseByText(page, "Logger (instrument)", "TL-12 (unit A)");
-  await page.getByLabel("Cycle number").fill("E2E-0001");
+  await page.getByLabel("Cycle number").fill(cycleNumber);
   await page.getByLabel("Load description").fill("Standard test pack, 6 probes in the pack, drain probe CH7");
   await page.getByLabel(/Save this column mapping for the instrument/).check();
   await page.screenshot({ path: `${shots}/intake-corrected.png`, fullPage: true });
@@ -121,7 +123,7 @@ test("a technician drops a simulated logger file, corrects the mapping, analyses
   await page.waitForURL(/\/cycles\/[0-9a-f-]{36}$/, { timeout: 30_000 });
   const id = page.url().split("/").pop()!;
 
-  await expect(page.getByTestId("record-header")).toContainText("E2E-0001");
+  await expect(page.getByTestId("record-header")).toContainText(cycleNumber);
   await expect(page.getByTestId("record-header")).toContainText("Pass");
   await expect(page.getByTestId("verdict")).toBeVisible();
   await expect(page.getByTestId("time-chart")).toBeVisible();
@@ -147,6 +149,50 @@ test("the instrument's saved mapping is applied to its next file", async ({ page
   await expect(page.getByLabel("Reference channel (chamber drain)")).toHaveValue("CH7 (°C)");
   await expect(page.getByLabel("Unit of Chamber pressure")).toHaveValue("bar");
   await page.screenshot({ path: `${shots}/intake-saved-mapping.png`, fullPage: true });
+});
+
+test("the new cycle is found in the cycles list; filters sit in the URL and go with the CSV download", async ({ page }) => {
+  await signInAs(page, "technician");
+  await page.goto("/cycles");
+  await expect(page.getByTestId("cycles-table")).toBeVisible();
+  await expect(page.getByTestId("list-count")).toContainText(/of \d+ cycles/);
+  await page.getByLabel("Search").fill(cycleNumber);
+  await expect(page).toHaveURL(new RegExp(`[?&]q=${cycleNumber}`));
+  await expect(page.getByTestId("list-count")).toHaveText("1–1 of 1 cycle");
+  await page.getByLabel("Verdict").selectOption("pass");
+  await expect(page).toHaveURL(/verdict=pass/);
+  await expect(page.getByTestId("cycle-link")).toHaveText([cycleNumber]);
+  const href = await page.getByTestId("export-csv").getAttribute("href");
+  expect(href).toMatch(/^\/api\/cycles\/export\?/);
+  expect(href).toContain(`q=${cycleNumber}`);
+  expect(href).toContain("verdict=pass");
+  const csv = await (await page.request.get(href!)).text();
+  expect(csv).toContain(cycleNumber);
+  expect(csv.trim().split("\r\n")).toHaveLength(2);
+  await page.screenshot({ path: `${shots}/cycles-list-filtered.png`, fullPage: true });
+
+  // The same URL reopened gives the same list; the sort is a click away.
+  await page.reload();
+  await expect(page.getByLabel("Search")).toHaveValue(cycleNumber);
+  await page.getByLabel("Search").fill("");
+  await page.getByRole("button", { name: "Clear filters" }).click();
+  await page.getByRole("button", { name: /^Cycle/ }).click();
+  await expect(page).toHaveURL(/sort=cycleNumber%3A(desc|asc)/);
+  await page.getByTestId("cycle-link").first().click();
+  await expect(page).toHaveURL(/\/cycles\/[0-9a-f-]{36}$/);
+});
+
+test("an engineer sees the review queue; a technician is refused it", async ({ page }) => {
+  await signInAs(page, "engineer");
+  await page.goto("/review");
+  await expect(page.getByTestId("cycles-table")).toBeVisible();
+  await expect(page.getByTestId("list-count")).not.toHaveText("Loading…");
+  await page.screenshot({ path: `${shots}/review-queue.png`, fullPage: true });
+  await page.context().clearCookies();
+  await signInAs(page, "technician");
+  const response = await page.goto("/review");
+  expect(response?.status()).toBe(403);
+  await expect(page.getByTestId("forbidden")).toBeVisible();
 });
 
 test("an auditor cannot open the intake page", async ({ page }) => {

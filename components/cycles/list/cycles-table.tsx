@@ -2,7 +2,7 @@
 
 import Link from "next/link";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
-import { useEffect, useId, useMemo, useState } from "react";
+import { useEffect, useId, useMemo, useRef, useState } from "react";
 import useSWR from "swr";
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import type { CycleListItem, CycleListResponse } from "@/lib/cycles/contracts";
@@ -71,10 +71,15 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
   const query = useMemo(() => readListQuery(new URLSearchParams(searchParams.toString()), defaults), [searchParams, defaults]);
 
   const [searchText, setSearchText] = useState(query.q);
-  useEffect(() => setSearchText(query.q), [query.q]);
+  useEffect(() => setSearchText((text) => (text.trim() === query.q.trim() ? text : query.q)), [query.q]);
+  // Timers and handlers read the latest URL state, never the one of the render that created them.
+  const latest = useRef(query);
+  latest.current = query;
 
   function navigate(next: Partial<CycleListQuery>, resetPage = true) {
-    const merged: CycleListQuery = { ...query, ...next, page: resetPage && next.page === undefined ? 1 : (next.page ?? query.page) };
+    const current = latest.current;
+    const merged: CycleListQuery = { ...current, ...next, page: resetPage && next.page === undefined ? 1 : (next.page ?? current.page) };
+    latest.current = merged;
     const qs = writeListQuery(merged, defaults);
     router.replace(qs ? `${pathname}?${qs}` : pathname, { scroll: false });
   }
@@ -84,8 +89,10 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
 
   // Typing waits for a pause before it asks the server.
   useEffect(() => {
-    if (searchText.trim() === query.q.trim()) return;
-    const timer = setTimeout(() => navigate({ q: searchText }), 350);
+    if (searchText.trim() === latest.current.q.trim()) return;
+    const timer = setTimeout(() => {
+      if (searchText.trim() !== latest.current.q.trim()) navigate({ q: searchText });
+    }, 350);
     return () => clearTimeout(timer);
   }, [searchText]); // navigate and query are read fresh when the timer fires
 
@@ -223,7 +230,7 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
       <div className="panel">
         <div className="flex flex-wrap items-center justify-between gap-3 border-b border-ink-line px-panel py-3">
           <p className="text-sm text-ink-soft" aria-live="polite" data-testid="list-count">
-            {data ? (data.total === 0 ? "No cycles" : `${first}–${last} of ${data.total.toLocaleString("en-GB")} cycles`) : "Loading…"}
+            {data ? (data.total === 0 ? "No cycles" : `${first}–${last} of ${data.total.toLocaleString("en-GB")} ${data.total === 1 ? "cycle" : "cycles"}`) : "Loading…"}
             {isValidating && data && <span className="ml-2 text-xs text-ink-faint">updating…</span>}
           </p>
           {exportable && data && data.total > 0 && (
