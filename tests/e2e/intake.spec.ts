@@ -60,7 +60,7 @@ async function chooseByText(page: Page, label: string, text: string) {
   await select.selectOption(value!);
 }
 
-async function signInAs(page: Page, role: "technician" | "auditor") {
+async function signInAs(page: Page, role: "technician" | "engineer" | "auditor") {
   await signIn(page, role);
   await expect(page.getByRole("heading", { name: /Welcome/ })).toBeVisible();
 }
