@@ -144,7 +144,11 @@ test("the instrument's saved mapping is applied to its next file", async ({ page
   await signInAs(page, "technician");
   await page.goto("/cycles/new");
   await chooseByText(page, "Logger (instrument)", "TL-12 (unit A)");
-  await dropFiles(page, [asDropped(file)]);
+  // This time from the keyboard: the drop area takes focus and Enter opens the file chooser.
+  await page.getByTestId("logger-dropzone").focus();
+  const chooser = page.waitForEvent("filechooser");
+  await page.keyboard.press("Enter");
+  await (await chooser).setFiles(file);
   await expect(page.getByTestId("mapping-notice")).toContainText("The mapping saved for Thermocouple logger TL-12 (unit A) was applied");
   await expect(page.getByLabel("Reference channel (chamber drain)")).toHaveValue("CH7 (°C)");
   await expect(page.getByLabel("Unit of Chamber pressure")).toHaveValue("bar");
