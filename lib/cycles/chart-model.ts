@@ -127,6 +127,7 @@ export function alignedData(series: SeriesResponse, traces: TraceSpec[]): Array<
 export function resolutionNote(series: SeriesResponse): string {
   const shown = series.timesS.length;
   if (series.fullResolution) {
+    if (shown === series.totalSamples) return `Full resolution: all ${shown.toLocaleString("en-GB")} samples of the record.`;
     return `Full resolution: every one of the ${shown.toLocaleString("en-GB")} samples in this window.`;
   }
   return `Downsampled to ${shown.toLocaleString("en-GB")} points of ${series.totalSamples.toLocaleString("en-GB")} samples, keeping each interval's highest and lowest value. Zoom in for full resolution.`;
@@ -254,7 +255,7 @@ function signed(v: number): string {
 // ---------------------------------------------------------------------------------------------
 // Phase diagram: pressure–temperature plane, pressure on a log axis
 
-export type PhaseView = "sterilization" | "cycle" | "full";
+export type PhaseView = "sterilization" | "plateau" | "cycle" | "full";
 export type PhaseRange = { tMinC: number; tMaxC: number; pMinKpa: number; pMaxKpa: number };
 export type PhaseSide = "on-line" | "liquid-side" | "vapour-side";
 export type PhaseSample = { timeS: number; temperatureC: number; pressureKpa: number };
@@ -341,8 +342,31 @@ export function describePlateauPosition(samples: PlateauSample[], limitK: number
 }
 
 /** The view's ranges. The sterilization view is fixed around the usual bands, the cycle view fits the path. */
-export function phaseRange(view: PhaseView, options: { samples: PhaseSample[]; sterilizationTempC: number; bandK: number }): PhaseRange {
+export function phaseRange(
+  view: PhaseView,
+  options: { samples: PhaseSample[]; sterilizationTempC: number; bandK: number; plateau?: PhaseSample[]; limitK?: number },
+): PhaseRange {
   if (view === "full") return FULL_PHASE_RANGE;
+  if (view === "plateau") {
+    const pts = (options.plateau ?? []).filter((s) => s.pressureKpa >= TRIPLE_POINT.pressureKpa && s.pressureKpa <= CRITICAL_POINT.pressureKpa);
+    if (pts.length === 0) return phaseRange("sterilization", options);
+    const limit = options.limitK ?? 2;
+    let tMin = options.sterilizationTempC;
+    let tMax = options.sterilizationTempC + options.bandK;
+    let pMin = Infinity;
+    let pMax = -Infinity;
+    for (const s of pts) {
+      tMin = Math.min(tMin, s.temperatureC, safeTsat(s.pressureKpa) - limit);
+      tMax = Math.max(tMax, s.temperatureC, safeTsat(s.pressureKpa) + limit);
+      pMin = Math.min(pMin, s.pressureKpa);
+      pMax = Math.max(pMax, s.pressureKpa);
+    }
+    // the line across the whole temperature span must be in sight too
+    pMin = Math.min(pMin, safePsat(tMin));
+    pMax = Math.max(pMax, safePsat(tMax));
+    const tPad = Math.max((tMax - tMin) * 0.08, 0.5);
+    return { tMinC: tMin - tPad, tMaxC: tMax + tPad, pMinKpa: pMin / 1.04, pMaxKpa: pMax * 1.04 };
+  }
   if (view === "sterilization") {
     const tMinC = Math.min(90, options.sterilizationTempC - 25);
     const tMaxC = Math.max(145, options.sterilizationTempC + options.bandK + 8);
@@ -445,6 +469,8 @@ export function linearTicks(min: number, max: number, target = 8): number[] {
 export function logTicks(min: number, max: number): Array<{ value: number; major: boolean }> {
   if (!(min > 0 && max > min)) return [];
   const decades = Math.log10(max) - Math.log10(min);
+  // A narrow window (a plateau close-up) reads best with evenly stepped values.
+  if (decades < 0.5) return linearTicks(min, max, 8).filter((v) => v >= min && v <= max).map((value) => ({ value, major: false }));
   const mantissas = decades <= 1.2 ? [1, 1.5, 2, 3, 4, 5, 6, 8] : decades <= 2.5 ? [1, 2, 3, 5] : decades <= 5 ? [1, 3] : [1];
   const out: Array<{ value: number; major: boolean }> = [];
   for (let k = Math.floor(Math.log10(min)); k <= Math.ceil(Math.log10(max)); k++) {

@@ -111,7 +111,8 @@ describe("the time chart's traces", () => {
   });
 
   it("says whether the chart shows every sample or a downsampled view", () => {
-    expect(resolutionNote(series())).toMatch(/^Full resolution: every one of the 5 samples/);
+    expect(resolutionNote(series())).toBe("Full resolution: all 5 samples of the record.");
+    expect(resolutionNote(series({ totalSamples: 900 }))).toMatch(/^Full resolution: every one of the 5 samples in this window/);
     const down = resolutionNote(series({ fullResolution: false, totalSamples: 86_400 }));
     expect(down).toContain("Downsampled to 5 points of 86,400 samples");
   });
@@ -244,6 +245,22 @@ describe("the phase-diagram view", () => {
     expect(full).toEqual(["triple", "boiling", "critical"]);
   });
 
+  it("closes in on the plateau with the line and the ±limit band in sight (IF97: Tsat(304.2 kPa) ≈ 134.0 °C, from memory)", () => {
+    const plateau = [
+      { timeS: 1, temperatureC: 134.5, pressureKpa: 310 },
+      { timeS: 2, temperatureC: 131.0, pressureKpa: 320 },
+    ];
+    const range = phaseRange("plateau", { samples: [], plateau, sterilizationTempC: 134, bandK: 3, limitK: 2 });
+    expect(range.tMinC).toBeLessThan(131);
+    expect(range.tMaxC).toBeGreaterThan(137);
+    expect(range.pMinKpa).toBeLessThan(304.2);
+    expect(range.pMaxKpa).toBeGreaterThan(320);
+    expect(range.tMaxC - range.tMinC).toBeLessThan(15);
+    expect(saturationCurveInRange(range).length).toBeGreaterThan(10);
+    // without a plateau it falls back to the sterilization region
+    expect(phaseRange("plateau", { samples: [], plateau: [], sterilizationTempC: 134, bandK: 3 })).toEqual({ tMinC: 90, tMaxC: 145, pMinKpa: 50, pMaxKpa: 450 });
+  });
+
   it("marks the 1 atm boiling point at 99.97 °C (IF97 region 4 at 101.325 kPa; value from memory)", () => {
     const marks = phaseLandmarks({ tMinC: 90, tMaxC: 145, pMinKpa: 50, pMaxKpa: 450 });
     expect(marks).toHaveLength(1);
@@ -299,6 +316,8 @@ describe("the phase-diagram view", () => {
     expect(ticks.map((t) => t.value)).toEqual([50, 60, 80, 100, 150, 200, 300, 400]);
     expect(ticks.filter((t) => t.major).map((t) => t.value)).toEqual([100]);
     expect(logTicks(0.3, 50_000).filter((t) => t.major).map((t) => t.value)).toEqual([1, 10, 100, 1000, 10_000]);
+    expect(logTicks(290, 330).map((t) => t.value)).toEqual([290, 295, 300, 305, 310, 315, 320, 325, 330]);
+    expect(logTicks(270, 390).map((t) => t.value)).toEqual([280, 300, 320, 340, 360, 380]);
   });
 
   it("thins long lists evenly, keeping both ends", () => {

@@ -37,6 +37,7 @@ const MAX_DOTS = 3000;
 
 const VIEWS: Array<{ id: PhaseView; label: string }> = [
   { id: "sterilization", label: "Sterilization region" },
+  { id: "plateau", label: "Plateau close-up" },
   { id: "cycle", label: "Whole cycle" },
   { id: "full", label: "Triple point to critical point" },
 ];
@@ -75,7 +76,10 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
     return source ? plateauSamples(phaseSamples(source), plateau, saturationLimitK) : [];
   }, [plateauSeries.data, overview.data, plateau, saturationLimitK]);
 
-  const range = useMemo(() => phaseRange(view, { samples: path, sterilizationTempC, bandK }), [view, path, sterilizationTempC, bandK]);
+  const range = useMemo(
+    () => phaseRange(view, { samples: path, sterilizationTempC, bandK, plateau: plateauPoints, limitK: saturationLimitK }),
+    [view, path, sterilizationTempC, bandK, plateauPoints, saturationLimitK],
+  );
   const { x, y } = useMemo(() => phaseScales(range, BOX), [range]);
   const curve = useMemo(() => saturationCurveInRange(range, view === "full" ? 320 : 180), [range, view]);
   const regions = useMemo(() => phaseRegions(range, curve), [range, curve]);
@@ -127,7 +131,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
   return (
     <figure className="m-0" data-testid="phase-diagram">
       <div className="mb-2 flex flex-wrap items-center gap-2 text-sm" role="group" aria-label="Phase-diagram range">
-        {VIEWS.map((v) => (
+        {VIEWS.filter((v) => v.id !== "plateau" || plateau).map((v) => (
           <button
             key={v.id}
             type="button"

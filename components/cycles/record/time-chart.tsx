@@ -48,6 +48,8 @@ export function TimeChart({ cycleId, cycleNumber, timeZone, summary }: Props) {
   const loadingWindow = view !== null && shown === overview.data && zoomed.isLoading;
 
   const fullSpan = overview.data ? fullResolutionSpan(overview.data.totalSamples, overview.data.window, WINDOW_POINTS) : Infinity;
+  // A record small enough to arrive whole needs no further requests when zoomed.
+  const overviewIsComplete = overview.data?.fullResolution === true;
   const onViewChange = useCallback(
     (next: TimeWindow, whole: TimeWindow) => {
       if (!isZoomed(next, whole)) {
@@ -56,6 +58,7 @@ export function TimeChart({ cycleId, cycleNumber, timeZone, summary }: Props) {
         return;
       }
       setView(next);
+      if (overviewIsComplete) return;
       setFetchWindow((current) => {
         if (!current || !windowCovers(current, next)) return windowToFetch(next, whole, fullSpan);
         const currentSpan = current.to - current.from;
@@ -64,7 +67,7 @@ export function TimeChart({ cycleId, cycleNumber, timeZone, summary }: Props) {
         return resolutionStillRight && currentSpan < nextSpan * 3 ? current : windowToFetch(next, whole, fullSpan);
       });
     },
-    [fullSpan],
+    [fullSpan, overviewIsComplete],
   );
 
   if (overview.error) {
