@@ -205,3 +205,39 @@ describe("acceptance profiles", () => {
     expect(state.fieldErrors?.reason).toMatch(/reason/);
   });
 });
+
+describe("instruments and calibration", () => {
+  it("an engineer records a certificate (audited) and a due date before the calibration date is refused beside the field", async () => {
+    as("engineer");
+    const { createInstrumentAction, addCertificateAction } = await import("@/app/(portal)/instruments/actions");
+    expect((await createInstrumentAction(IDLE, form({ name: "Logger C", serialNumber: "L-C", kind: "logger", channelCount: "12" }))).status).toBe("ok");
+    const { instruments, calibrationCertificates } = await import("@/db/schema");
+    const { eq } = await import("drizzle-orm");
+    const [inst] = await ctx.db.select().from(instruments).where(eq(instruments.serialNumber, "L-C"));
+    ids.instrument = inst.id;
+    const bad = await addCertificateAction(IDLE, form({ instrumentId: inst.id, certificateNumber: "C-1", issuedBy: "Test lab", calibratedOn: "2025-03-01", dueOn: "2025-02-01" }));
+    expect(bad.fieldErrors?.dueOn).toMatch(/after the calibration date/);
+    const ok = await addCertificateAction(IDLE, form({ instrumentId: inst.id, certificateNumber: "C-1", issuedBy: "Test lab", calibratedOn: "2025-03-01", dueOn: "2026-03-01", uncertaintyK: "0,2" }));
+    expect(ok.status).toBe("ok");
+    const [cert] = await ctx.db.select().from(calibrationCertificates).where(eq(calibrationCertificates.instrumentId, inst.id));
+    expect(cert).toMatchObject({ certificateNumber: "C-1", uncertaintyK: 0.2 });
+    expect((await auditEventsFor(inst.id)).map((e) => e.action)).toEqual(["instrument.create", "calibration.add"]);
+  });
+
+  it("clearing a saved mapping needs an engineer and a reason, and keeps the old mapping in the ledger", async () => {
+    const { instruments } = await import("@/db/schema");
+    const { eq } = await import("drizzle-orm");
+    await ctx.db.update(instruments).set({ savedMapping: { time: "Time", pressure: "P" } }).where(eq(instruments.id, ids.instrument));
+    const { clearMappingAction } = await import("@/app/(portal)/instruments/actions");
+    as("technician");
+    expect((await clearMappingAction(IDLE, form({ instrumentId: ids.instrument, reason: "probes re-wired" }))).message).toMatch(/role does not allow/);
+    as("engineer");
+    expect((await clearMappingAction(IDLE, form({ instrumentId: ids.instrument }))).fieldErrors?.reason).toBeTruthy();
+    expect((await clearMappingAction(IDLE, form({ instrumentId: ids.instrument, reason: "probes re-wired" }))).status).toBe("ok");
+    const [row] = await ctx.db.select().from(instruments).where(eq(instruments.id, ids.instrument));
+    expect(row.savedMapping).toBeNull();
+    const cleared = (await auditEventsFor(ids.instrument)).find((e) => e.action === "instrument.mapping-cleared")!;
+    expect(JSON.parse(cleared.oldValue!)).toEqual({ savedMapping: { time: "Time", pressure: "P" } });
+    expect(cleared.reason).toBe("probes re-wired");
+  });
+});
