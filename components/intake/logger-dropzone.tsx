@@ -2,7 +2,6 @@
 
 import { useDropzone, type FileRejection } from "react-dropzone";
 import { LOGGER_FILE_EXTENSIONS } from "@/lib/validations/intake";
-import { formatBytes } from "@/lib/format";
 
 const ACCEPT = {
   "text/csv": [".csv"],
@@ -16,7 +15,7 @@ export function describeRejections(rejections: readonly FileRejection[], limitMb
   return rejections.map(({ file, errors }) => {
     const codes = errors.map((e) => e.code);
     if (codes.includes("file-too-large")) {
-      return `${file.name} is ${formatBytes(file.size)}; the limit is ${limitMb} MB per file. Split the export or ask an administrator to raise the limit.`;
+      return `${file.name} is ${(file.size / 1048576).toFixed(1)} MB; the limit is ${limitMb} MB per file. Split the export or ask an administrator to raise the limit.`;
     }
     if (codes.includes("file-invalid-type")) {
       return `${file.name} is not a logger text file: Papin reads ${LOGGER_FILE_EXTENSIONS.join(", ")} exports.`;

@@ -76,7 +76,7 @@ test("the drop area refuses a file that is too large or not a logger export, say
     { name: "chamber-photo.png", type: "image/png", sizeBytes: 2048 },
   ]);
   const rejections = page.getByTestId("dropzone-rejections");
-  await expect(rejections).toContainText("day-export.csv is 51.0 MiB; the limit is 50 MB per file");
+  await expect(rejections).toContainText("day-export.csv is 51.0 MB; the limit is 50 MB per file");
   await expect(rejections).toContainText("chamber-photo.png is not a logger text file");
   await expect(page.getByTestId("mapping-table")).toHaveCount(0);
   await page.screenshot({ path: `${shots}/intake-rejected.png`, fullPage: true });
