@@ -549,10 +549,10 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           </T>
         ) : null}
 
-        <View>
+        <View wrap={false}>
           <Heading>The cycle against time</Heading>
           {series.timesS.length > 1 ? (
-            <View style={s.chartBox} wrap={false}>
+            <View style={s.chartBox}>
               <TimeChart id="whole" series={chartSeries} width={CONTENT_WIDTH - 13} height={250} fromS={first} toS={last} showPressure labelPlateau timeAxisNote={timeNote} />
               <Legend series={series} />
               <T style={s.caption}>

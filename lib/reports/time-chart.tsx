@@ -22,6 +22,33 @@ export type TimeChartProps = {
 
 const MARGIN = { top: 12, bottom: 30, left: 36 };
 
+/** "plateau start" and "plateau end" over their lines, or one "plateau" where the two would collide. */
+function PlateauLabels({ xStart, xEnd, left, right, y }: { xStart: number; xEnd: number; left: number; right: number; y: number }) {
+  const inside = (v: number) => v >= left - 0.5 && v <= right + 0.5;
+  if (xEnd - xStart < 90) {
+    const mid = Math.min(Math.max((xStart + xEnd) / 2, left + 14), right - 14);
+    return (
+      <SvgLabel x={mid} y={y} anchor="middle" fill={colour.brass700} weight={600}>
+        plateau
+      </SvgLabel>
+    );
+  }
+  return (
+    <G>
+      {inside(xStart) ? (
+        <SvgLabel x={Math.max(xStart - 2, left + 44)} y={y} anchor="end" fill={colour.brass700} weight={600}>
+          plateau start
+        </SvgLabel>
+      ) : null}
+      {inside(xEnd) ? (
+        <SvgLabel x={Math.min(xEnd + 2, right - 40)} y={y} anchor="start" fill={colour.brass700} weight={600}>
+          plateau end
+        </SvgLabel>
+      ) : null}
+    </G>
+  );
+}
+
 /** The cycle against time: temperatures and saturation temperature on the left axis, pressure on the right. */
 export function TimeChart({ id, series, width, height, fromS, toS, temperatureDomain, showPressure, labelPlateau, timeAxisNote }: TimeChartProps) {
   const right = showPressure ? 40 : 12;
@@ -125,16 +152,10 @@ export function TimeChart({ id, series, width, height, fromS, toS, temperatureDo
           )
             .filter(([, s]) => inSpan(s))
             .map(([name, s]) => (
-              <G key={`plateau-${name}`}>
-                <Line x1={x(s)} x2={x(s)} y1={plot.y} y2={plot.y + plot.h} stroke={colour.brass600} strokeWidth={0.7} strokeDasharray="2 1.5" />
-                {labelPlateau ? (
-                  <SvgLabel x={x(s) + (name === "start" ? -2 : 2)} y={plot.y - 3} anchor={name === "start" ? "end" : "start"} fill={colour.brass700} weight={600}>
-                    {`plateau ${name}`}
-                  </SvgLabel>
-                ) : null}
-              </G>
+              <Line key={`plateau-${name}`} x1={x(s)} x2={x(s)} y1={plot.y} y2={plot.y + plot.h} stroke={colour.brass600} strokeWidth={0.7} strokeDasharray="2 1.5" />
             ))
         : null}
+      {plateau && labelPlateau ? <PlateauLabels xStart={x(plateau.start)} xEnd={x(plateau.end)} left={plot.x} right={plot.x + plot.w} y={plot.y - 3} /> : null}
       <Rect x={plot.x} y={plot.y} width={plot.w} height={plot.h} fill="none" stroke={colour.inkFaint} strokeWidth={0.6} />
       {showPressure
         ? pTicks.ticks.map((p) => (
