@@ -1,6 +1,6 @@
 "use client";
 
-import { startTransition, useActionState, useEffect, useRef, type FormEvent, type ReactNode } from "react";
+import { startTransition, useActionState, useEffect, useRef, useState, type FormEvent, type ReactNode } from "react";
 import { IDLE_STATE, type FormState } from "@/components/ui/form-state";
 
 type Action = (prev: FormState, formData: FormData) => Promise<FormState>;
@@ -15,12 +15,20 @@ export function useFormAction(action: Action, { resetOnSuccess = false }: { rese
   useEffect(() => {
     if (resetOnSuccess && state.status === "ok") formRef.current?.reset();
   }, [state, resetOnSuccess]);
+  // A field's message goes once the user changes that field; the next result brings fresh ones.
+  const [edited, setEdited] = useState<ReadonlySet<string>>(new Set());
+  useEffect(() => setEdited(new Set()), [state]);
   const onSubmit = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();
     const data = new FormData(event.currentTarget);
     startTransition(() => dispatch(data));
   };
-  return { state, pending, formRef, onSubmit, errors: state.fieldErrors ?? {} };
+  const onChange = (event: FormEvent<HTMLFormElement>) => {
+    const name = (event.target as HTMLInputElement).name;
+    if (name && state.fieldErrors?.[name] && !edited.has(name)) setEdited(new Set(edited).add(name));
+  };
+  const errors = Object.fromEntries(Object.entries(state.fieldErrors ?? {}).filter(([name]) => !edited.has(name)));
+  return { state, pending, formRef, onSubmit, onChange, errors };
 }
 
 export function FormMessage({ state }: { state: FormState }) {

@@ -6,9 +6,9 @@ import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "./labels";
 
 
 export function InstrumentForm() {
-  const { state, pending, formRef, onSubmit, errors } = useFormAction(createInstrumentAction, { resetOnSuccess: true });
+  const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(createInstrumentAction, { resetOnSuccess: true });
   return (
-    <form ref={formRef} onSubmit={onSubmit} className="space-y-3" noValidate aria-label="Add an instrument">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-3" noValidate aria-label="Add an instrument">
       <TextInput id="inst-name" name="name" label="Name" error={errors.name} placeholder="e.g. Thermocouple logger (unit C)" />
       <TextInput id="inst-serial" name="serialNumber" label="Serial number" error={errors.serialNumber} />
       <Field id="inst-kind" label="Kind" error={errors.kind}>
@@ -26,9 +26,9 @@ export function InstrumentForm() {
 }
 
 export function CertificateForm({ instrumentId, today }: { instrumentId: string; today: string }) {
-  const { state, pending, formRef, onSubmit, errors } = useFormAction(addCertificateAction, { resetOnSuccess: true });
+  const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(addCertificateAction, { resetOnSuccess: true });
   return (
-    <form ref={formRef} onSubmit={onSubmit} className="space-y-3" noValidate aria-label="Record a calibration certificate">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-3" noValidate aria-label="Record a calibration certificate">
       <input type="hidden" name="instrumentId" value={instrumentId} />
       <TextInput id="cert-number" name="certificateNumber" label="Certificate number" error={errors.certificateNumber} />
       <TextInput id="cert-issuer" name="issuedBy" label="Issued by (calibration laboratory)" error={errors.issuedBy} />
@@ -45,9 +45,9 @@ export function CertificateForm({ instrumentId, today }: { instrumentId: string;
 }
 
 export function ClearMappingForm({ instrumentId }: { instrumentId: string }) {
-  const { state, pending, onSubmit, errors } = useFormAction(clearMappingAction);
+  const { state, pending, onSubmit, onChange, errors } = useFormAction(clearMappingAction);
   return (
-    <form onSubmit={onSubmit} className="space-y-2" noValidate aria-label="Clear the saved channel mapping">
+    <form onSubmit={onSubmit} onChange={onChange} className="space-y-2" noValidate aria-label="Clear the saved channel mapping">
       <input type="hidden" name="instrumentId" value={instrumentId} />
       <TextInput id="clear-reason" name="reason" label="Reason" error={errors.reason} hint="e.g. probes re-wired, logger re-configured." />
       <FormMessage state={state} />

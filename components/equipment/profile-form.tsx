@@ -31,14 +31,14 @@ export type ProfileFormValues = { id: string; cycleCount: number } & { [K in (ty
 
 export function ProfileForm({ profile }: { profile?: ProfileFormValues }) {
   const editing = !!profile;
-  const { state, pending, formRef, onSubmit, errors } = useFormAction(editing ? updateProfileAction : createProfileAction);
+  const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(editing ? updateProfileAction : createProfileAction);
   const [values, setValues] = useState<Values>(() => (profile ? (Object.fromEntries(KEYS.map((k) => [k, String(profile[k])])) as Values) : DEFAULTS));
   const set = (k: keyof Values) => (v: string) => setValues((old) => ({ ...old, [k]: v }));
   const p = editing ? "edit-profile" : "new-profile";
   const ts = Number(values.sterilizationTempC);
   const band = Number(values.bandK);
   return (
-    <form ref={formRef} onSubmit={onSubmit} className="space-y-3" noValidate aria-label={editing ? "Edit acceptance profile" : "New acceptance profile"}>
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-3" noValidate aria-label={editing ? "Edit acceptance profile" : "New acceptance profile"}>
       {editing && <input type="hidden" name="id" value={profile.id} />}
       {!editing && (
         <div>

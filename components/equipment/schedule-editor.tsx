@@ -38,7 +38,7 @@ function ScheduleRowForm({ sterilizerId, row }: { sterilizerId: string; row: Row
   return (
     <div className="rounded-md border border-ink-line p-3">
       <p className="text-sm font-medium">{PERIODIC_TEST_LABELS[row.kind] ?? row.kind}</p>
-      <form onSubmit={save.onSubmit} className="mt-2 space-y-2" noValidate>
+      <form onSubmit={save.onSubmit} onChange={save.onChange} className="mt-2 space-y-2" noValidate>
         <input type="hidden" name="sterilizerId" value={sterilizerId} />
         <input type="hidden" name="kind" value={row.kind} />
         <div className="grid grid-cols-[1fr_auto] items-end gap-2">
@@ -57,7 +57,7 @@ function ScheduleRowForm({ sterilizerId, row }: { sterilizerId: string; row: Row
           Take off the schedule…
         </button>
       ) : (
-        <form onSubmit={remove.onSubmit} className="mt-2 flex flex-wrap items-end gap-2" noValidate>
+        <form onSubmit={remove.onSubmit} onChange={remove.onChange} className="mt-2 flex flex-wrap items-end gap-2" noValidate>
           <input type="hidden" name="sterilizerId" value={sterilizerId} />
           <input type="hidden" name="kind" value={row.kind} />
           <div className="min-w-[14rem] flex-1">
@@ -79,11 +79,11 @@ function ScheduleRowForm({ sterilizerId, row }: { sterilizerId: string; row: Row
 }
 
 function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: string[] }) {
-  const { state, pending, onSubmit, errors } = useFormAction(saveScheduleAction);
+  const { state, pending, onSubmit, onChange, errors } = useFormAction(saveScheduleAction);
   const [kind, setKind] = useState(kinds[0]);
   const [interval, setInterval] = useState(String(SUGGESTED_INTERVAL[kinds[0]] ?? 7));
   return (
-    <form onSubmit={onSubmit} className="rounded-md border border-dashed border-ink-line p-3" noValidate aria-label="Add a test to the schedule">
+    <form onSubmit={onSubmit} onChange={onChange} className="rounded-md border border-dashed border-ink-line p-3" noValidate aria-label="Add a test to the schedule">
       <p className="text-sm font-medium">Add a test to the schedule</p>
       <input type="hidden" name="sterilizerId" value={sterilizerId} />
       <div className="mt-2 space-y-2">

@@ -20,13 +20,13 @@ type SterilizerValues = {
 
 export function SterilizerForm({ profiles, sterilizer }: { profiles: ProfileChoice[]; sterilizer?: SterilizerValues }) {
   const editing = !!sterilizer;
-  const { state, pending, formRef, onSubmit, errors } = useFormAction(editing ? updateSterilizerAction : createSterilizerAction, { resetOnSuccess: !editing });
+  const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(editing ? updateSterilizerAction : createSterilizerAction, { resetOnSuccess: !editing });
   const [volume, setVolume] = useState(sterilizer ? String(sterilizer.chamberVolumeL) : "");
   const volumeNumber = Number(volume.replace(",", "."));
   const sizeClass = volume && Number.isFinite(volumeNumber) && volumeNumber > 0 ? sizeClassOf(volumeNumber) : null;
   const p = editing ? `edit-${sterilizer.id}` : "new-sterilizer";
   return (
-    <form ref={formRef} onSubmit={onSubmit} className="space-y-3" noValidate aria-label={editing ? "Edit sterilizer" : "Add a sterilizer"}>
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-3" noValidate aria-label={editing ? "Edit sterilizer" : "Add a sterilizer"}>
       {editing && <input type="hidden" name="id" value={sterilizer.id} />}
       <TextInput id={`${p}-name`} name="name" label="Name" error={errors.name} defaultValue={sterilizer?.name} placeholder="e.g. Porous load 3" />
       <TextInput id={`${p}-serial`} name="serialNumber" label="Serial number" error={errors.serialNumber} defaultValue={sterilizer?.serialNumber} />

@@ -117,7 +117,7 @@ function safely(fn: () => Preview): Preview {
 const f3 = (n: number) => n.toFixed(3);
 
 export function AirLeakageForm({ sterilizers, sterilizerId }: { sterilizers: SterilizerChoice[]; sterilizerId?: string }) {
-  const { state, pending, formRef, onSubmit, errors } = useFormAction(recordAirLeakageAction);
+  const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(recordAirLeakageAction);
   const [unit, setUnit] = useState<PressureUnit>("kPa");
   const [p, setP] = useState({ p1: "", p2: "", p3: "" });
   useClearOnSuccess(state, () => setP({ p1: "", p2: "", p3: "" }));
@@ -136,7 +136,7 @@ export function AirLeakageForm({ sterilizers, sterilizerId }: { sterilizers: Ste
           };
         });
   return (
-    <form ref={formRef} onSubmit={onSubmit} className="space-y-4" noValidate aria-label="Record an air leakage test">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record an air leakage test">
       <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors}>
         <Field id="al-unit" label="Pressure unit (absolute)" error={errors.unit}>
           <select id="al-unit" name="unit" className="field-input" value={unit} onChange={(e) => setUnit(e.target.value as PressureUnit)}>
@@ -162,12 +162,12 @@ export function AirLeakageForm({ sterilizers, sterilizerId }: { sterilizers: Ste
 }
 
 export function BowieDickForm({ sterilizers, sterilizerId }: { sterilizers: SterilizerChoice[]; sterilizerId?: string }) {
-  const { state, pending, formRef, onSubmit, errors } = useFormAction(recordBowieDickAction);
+  const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(recordBowieDickAction);
   const [outcome, setOutcome] = useState<"" | "uniform" | "non-uniform">("");
   useClearOnSuccess(state, () => setOutcome(""));
   const r = outcome ? evaluateBowieDick(outcome) : null;
   return (
-    <form ref={formRef} onSubmit={onSubmit} className="space-y-4" noValidate aria-label="Record a Bowie-Dick test">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record a Bowie-Dick test">
       <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors}>
         <TextInput id="bd-lot" name="indicatorLot" label="Indicator lot (optional)" error={errors.indicatorLot} />
       </CommonFields>
@@ -199,7 +199,7 @@ export function BowieDickForm({ sterilizers, sterilizerId }: { sterilizers: Ster
 }
 
 export function NonCondensableGasForm({ sterilizers, sterilizerId }: { sterilizers: SterilizerChoice[]; sterilizerId?: string }) {
-  const { state, pending, formRef, onSubmit, errors } = useFormAction(recordNonCondensableGasAction);
+  const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(recordNonCondensableGasAction);
   const [v, setV] = useState({ vg: "", vc: "" });
   useClearOnSuccess(state, () => setV({ vg: "", vc: "" }));
   const vg = parse(v.vg);
@@ -212,7 +212,7 @@ export function NonCondensableGasForm({ sterilizers, sterilizerId }: { sterilize
           return { passed: r.passed, headline: <>{r.percent.toFixed(2)} % non-condensable gases (100 · V_g / V_c)</>, limit: <>≤ {NON_CONDENSABLE_GAS.maxPercent} % (3.5 ml of gas per 100 ml of condensate)</>, basis: r.basis };
         });
   return (
-    <form ref={formRef} onSubmit={onSubmit} className="space-y-4" noValidate aria-label="Record a non-condensable gas test">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record a non-condensable gas test">
       <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors} />
       <p className="text-sm text-ink-muted">Sample from the steam service pipe through the Pitot tube while demand is highest (as steam is first admitted to the chamber). Read the gas collected in the burette and the condensate collected from the same sample.</p>
       <div className="grid gap-3 sm:grid-cols-2">
@@ -227,7 +227,7 @@ export function NonCondensableGasForm({ sterilizers, sterilizerId }: { sterilize
 }
 
 export function SuperheatForm({ sterilizers, sterilizerId, site }: { sterilizers: SterilizerChoice[]; sterilizerId?: string; site: SiteAtmosphere }) {
-  const { state, pending, formRef, onSubmit, errors } = useFormAction(recordSuperheatAction);
+  const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(recordSuperheatAction);
   const [source, setSource] = useState<"pressure" | "altitude">(site.atmosphereKpa !== null || site.altitudeM === null ? "pressure" : "altitude");
   const [t, setT] = useState("");
   const [atm, setAtm] = useState(site.atmosphereKpa !== null ? String(site.atmosphereKpa) : "");
@@ -249,7 +249,7 @@ export function SuperheatForm({ sterilizers, sterilizerId, site }: { sterilizers
           };
         });
   return (
-    <form ref={formRef} onSubmit={onSubmit} className="space-y-4" noValidate aria-label="Record a superheat test">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record a superheat test">
       <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors} />
       <p className="text-sm text-ink-muted">Expand the sampled steam through the Pitot tube to atmospheric pressure in the expansion tube and read its temperature. The boiling point at the local atmospheric pressure comes from the IF97 saturation line.</p>
       <div className="grid gap-3 sm:grid-cols-2">
@@ -274,7 +274,7 @@ export function SuperheatForm({ sterilizers, sterilizerId, site }: { sterilizers
 }
 
 export function DrynessForm({ sterilizers, sterilizerId }: { sterilizers: SterilizerChoice[]; sterilizerId?: string }) {
-  const { state, pending, formRef, onSubmit, errors } = useFormAction(recordDrynessAction);
+  const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(recordDrynessAction);
   const empty = { t0: "", t1: "", mw: "", mc: "", ts: "" };
   const [v, setV] = useState(empty);
   const [load, setLoad] = useState<"metal" | "other">("metal");
@@ -294,7 +294,7 @@ export function DrynessForm({ sterilizers, sterilizerId }: { sterilizers: Steril
         };
       });
   return (
-    <form ref={formRef} onSubmit={onSubmit} className="space-y-4" noValidate aria-label="Record a dryness test">
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record a dryness test">
       <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors}>
         <Field id="dr-load" label="Load the sterilizer processes" error={errors.load}>
           <select id="dr-load" name="load" className="field-input" value={load} onChange={(e) => setLoad(e.target.value as "metal" | "other")}>
