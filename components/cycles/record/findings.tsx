@@ -9,7 +9,8 @@ export function Findings({ detail }: { detail: CycleDetail }) {
   if (!a) {
     return (
       <EmptyState title="No analysis yet">
-        No logger file on this record has been analysed, so there is no verdict. Add the logger file of this cycle to analyse it.
+        No logger file on this record has been analysed, so there is no verdict, chart, phase diagram or channel table yet. Add the
+        cycle&apos;s logger file to analyse it.
       </EmptyState>
     );
   }

@@ -150,141 +150,145 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
               : ""}
         </span>
       </div>
-      <svg
-        ref={svgRef}
-        viewBox={`0 0 ${W} ${H}`}
-        className="h-auto w-full select-none"
-        role="img"
-        aria-labelledby={titleId}
-        aria-describedby={descId}
-        onPointerMove={onPointerMove}
-        onPointerLeave={() => setHover(null)}
-        fontFamily="system-ui, sans-serif"
-      >
-        <title id={titleId}>{`Cycle ${cycleNumber} on the water phase diagram: ${referenceChannel} against ${pressureChannel}, pressure on a logarithmic axis, over the IF97 liquid–vapour line`}</title>
-        <defs>
-          <clipPath id={clipId}>
-            <rect x={BOX.left} y={BOX.top} width={BOX.width} height={BOX.height} />
-          </clipPath>
-        </defs>
-        <rect x={BOX.left} y={BOX.top} width={BOX.width} height={BOX.height} fill={CHART.raised} stroke={CHART.line} />
-        <g clipPath={`url(#${clipId})`}>
-          {regions && (
-            <>
-              <polygon points={polygon(regions.liquid)} fill="rgba(31,122,133,0.07)" />
-              <polygon points={polygon(regions.vapour)} fill="rgba(161,92,0,0.06)" />
-              {regions.solid && <polygon points={polygon(regions.solid)} fill="rgba(101,109,118,0.08)" />}
-              {regions.supercritical && <polygon points={polygon(regions.supercritical)} fill="rgba(109,63,160,0.06)" />}
-            </>
-          )}
-          {/* grid */}
-          {xTicks.map((t) => (
-            <line key={`gx${t}`} x1={x(t)} x2={x(t)} y1={BOX.top} y2={BOX.top + BOX.height} stroke={CHART.grid} />
-          ))}
-          {yTicks.map((t) => (
-            <line key={`gy${t.value}`} x1={BOX.left} x2={BOX.left + BOX.width} y1={y(t.value)} y2={y(t.value)} stroke={t.major ? "rgba(31,35,40,0.16)" : CHART.grid} />
-          ))}
-          {/* sterilization band */}
-          {bandRight > BOX.left && bandLeft < BOX.left + BOX.width && (
-            <g>
-              <rect x={bandLeft} y={BOX.top} width={Math.max(bandRight - bandLeft, 1)} height={BOX.height} fill={CHART.bandFill} />
-              <text x={(bandLeft + bandRight) / 2} y={BOX.top + BOX.height - 6} textAnchor="middle" fontSize={10} fill={CHART.onLine}>
-                band
-              </text>
-            </g>
-          )}
-          {/* ± limit around the line */}
-          {tolerancePolygon.length > 2 && <polygon points={polygon(tolerancePolygon)} fill="rgba(29,122,77,0.12)" stroke="rgba(29,122,77,0.35)" strokeDasharray="3 3" strokeWidth={0.8} />}
-          {/* the liquid–vapour line */}
-          <path d={svgPath(curve.map((c) => [c.temperatureC, c.pressureKpa]), x, y)} fill="none" stroke={CHART.ink} strokeWidth={2.2} />
-          {regions?.solid && <line x1={x(TRIPLE_POINT.temperatureC)} x2={x(TRIPLE_POINT.temperatureC)} y1={y(TRIPLE_POINT.pressureKpa)} y2={BOX.top} stroke={CHART.inkMuted} strokeDasharray="4 3" />}
-          {regions?.supercritical && (
-            <>
-              <line x1={x(CRITICAL_POINT.temperatureC)} x2={x(CRITICAL_POINT.temperatureC)} y1={y(CRITICAL_POINT.pressureKpa)} y2={BOX.top} stroke={CHART.inkMuted} strokeDasharray="4 3" />
-              <line x1={x(CRITICAL_POINT.temperatureC)} x2={BOX.left + BOX.width} y1={y(CRITICAL_POINT.pressureKpa)} y2={y(CRITICAL_POINT.pressureKpa)} stroke={CHART.inkMuted} strokeDasharray="4 3" />
-            </>
-          )}
-          {/* the cycle's path */}
-          <path d={svgPath(path.map((s) => [s.temperatureC, s.pressureKpa]), x, y)} fill="none" stroke={CHART.path} strokeWidth={1} strokeLinejoin="round" />
-          {path.length > 0 && (
-            <g>
-              <circle cx={x(path[0].temperatureC)} cy={y(path[0].pressureKpa)} r={3.5} fill={CHART.raised} stroke={CHART.inkSoft} />
-              <text x={x(path[0].temperatureC) + 6} y={y(path[0].pressureKpa) - 5} fontSize={10} fill={CHART.inkSoft} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">start</text>
-            </g>
-          )}
-          {/* plateau samples */}
-          {dots.map((d, i) => (
-            <Marker key={i} side={d.side} cx={x(d.temperatureC)} cy={y(d.pressureKpa)} />
-          ))}
-          {hover && <circle cx={x(hover.temperatureC)} cy={y(hover.pressureKpa)} r={6} fill="none" stroke={CHART.ink} strokeWidth={1.5} />}
-          {/* names */}
-          {lineLabel && (
-            <text x={lineLabel.x} y={lineLabel.y} fontSize={11} fill={CHART.ink} textAnchor="middle" transform={`rotate(${lineLabel.angle} ${lineLabel.x} ${lineLabel.y})`} fontWeight={600} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">
-              liquid–vapour line (IF97)
-            </text>
-          )}
-          {liquidLabel && (
-            <text x={x(liquidLabel.t)} y={y(liquidLabel.p)} fontSize={13} fill={CHART.airEdge} fontWeight={600}>
-              LIQUID side
-              <tspan x={x(liquidLabel.t)} dy={15} fontSize={10} fontWeight={400}>higher pressure than saturation at that temperature;</tspan>
-              <tspan x={x(liquidLabel.t)} dy={13} fontSize={10} fontWeight={400}>steam with air in it reads here</tspan>
-            </text>
-          )}
-          {vapourLabel && (
-            <text x={x(vapourLabel.t)} y={y(vapourLabel.p)} fontSize={13} fill={CHART.superheatEdge} fontWeight={600} textAnchor="end">
-              VAPOUR side
-              <tspan x={x(vapourLabel.t)} dy={15} fontSize={10} fontWeight={400} textAnchor="end">lower pressure than saturation;</tspan>
-              <tspan x={x(vapourLabel.t)} dy={13} fontSize={10} fontWeight={400} textAnchor="end">superheated steam reads here</tspan>
-            </text>
-          )}
-          {regions?.solid && (
-            <text x={(BOX.left + x(TRIPLE_POINT.temperatureC)) / 2} y={BOX.top + 18} fontSize={10} fill={CHART.inkMuted} textAnchor="middle">ice</text>
-          )}
-          {regions?.supercritical && (
-            <text x={(x(CRITICAL_POINT.temperatureC) + BOX.left + BOX.width) / 2} y={BOX.top + 18} fontSize={10} fill={CHART.inkMuted} textAnchor="middle">supercritical</text>
-          )}
-          {landmarks.map((l) => {
-            const cx = x(l.temperatureC);
-            const cy = y(l.pressureKpa);
-            const right = cx < BOX.left + BOX.width * 0.7;
-            return (
-              <g key={l.id}>
-                <circle cx={cx} cy={cy} r={4.5} fill={CHART.raised} stroke={CHART.ink} strokeWidth={1.5} />
-                <text x={cx + (right ? 9 : -9)} y={cy + (l.id === "critical" ? -9 : 15)} fontSize={10.5} fill={CHART.ink} textAnchor={right ? "start" : "end"} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">
-                  {`${l.label} (${formatLandmark(l.temperatureC)} °C, ${formatPressureTick(l.pressureKpa)}${l.pressureKpa >= 1000 ? "" : " kPa"})`}
+      <div className="overflow-x-auto">
+        <svg
+          ref={svgRef}
+          viewBox={`0 0 ${W} ${H}`}
+          className="h-auto w-full min-w-[560px] select-none"
+          role="img"
+          aria-labelledby={titleId}
+          aria-describedby={descId}
+          onPointerMove={onPointerMove}
+          onPointerLeave={() => setHover(null)}
+          fontFamily="system-ui, sans-serif"
+        >
+          <title id={titleId}>{`Cycle ${cycleNumber} on the water phase diagram: ${referenceChannel} against ${pressureChannel}, pressure on a logarithmic axis, over the IF97 liquid–vapour line`}</title>
+          <defs>
+            <clipPath id={clipId}>
+              <rect x={BOX.left} y={BOX.top} width={BOX.width} height={BOX.height} />
+            </clipPath>
+          </defs>
+          <rect x={BOX.left} y={BOX.top} width={BOX.width} height={BOX.height} fill={CHART.raised} stroke={CHART.line} />
+          <g clipPath={`url(#${clipId})`}>
+            {regions && (
+              <>
+                <polygon points={polygon(regions.liquid)} fill="rgba(31,122,133,0.07)" />
+                <polygon points={polygon(regions.vapour)} fill="rgba(161,92,0,0.06)" />
+                {regions.solid && <polygon points={polygon(regions.solid)} fill="rgba(101,109,118,0.08)" />}
+                {regions.supercritical && <polygon points={polygon(regions.supercritical)} fill="rgba(109,63,160,0.06)" />}
+              </>
+            )}
+            {/* grid */}
+            {xTicks.map((t) => (
+              <line key={`gx${t}`} x1={x(t)} x2={x(t)} y1={BOX.top} y2={BOX.top + BOX.height} stroke={CHART.grid} />
+            ))}
+            {yTicks.map((t) => (
+              <line key={`gy${t.value}`} x1={BOX.left} x2={BOX.left + BOX.width} y1={y(t.value)} y2={y(t.value)} stroke={t.major ? "rgba(31,35,40,0.16)" : CHART.grid} />
+            ))}
+            {/* sterilization band */}
+            {bandRight > BOX.left && bandLeft < BOX.left + BOX.width && (
+              <g>
+                <rect x={bandLeft} y={BOX.top} width={Math.max(bandRight - bandLeft, 1)} height={BOX.height} fill={CHART.bandFill} />
+                <text x={(bandLeft + bandRight) / 2} y={BOX.top + BOX.height - 6} textAnchor="middle" fontSize={10} fill={CHART.onLine}>
+                  band
                 </text>
               </g>
-            );
-          })}
-        </g>
-        {/* axes */}
-        {xTicks.map((t) => (
-          <text key={`tx${t}`} x={x(t)} y={BOX.top + BOX.height + 16} fontSize={11} fill={CHART.inkMuted} textAnchor="middle">
-            {Number(t.toFixed(2))}
-          </text>
-        ))}
-        {yTicks.map((t) =>
-          t.major || yTicks.length <= 12 ? (
-            <text key={`ty${t.value}`} x={BOX.left - 6} y={y(t.value) + 4} fontSize={11} fill={t.major ? CHART.ink : CHART.inkMuted} textAnchor="end">
-              {formatPressureTick(t.value)}
+            )}
+            {/* ± limit around the line */}
+            {tolerancePolygon.length > 2 && <polygon points={polygon(tolerancePolygon)} fill="rgba(29,122,77,0.12)" stroke="rgba(29,122,77,0.35)" strokeDasharray="3 3" strokeWidth={0.8} />}
+            {/* the liquid–vapour line */}
+            <path d={svgPath(curve.map((c) => [c.temperatureC, c.pressureKpa]), x, y)} fill="none" stroke={CHART.ink} strokeWidth={2.2} />
+            {regions?.solid && <line x1={x(TRIPLE_POINT.temperatureC)} x2={x(TRIPLE_POINT.temperatureC)} y1={y(TRIPLE_POINT.pressureKpa)} y2={BOX.top} stroke={CHART.inkMuted} strokeDasharray="4 3" />}
+            {regions?.supercritical && (
+              <>
+                <line x1={x(CRITICAL_POINT.temperatureC)} x2={x(CRITICAL_POINT.temperatureC)} y1={y(CRITICAL_POINT.pressureKpa)} y2={BOX.top} stroke={CHART.inkMuted} strokeDasharray="4 3" />
+                <line x1={x(CRITICAL_POINT.temperatureC)} x2={BOX.left + BOX.width} y1={y(CRITICAL_POINT.pressureKpa)} y2={y(CRITICAL_POINT.pressureKpa)} stroke={CHART.inkMuted} strokeDasharray="4 3" />
+              </>
+            )}
+            {/* the cycle's path */}
+            <path d={svgPath(path.map((s) => [s.temperatureC, s.pressureKpa]), x, y)} fill="none" stroke={CHART.path} strokeWidth={1} strokeLinejoin="round" />
+            {path.length > 0 && (
+              <g>
+                <circle cx={x(path[0].temperatureC)} cy={y(path[0].pressureKpa)} r={3.5} fill={CHART.raised} stroke={CHART.inkSoft} />
+                <text x={x(path[0].temperatureC) + 6} y={y(path[0].pressureKpa) - 5} fontSize={10} fill={CHART.inkSoft} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">start</text>
+              </g>
+            )}
+            {/* plateau samples */}
+            {dots.map((d, i) => (
+              <Marker key={i} side={d.side} cx={x(d.temperatureC)} cy={y(d.pressureKpa)} />
+            ))}
+            {hover && <circle cx={x(hover.temperatureC)} cy={y(hover.pressureKpa)} r={6} fill="none" stroke={CHART.ink} strokeWidth={1.5} />}
+            {/* names */}
+            {lineLabel && (
+              <text x={lineLabel.x} y={lineLabel.y} fontSize={11} fill={CHART.ink} textAnchor="middle" transform={`rotate(${lineLabel.angle} ${lineLabel.x} ${lineLabel.y})`} fontWeight={600} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">
+                liquid–vapour line (IF97)
+              </text>
+            )}
+            {liquidLabel && (
+              <text x={x(liquidLabel.t)} y={y(liquidLabel.p)} fontSize={13} fill={CHART.airEdge} fontWeight={600}>
+                LIQUID side
+                <tspan x={x(liquidLabel.t)} dy={15} fontSize={10} fontWeight={400}>higher pressure than saturation at that temperature;</tspan>
+                <tspan x={x(liquidLabel.t)} dy={13} fontSize={10} fontWeight={400}>steam with air in it reads here</tspan>
+              </text>
+            )}
+            {vapourLabel && (
+              <text x={x(vapourLabel.t)} y={y(vapourLabel.p)} fontSize={13} fill={CHART.superheatEdge} fontWeight={600} textAnchor="end">
+                VAPOUR side
+                <tspan x={x(vapourLabel.t)} dy={15} fontSize={10} fontWeight={400} textAnchor="end">lower pressure than saturation;</tspan>
+                <tspan x={x(vapourLabel.t)} dy={13} fontSize={10} fontWeight={400} textAnchor="end">superheated steam reads here</tspan>
+              </text>
+            )}
+            {regions?.solid && (
+              <text x={(BOX.left + x(TRIPLE_POINT.temperatureC)) / 2} y={BOX.top + 18} fontSize={10} fill={CHART.inkMuted} textAnchor="middle">ice</text>
+            )}
+            {regions?.supercritical && (
+              <text x={(x(CRITICAL_POINT.temperatureC) + BOX.left + BOX.width) / 2} y={BOX.top + 18} fontSize={10} fill={CHART.inkMuted} textAnchor="middle">supercritical</text>
+            )}
+            {landmarks.map((l) => {
+              const cx = x(l.temperatureC);
+              const cy = y(l.pressureKpa);
+              const right = cx < BOX.left + BOX.width * 0.7;
+              return (
+                <g key={l.id}>
+                  <circle cx={cx} cy={cy} r={4.5} fill={CHART.raised} stroke={CHART.ink} strokeWidth={1.5} />
+                  <text x={cx + (right ? 9 : -9)} y={cy + (l.id === "critical" ? -9 : 15)} fontSize={10.5} fill={CHART.ink} textAnchor={right ? "start" : "end"} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">
+                    {`${l.label} (${formatLandmark(l.temperatureC)} °C, ${formatPressureTick(l.pressureKpa)}${l.pressureKpa >= 1000 ? "" : " kPa"})`}
+                  </text>
+                </g>
+              );
+            })}
+          </g>
+          {/* axes */}
+          {xTicks.map((t) => (
+            <text key={`tx${t}`} x={x(t)} y={BOX.top + BOX.height + 16} fontSize={11} fill={CHART.inkMuted} textAnchor="middle">
+              {Number(t.toFixed(2))}
             </text>
-          ) : null,
-        )}
-        <text x={BOX.left + BOX.width / 2} y={H - 10} fontSize={12} fill={CHART.inkSoft} textAnchor="middle">
-          {`Temperature (°C) — ${referenceChannel}`}
-        </text>
-        <text x={16} y={BOX.top + BOX.height / 2} fontSize={12} fill={CHART.inkSoft} textAnchor="middle" transform={`rotate(-90 16 ${BOX.top + BOX.height / 2})`}>
-          Chamber pressure (kPa abs, log scale)
-        </text>
-      </svg>
+          ))}
+          {yTicks.map((t) =>
+            t.major || yTicks.length <= 12 ? (
+              <text key={`ty${t.value}`} x={BOX.left - 6} y={y(t.value) + 4} fontSize={11} fill={t.major ? CHART.ink : CHART.inkMuted} textAnchor="end">
+                {formatPressureTick(t.value)}
+              </text>
+            ) : null,
+          )}
+          <text x={BOX.left + BOX.width / 2} y={H - 10} fontSize={12} fill={CHART.inkSoft} textAnchor="middle">
+            {`Temperature (°C) — ${referenceChannel}`}
+          </text>
+          <text x={16} y={BOX.top + BOX.height / 2} fontSize={12} fill={CHART.inkSoft} textAnchor="middle" transform={`rotate(-90 16 ${BOX.top + BOX.height / 2})`}>
+            Chamber pressure (kPa abs, log scale)
+          </text>
+        </svg>
+      </div>
       <ul className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-xs text-ink-soft" aria-label="Key">
         <li className="flex items-center gap-1.5"><KeySwatch><line x1={1} x2={15} y1={8} y2={8} stroke={CHART.ink} strokeWidth={2.2} /></KeySwatch>liquid–vapour line (IAPWS-IF97)</li>
         <li className="flex items-center gap-1.5"><KeySwatch><rect x={1} y={3} width={14} height={10} fill="rgba(29,122,77,0.12)" stroke="rgba(29,122,77,0.35)" strokeDasharray="3 3" /></KeySwatch>within ±{saturationLimitK} K of saturation (the limit)</li>
         <li className="flex items-center gap-1.5"><KeySwatch><line x1={1} x2={15} y1={8} y2={8} stroke={CHART.path} strokeWidth={1.5} /></KeySwatch>the cycle&apos;s path (downsampled)</li>
         {(Object.keys(SIDE_STYLE) as PhaseSide[]).map((side) => (
-          <li key={side} className="flex items-center gap-1.5">
+          <li key={side} className="flex items-start gap-1.5">
             <KeySwatch><Marker side={side} cx={8} cy={8} /></KeySwatch>
-            plateau sample {SIDE_STYLE[side].label}: <span className="font-semibold tabular-nums">{counts[side]}</span>
+            <span>
+              plateau sample {SIDE_STYLE[side].label}: <span className="font-semibold tabular-nums">{counts[side]}</span>
+            </span>
           </li>
         ))}
       </ul>

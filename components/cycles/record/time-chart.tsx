@@ -141,7 +141,7 @@ function ChartCanvas({ series, shown, view, record, timeZone, label, describedBy
     const opts = chartOptions({
       series,
       traces,
-      width: Math.max(plotEl.clientWidth, 320),
+      width: Math.max(plotEl.clientWidth, 240),
       timeZone,
       legendEl,
       onScale(u) {
@@ -160,7 +160,7 @@ function ChartCanvas({ series, shown, view, record, timeZone, label, describedBy
     makeLegendKeyboardFriendly(u, legendEl);
 
     const resize = new ResizeObserver(() => {
-      const width = Math.max(plotEl.clientWidth, 320);
+      const width = Math.max(plotEl.clientWidth, 240);
       if (Math.abs(width - u.width) > 1) u.setSize({ width, height: HEIGHT });
     });
     resize.observe(plotEl);
@@ -392,7 +392,8 @@ function chartOptions({
           if (yBand > top + 12 * px && yBand < top + height) {
             ctx.fillStyle = CHART.onLine;
             ctx.textAlign = "right";
-            ctx.fillText(`Sterilization band ${fmt(band.low)}–${fmt(band.high)} °C`, left + width - 6 * px, yBand - 2 * px);
+            const long = `Sterilization band ${fmt(band.low)}–${fmt(band.high)} °C`;
+            ctx.fillText(ctx.measureText(long).width < width * 0.5 ? long : "band", left + width - 6 * px, yBand - 2 * px);
           }
 
           // Plateau start and end

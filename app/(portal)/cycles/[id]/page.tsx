@@ -5,7 +5,7 @@ import { currentUser } from "@/lib/auth/guards";
 import { can } from "@/lib/auth/permissions";
 import { getCycleDetail } from "@/db/queries/cycles";
 import { listAuditEventsForEntity } from "@/db/queries/audit";
-import { Panel, EmptyState } from "@/components/ui/panel";
+import { Panel } from "@/components/ui/panel";
 import { StatusBadge, VerdictBadge } from "@/components/ui/badge";
 import { SignOffPanel } from "@/components/review/sign-off-panel";
 import { Findings } from "@/components/cycles/record/findings";
@@ -89,43 +89,39 @@ export default async function CycleRecordPage({ params }: Props) {
             <Findings detail={detail} />
           </Panel>
 
-          <Panel title="Checks">
-            {a ? <ChecksTable analysis={a} /> : <EmptyState title="No checks without an analysis" />}
-          </Panel>
+          {a && (
+            <>
+              <Panel title="Checks">
+                <ChecksTable analysis={a} />
+              </Panel>
 
-          <Panel title="Temperatures and pressure over time">
-            {a ? (
-              <TimeChart
-                cycleId={detail.id}
-                cycleNumber={detail.cycleNumber}
-                timeZone={tz}
-                summary={describeTimeChart(a, { sterilizationTempC: a.limits.sterilizationTempC, bandK: a.limits.bandK })}
-              />
-            ) : (
-              <EmptyState title="No chart without an analysis">The chart appears once a logger file has been analysed.</EmptyState>
-            )}
-          </Panel>
+              <Panel title="Temperatures and pressure over time">
+                <TimeChart
+                  cycleId={detail.id}
+                  cycleNumber={detail.cycleNumber}
+                  timeZone={tz}
+                  summary={describeTimeChart(a, { sterilizationTempC: a.limits.sterilizationTempC, bandK: a.limits.bandK })}
+                />
+              </Panel>
 
-          <Panel title="The cycle on the water phase diagram">
-            {a ? (
-              <PhaseDiagram
-                cycleId={detail.id}
-                cycleNumber={detail.cycleNumber}
-                plateau={a.plateau}
-                sterilizationTempC={a.limits.sterilizationTempC}
-                bandK={a.limits.bandK}
-                saturationLimitK={a.limits.saturationLimitK}
-                referenceChannel={a.referenceChannel}
-                pressureChannel={a.pressureChannel}
-              />
-            ) : (
-              <EmptyState title="No phase diagram without an analysis" />
-            )}
-          </Panel>
+              <Panel title="The cycle on the water phase diagram">
+                <PhaseDiagram
+                  cycleId={detail.id}
+                  cycleNumber={detail.cycleNumber}
+                  plateau={a.plateau}
+                  sterilizationTempC={a.limits.sterilizationTempC}
+                  bandK={a.limits.bandK}
+                  saturationLimitK={a.limits.saturationLimitK}
+                  referenceChannel={a.referenceChannel}
+                  pressureChannel={a.pressureChannel}
+                />
+              </Panel>
 
-          <Panel title="Channels">
-            {a ? <ChannelTable analysis={a} /> : <EmptyState title="No channel figures without an analysis" />}
-          </Panel>
+              <Panel title="Channels">
+                <ChannelTable analysis={a} />
+              </Panel>
+            </>
+          )}
 
           <Panel title={`Files (${detail.files.length})`}>
             <FilesList files={detail.files} timeZone={tz} />
