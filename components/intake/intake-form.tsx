@@ -69,7 +69,7 @@ function ProgressLine({ busy }: { busy: NonNullable<Busy> }) {
     <div className="rounded-md border border-steam-100 bg-steam-50 px-4 py-3" role="status" aria-live="polite" data-testid="intake-progress">
       <div className="flex items-center justify-between gap-3 text-sm">
         <span className="font-medium text-steam-700">
-          {uploading ? `${busy.label}: uploading… ${Math.round(fraction * 100)} %` : busy.label === "Reading the file" ? "Reading the file…" : "Analysing…"}
+          {uploading ? `Uploading… ${Math.round(fraction * 100)} %` : busy.label === "Reading the file" ? "Reading the file…" : busy.label === "Opening the record" ? "Analysed. Opening the record…" : "Analysing…"}
         </span>
         {uploading && (
           <button type="button" className="text-xs text-steam-700 underline" onClick={busy.cancel}>
@@ -323,7 +323,7 @@ export function IntakeForm({
         )}
       </Panel>
 
-      {busy && <ProgressLine busy={busy} />}
+      {busy?.label === "Reading the file" && <ProgressLine busy={busy} />}
 
       {inspect && (
         <Panel
@@ -504,6 +504,8 @@ export function IntakeForm({
           </span>
         </label>
       </Panel>
+
+      {busy && busy.label !== "Reading the file" && <ProgressLine busy={busy} />}
 
       <div className="flex flex-wrap items-center gap-3">
         <button type="submit" className="btn-primary px-5" disabled={Boolean(busy)}>
