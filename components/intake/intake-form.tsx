@@ -83,7 +83,7 @@ function ProgressLine({ busy }: { busy: NonNullable<Busy> }) {
           style={{ width: `${Math.max(3, Math.round(fraction * 100))}%` }}
         />
       </div>
-      {!uploading && <p className="mt-1 text-xs text-ink-muted">The server is checking every sample; a day-long file takes a few seconds.</p>}
+      {!uploading && busy.label === "Analysing" && <p className="mt-1 text-xs text-ink-muted">The server is checking every sample; a day-long file takes a few seconds.</p>}
     </div>
   );
 }
