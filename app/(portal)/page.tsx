@@ -11,8 +11,8 @@ import {
   listMyOpenCycles,
   listRecentFailures,
   listRecentlyApproved,
-  listTestsDue,
 } from "@/db/queries/dashboard";
+import { getScheduleOverview } from "@/db/queries/periodic-tests";
 import { getSiteById } from "@/db/queries/sites";
 
 export const metadata = { title: "Overview" };
@@ -64,7 +64,7 @@ export default async function HomePage() {
     user.role === "engineer" ? listCyclesAwaitingReview({ siteId }) : Promise.resolve(null),
     listMyOpenCycles({ userId: user.id }),
     listRecentFailures({ siteId }),
-    listTestsDue({ siteId }),
+    getScheduleOverview({ actor: user }).then((o) => o.rows.filter((r) => r.needsAction)),
     listCalibrationsDue({ siteId }),
   ]);
 
@@ -88,7 +88,7 @@ export default async function HomePage() {
           <CycleList items={failures} empty="No failing cycle in the last 14 days." timeZone={timeZone} />
         </Panel>
         <Panel title="Periodic tests due">
-          <TestsDueList items={testsDue} timeZone={timeZone} />
+          <TestsDueList items={testsDue.map((r) => ({ sterilizerName: r.sterilizerName, kind: r.kind, state: r.status.state, dueOn: r.status.dueOn }))} />
         </Panel>
         <Panel title="Calibrations due">
           <CalibrationsDueList items={calibrations} />

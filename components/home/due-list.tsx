@@ -2,19 +2,30 @@ import { Badge } from "@/components/ui/badge";
 import { EmptyState } from "@/components/ui/panel";
 import { formatDate, PERIODIC_TEST_LABELS } from "@/lib/format";
 
-export function TestsDueList({ items, timeZone }: { items: Array<{ sterilizerName: string; kind: string; dueAt: string; overdue: boolean }>; timeZone: string }) {
-  if (items.length === 0) return <EmptyState title="No periodic test is due today or tomorrow." />;
+const STATE_BADGE: Record<string, { tone: "fail" | "caution"; words: (due: string) => string }> = {
+  never: { tone: "fail", words: () => "Never done" },
+  failed: { tone: "fail", words: () => "Repeat needed: last attempt failed" },
+  overdue: { tone: "fail", words: (due) => `Overdue since ${due}` },
+  "due-today": { tone: "caution", words: () => "Due today" },
+  "due-soon": { tone: "caution", words: (due) => `Due ${due}` },
+};
+
+export function TestsDueList({ items }: { items: Array<{ sterilizerName: string; kind: string; state: string; dueOn: string | null }> }) {
+  if (items.length === 0) return <EmptyState title="No periodic test needs doing now." />;
   return (
     <ul className="divide-y divide-ink-line/60">
-      {items.map((t) => (
-        <li key={`${t.sterilizerName}:${t.kind}`} className="flex items-center justify-between gap-3 py-2 text-sm">
-          <div>
-            <p className="font-medium">{PERIODIC_TEST_LABELS[t.kind] ?? t.kind}</p>
-            <p className="text-xs text-ink-muted">{t.sterilizerName}</p>
-          </div>
-          {t.overdue ? <Badge tone="fail">Overdue since {formatDate(t.dueAt, timeZone)}</Badge> : <Badge tone="caution">Due {formatDate(t.dueAt, timeZone)}</Badge>}
-        </li>
-      ))}
+      {items.map((t) => {
+        const badge = STATE_BADGE[t.state] ?? { tone: "caution" as const, words: (due: string) => `Due ${due}` };
+        return (
+          <li key={`${t.sterilizerName}:${t.kind}`} className="flex items-center justify-between gap-3 py-2 text-sm">
+            <div>
+              <p className="font-medium">{PERIODIC_TEST_LABELS[t.kind] ?? t.kind}</p>
+              <p className="text-xs text-ink-muted">{t.sterilizerName}</p>
+            </div>
+            <Badge tone={badge.tone}>{badge.words(formatDate(t.dueOn))}</Badge>
+          </li>
+        );
+      })}
     </ul>
   );
 }

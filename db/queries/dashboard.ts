@@ -1,7 +1,7 @@
 import "server-only";
 import { and, count, desc, eq, gte, inArray, max, sql } from "drizzle-orm";
 import { getDb } from "@/db";
-import { auditEvents, calibrationCertificates, cycles, instruments, periodicTests, sterilizers, testSchedules, users } from "@/db/schema";
+import { auditEvents, calibrationCertificates, cycles, instruments, sterilizers, users } from "@/db/schema";
 
 const DAY_MS = 86_400_000;
 
@@ -53,34 +53,6 @@ export async function listRecentlyApproved({ siteId, limit = 6 }: { siteId: stri
     .where(and(eq(cycles.siteId, siteId), eq(cycles.status, "approved")))
     .orderBy(desc(cycles.updatedAt))
     .limit(limit);
-}
-
-export type DueTest = { sterilizerId: string; sterilizerName: string; kind: string; lastDoneAt: string | null; dueAt: string; overdue: boolean };
-
-/** Each scheduled periodic test whose next date falls before the end of tomorrow. */
-export async function listTestsDue({ siteId, now = new Date() }: { siteId: string; now?: Date }): Promise<DueTest[]> {
-  const db = getDb();
-  const schedules = await db
-    .select({ sterilizerId: testSchedules.sterilizerId, kind: testSchedules.kind, intervalDays: testSchedules.intervalDays, sterilizerName: sterilizers.name })
-    .from(testSchedules)
-    .innerJoin(sterilizers, eq(testSchedules.sterilizerId, sterilizers.id))
-    .where(and(eq(sterilizers.siteId, siteId), eq(sterilizers.active, true)));
-  const last = await db
-    .select({ sterilizerId: periodicTests.sterilizerId, kind: periodicTests.kind, lastDoneAt: max(periodicTests.performedAt) })
-    .from(periodicTests)
-    .where(and(eq(periodicTests.siteId, siteId), eq(periodicTests.result, "pass")))
-    .groupBy(periodicTests.sterilizerId, periodicTests.kind);
-  const lastByKey = new Map(last.map((r) => [`${r.sterilizerId}:${r.kind}`, r.lastDoneAt]));
-  const horizon = new Date(now.getTime() + DAY_MS);
-  const due: DueTest[] = [];
-  for (const s of schedules) {
-    const lastDoneAt = lastByKey.get(`${s.sterilizerId}:${s.kind}`) ?? null;
-    const dueAt = lastDoneAt ? new Date(new Date(lastDoneAt).getTime() + s.intervalDays * DAY_MS) : now;
-    if (dueAt <= horizon) {
-      due.push({ sterilizerId: s.sterilizerId, sterilizerName: s.sterilizerName, kind: s.kind, lastDoneAt, dueAt: dueAt.toISOString(), overdue: dueAt < now });
-    }
-  }
-  return due.sort((a, b) => a.dueAt.localeCompare(b.dueAt));
 }
 
 export async function listCalibrationsDue({ siteId, withinDays = 30, now = new Date() }: { siteId: string; withinDays?: number; now?: Date }) {
