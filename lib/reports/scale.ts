@@ -28,7 +28,7 @@ export function niceTicks(min: number, max: number, count = 6): { ticks: number[
   const lo = Math.floor(min / step + 1e-9) * step;
   const hi = Math.ceil(max / step - 1e-9) * step;
   const ticks: number[] = [];
-  for (let v = lo; v <= hi + step * 1e-6; v += step) ticks.push(Number(v.toPrecision(12)));
+  for (let v = lo; v <= hi + step * 1e-6; v += step) ticks.push(Number(v.toPrecision(12)) + 0);
   return { ticks, min: lo, max: hi, step };
 }
 
@@ -39,7 +39,7 @@ export function timeTicks(fromS: number, toS: number, count = 8): { ticks: numbe
   const span = Math.max(1, toS - fromS);
   const stepS = TIME_STEPS_S.find((s) => span / s <= count) ?? Math.ceil(span / count / 86400) * 86400;
   const ticks: number[] = [];
-  for (let v = Math.ceil(fromS / stepS - 1e-9) * stepS; v <= toS + 1e-6; v += stepS) ticks.push(v);
+  for (let v = Math.ceil(fromS / stepS - 1e-9) * stepS; v <= toS + 1e-6; v += stepS) ticks.push(v + 0); // + 0 turns −0 into 0
   return { ticks, stepS };
 }
 

@@ -1,9 +1,9 @@
 import { PERIODIC_TEST_LABELS } from "@/lib/format";
 
 /**
- * The shipped Inter and JetBrains Mono files are the "latin" subsets: Basic Latin, Latin-1,
- * general punctuation (U+2000–206F) and a few symbols. Anything else would print as an empty box,
- * so it is written out in characters the fonts carry.
+ * The shipped Inter and JetBrains Mono files are "latin" subsets. The code points below are the
+ * ones every shipped face has a glyph for (read from the fonts' cmap tables); anything else would
+ * print as an empty box, so it is written out in characters the fonts carry.
  */
 const REPLACEMENTS: Record<string, string> = {
   "≤": "<=",
@@ -17,26 +17,34 @@ const REPLACEMENTS: Record<string, string> = {
   "∆": "delta ",
   "✓": "yes",
   "✗": "no",
-  "×": "x",
+  "‰": " per mille",
+  "\u2002": " ",
+  "\u2003": " ",
+  "\u2009": " ",
+  "\u200a": " ",
   "\u202f": " ",
+  "\u2010": "-",
+  "\u2011": "-",
+  "\u2012": "–",
+  "\u2015": "—",
+  "\u00ad": "",
+  "\u200b": "",
 };
 
-const EXTRA_COVERED = new Set([0x0131, 0x0152, 0x0153, 0x02bb, 0x02bc, 0x02c6, 0x02da, 0x02dc, 0x20ac, 0x2122, 0x2191, 0x2193, 0x2212, 0x2215]);
+const COVERED = new Set([
+  0x131, 0x152, 0x153, 0x2bc, 0x2c6, 0x2da, 0x2dc, 0x300, 0x301, 0x303, 0x304, 0x308, 0x309, 0x323, 0x2013, 0x2014, 0x2018, 0x2019, 0x201a, 0x201c, 0x201d,
+  0x201e, 0x2022, 0x2026, 0x2032, 0x2033, 0x2039, 0x203a, 0x2044, 0x20ac, 0x2122, 0x2191, 0x2193, 0x2212,
+]);
 
-/** True when the shipped latin subsets draw this code point. */
+/** True when every shipped face draws this code point. */
 export function fontCovers(codePoint: number): boolean {
-  return (
-    (codePoint >= 0x20 && codePoint <= 0x7e) ||
-    (codePoint >= 0xa0 && codePoint <= 0xff) ||
-    (codePoint >= 0x2000 && codePoint <= 0x206f && codePoint !== 0x202f) ||
-    EXTRA_COVERED.has(codePoint)
-  );
+  return (codePoint >= 0x20 && codePoint <= 0x7e) || (codePoint >= 0xa0 && codePoint <= 0xff && codePoint !== 0xad) || COVERED.has(codePoint);
 }
 
 /** Text made safe for the report's fonts: known symbols spelt out, control characters dropped, the rest as "?". */
 export function pdfText(value: string | number | null | undefined): string {
   if (value === null || value === undefined) return "";
-  const text = String(value);
+  const text = String(value).normalize("NFC");
   let out = "";
   for (const char of text) {
     const replacement = REPLACEMENTS[char];
