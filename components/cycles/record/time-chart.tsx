@@ -212,7 +212,7 @@ function ChartCanvas({ series, shown, view, record, timeZone, label, describedBy
         )}
         <button type="button" className="btn-primary px-2.5 py-1" onClick={() => setX(record)} disabled={!zoomedNow} data-testid="reset-zoom">Reset zoom</button>
         <span className="ml-auto text-xs text-ink-muted">
-          Showing {formatElapsed(currentView.from)} – {formatElapsed(currentView.to)}. Drag across the chart to zoom, Shift-drag to pan, double-click to reset.
+          Showing {formatElapsed(currentView.from, { forceHours: record.to >= 3600 })} – {formatElapsed(currentView.to, { forceHours: record.to >= 3600 })}. Drag across the chart to zoom, Shift-drag to pan, double-click to reset.
         </span>
       </div>
       <div ref={plotRef} role="img" aria-label={label} aria-describedby={describedBy} className="w-full" data-testid="time-chart-plot" />
@@ -277,6 +277,11 @@ function chartOptions({
           }
           return handler(e);
         },
+        // uPlot's own double-click fits the data in hand, which may be a zoomed window: go back to the whole record
+        dblclick: (u) => () => {
+          u.setScale("x", { min: record.from, max: record.to });
+          return null;
+        },
       },
     },
     focus: { alpha: 0.35 },
@@ -293,7 +298,7 @@ function chartOptions({
         incrs: TIME_INCREMENTS,
         space: 70,
         values: (u, splits) => elapsedTickLabels(splits, (u.scales.x.max ?? 0) - (u.scales.x.min ?? 0)),
-        label: startedAt ? "Time since the first sample (clock time in the legend)" : "Time since the first sample",
+        label: startedAt && width >= 520 ? "Time since the first sample (clock time in the legend)" : "Time since the first sample",
         labelSize: 20,
         font: "11px system-ui, sans-serif",
         labelFont: "12px system-ui, sans-serif",
@@ -402,7 +407,7 @@ function chartOptions({
             ctx.strokeStyle = CHART.plateau;
             ctx.fillStyle = CHART.plateau;
             ctx.lineWidth = 1.5 * px;
-            // Start label to the left of its line, end label to the right: they never collide.
+            // Start label before its line, end label after it, so that the plateau between stays clear.
             const marks: Array<[number, string, CanvasTextAlign]> = [
               [plateau.start, `Plateau start ${formatElapsed(plateau.start)}`, "right"],
               [plateau.end, `Plateau end ${formatElapsed(plateau.end)}`, "left"],
@@ -416,21 +421,28 @@ function chartOptions({
               ctx.stroke();
             }
             const visible = xs.map((x) => x >= left && x <= left + width);
-            const widths = marks.map(([, text]) => ctx.measureText(text).width);
-            const fits = [xs[0] - widths[0] - 4 * px >= left, xs[1] + widths[1] + 4 * px <= left + width];
-            if (visible[0] && visible[1] && !(fits[0] && fits[1])) {
-              // near an edge: one label for both lines, kept inside the plot
+            const gap = 4 * px;
+            // Each label on its preferred side, flipped when it would leave the plot; one joint label when they would collide.
+            const placed = marks.map(([, text, align], i) => {
+              const w = ctx.measureText(text).width;
+              const fitsLeft = xs[i] - gap - w >= left;
+              const fitsRight = xs[i] + gap + w <= left + width;
+              const side: CanvasTextAlign = align === "right" ? (fitsLeft ? "right" : "left") : fitsRight ? "left" : "right";
+              const from = side === "right" ? xs[i] - gap - w : xs[i] + gap;
+              return { text, side, from, to: from + w, x: xs[i] };
+            });
+            const collide = visible[0] && visible[1] && placed[0].to + gap > placed[1].from;
+            if (collide) {
               const text = `Plateau ${formatElapsed(plateau.start)}–${formatElapsed(plateau.end)}`;
               const w = ctx.measureText(text).width;
               const centre = Math.min(Math.max((xs[0] + xs[1]) / 2, left + w / 2 + 2 * px), left + width - w / 2 - 2 * px);
               ctx.textAlign = "center";
               ctx.fillText(text, centre, top - 3 * px);
             } else {
-              marks.forEach(([, text, align], i) => {
+              placed.forEach((p, i) => {
                 if (!visible[i]) return;
-                const side: CanvasTextAlign = fits[i] ? align : align === "left" ? "right" : "left";
-                ctx.textAlign = side;
-                ctx.fillText(text, xs[i] + (side === "left" ? 4 : -4) * px, top - 3 * px);
+                ctx.textAlign = p.side;
+                ctx.fillText(p.text, p.x + (p.side === "left" ? gap : -gap), top - 3 * px);
               });
             }
           }
