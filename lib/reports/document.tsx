@@ -122,8 +122,9 @@ function Legend({ series }: { series: SeriesResponse }) {
       </Svg>
     ),
   });
-  items.push({ key: "plateau", label: "Plateau start and end", swatch: lineSwatch(colour.brass600, 0.7, "2 1.5") });
-  items.push({
+  if (series.plateau) items.push({ key: "plateau", label: "Plateau start and end", swatch: lineSwatch(colour.brass600, 0.7, "2 1.5") });
+  if (series.flags.length > 0)
+    items.push({
     key: "flag",
     label: "Saturation flag",
     swatch: (

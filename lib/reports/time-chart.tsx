@@ -22,10 +22,13 @@ export type TimeChartProps = {
 
 const MARGIN = { top: 12, bottom: 30, left: 36 };
 
-/** "plateau start" and "plateau end" over their lines, or one "plateau" where the two would collide. */
+/** "plateau start" and "plateau end" beside their lines, or one "plateau" where the two would collide. */
 function PlateauLabels({ xStart, xEnd, left, right, y }: { xStart: number; xEnd: number; left: number; right: number; y: number }) {
   const inside = (v: number) => v >= left - 0.5 && v <= right + 0.5;
-  if (xEnd - xStart < 90) {
+  // Each label sits outside its line; they only meet when pushed in from a plot edge.
+  const startLabelRight = Math.max(xStart - 2, left + 44);
+  const endLabelLeft = Math.min(xEnd + 2, right - 40);
+  if (inside(xStart) && inside(xEnd) && startLabelRight > endLabelLeft - 3) {
     const mid = Math.min(Math.max((xStart + xEnd) / 2, left + 14), right - 14);
     return (
       <SvgLabel x={mid} y={y} anchor="middle" fill={colour.brass700} weight={600}>
@@ -36,12 +39,12 @@ function PlateauLabels({ xStart, xEnd, left, right, y }: { xStart: number; xEnd:
   return (
     <G>
       {inside(xStart) ? (
-        <SvgLabel x={Math.max(xStart - 2, left + 44)} y={y} anchor="end" fill={colour.brass700} weight={600}>
+        <SvgLabel x={startLabelRight} y={y} anchor="end" fill={colour.brass700} weight={600}>
           plateau start
         </SvgLabel>
       ) : null}
       {inside(xEnd) ? (
-        <SvgLabel x={Math.min(xEnd + 2, right - 40)} y={y} anchor="start" fill={colour.brass700} weight={600}>
+        <SvgLabel x={endLabelLeft} y={y} anchor="start" fill={colour.brass700} weight={600}>
           plateau end
         </SvgLabel>
       ) : null}

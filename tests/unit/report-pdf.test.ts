@@ -186,6 +186,18 @@ describe("the report's bytes", () => {
     expect(again.equals(pass.pdf)).toBe(true);
   });
 
+  it("do not depend on the server's time zone", async () => {
+    const before = process.env.TZ;
+    process.env.TZ = "America/New_York";
+    try {
+      expect(new Date(2025, 0, 1).getTimezoneOffset()).toBe(300); // EST is UTC−5 [common practice]
+      expect(sha256(await renderCycleReport(passModel))).toBe(sha256(pass.pdf));
+    } finally {
+      if (before === undefined) delete process.env.TZ;
+      else process.env.TZ = before;
+    }
+  });
+
   it("change with generatedAt, which the PDF carries as its date and file identifier", async () => {
     const later = await renderCycleReport({ ...passModel, generatedAt: "2025-03-03T10:12:46.000Z" });
     expect(sha256(later)).not.toBe(sha256(pass.pdf));
