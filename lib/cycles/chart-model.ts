@@ -32,10 +32,16 @@ export function formatElapsed(seconds: number, options: { forceHours?: boolean; 
   return `${sign}${String(m).padStart(2, "0")}:${secs}`;
 }
 
+/** One clock style for a whole record: h:mm:ss throughout once it lasts an hour or more. */
+export function elapsedFormatter(recordDurationS: number): (seconds: number) => string {
+  const forceHours = recordDurationS >= 3600;
+  return (seconds) => formatElapsed(seconds, { forceHours });
+}
+
 /** Tick labels for a visible span: tenths of a second only when the span is under half a minute. */
-export function elapsedTickLabels(ticks: number[], spanS: number): string[] {
+export function elapsedTickLabels(ticks: number[], spanS: number, recordLongerThanAnHour = false): string[] {
   const tenths = spanS < 30 && ticks.some((t) => Math.abs(t - Math.round(t)) > 1e-6);
-  const forceHours = ticks.some((t) => Math.abs(t) >= 3600);
+  const forceHours = recordLongerThanAnHour || ticks.some((t) => Math.abs(t) >= 3600);
   return ticks.map((t) => formatElapsed(t, { tenths, forceHours }));
 }
 
@@ -212,14 +218,15 @@ function round(v: number): number {
 export function describeTimeChart(analysis: AnalysisResult, detail: { sterilizationTempC: number; bandK: number }): string {
   const parts: string[] = [];
   const ts = detail.sterilizationTempC;
+  const at = elapsedFormatter(analysis.record.durationS);
   parts.push(
-    `The record runs ${formatElapsed(analysis.record.durationS)} with ${analysis.record.samples.toLocaleString("en-GB")} samples about every ${formatNumberShort(analysis.record.medianSampleIntervalS)} s.`,
+    `The record runs ${at(analysis.record.durationS)} with ${analysis.record.samples.toLocaleString("en-GB")} samples about every ${formatNumberShort(analysis.record.medianSampleIntervalS)} s.`,
   );
   if (!analysis.plateau) {
     parts.push(`The reference channel ${analysis.referenceChannel} never reached the sterilization temperature of ${ts} °C, so no plateau was found.`);
   } else {
     parts.push(
-      `The plateau starts at ${formatElapsed(analysis.plateau.start)} when ${analysis.referenceChannel} reaches ${ts} °C and ends at ${formatElapsed(analysis.plateau.end)}; the sterilization band is ${ts} to ${ts + detail.bandK} °C.`,
+      `The plateau starts at ${at(analysis.plateau.start)} when ${analysis.referenceChannel} reaches ${ts} °C and ends at ${at(analysis.plateau.end)}; the sterilization band is ${ts} to ${ts + detail.bandK} °C.`,
     );
     const hold = analysis.saturationTemperatureDuringHold;
     if (hold) {
@@ -235,7 +242,7 @@ export function describeTimeChart(analysis: AnalysisResult, detail: { sterilizat
         flags
           .map(
             (f) =>
-              `${f.kind === "below" ? "colder than saturation (air or non-condensable gas)" : "hotter than saturation (superheat)"} from ${formatElapsed(f.start)} to ${formatElapsed(f.end)}, worst ${signed(f.worst)} K`,
+              `${f.kind === "below" ? "colder than saturation (air or non-condensable gas)" : "hotter than saturation (superheat)"} from ${at(f.start)} to ${at(f.end)}, worst ${signed(f.worst)} K`,
           )
           .join("; ") +
         ".",

@@ -72,6 +72,8 @@ describe("the time axis", () => {
     expect(elapsedTickLabels([3000, 3600, 4200], 1200)).toEqual(["0:50:00", "1:00:00", "1:10:00"]);
     expect(elapsedTickLabels([10, 10.5, 11], 2)).toEqual(["00:10.0", "00:10.5", "00:11.0"]);
     expect(elapsedTickLabels([0, 60, 120], 120)).toEqual(["00:00", "01:00", "02:00"]);
+    // within a day-long record every label carries the hour, even when zoomed into its first hour
+    expect(elapsedTickLabels([0, 60, 120], 120, true)).toEqual(["0:00:00", "0:01:00", "0:02:00"]);
   });
 
   it("gives the wall-clock time in the site's time zone when the record has a start time", () => {
@@ -359,6 +361,12 @@ describe("the chart's text summary", () => {
     expect(text).toContain("The plateau starts at 10:20 when Drain (°C) reaches 134 °C and ends at 14:20");
     expect(text).toContain("the sterilization band is 134 to 137 °C");
     expect(text).toContain("1 saturation flag: colder than saturation (air or non-condensable gas) from 11:40 to 12:34, worst −2.6 K.");
+  });
+
+  it("writes times with the hour throughout when the record lasts an hour or more", () => {
+    const text = describeTimeChart({ ...base, record: { ...base.record, durationS: 86_399 } }, { sterilizationTempC: 134, bandK: 3 });
+    expect(text).toContain("The record runs 23:59:59");
+    expect(text).toContain("The plateau starts at 0:10:20");
   });
 
   it("says so when the reference never reached the sterilization temperature", () => {

@@ -1,6 +1,6 @@
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
-import { formatElapsed } from "@/lib/cycles/chart-model";
+import { elapsedFormatter } from "@/lib/cycles/chart-model";
 import { formatNumber, formatSeconds } from "@/lib/format";
 
 /** The plain-language verdict: summary, each failed check's diagnosis, each saturation flag. */
@@ -16,6 +16,7 @@ export function Findings({ detail }: { detail: CycleDetail }) {
   }
   const failed = a.checks.filter((c) => !c.passed);
   const ts = a.limits.sterilizationTempC;
+  const at = elapsedFormatter(a.record.durationS);
   return (
     <div className="space-y-4" data-testid="findings">
       <div className={`rounded-md border px-4 py-3 ${a.verdict === "pass" ? "border-pass-500/30 bg-pass-50" : "border-fail-500/30 bg-fail-50"}`}>
@@ -40,7 +41,7 @@ export function Findings({ detail }: { detail: CycleDetail }) {
           <p className="font-semibold">{a.plateausFound} plateaus in this record</p>
           <p className="mt-1">
             The reference channel reached {ts} °C {a.plateausFound} separate times. The {a.plateauIndex === 0 ? "first" : ordinal(a.plateauIndex + 1)} plateau
-            {a.plateau ? ` (from ${formatElapsed(a.plateau.start)} to ${formatElapsed(a.plateau.end)})` : ""} was analysed; the others are shown on the chart
+            {a.plateau ? ` (from ${at(a.plateau.start)} to ${at(a.plateau.end)})` : ""} was analysed; the others are shown on the chart
             but not judged. If the record holds more than one cycle, split the file and register each cycle on its own.
           </p>
         </div>
@@ -71,7 +72,7 @@ export function Findings({ detail }: { detail: CycleDetail }) {
                 <p className="font-medium">
                   {f.kind === "below" ? "Colder than saturated steam: air or non-condensable gas" : "Hotter than saturated steam: superheat"}
                   <span className="font-normal text-ink-muted">
-                    {" "}· {formatElapsed(f.start)}–{formatElapsed(f.end)} ({formatSeconds(f.durationS)}) · worst {f.worst > 0 ? "+" : "−"}
+                    {" "}· {at(f.start)}–{at(f.end)} ({formatSeconds(f.durationS)}) · worst {f.worst > 0 ? "+" : "−"}
                     {formatNumber(Math.abs(f.worst), 2)} K
                   </span>
                 </p>

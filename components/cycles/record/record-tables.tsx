@@ -3,7 +3,7 @@ import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { formatBytes, formatDateTime, formatNumber, formatSeconds } from "@/lib/format";
-import { formatElapsed } from "@/lib/cycles/chart-model";
+import { elapsedFormatter } from "@/lib/cycles/chart-model";
 import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
 
 export function ChecksTable({ analysis }: { analysis: AnalysisResult }) {
@@ -89,8 +89,9 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
 export function KeyFigures({ analysis }: { analysis: AnalysisResult | null }) {
   if (!analysis) return <EmptyState title="No figures without an analysis" />;
   const interval = analysis.record.medianSampleIntervalS;
+  const at = elapsedFormatter(analysis.record.durationS);
   const rows: Array<[string, string]> = [
-    ["Plateau", analysis.plateau ? `${formatElapsed(analysis.plateau.start)}–${formatElapsed(analysis.plateau.end)}` : "not reached"],
+    ["Plateau", analysis.plateau ? `${at(analysis.plateau.start)}–${at(analysis.plateau.end)}` : "not reached"],
     ["Equilibration time", formatSeconds(analysis.equilibrationTime)],
     ["Holding time", formatSeconds(analysis.holdingTime)],
     [
@@ -100,7 +101,7 @@ export function KeyFigures({ analysis }: { analysis: AnalysisResult | null }) {
         : `${signed(analysis.saturation.lowestDeviation)} to ${signed(analysis.saturation.highestDeviation)} K`,
     ],
     ["F0 of the reference", `${formatNumber(analysis.f0[analysis.referenceChannel] ?? null, 1)} min`],
-    ["Record length", formatElapsed(analysis.record.durationS)],
+    ["Record length", at(analysis.record.durationS)],
     ["Samples", `${analysis.record.samples.toLocaleString("en-GB")}, every ${formatNumber(interval, interval < 10 && !Number.isInteger(interval) ? 1 : 0)} s`],
   ];
   return (

@@ -255,10 +255,13 @@ function chartOptions({
   const flags = series.flags;
   const band = series.band;
 
+  const hours = record.to - record.from >= 3600;
+  const elapsed = (v: number, tenths = false) => formatElapsed(v, { forceHours: hours, tenths });
   const timeValue = (_u: uPlot, v: number | null) => {
     if (v == null) return "—";
     const clock = clockTimeAt(startedAt, v, timeZone);
-    return clock ? `${formatElapsed(v, { tenths: !Number.isInteger(v) })} (${clock})` : formatElapsed(v, { tenths: !Number.isInteger(v) });
+    const since = elapsed(v, !Number.isInteger(v));
+    return clock ? `${since} (clock ${clock})` : since;
   };
 
   return {
@@ -297,7 +300,7 @@ function chartOptions({
         ticks: { stroke: CHART.line },
         incrs: TIME_INCREMENTS,
         space: 70,
-        values: (u, splits) => elapsedTickLabels(splits, (u.scales.x.max ?? 0) - (u.scales.x.min ?? 0)),
+        values: (u, splits) => elapsedTickLabels(splits, (u.scales.x.max ?? 0) - (u.scales.x.min ?? 0), hours),
         label: startedAt && width >= 520 ? "Time since the first sample (clock time in the legend)" : "Time since the first sample",
         labelSize: 20,
         font: "11px system-ui, sans-serif",
@@ -409,8 +412,8 @@ function chartOptions({
             ctx.lineWidth = 1.5 * px;
             // Start label before its line, end label after it, so that the plateau between stays clear.
             const marks: Array<[number, string, CanvasTextAlign]> = [
-              [plateau.start, `Plateau start ${formatElapsed(plateau.start)}`, "right"],
-              [plateau.end, `Plateau end ${formatElapsed(plateau.end)}`, "left"],
+              [plateau.start, `Plateau start ${elapsed(plateau.start)}`, "right"],
+              [plateau.end, `Plateau end ${elapsed(plateau.end)}`, "left"],
             ];
             const xs = marks.map(([t]) => Math.round(u.valToPos(t, "x", true)) + 0.5);
             for (const x of xs) {
@@ -433,7 +436,7 @@ function chartOptions({
             });
             const collide = visible[0] && visible[1] && placed[0].to + gap > placed[1].from;
             if (collide) {
-              const text = `Plateau ${formatElapsed(plateau.start)}–${formatElapsed(plateau.end)}`;
+              const text = `Plateau ${elapsed(plateau.start)}–${elapsed(plateau.end)}`;
               const w = ctx.measureText(text).width;
               const centre = Math.min(Math.max((xs[0] + xs[1]) / 2, left + w / 2 + 2 * px), left + width - w / 2 - 2 * px);
               ctx.textAlign = "center";
