@@ -206,7 +206,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
               </>
             )}
             {/* the cycle's path */}
-            <path d={svgPath(path.map((s) => [s.temperatureC, s.pressureKpa]), x, y)} fill="none" stroke={CHART.path} strokeWidth={1} strokeLinejoin="round" />
+            <path d={svgPath(path.map((s) => [s.temperatureC, s.pressureKpa]), x, y)} fill="none" stroke={CHART.path} strokeWidth={1.3} strokeLinejoin="round" />
             {path.length > 0 && (
               <g>
                 <circle cx={x(path[0].temperatureC)} cy={y(path[0].pressureKpa)} r={3.5} fill={CHART.raised} stroke={CHART.inkSoft} />
@@ -282,7 +282,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
       <ul className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-xs text-ink-soft" aria-label="Key">
         <li className="flex items-center gap-1.5"><KeySwatch><line x1={1} x2={15} y1={8} y2={8} stroke={CHART.ink} strokeWidth={2.2} /></KeySwatch>liquid–vapour line (IAPWS-IF97)</li>
         <li className="flex items-center gap-1.5"><KeySwatch><rect x={1} y={3} width={14} height={10} fill="rgba(29,122,77,0.12)" stroke="rgba(29,122,77,0.35)" strokeDasharray="3 3" /></KeySwatch>within ±{saturationLimitK} K of saturation (the limit)</li>
-        <li className="flex items-center gap-1.5"><KeySwatch><line x1={1} x2={15} y1={8} y2={8} stroke={CHART.path} strokeWidth={1.5} /></KeySwatch>the cycle&apos;s path (downsampled)</li>
+        <li className="flex items-center gap-1.5"><KeySwatch><line x1={1} x2={15} y1={8} y2={8} stroke={CHART.path} strokeWidth={1.5} /></KeySwatch>the cycle&apos;s path{overview.data && !overview.data.fullResolution ? " (downsampled)" : ""}</li>
         {(Object.keys(SIDE_STYLE) as PhaseSide[]).map((side) => (
           <li key={side} className="flex items-start gap-1.5">
             <KeySwatch><Marker side={side} cx={8} cy={8} /></KeySwatch>
