@@ -21,9 +21,11 @@ export function Findings({ detail }: { detail: CycleDetail }) {
     <div className="space-y-4" data-testid="findings">
       <div className={`rounded-md border px-4 py-3 ${a.verdict === "pass" ? "border-pass-500/30 bg-pass-50" : "border-fail-500/30 bg-fail-50"}`}>
         <p className={`text-sm font-semibold ${a.verdict === "pass" ? "text-pass-700" : "text-fail-700"}`} data-testid="verdict">
-          {a.verdict === "pass" ? "✓ Pass: every check met its limit" : `✕ Fail: ${failed.length} of ${a.checks.length} checks did not meet their limit`}
+          {a.verdict === "pass"
+            ? `✓ All ${a.checks.length} checks met their limits`
+            : `✕ ${failed.length} of ${a.checks.length} check${a.checks.length === 1 ? "" : "s"} did not meet ${failed.length === 1 ? "its" : "their"} limit`}
         </p>
-        <p className="mt-1 text-sm text-ink">{a.summary.replace(/^(pass|fail)\s*:\s*/i, "").replace(/^./, (c) => c.toUpperCase())}</p>
+        <p className="mt-1 text-sm text-ink">{a.summary}</p>
       </div>
 
       {!a.plateau && (
