@@ -22,8 +22,8 @@ export function Findings({ detail }: { detail: CycleDetail }) {
       <div className={`rounded-md border px-4 py-3 ${a.verdict === "pass" ? "border-pass-500/30 bg-pass-50" : "border-fail-500/30 bg-fail-50"}`}>
         <p className={`text-sm font-semibold ${a.verdict === "pass" ? "text-pass-700" : "text-fail-700"}`} data-testid="verdict">
           {a.verdict === "pass"
-            ? `✓ All ${a.checks.length} checks met their limits`
-            : `✕ ${failed.length} of ${a.checks.length} check${a.checks.length === 1 ? "" : "s"} did not meet ${failed.length === 1 ? "its" : "their"} limit`}
+            ? `✓ Pass — all ${a.checks.length} checks met their limits`
+            : `✕ Fail — ${failed.length} of ${a.checks.length} check${a.checks.length === 1 ? "" : "s"} did not meet ${failed.length === 1 ? "its" : "their"} limit`}
         </p>
         <p className="mt-1 text-sm text-ink">{a.summary}</p>
       </div>
