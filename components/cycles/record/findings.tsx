@@ -17,6 +17,8 @@ export function Findings({ detail }: { detail: CycleDetail }) {
   const failed = a.checks.filter((c) => !c.passed);
   const ts = a.limits.sterilizationTempC;
   const at = elapsedFormatter(a.record.durationS);
+  // a flag's diagnosis already given under "Why it failed" is not repeated
+  const said = new Set(a.diagnoses.map((d) => d.text.trim()));
   return (
     <div className="space-y-4" data-testid="findings">
       <div className={`rounded-md border px-4 py-3 ${a.verdict === "pass" ? "border-pass-500/30 bg-pass-50" : "border-fail-500/30 bg-fail-50"}`}>
@@ -78,7 +80,7 @@ export function Findings({ detail }: { detail: CycleDetail }) {
                     {formatNumber(Math.abs(f.worst), 2)} K
                   </span>
                 </p>
-                <p className="mt-0.5 text-ink-soft">{f.diagnosis}</p>
+                {!said.has(f.diagnosis.trim()) && <p className="mt-0.5 text-ink-soft">{f.diagnosis}</p>}
               </li>
             ))}
           </ul>
