@@ -1,6 +1,6 @@
 "use client";
 
-import { useId, useRef, useState, type FormEvent } from "react";
+import { useEffect, useId, useRef, useState, type FormEvent } from "react";
 import { useRouter } from "next/navigation";
 import type { CreateCycleResponse, InspectResponse, MappingOverrides } from "@/lib/cycles/contracts";
 import type { TestKind } from "@/db/schema";
@@ -114,6 +114,9 @@ export function IntakeForm({
   const [mappingErrors, setMappingErrors] = useState<string[]>([]);
   const [saveMapping, setSaveMapping] = useState(false);
   const errorSummary = useRef<HTMLDivElement>(null);
+  // Set once the form is interactive (hydrated); browser tests wait for it.
+  const [ready, setReady] = useState(false);
+  useEffect(() => setReady(true), []);
 
   const firstSterilizer = sterilizers.length === 1 ? sterilizers[0] : undefined;
   const [fields, setFields] = useState<Fields>({
@@ -275,7 +278,7 @@ export function IntakeForm({
   const describedBy = (name: CreateCycleField) => (fieldErrors[name] ? `${ids}-${name}-error` : undefined);
 
   return (
-    <form onSubmit={analyse} noValidate className="space-y-gutter" aria-label="New test cycle">
+    <form onSubmit={analyse} noValidate className="space-y-gutter" aria-label="New test cycle" data-ready={ready ? "true" : "false"}>
       {topError && (
         <div ref={errorSummary} tabIndex={-1} role="alert" className="rounded-md border border-fail-500/40 bg-fail-50 px-4 py-3 text-sm text-fail-700" data-testid="intake-error">
           {topError}

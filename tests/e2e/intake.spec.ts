@@ -65,11 +65,17 @@ async function signInAs(page: Page, role: "technician" | "engineer" | "auditor")
   await expect(page.getByRole("heading", { name: /Welcome/ })).toBeVisible();
 }
 
+/** Opens the intake page and waits until React has made it interactive. */
+async function openIntake(page: Page) {
+  await page.goto("/cycles/new");
+  await expect(page.getByRole("form", { name: "New test cycle" })).toHaveAttribute("data-ready", "true");
+}
+
 test.describe.configure({ mode: "serial" });
 
 test("the drop area refuses a file that is too large or not a logger export, saying why", async ({ page }) => {
   await signInAs(page, "technician");
-  await page.goto("/cycles/new");
+  await openIntake(page);
   await expect(page.getByText("up to 50 MB per file")).toBeVisible();
   await dropFiles(page, [
     { name: "day-export.csv", type: "text/csv", sizeBytes: 51 * 1024 * 1024 },
@@ -85,7 +91,7 @@ test("the drop area refuses a file that is too large or not a logger export, say
 test("a technician drops a simulated logger file, corrects the mapping, analyses and sees the verdict", async ({ page }) => {
   const file = genericLoggerFile("generic-logger-134.csv", 21);
   await signInAs(page, "technician");
-  await page.goto("/cycles/new");
+  await openIntake(page);
   await dropFiles(page, [asDropped(file)]);
 
   const table = page.getByTestId("mapping-table");
@@ -142,7 +148,7 @@ test("a technician drops a simulated logger file, corrects the mapping, analyses
 test("the instrument's saved mapping is applied to its next file", async ({ page }) => {
   const file = genericLoggerFile("generic-logger-134-next.csv", 22);
   await signInAs(page, "technician");
-  await page.goto("/cycles/new");
+  await openIntake(page);
   await chooseByText(page, "Logger (instrument)", "TL-12 (unit A)");
   // This time from the keyboard: the drop area takes focus and Enter opens the file chooser.
   await page.getByTestId("logger-dropzone").focus();
