@@ -21,8 +21,9 @@ import type { Actor } from "./users";
 import { AppError } from "@/lib/errors";
 import { analyzeLoggerBytes, type FileAnalysis } from "@/lib/cycles/analyze-file";
 import { readLoggerFile, LoggerFileError, type MappingOverrides, type Recording } from "@/lib/logger-files";
-import { downsampleSeries } from "@/lib/analysis";
-import { saturationTemperatureC, atmosphereAtAltitudeKpa, STANDARD_ATMOSPHERE_KPA } from "@/lib/steam";
+import { AnalysisError } from "@/lib/analysis";
+import { buildSeries } from "@/lib/cycles/series";
+import { atmosphereAtAltitudeKpa, STANDARD_ATMOSPHERE_KPA } from "@/lib/steam";
 import type { AnalysisResult } from "@/lib/analysis/types";
 import type { CreateCycleResponse, CycleDetail, CycleListItem, CycleListResponse, SeriesResponse, SignatureView } from "@/lib/cycles/contracts";
 import { signatureIsValid } from "./signature-bundle";
@@ -246,21 +247,6 @@ async function recordingOfAnalysis(analysisId: string): Promise<{ recording: Rec
   return { recording, result: row.result as AnalysisResult };
 }
 
-function saturationTrace(pressureKpaAbs: Float64Array): Float64Array {
-  const out = new Float64Array(pressureKpaAbs.length);
-  for (let i = 0; i < pressureKpaAbs.length; i++) {
-    const p = pressureKpaAbs[i];
-    try {
-      out[i] = saturationTemperatureC(p);
-    } catch {
-      out[i] = Number.NaN;
-    }
-  }
-  return out;
-}
-
-const finiteOrNull = (v: number) => (Number.isFinite(v) ? Math.round(v * 1000) / 1000 : null);
-
 export async function getCycleSeries({
   actor,
   id,
@@ -278,40 +264,8 @@ export async function getCycleSeries({
   if (!cycle?.currentAnalysisId) return undefined;
   const loaded = await recordingOfAnalysis(cycle.currentAnalysisId);
   if (!loaded) return undefined;
-  const { recording, result } = loaded;
-  const saturation = saturationTrace(recording.pressure.values);
-  const all = [...recording.temperatures.map((t) => t.values), recording.pressure.values, saturation];
   const maxPoints = Math.min(Math.max(Math.trunc(points), 50), 20000);
-  const down = downsampleSeries(recording.timesS, all, maxPoints, fromS, toS);
-  const n = recording.timesS.length;
-  const first = recording.timesS[0] ?? 0;
-  const last = recording.timesS[n - 1] ?? 0;
-  const from = fromS ?? first;
-  const to = toS ?? last;
-  let inWindow = 0;
-  for (let i = 0; i < n; i++) if (recording.timesS[i] >= from && recording.timesS[i] <= to) inWindow++;
-  const temps = recording.temperatures;
-  return {
-    startedAt: recording.startedAt,
-    timesS: down.timesS.map((t) => Math.round(t * 1000) / 1000),
-    channels: [
-      ...temps.map((t, i) => ({
-        header: t.header,
-        kind: "temperature" as const,
-        unit: "°C",
-        role: i === recording.referenceIndex ? ("reference" as const) : ("load" as const),
-        values: down.series[i].map(finiteOrNull),
-      })),
-      { header: recording.pressure.header, kind: "pressure" as const, unit: "kPa abs", role: "pressure" as const, values: down.series[temps.length].map(finiteOrNull) },
-      { header: "Saturation temperature from pressure", kind: "saturation" as const, unit: "°C", role: "saturation" as const, values: down.series[temps.length + 1].map(finiteOrNull) },
-    ],
-    plateau: result.plateau,
-    band: { low: result.limits.sterilizationTempC, high: result.limits.sterilizationTempC + result.limits.bandK },
-    flags: result.saturation.flags,
-    window: { from, to },
-    totalSamples: n,
-    fullResolution: inWindow <= maxPoints,
-  };
+  return buildSeries(loaded.recording, loaded.result, { fromS, toS, points: maxPoints });
 }
 
 export type UploadedFile = { name: string; bytes: Uint8Array; contentType: string };
@@ -363,7 +317,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
       primaryIndex = index;
       break;
     } catch (error) {
-      if (error instanceof LoggerFileError || (error instanceof Error && error.name === "AnalysisError")) {
+      if (error instanceof LoggerFileError || error instanceof AnalysisError) {
         firstProblem ??= `${file.name}: ${error.message}`;
         continue;
       }
@@ -520,7 +474,7 @@ export async function reanalyseCycle({ actor, id, file, mapping }: { actor: Acto
   try {
     analysis = analyzeLoggerBytes(bytes, profile, mapping ?? {}, siteAtmosphereKpa(site));
   } catch (error) {
-    if (error instanceof LoggerFileError) throw new AppError(422, `${file?.name ?? "The stored file"}: ${error.message}`, "file");
+    if (error instanceof LoggerFileError || error instanceof AnalysisError) throw new AppError(422, `${file?.name ?? "The stored file"}: ${error.message}`, "file");
     throw error;
   }
   await db.transaction(async (tx) => {

@@ -7,9 +7,20 @@ import {
   type AnalysisResult,
   type ChannelSummary,
   type Check,
+  type CheckId,
   type Diagnosis,
   type SaturationFlag,
 } from "./types";
+
+// How each failed check reads in the one-line summary (the labels name the passing condition).
+const FAILURE_WORDS: Partial<Record<CheckId, string>> = {
+  "plateau-reached": "the reference did not reach the sterilization temperature",
+  "equilibration-time": "equilibration took too long",
+  "holding-time": "the holding time was too short",
+  band: "a temperature left the sterilization band during holding",
+  spread: "the channels differed too much during holding",
+  saturation: "the reference did not follow saturated steam",
+};
 
 export const ENGINE_VERSION = "papin-analysis 1.0.0";
 
@@ -467,12 +478,13 @@ export function analyzeRecording(recording: Recording, limits: AcceptanceLimits,
   });
 
   const verdict = checks.every((c) => c.passed) ? "pass" : "fail";
-  const failed = checks.filter((c) => !c.passed).map((c) => c.label.toLowerCase());
+  const failed = checks.filter((c) => !c.passed).map((c) => FAILURE_WORDS[c.id] ?? c.label.toLowerCase());
   const summary =
     verdict === "pass"
       ? `Pass: plateau from ${seconds(round(startS, 1))}, equilibration ${seconds(round(equilibrationTime ?? 0, 1))}, holding ${describeDuration(round(holdingTime ?? 0, 1))}; ` +
         `every channel stayed within ${ts}–${round(bandTop, 3)} °C and the reference followed saturated steam within ${fmt(largest, 2)} K.`
       : `Fail: ${failed.join("; ")}.`;
+
 
   return {
     engineVersion: ENGINE_VERSION,

@@ -44,7 +44,7 @@ function uploadRequest(fields: Record<string, string>, files: Array<{ name: stri
 function analyzeWithCli(bytes: Uint8Array, name: string) {
   const file = path.join(ctx.dir, name);
   writeFileSync(file, bytes);
-  const out = execFileSync(process.execPath, ["node_modules/tsx/dist/cli.mjs", "lib/cli/analyze.ts", file, "--sterilization-temp", "134", "--holding-time", "180"], { encoding: "utf8" });
+  const out = execFileSync(process.execPath, ["lib/cli/launch.mjs", "analyze", file, "--sterilization-temp", "134", "--holding-time", "180"], { encoding: "utf8" });
   return JSON.parse(out);
 }
 

@@ -5,15 +5,15 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
-const TSX_CLI = path.join(ROOT, "node_modules/tsx/dist/cli.mjs");
+const LAUNCHER = path.join(ROOT, "lib/cli/launch.mjs");
 const FIXTURES = path.join(ROOT, "tests/fixtures/logger-files");
 
 type Run = { code: number; stdout: string; stderr: string };
 
-/** Runs the analyze command as `npm run analyze` does (tsx lib/cli/analyze.ts), as a separate process. */
+/** Runs the analyze command as `npm run analyze` does (node lib/cli/launch.mjs analyze), as a separate process. */
 function analyze(args: string[]): Promise<Run> {
   return new Promise((resolve) => {
-    execFile(process.execPath, [TSX_CLI, "lib/cli/analyze.ts", ...args], { cwd: ROOT, maxBuffer: 32 * 1024 * 1024 }, (error, stdout, stderr) => {
+    execFile(process.execPath, [LAUNCHER, "analyze", ...args], { cwd: ROOT, maxBuffer: 32 * 1024 * 1024 }, (error, stdout, stderr) => {
       const code = error ? (typeof error.code === "number" ? error.code : 1) : 0;
       resolve({ code, stdout, stderr });
     });
@@ -32,7 +32,7 @@ function expectOneLineError(run: Run, pattern: RegExp | string): void {
 }
 
 const fixture = (name: string) => path.join(FIXTURES, name);
-// Each test starts tsx as its own process; several at once on a two-core machine take a while.
+// Each test starts the command as its own process; several at once on a two-core machine take a while.
 const SPAWN_TIMEOUT_MS = 90_000;
 
 describe("the analyze command on hand-made logger files", () => {

@@ -5,7 +5,7 @@ import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, readMultipart } from "@/lib/uploads";
 import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
-import { createCycleFieldsSchema, mappingSchema } from "@/lib/validations/cycle-upload";
+import { createCycleFieldsSchema, mappingOverridesSchema as mappingSchema } from "@/lib/validations/intake";
 import { createCycleFromUpload, listCycles } from "@/db/queries/cycles";
 import { kickMailDelivery } from "@/lib/mail/delivery";
 import { originOf } from "@/lib/request-origin";

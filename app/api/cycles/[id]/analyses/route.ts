@@ -3,7 +3,7 @@ import { route, zodMessage } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, readMultipart } from "@/lib/uploads";
-import { mappingSchema } from "@/lib/validations/cycle-upload";
+import { mappingOverridesSchema as mappingSchema } from "@/lib/validations/intake";
 import { reanalyseCycle } from "@/db/queries/cycles";
 
 export const runtime = "nodejs";
