@@ -126,6 +126,8 @@ export function planColumns(
   sampleRows: string[][],
   decimal: DecimalMark,
   overrides: MappingOverrides = {},
+  /** when given, a missing temperature or pressure column is noted here instead of thrown, so a preview can still be shown */
+  problems?: string[],
 ): ColumnPlan {
   const atmosphereKpa = overrides.atmosphereKpa ?? STANDARD_ATMOSPHERE_KPA;
   if (!(atmosphereKpa > 0 && atmosphereKpa < 200)) {
@@ -270,11 +272,15 @@ export function planColumns(
     }
   }
   const temperatures = columns.filter((c) => c.role === "temperature");
-  if (temperatures.length === 0) {
-    throw new LoggerFileError("No temperature column: no header carries a temperature unit (°C, °F, K) or a channel name; say which columns are temperatures");
-  }
-  if (!pressure) {
-    throw new LoggerFileError("No pressure column: no header carries a pressure unit (kPa, bar, mbar, MPa, psi, mmHg) or the word pressure; say which column is the chamber pressure");
+  const noTemperature = "No temperature column: no header carries a temperature unit (°C, °F, K) or a channel name; say which columns are temperatures";
+  const noPressure = "No pressure column: no header carries a pressure unit (kPa, bar, mbar, MPa, psi, mmHg) or the word pressure; say which column is the chamber pressure";
+  if (temperatures.length === 0 || !pressure) {
+    if (!problems) throw new LoggerFileError(temperatures.length === 0 ? noTemperature : noPressure);
+    if (temperatures.length === 0) problems.push(noTemperature);
+    if (!pressure) problems.push(noPressure);
+    if (temperatures.length === 0) {
+      return { columns, timeIndex, timeFormat, elapsedScale, temperatureIndexes: [], pressureIndex: pressure?.index ?? -1, referenceIndex: -1, atmosphereKpa };
+    }
   }
 
   // Temperature units
@@ -315,7 +321,7 @@ export function planColumns(
     }
   }
 
-  resolvePressureUnit(pressure, referenceColumn, sampleRows, decimal, overrides, atmosphereKpa);
+  if (pressure) resolvePressureUnit(pressure, referenceColumn, sampleRows, decimal, overrides, atmosphereKpa);
   for (const c of columns) c.unsure = c.unsure.filter((u) => u !== "unit-unknown" && u !== "gauge-or-absolute");
 
   return {
@@ -324,7 +330,7 @@ export function planColumns(
     timeFormat,
     elapsedScale,
     temperatureIndexes: temperatures.map((c) => c.index),
-    pressureIndex: pressure.index,
+    pressureIndex: pressure?.index ?? -1,
     referenceIndex: temperatures.indexOf(referenceColumn),
     atmosphereKpa,
   };

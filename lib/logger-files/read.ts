@@ -34,12 +34,12 @@ function spreadSample(prepared: PreparedText, layout: TableLayout): string[][] {
   return rows;
 }
 
-function analyse(bytes: Uint8Array, overrides: MappingOverrides = {}): Analysed {
+function analyse(bytes: Uint8Array, overrides: MappingOverrides = {}, problems?: string[]): Analysed {
   if (!(bytes instanceof Uint8Array)) throw new LoggerFileError("The logger file must be given as bytes");
   const prepared = prepareText(bytes);
   const layout = findTable(prepared);
   const preview = dataLineIndexes(prepared, layout, PREVIEW_ROWS).map((i) => splitFields(lineText(prepared, i), layout.delimiter));
-  const plan = planColumns(layout.headers, spreadSample(prepared, layout), layout.decimal, overrides);
+  const plan = planColumns(layout.headers, spreadSample(prepared, layout), layout.decimal, overrides, problems);
   const dialect: Dialect = {
     encoding: prepared.encoding,
     delimiter: layout.delimiter,
@@ -55,7 +55,8 @@ function analyse(bytes: Uint8Array, overrides: MappingOverrides = {}): Analysed 
 
 /** Guesses dialect and mapping from the text without converting the data: cheap enough for every upload. */
 export function inspectLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides): InspectResult {
-  const { prepared, layout, plan, dialect, preview } = analyse(bytes, overrides);
+  const problems: string[] = [];
+  const { prepared, layout, plan, dialect, preview } = analyse(bytes, overrides, problems);
   const preambleEnd = dialect.preambleLines;
   const preamble: string[] = [];
   for (let i = 0; i < preambleEnd; i++) preamble.push(lineText(prepared, i));
@@ -66,7 +67,8 @@ export function inspectLoggerFile(bytes: Uint8Array, overrides?: MappingOverride
   return {
     dialect,
     columns: plan.columns,
-    referenceColumn: plan.columns[plan.temperatureIndexes[plan.referenceIndex]].header,
+    referenceColumn: plan.referenceIndex >= 0 ? plan.columns[plan.temperatureIndexes[plan.referenceIndex]].header : null,
+    problems,
     preview: { header: layout.headers, rows: preview },
     rowCount,
     preamble,

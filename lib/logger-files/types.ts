@@ -76,6 +76,8 @@ export type InspectResult = {
   /** data lines below the header (a cheap count; footer lines included) */
   rowCount: number;
   preamble: string[];
+  /** what the guess could not settle (no pressure or temperature column found): the user must map it before analysing */
+  problems: string[];
 };
 
 export type ReadResult = {

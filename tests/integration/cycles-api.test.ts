@@ -146,3 +146,40 @@ describe("POST /api/cycles then GET", () => {
     expect((await GET(new Request("http://papin.test/api/cycles"), undefined)).status).toBe(401);
   });
 });
+
+describe("POST /api/logger-files/inspect", () => {
+  async function inspect(bytes: Uint8Array, name = "file.csv") {
+    const { POST } = await import("@/app/api/logger-files/inspect/route");
+    const form = new FormData();
+    form.append("file", new Blob([bytes as BlobPart]), name);
+    as("technician");
+    return POST(new Request("http://papin.test/api/logger-files/inspect", { method: "POST", body: form }), undefined);
+  }
+
+  it("guesses the mapping of a readable file and marks what it is unsure of", async () => {
+    const res = await inspect(await simulatedFile("pass", { delimiter: ";", decimal: ",", pressureUnit: "bar" }));
+    expect(res.status).toBe(200);
+    const body = await res.json();
+    expect(body.dialect).toMatchObject({ delimiter: ";", decimal: "," });
+    expect(body.columns.find((c: { role: string }) => c.role === "pressure").unit).toBe("bar");
+    expect(body.referenceColumn).toMatch(/Drain/);
+    expect(body.problems).toEqual([]);
+  });
+
+  it("still previews a file whose pressure column it cannot recognise, so the user can map it", async () => {
+    const text = new TextDecoder().decode(await simulatedFile("pass", {}));
+    const renamed = new TextEncoder().encode(text.replace("Chamber (kPa abs)", "Channel 9"));
+    const res = await inspect(renamed);
+    expect(res.status).toBe(200);
+    const body = await res.json();
+    expect(body.problems[0]).toMatch(/No pressure column/);
+    expect(body.warnings[0]).toMatch(/No pressure column/);
+    expect(body.preview.header).toContain("Channel 9");
+  });
+
+  it("answers unreadable bytes with 422 naming the file", async () => {
+    const res = await inspect(new Uint8Array([0, 1, 2, 3, 255, 254, 0, 0, 9]), "photo.csv");
+    expect(res.status).toBe(422);
+    expect((await res.json()).error).toMatch(/^photo\.csv: /);
+  });
+});

@@ -23,13 +23,24 @@ export const POST = route(async (request) => {
     savedMapping = (instrument.savedMapping as MappingOverrides | null) ?? null;
   }
   try {
-    const inspected = inspectLoggerFile(file.bytes, savedMapping ?? undefined);
+    const warnings: string[] = [];
+    let inspected;
+    try {
+      inspected = inspectLoggerFile(file.bytes, savedMapping ?? undefined);
+    } catch (error) {
+      // A saved mapping that does not fit this file (other column names) must not block the upload.
+      if (!savedMapping || !(error instanceof LoggerFileError)) throw error;
+      warnings.push(`The mapping saved for this instrument does not fit this file (${error.message}); the guess is shown instead.`);
+      savedMapping = null;
+      inspected = inspectLoggerFile(file.bytes);
+    }
+    warnings.push(...inspected.problems.map((p) => `${p} below.`));
     const body: InspectResponse = {
       ...inspected,
       name: file.name,
       size: file.bytes.byteLength,
       sha256: sha256Hex(file.bytes),
-      warnings: [],
+      warnings,
       savedMapping,
     };
     return NextResponse.json(body);
