@@ -151,9 +151,8 @@ test("the instrument's saved mapping is applied to its next file", async ({ page
   await openIntake(page);
   await chooseByText(page, "Logger (instrument)", "TL-12 (unit A)");
   // This time from the keyboard: the drop area takes focus and Enter opens the file chooser.
-  await page.getByTestId("logger-dropzone").focus();
   const chooser = page.waitForEvent("filechooser");
-  await page.keyboard.press("Enter");
+  await page.getByTestId("logger-dropzone").press("Enter");
   await (await chooser).setFiles(file);
   await expect(page.getByTestId("mapping-notice")).toContainText("The mapping saved for Thermocouple logger TL-12 (unit A) was applied");
   await expect(page.getByLabel("Reference channel (chamber drain)")).toHaveValue("CH7 (°C)");

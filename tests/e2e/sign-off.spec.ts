@@ -60,7 +60,8 @@ test("a technician submits, an engineer signs with a password, an auditor downlo
   await expect(auditor.getByTestId("chain-state")).toContainText("Chain intact");
   await expect(auditor.getByTestId("audit-table")).toContainText("cycle.sign.approved");
 
-  const mailbox = await (await fetch(`${new URL(baseURL!).origin.replace(/:(\d+)$/, (_, p) => `:${Number(p) + 1}`)}/emails`)).json();
-  const subjects = (mailbox.data ?? mailbox).map((m: { subject: string; to: string[] | string }) => `${m.subject} → ${[m.to].flat().join(",")}`);
+  const mailbox = await (await fetch(`${new URL(baseURL!).origin.replace(/:(\d+)$/, (_, p) => `:${Number(p) + 1}`)}/emails`, { headers: { Authorization: "Bearer re_e2e_fake" } })).json();
+  const messages = Array.isArray(mailbox) ? mailbox : mailbox.data;
+  const subjects = messages.map((m: { subject: string; to: string[] | string }) => `${m.subject} → ${[m.to].flat().join(",")}`);
   expect(subjects.some((s: string) => s.includes(cycleNumber) && s.includes(DEMO.technician.email))).toBe(true);
 });
