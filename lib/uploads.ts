@@ -1,6 +1,9 @@
 import "server-only";
 import { env } from "./env";
 import { AppError } from "./errors";
+import { zodMessage } from "./http";
+import { mappingOverridesSchema } from "./validations/intake";
+import type { MappingOverrides } from "./logger-files";
 
 export const MAX_FILES_PER_UPLOAD = 10;
 
@@ -38,4 +41,19 @@ export async function filesOf(form: FormData, field: string): Promise<ReceivedFi
     out.push({ name: (file.name || "upload").slice(0, 255), bytes: new Uint8Array(await file.arrayBuffer()), contentType: file.type });
   }
   return out;
+}
+
+/** The optional `mapping` field of an upload: JSON of the user's corrections to the guessed mapping. */
+export function mappingFromForm(form: FormData): MappingOverrides | undefined {
+  const raw = form.get("mapping");
+  if (typeof raw !== "string" || !raw.trim()) return undefined;
+  let json: unknown;
+  try {
+    json = JSON.parse(raw);
+  } catch {
+    throw new AppError(400, "mapping is not valid JSON.", "mapping");
+  }
+  const parsed = mappingOverridesSchema.safeParse(json);
+  if (!parsed.success) throw new AppError(400, `mapping: ${zodMessage(parsed.error)}`, "mapping");
+  return parsed.data;
 }

@@ -1,6 +1,7 @@
 export type DownsampledSeries = { timesS: number[]; series: number[][] };
 
-function lowerBound(times: Float64Array, value: number): number {
+/** First index whose time is at or after `value` (times ascending). */
+export function lowerBound(times: ArrayLike<number>, value: number): number {
   let lo = 0;
   let hi = times.length;
   while (lo < hi) {

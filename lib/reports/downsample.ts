@@ -1,15 +1,5 @@
 import type { SeriesResponse } from "@/lib/cycles/contracts";
-
-function lowerBound(times: ArrayLike<number>, value: number): number {
-  let lo = 0;
-  let hi = times.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (times[mid] < value) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
-}
+import { lowerBound } from "@/lib/analysis/downsample";
 
 /**
  * The series cut to at most maxPoints points for print, keeping each bucket's lowest and highest

@@ -1,11 +1,10 @@
 import { NextResponse } from "next/server";
-import { z } from "zod";
 import { route, zodMessage } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
-import { filesOf, readMultipart } from "@/lib/uploads";
+import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
 import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
-import { createCycleFieldsSchema, mappingOverridesSchema as mappingSchema } from "@/lib/validations/intake";
+import { createCycleFieldsSchema } from "@/lib/validations/intake";
 import { createCycleFromUpload, listCycles } from "@/db/queries/cycles";
 import { kickMailDelivery } from "@/lib/mail/delivery";
 import { originOf } from "@/lib/request-origin";
@@ -28,19 +27,7 @@ export const POST = route(async (request) => {
     const issue = fields.error.issues[0];
     throw new AppError(400, zodMessage(fields.error), issue?.path[0] ? String(issue.path[0]) : undefined);
   }
-  let mapping: z.infer<typeof mappingSchema> | undefined;
-  const rawMapping = form.get("mapping");
-  if (typeof rawMapping === "string" && rawMapping.trim()) {
-    let json: unknown;
-    try {
-      json = JSON.parse(rawMapping);
-    } catch {
-      throw new AppError(400, "mapping is not valid JSON.", "mapping");
-    }
-    const parsedMapping = mappingSchema.safeParse(json);
-    if (!parsedMapping.success) throw new AppError(400, `mapping: ${zodMessage(parsedMapping.error)}`, "mapping");
-    mapping = parsedMapping.data;
-  }
+  const mapping = mappingFromForm(form);
   const files = await filesOf(form, "files");
   if (files.length === 0) {
     const single = await filesOf(form, "file");

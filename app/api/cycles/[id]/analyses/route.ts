@@ -1,9 +1,8 @@
 import { NextResponse } from "next/server";
-import { route, zodMessage } from "@/lib/http";
+import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
-import { filesOf, readMultipart } from "@/lib/uploads";
-import { mappingOverridesSchema as mappingSchema } from "@/lib/validations/intake";
+import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
 import { reanalyseCycle } from "@/db/queries/cycles";
 
 export const runtime = "nodejs";
@@ -15,19 +14,7 @@ export const POST = route<Context>(async (request, { params }) => {
   const actor = await requireRole("cycle:create", "correct cycles");
   const form = await readMultipart(request);
   const [file] = await filesOf(form, "file");
-  let mapping;
-  const raw = form.get("mapping");
-  if (typeof raw === "string" && raw.trim()) {
-    let json: unknown;
-    try {
-      json = JSON.parse(raw);
-    } catch {
-      throw new AppError(400, "mapping is not valid JSON.", "mapping");
-    }
-    const parsed = mappingSchema.safeParse(json);
-    if (!parsed.success) throw new AppError(400, `mapping: ${zodMessage(parsed.error)}`, "mapping");
-    mapping = parsed.data;
-  }
+  const mapping = mappingFromForm(form);
   if (!file && !mapping) throw new AppError(400, "Attach a corrected logger file or send a corrected mapping.");
   const { id } = await params;
   return NextResponse.json(await reanalyseCycle({ actor, id, file, mapping }), { status: 201 });
