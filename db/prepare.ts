@@ -37,7 +37,17 @@ async function main() {
   client.close();
 }
 
+/** The deepest plain reason behind a failure (drizzle wraps the driver's error in a query error). */
+function reasonOf(error: unknown): string {
+  const messages: string[] = [];
+  for (let e: unknown = error; e instanceof Error; e = (e as Error & { cause?: unknown }).cause) messages.push(e.message);
+  const all = messages.join(" | ");
+  if (/HTTP status 401|401 Unauthorized/i.test(all)) return "the libSQL server at DATABASE_URL refused DATABASE_AUTH_TOKEN (HTTP 401)";
+  if (/ECONNREFUSED|fetch failed/i.test(all)) return `nothing answers at DATABASE_URL (${env().DATABASE_URL})`;
+  return messages.at(-1) ?? String(error);
+}
+
 main().catch((error: unknown) => {
-  console.error(`Papin could not prepare its database: ${error instanceof Error ? error.message : String(error)}`);
+  console.error(`Papin could not prepare its database: ${reasonOf(error)}`);
   process.exit(1);
 });
