@@ -34,9 +34,15 @@ export default async function PortalLayout({ children }: { children: React.React
           </div>
         </aside>
         <div className="flex min-w-0 flex-1 flex-col">
-          <header className="flex items-center justify-between border-b border-ink-line bg-paper-raised px-gutter py-2 md:hidden">
-            <Link href="/" className="flex items-center gap-2"><PapinMark className="h-6 w-6" /> <span className="font-semibold">Papin</span></Link>
-            <SignOutButton />
+          <header className="border-b border-ink-line bg-paper-raised px-gutter py-2 md:hidden">
+            <div className="flex items-center justify-between">
+              <Link href="/" className="flex items-center gap-2"><PapinMark className="h-6 w-6" /> <span className="font-semibold">Papin</span></Link>
+              <SignOutButton />
+            </div>
+            <details className="mt-1">
+              <summary className="cursor-pointer text-sm text-ink-soft">Menu · {user.name}</summary>
+              <div className="py-2"><NavLinks items={items} /></div>
+            </details>
           </header>
           {demoEnabled() && (
             <div className="border-b border-brass-100 bg-brass-50 px-gutter py-1 text-xs text-brass-700">Demo site: fictional sterilizers, people and cycles.</div>
