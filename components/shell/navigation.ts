@@ -15,5 +15,6 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/audit", label: "Audit ledger", permission: "audit:read" },
   { href: "/steam", label: "Steam calculator", permission: "steam:calculate" },
   { href: "/admin/users", label: "Users", permission: "users:manage" },
+  { href: "/admin/site", label: "Site settings", permission: "settings:manage" },
   { href: "/admin/mail", label: "Mail", permission: "mail:read-outbox" },
 ];
