@@ -13,10 +13,10 @@ function atmosphereInUse(site: { atmosphereKpa: number | null; altitudeM: number
   try {
     const kpa = siteAtmosphereKpa(site);
     const source = site.atmosphereKpa
-      ? "from the measured pressure entered here"
+      ? "From the measured pressure entered here"
       : site.altitudeM !== null
-        ? `from the altitude of ${formatNumber(site.altitudeM, 0)} m through the standard atmosphere`
-        : "the standard atmosphere at sea level, since neither pressure nor altitude is set";
+        ? `From the altitude of ${formatNumber(site.altitudeM, 0)} m, through the standard atmosphere`
+        : "The standard atmosphere at sea level, since neither pressure nor altitude is set";
     return { kpa, source };
   } catch (error) {
     return { kpa: null, source: error instanceof Error ? error.message : "The stored altitude cannot be converted." };
