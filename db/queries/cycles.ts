@@ -63,7 +63,7 @@ export function cycleListWhere(actor: Actor, filter: CycleFilter): SQL | undefin
   if (filter.from) conditions.push(gte(cycles.startedAt, filter.from));
   if (filter.to) conditions.push(lte(cycles.startedAt, filter.to.length === 10 ? `${filter.to}T23:59:59.999Z` : filter.to));
   if (filter.q) {
-    const pattern = `%${filter.q.replace(/[%_]/g, (c) => `\\${c}`)}%`;
+    const pattern = `%${filter.q}%`;
     conditions.push(or(like(cycles.cycleNumber, pattern), like(cycles.loadDescription, pattern), like(sterilizers.name, pattern)));
   }
   return and(...conditions);

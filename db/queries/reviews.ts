@@ -1,5 +1,5 @@
 import "server-only";
-import { and, eq, ne } from "drizzle-orm";
+import { and, desc, eq, gte, like, lte, ne, or } from "drizzle-orm";
 import { getDb, type Executor } from "@/db";
 import { cycles, loggerFiles, reports, signatures, sterilizers, users, type SignatureMeaning } from "@/db/schema";
 import { appendAuditEvent } from "@/db/ledger";
@@ -242,7 +242,8 @@ async function recordVerification(actor: Actor, v: { sha256: string; match: bool
 }
 
 export async function listArchivedReports({ actor, q, from, to }: { actor: Actor; q?: string; from?: string; to?: string }) {
-  const rows = await getDb()
+  const needle = q?.trim() ? `%${q.trim()}%` : undefined;
+  return getDb()
     .select({
       id: reports.id,
       reportNumber: reports.reportNumber,
@@ -260,12 +261,18 @@ export async function listArchivedReports({ actor, q, from, to }: { actor: Actor
     .innerJoin(cycles, eq(reports.cycleId, cycles.id))
     .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
     .leftJoin(signatures, eq(reports.signatureId, signatures.id))
-    .where(and(eq(cycles.siteId, actor.siteId ?? ""), ne(cycles.status, "draft")));
-  const needle = q?.trim().toLowerCase();
-  return rows
-    .filter((r) => !needle || `${r.reportNumber} ${r.cycleNumber} ${r.sterilizerName} ${r.signerName ?? ""}`.toLowerCase().includes(needle))
-    .filter((r) => (!from || r.createdAt >= from) && (!to || r.createdAt.slice(0, 10) <= to))
-    .sort((a, b) => b.createdAt.localeCompare(a.createdAt));
+    .where(
+      and(
+        eq(cycles.siteId, actor.siteId ?? ""),
+        ne(cycles.status, "draft"),
+        needle
+          ? or(like(reports.reportNumber, needle), like(cycles.cycleNumber, needle), like(sterilizers.name, needle), like(signatures.printedName, needle))
+          : undefined,
+        from ? gte(reports.createdAt, from) : undefined,
+        to ? lte(reports.createdAt, `${to}T23:59:59.999Z`) : undefined,
+      ),
+    )
+    .orderBy(desc(reports.createdAt));
 }
 
 export async function getArchivedReport({ actor, id }: { actor: Actor; id: string }) {

@@ -182,6 +182,13 @@ describe("the review workflow on the server", () => {
     const altered = pdf.slice();
     altered[Math.floor(altered.length / 2)] ^= 0x01;
     expect(await verify(altered)).toMatchObject({ match: false });
+
+    const { listArchivedReports } = await import("@/db/queries/reviews");
+    const auditor = { id: people.auditor.id, email: "auditor@papin.example", name: "", role: "auditor" as const, siteId: (await detail(id)).site.id };
+    const { report } = await detail(id);
+    expect((await listArchivedReports({ actor: auditor, q: report.reportNumber })).map((r) => r.cycleId)).toEqual([id]);
+    expect(await listArchivedReports({ actor: auditor, q: "no such report" })).toEqual([]);
+    expect(await listArchivedReports({ actor: auditor, to: "2000-01-01" })).toEqual([]);
   });
 
   it("the ledger verifies after the whole workflow, and the verifier names a row altered behind the triggers' back", async () => {
