@@ -5,13 +5,7 @@ import type { Permission } from "./auth/permissions";
 import type { Actor } from "@/db/queries/users";
 import { AppError } from "./errors";
 
-export type ActionState = {
-  status: "idle" | "ok" | "error";
-  message?: string;
-  fieldErrors?: Record<string, string>;
-};
-
-export const IDLE: ActionState = { status: "idle" };
+import type { FormState } from "./form-state";
 
 /**
  * The one shape of a server action: guard (session and role) → parse the form with zod → act.
@@ -22,7 +16,7 @@ export function formAction<S extends ZodType>(
   schema: S,
   act: (input: z.infer<S>, actor: Actor) => Promise<string | void>,
 ) {
-  return async (_prev: ActionState, formData: FormData): Promise<ActionState> => {
+  return async (_prev: FormState, formData: FormData): Promise<FormState> => {
     let actor: Actor;
     try {
       actor = await requireRole(permission);

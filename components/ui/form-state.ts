@@ -1,2 +1,1 @@
-export type FormState = { status: "idle" | "ok" | "error"; message?: string; fieldErrors?: Record<string, string> };
-export const IDLE_STATE: FormState = { status: "idle" };
+export { IDLE_FORM_STATE as IDLE_STATE, type FormState } from "@/lib/form-state";
