@@ -318,10 +318,12 @@ export const mailOutbox = sqliteTable(
     nextAttemptAt: text("next_attempt_at"),
     providerId: text("provider_id"),
     relatedCycleId: text("related_cycle_id"),
+    // The site whose administrators see the mail; a mail without one is seen by none (fail closed).
+    siteId: text("site_id").references(() => sites.id),
     createdAt: createdAt(),
     sentAt: text("sent_at"),
   },
-  (t) => [index("mail_outbox_status_idx").on(t.status, t.nextAttemptAt)],
+  (t) => [index("mail_outbox_status_idx").on(t.status, t.nextAttemptAt), index("mail_outbox_site_idx").on(t.siteId, t.createdAt)],
 );
 export type OutboxMail = typeof mailOutbox.$inferSelect;
 
@@ -378,13 +380,6 @@ export const apiTokens = sqliteTable("api_tokens", {
   createdAt: createdAt(),
 });
 export type ApiToken = typeof apiTokens.$inferSelect;
-
-export const settings = sqliteTable("settings", {
-  key: text("key").primaryKey(),
-  value: text("value", { mode: "json" }).notNull(),
-  updatedBy: text("updated_by"),
-  updatedAt: createdAt(),
-});
 
 export const sitesRelations = relations(sites, ({ many }) => ({
   users: many(users),

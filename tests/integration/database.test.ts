@@ -13,9 +13,11 @@ describe("migrations on a new database file", () => {
   it("create every table of the product", async () => {
     const rows = await ctx.db.all<{ name: string }>(sql`select name from sqlite_master where type = 'table' order by name`);
     const names = rows.map((r) => r.name);
-    for (const table of ["sites", "users", "sterilizers", "instruments", "calibration_certificates", "acceptance_profiles", "cycles", "logger_files", "analyses", "signatures", "audit_events", "mail_outbox", "periodic_tests", "test_schedules", "api_tokens", "reports", "settings"]) {
+    for (const table of ["sites", "users", "sterilizers", "instruments", "calibration_certificates", "acceptance_profiles", "cycles", "logger_files", "analyses", "signatures", "audit_events", "mail_outbox", "periodic_tests", "test_schedules", "api_tokens", "reports"]) {
       expect(names).toContain(table);
     }
+    // Dropped in 0002: nothing ever read or wrote it.
+    expect(names).not.toContain("settings");
   });
 
   it("apply twice without error (a restart re-runs them)", async () => {
