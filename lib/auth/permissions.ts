@@ -21,7 +21,6 @@ export const PERMISSIONS = {
   "users:manage": ["admin"],
   "settings:manage": ["admin"],
   "mail:read-outbox": ["admin"],
-  "api-token:manage": ["admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;
