@@ -27,7 +27,7 @@ import { atmosphereAtAltitudeKpa, STANDARD_ATMOSPHERE_KPA } from "@/lib/steam";
 import type { AnalysisResult } from "@/lib/analysis/types";
 import type { CreateCycleResponse, CycleDetail, CycleListItem, CycleListResponse, SeriesResponse, SignatureView } from "@/lib/cycles/contracts";
 import { signatureIsValid } from "./signature-bundle";
-import { enqueueAnalysisFailedMail } from "./mail";
+import { enqueueAnalysisFailedMail } from "@/lib/services/mail";
 
 const siteOf = (actor: Actor) => actor.siteId ?? "";
 

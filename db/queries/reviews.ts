@@ -5,7 +5,7 @@ import { cycles, loggerFiles, reports, signatures, sterilizers, users, type Sign
 import { appendAuditEvent } from "@/db/ledger";
 import { buildRecordBundle, signatureHash, type SignedFields } from "./signature-bundle";
 import { getCycleDetail, getCycleRow, getCycleSeries } from "./cycles";
-import { enqueueCycleApprovedMail, enqueueCycleRejectedMail, enqueueCycleSubmittedMail } from "./mail";
+import { enqueueCycleApprovedMail, enqueueCycleRejectedMail, enqueueCycleSubmittedMail } from "@/lib/services/mail";
 import type { Actor } from "./users";
 import { AppError } from "@/lib/errors";
 import { verifyPassword } from "@/lib/auth/password";

@@ -34,7 +34,8 @@ describe("migrations on a new database file", () => {
 
 describe("the audit ledger", () => {
   it("chains events and verifies an untouched chain", async () => {
-    const { recordAuditEvent, verifyAuditChain } = await import("@/db/queries/audit");
+    const { recordAuditEvent } = await import("@/db/queries/audit");
+    const { verifyAuditChain } = await import("@/lib/services/audit");
     await recordAuditEvent({ action: "test.one", entityType: "test", entityId: "a", newValue: { x: 1 } });
     await recordAuditEvent({ action: "test.two", entityType: "test", entityId: "b", oldValue: { x: 1 }, newValue: { x: 2 }, reason: "correction" });
     const state = await verifyAuditChain();
@@ -47,7 +48,8 @@ describe("the audit ledger", () => {
   });
 
   it("names the first broken link when a row is altered behind the triggers' back", async () => {
-    const { recordAuditEvent, verifyAuditChain } = await import("@/db/queries/audit");
+    const { recordAuditEvent } = await import("@/db/queries/audit");
+    const { verifyAuditChain } = await import("@/lib/services/audit");
     await recordAuditEvent({ action: "test.three", entityType: "test", entityId: "c" });
     await ctx.db.run(sql`drop trigger audit_events_no_update`);
     await ctx.db.run(sql`update audit_events set new_value = '{"x":3}' where seq = 2`);

@@ -48,7 +48,7 @@ describe("the demo loader", () => {
   });
 
   it("leaves the audit chain intact", async () => {
-    const { verifyAuditChain } = await import("@/db/queries/audit");
+    const { verifyAuditChain } = await import("@/lib/services/audit");
     expect((await verifyAuditChain()).ok).toBe(true);
   });
 });

@@ -76,7 +76,7 @@ describe("recording an air leakage test", () => {
     expect(events).toHaveLength(1);
     expect(events[0]).toMatchObject({ action: "periodic-test.record", actorId: ids.technician, entityType: "periodic-test" });
     expect(JSON.parse(events[0].newValue!)).toMatchObject({ result: "fail", kind: "air-leakage" });
-    const { verifyAuditChain } = await import("@/db/queries/audit");
+    const { verifyAuditChain } = await import("@/lib/services/audit");
     expect((await verifyAuditChain()).ok).toBe(true);
   });
 

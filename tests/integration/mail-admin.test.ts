@@ -17,12 +17,14 @@ vi.mock("next/cache", () => ({ revalidatePath: () => undefined }));
 let ctx: Awaited<ReturnType<typeof useTemporaryDatabase>>;
 let fake: Awaited<ReturnType<typeof useFakeResend>>;
 const ids: Record<string, string> = {};
+let siteId = "";
 const ROLES = ["technician", "engineer", "auditor", "admin"] as const;
 
 beforeAll(async () => {
   ctx = await useTemporaryDatabase();
   const { users, sites } = await import("@/db/schema");
   const [site] = await ctx.db.insert(sites).values({ name: "Marlow Bridge General Hospital — Sterile Services", code: "MBGH" }).returning();
+  siteId = site.id;
   for (const role of ROLES) {
     const [u] = await ctx.db.insert(users).values({ email: `${role}@marlow-bridge.example`, name: role, role, passwordHash: "x", siteId: site.id }).returning();
     ids[role] = u.id;
@@ -52,7 +54,7 @@ function form(fields: Record<string, string> = {}) {
 
 async function queueOne(subject: string) {
   const { mailOutbox } = await import("@/db/schema");
-  const [row] = await ctx.db.insert(mailOutbox).values({ to: ["technician@marlow-bridge.example"], subject, html: "<p>x</p>", text: "x" }).returning();
+  const [row] = await ctx.db.insert(mailOutbox).values({ to: ["technician@marlow-bridge.example"], subject, html: "<p>x</p>", text: "x", siteId }).returning();
   return row.id;
 }
 

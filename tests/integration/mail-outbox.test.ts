@@ -10,7 +10,7 @@ import { deadMailServiceUrl, useFakeResend } from "../support/fake-resend";
 let ctx: Awaited<ReturnType<typeof useTemporaryDatabase>>;
 let fake: Awaited<ReturnType<typeof useFakeResend>>;
 type Schema = typeof import("@/db/schema");
-type MailQueries = typeof import("@/db/queries/mail");
+type MailQueries = typeof import("@/db/queries/mail") & typeof import("@/lib/services/mail");
 type Delivery = typeof import("@/lib/mail/delivery");
 let schema: Schema;
 let mail: MailQueries;
@@ -34,7 +34,7 @@ const ids = {
 beforeAll(async () => {
   ctx = await useTemporaryDatabase();
   schema = await import("@/db/schema");
-  mail = await import("@/db/queries/mail");
+  mail = { ...(await import("@/db/queries/mail")), ...(await import("@/lib/services/mail")) };
   delivery = await import("@/lib/mail/delivery");
   const { sites, users, acceptanceProfiles, sterilizers, cycles } = schema;
   await ctx.db.insert(sites).values([
@@ -84,7 +84,7 @@ async function outboxRow(id: string) {
 }
 
 async function queue(subject = "Test message", to: string[] = ["t.brooks@marlow-bridge.example"]) {
-  const queued = await ctx.db.transaction((tx) => mail.enqueueMail(tx, { to, subject, html: "<p>Hello</p>", text: "Hello", relatedCycleId: ids.cycle }));
+  const queued = await ctx.db.transaction((tx) => mail.enqueueMail(tx, { to, subject, html: "<p>Hello</p>", text: "Hello", siteId: ids.site, relatedCycleId: ids.cycle }));
   return queued!.id;
 }
 
@@ -210,7 +210,7 @@ describe("the outbox", () => {
   it("normalises recipients and refuses to queue a mail without any", async () => {
     const id = await queue("Normalised", [" A.Okafor@Marlow-Bridge.example ", "a.okafor@marlow-bridge.example", "not an address"]);
     expect((await outboxRow(id)).to).toEqual(["a.okafor@marlow-bridge.example"]);
-    const none = await ctx.db.transaction((tx) => mail.enqueueMail(tx, { to: [], subject: "x", html: "x", text: "x" }));
+    const none = await ctx.db.transaction((tx) => mail.enqueueMail(tx, { to: [], subject: "x", html: "x", text: "x", siteId: ids.site }));
     expect(none).toBeNull();
   });
 
@@ -315,7 +315,7 @@ describe("an administrator's retry", () => {
   it("makes a failed mail due again, keeps its attempts and is audited", async () => {
     const [row] = await ctx.db
       .insert(schema.mailOutbox)
-      .values({ to: ["t.brooks@marlow-bridge.example"], subject: "Stuck", html: "h", text: "t", status: "failed", attempts: 8, lastError: "x" })
+      .values({ to: ["t.brooks@marlow-bridge.example"], subject: "Stuck", html: "h", text: "t", status: "failed", attempts: 8, lastError: "x", siteId: ids.site })
       .returning();
     const after = await mail.retryMail({ actor: admin, id: row.id });
     expect(after).toMatchObject({ status: "pending", attempts: 8, nextAttemptAt: null });

@@ -73,7 +73,7 @@ describe("updating the site's settings", () => {
     expect(JSON.parse(events[0].oldValue!)).toEqual({ altitudeM: null });
     expect(JSON.parse(events[0].newValue!)).toEqual({ altitudeM: 1000 });
 
-    const { verifyAuditChain } = await import("@/db/queries/audit");
+    const { verifyAuditChain } = await import("@/lib/services/audit");
     await expect(verifyAuditChain()).resolves.toMatchObject({ ok: true, events: 1 });
 
     // ISO 2533 / ICAO standard atmosphere: 89.875 kPa at 1000 m (from memory of the published table).

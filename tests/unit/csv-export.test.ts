@@ -136,8 +136,10 @@ describe("GET /api/cycles/export", () => {
 
   it("writes the export to the audit ledger with its filters and row count", async () => {
     await exportAs("auditor", "?status=approved");
-    const { listAuditEvents } = await import("@/db/queries/audit");
-    const { items } = await listAuditEvents({ action: "cycles.export" });
+    const { listAuditEvents } = await import("@/lib/services/audit");
+    const { getUserById } = await import("@/db/queries/users");
+    const auditor = (await getUserById({ id: ids.auditor }))!;
+    const { items } = await listAuditEvents({ actor: auditor, filter: { action: "cycles.export" } });
     const latest = items[0];
     expect(latest.actorEmail).toBe("auditor@export.example");
     expect(JSON.parse(String(latest.newValue))).toMatchObject({ filter: { status: "approved" }, rows: 1 });

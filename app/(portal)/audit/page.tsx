@@ -1,8 +1,6 @@
 import Link from "next/link";
-import { forbidden } from "next/navigation";
-import { currentUser } from "@/lib/auth/guards";
-import { can } from "@/lib/auth/permissions";
-import { listAuditEvents, verifyAuditChain } from "@/db/queries/audit";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { getAuditLedger } from "@/lib/services/audit";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 
@@ -11,14 +9,11 @@ export const metadata = { title: "Audit ledger" };
 type Search = { action?: string; actor?: string; entity?: string; from?: string; to?: string; page?: string };
 
 export default async function AuditPage({ searchParams }: { searchParams: Promise<Search> }) {
-  const user = await currentUser();
-  if (!user || !can(user.role, "audit:read")) forbidden();
+  const actor = await requirePageActor("audit:read");
   const s = await searchParams;
   const page = Math.max(Number(s.page ?? 1) || 1, 1);
-  const [chain, { items, total }] = await Promise.all([
-    verifyAuditChain(),
-    listAuditEvents({ action: s.action || undefined, actor: s.actor || undefined, entityId: s.entity || undefined, from: s.from || undefined, to: s.to ? `${s.to}T23:59:59.999Z` : undefined, page, pageSize: 50 }),
-  ]);
+  const filter = { action: s.action || undefined, actor: s.actor || undefined, entityId: s.entity || undefined, from: s.from || undefined, to: s.to ? `${s.to}T23:59:59.999Z` : undefined, page, pageSize: 50 };
+  const { chain, items, total } = await getAuditLedger({ actor, filter });
   const pages = Math.max(Math.ceil(total / 50), 1);
   const link = (p: number) => `/audit?${new URLSearchParams({ ...Object.fromEntries(Object.entries(s).filter(([, v]) => v)), page: String(p) })}`;
   return (

@@ -1,23 +1,13 @@
-import { forbidden } from "next/navigation";
-import { currentUser } from "@/lib/auth/guards";
-import { can } from "@/lib/auth/permissions";
-import { getSiteById } from "@/db/queries/sites";
-import { STANDARD_ATMOSPHERE_KPA, atmosphereAtAltitudeKpa } from "@/lib/steam";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { getSiteAtmosphere } from "@/lib/services/site";
 import { PageHeader } from "@/components/ui/panel";
-import { SteamCalculator, type SiteAtmosphere } from "@/components/steam/steam-calculator";
+import { SteamCalculator } from "@/components/steam/steam-calculator";
 
 export const metadata = { title: "Steam calculator" };
 
 export default async function SteamPage() {
-  const user = await currentUser();
-  if (!user || !can(user.role, "steam:calculate")) forbidden();
-  const site = user.siteId ? await getSiteById({ id: user.siteId }) : undefined;
-  const atmosphere: SiteAtmosphere =
-    site?.atmosphereKpa != null
-      ? { siteName: site.name, atmosphereKpa: site.atmosphereKpa, source: "site", altitudeM: site.altitudeM ?? null }
-      : site?.altitudeM != null
-        ? { siteName: site.name, atmosphereKpa: atmosphereAtAltitudeKpa(site.altitudeM), source: "site-altitude", altitudeM: site.altitudeM }
-        : { siteName: site?.name ?? null, atmosphereKpa: STANDARD_ATMOSPHERE_KPA, source: "standard", altitudeM: null };
+  const actor = await requirePageActor("steam:calculate");
+  const atmosphere = await getSiteAtmosphere({ actor });
 
   return (
     <>

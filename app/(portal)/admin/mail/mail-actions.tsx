@@ -1,7 +1,7 @@
 "use client";
 
 import { useActionState } from "react";
-import { IDLE_STATE } from "@/components/ui/form-state";
+import { IDLE_FORM_STATE } from "@/lib/form-state";
 import { ActionMessage } from "@/components/ui/action-message";
 import { retryMailAction, sendDueMailAction } from "./actions";
 
@@ -10,7 +10,7 @@ import { retryMailAction, sendDueMailAction } from "./actions";
  * "sent" and the button goes away.
  */
 export function RetryMailButton({ id, subject, canRetry }: { id: string; subject: string; canRetry: boolean }) {
-  const [state, action, pending] = useActionState(retryMailAction, IDLE_STATE);
+  const [state, action, pending] = useActionState(retryMailAction, IDLE_FORM_STATE);
   if (!canRetry) return <ActionMessage state={state} className="mt-1 max-w-xs" />;
   return (
     <form action={action}>
@@ -24,7 +24,7 @@ export function RetryMailButton({ id, subject, canRetry }: { id: string; subject
 }
 
 export function SendDueMailButton({ disabled }: { disabled?: boolean }) {
-  const [state, action, pending] = useActionState(sendDueMailAction, IDLE_STATE);
+  const [state, action, pending] = useActionState(sendDueMailAction, IDLE_FORM_STATE);
   return (
     <form action={action} className="flex flex-col items-end">
       <button className="btn-primary" disabled={pending || disabled}>{pending ? "Sending…" : "Send due mail now"}</button>

@@ -1,10 +1,9 @@
 import Link from "next/link";
-import { forbidden } from "next/navigation";
-import { currentUser } from "@/lib/auth/guards";
-import { can } from "@/lib/auth/permissions";
-import { countOutboxMail, listOutboxMail, type OutboxStatus } from "@/db/queries/mail";
-import { mailTransport, MAX_MAIL_ATTEMPTS } from "@/lib/mail/delivery";
-import { readFakeMailbox, type FakeMailbox } from "@/lib/mail/fake-mailbox";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { getMailOutbox } from "@/lib/services/mail";
+import type { OutboxStatus } from "@/lib/services/mail";
+import { MAX_MAIL_ATTEMPTS } from "@/lib/mail/delivery";
+import type { FakeMailbox } from "@/lib/mail/fake-mailbox";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge, type BadgeTone } from "@/components/ui/badge";
 import { formatDateTime } from "@/lib/format";
@@ -21,12 +20,10 @@ const STATUS: Record<OutboxStatus, { label: string; tone: BadgeTone }> = {
 const FILTERS: Array<{ value?: OutboxStatus; label: string }> = [{ label: "All" }, { value: "pending", label: "Pending" }, { value: "failed", label: "Failed" }, { value: "sent", label: "Sent" }];
 
 export default async function MailPage({ searchParams }: { searchParams: Promise<{ status?: string }> }) {
-  const user = await currentUser();
-  if (!user || !can(user.role, "mail:read-outbox")) forbidden();
+  const actor = await requirePageActor("mail:read-outbox");
   const { status: rawStatus } = await searchParams;
   const status = rawStatus && rawStatus in STATUS ? (rawStatus as OutboxStatus) : undefined;
-  const [counts, rows, mailbox] = await Promise.all([countOutboxMail(), listOutboxMail({ status, limit: 100 }), readFakeMailbox({ limit: 50 })]);
-  const transport = mailTransport();
+  const { counts, rows, mailbox, transport } = await getMailOutbox({ actor, status });
   const total = counts.pending + counts.sent + counts.failed;
 
   return (

@@ -3,7 +3,7 @@
 import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/actions";
 import { updateSiteSchema } from "@/lib/validations/site";
-import { updateSiteSettings } from "@/db/queries/site-settings";
+import { updateSiteSettings } from "@/lib/services/site";
 
 const LABELS: Record<string, string> = { name: "name", timeZone: "time zone", atmosphereKpa: "atmospheric pressure", altitudeM: "altitude", address: "address" };
 

@@ -1,33 +1,15 @@
-import { forbidden } from "next/navigation";
-import { currentUser } from "@/lib/auth/guards";
-import { can } from "@/lib/auth/permissions";
-import { getSiteById } from "@/db/queries/sites";
-import { siteAtmosphereKpa } from "@/db/queries/cycles";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { getSiteSettings } from "@/lib/services/site";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { SiteSettingsForm } from "@/components/admin/site-form";
 import { formatNumber } from "@/lib/format";
 
 export const metadata = { title: "Site settings" };
 
-function atmosphereInUse(site: { atmosphereKpa: number | null; altitudeM: number | null }) {
-  try {
-    const kpa = siteAtmosphereKpa(site);
-    const source = site.atmosphereKpa
-      ? "From the measured pressure entered here"
-      : site.altitudeM !== null
-        ? `From the altitude of ${formatNumber(site.altitudeM, 0)} m, through the standard atmosphere`
-        : "The standard atmosphere at sea level, since neither pressure nor altitude is set";
-    return { kpa, source };
-  } catch (error) {
-    return { kpa: null, source: error instanceof Error ? error.message : "The stored altitude cannot be converted." };
-  }
-}
-
 export default async function SiteSettingsPage() {
-  const user = await currentUser();
-  if (!user || !can(user.role, "settings:manage")) forbidden();
-  const site = user.siteId ? await getSiteById({ id: user.siteId }) : undefined;
-  if (!site) {
+  const actor = await requirePageActor("settings:manage");
+  const settings = await getSiteSettings({ actor });
+  if (!settings) {
     return (
       <>
         <PageHeader title="Site settings" />
@@ -35,7 +17,7 @@ export default async function SiteSettingsPage() {
       </>
     );
   }
-  const atmosphere = atmosphereInUse(site);
+  const { site, atmosphere } = settings;
   return (
     <>
       <PageHeader title="Site settings" subtitle={`${site.name} · code ${site.code}. Every change is written to the audit ledger.`} />

@@ -3,10 +3,10 @@
 import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/actions";
 import { createUserSchema, resetPasswordSchema, updateUserSchema } from "@/lib/validations/users";
-import { createUser, updateUser } from "@/db/queries/users";
+import { createUser, updateUser } from "@/lib/services/users";
 
 export const createUserAction = formAction("users:manage", createUserSchema, async (input, actor) => {
-  await createUser({ actor, ...input, siteId: actor.siteId });
+  await createUser({ actor, input });
   revalidatePath("/admin/users");
   return `${input.name} can now sign in as ${input.email}.`;
 });

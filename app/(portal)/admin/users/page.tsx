@@ -1,7 +1,6 @@
-import { forbidden } from "next/navigation";
-import { currentUser } from "@/lib/auth/guards";
-import { can, ROLE_LABELS } from "@/lib/auth/permissions";
-import { listUsers } from "@/db/queries/users";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { ROLE_LABELS } from "@/lib/auth/permissions";
+import { listUsers } from "@/lib/services/users";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { CreateUserForm, UserRowActions } from "@/components/admin/user-forms";
@@ -10,9 +9,8 @@ import { formatDateTime } from "@/lib/format";
 export const metadata = { title: "Users" };
 
 export default async function UsersPage() {
-  const user = await currentUser();
-  if (!user || !can(user.role, "users:manage")) forbidden();
-  const rows = await listUsers();
+  const user = await requirePageActor("users:manage");
+  const rows = await listUsers({ actor: user });
   return (
     <>
       <PageHeader title="Users" subtitle="Accounts, roles and access. Every change is written to the audit ledger." />

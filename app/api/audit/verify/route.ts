@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
-import { verifyAuditChain } from "@/db/queries/audit";
+import { verifyAuditChain } from "@/lib/services/audit";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

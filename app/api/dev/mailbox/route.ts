@@ -2,7 +2,7 @@ import { NextResponse } from "next/server";
 import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
-import { readFakeMailbox } from "@/lib/mail/fake-mailbox";
+import { readDevelopmentMailbox } from "@/lib/services/mail";
 
 export const dynamic = "force-dynamic";
 
@@ -18,12 +18,5 @@ export const GET = route(async (request) => {
   if (!Number.isInteger(limit) || limit < 1 || limit > 100) {
     throw new AppError(400, "limit: give a whole number of messages from 1 to 100.", "limit");
   }
-  const mailbox = await readFakeMailbox({ limit });
-  if (mailbox.state === "not-configured" || mailbox.state === "not-fake") {
-    throw new AppError(404, "There is no development mailbox: RESEND_BASE_URL does not point at the local fake mail service.");
-  }
-  if (mailbox.state === "unreachable") {
-    throw new AppError(503, `The local fake mail service at ${mailbox.baseUrl} does not answer (${mailbox.problem}) Start it with: npx tsx lib/mail/fake-resend-server.ts --port 3025`);
-  }
-  return NextResponse.json({ baseUrl: mailbox.baseUrl, messages: mailbox.messages, hasMore: mailbox.hasMore });
+  return NextResponse.json(await readDevelopmentMailbox({ limit }));
 });
