@@ -1,6 +1,5 @@
 import Link from "next/link";
-import { redirect } from "next/navigation";
-import { currentUser } from "@/lib/auth/guards";
+import { requirePageActor } from "@/lib/auth/page-guard";
 import { can, ROLE_LABELS } from "@/lib/auth/permissions";
 import { NAV_ITEMS } from "@/components/shell/navigation";
 import { NavLinks } from "@/components/shell/nav-links";
@@ -12,8 +11,7 @@ import { demoEnabled } from "@/lib/env";
 export const dynamic = "force-dynamic";
 
 export default async function PortalLayout({ children }: { children: React.ReactNode }) {
-  const user = await currentUser();
-  if (!user) redirect("/sign-in");
+  const user = await requirePageActor();
   const items = NAV_ITEMS.filter((i) => !i.permission || can(user.role, i.permission)).map(({ href, label }) => ({ href, label }));
   return (
     <div className="flex min-h-screen flex-col">

@@ -1,31 +1,21 @@
 import Link from "next/link";
-import { requireUser } from "@/lib/auth/guards";
+import { requirePageActor } from "@/lib/auth/page-guard";
 import { ROLE_DUTIES, ROLE_LABELS } from "@/lib/auth/permissions";
+import { getHomeDashboard } from "@/lib/services/dashboard";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { CycleList } from "@/components/home/cycle-list";
 import { CalibrationsDueList, TestsDueList } from "@/components/home/due-list";
-import {
-  getAdminOverview,
-  listCalibrationsDue,
-  listCyclesAwaitingReview,
-  listMyOpenCycles,
-  listRecentFailures,
-  listRecentlyApproved,
-} from "@/db/queries/dashboard";
-import { getScheduleOverview } from "@/db/queries/periodic-tests";
-import { getSiteById } from "@/db/queries/sites";
 
 export const metadata = { title: "Overview" };
 
 export default async function HomePage() {
-  const user = await requireUser();
-  const site = user.siteId ? await getSiteById({ id: user.siteId }) : undefined;
-  const timeZone = site?.timeZone ?? "UTC";
-  const siteId = user.siteId ?? "";
-  const greeting = `${ROLE_LABELS[user.role]} — ${site?.name ?? "no site"}`;
+  const user = await requirePageActor();
+  const home = await getHomeDashboard({ actor: user });
+  const { timeZone } = home;
+  const greeting = `${ROLE_LABELS[user.role]} — ${home.siteName ?? "no site"}`;
 
-  if (user.role === "admin") {
-    const overview = await getAdminOverview();
+  if (home.kind === "admin") {
+    const { overview } = home;
     return (
       <>
         <PageHeader title={`Welcome, ${user.name}`} subtitle={greeting} />
@@ -39,14 +29,13 @@ export default async function HomePage() {
     );
   }
 
-  if (user.role === "auditor") {
-    const approved = await listRecentlyApproved({ siteId });
+  if (home.kind === "auditor") {
     return (
       <>
         <PageHeader title={`Welcome, ${user.name}`} subtitle={greeting} />
         <div className="grid gap-gutter lg:grid-cols-2">
           <Panel title="Recently approved records" action={<Link className="text-sm text-steam-700" href="/archive">Open the archive</Link>}>
-            <CycleList items={approved} empty="No record has been approved yet." timeZone={timeZone} />
+            <CycleList items={home.approved} empty="No record has been approved yet." timeZone={timeZone} />
           </Panel>
           <Panel title="Evidence checks">
             <ul className="space-y-2 text-sm">
@@ -60,14 +49,7 @@ export default async function HomePage() {
     );
   }
 
-  const [review, mine, failures, testsDue, calibrations] = await Promise.all([
-    user.role === "engineer" ? listCyclesAwaitingReview({ siteId }) : Promise.resolve(null),
-    listMyOpenCycles({ userId: user.id }),
-    listRecentFailures({ siteId }),
-    getScheduleOverview({ actor: user }).then((o) => o.rows.filter((r) => r.needsAction)),
-    listCalibrationsDue({ siteId }),
-  ]);
-
+  const { review, mine, failures, testsDue, calibrations } = home;
   return (
     <>
       <PageHeader

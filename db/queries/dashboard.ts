@@ -24,12 +24,12 @@ export async function listCyclesAwaitingReview({ siteId, limit = 6 }: { siteId: 
   return { items, total };
 }
 
-export async function listMyOpenCycles({ userId, limit = 6 }: { userId: string; limit?: number }) {
+export async function listMyOpenCycles({ siteId, userId, limit = 6 }: { siteId: string; userId: string; limit?: number }) {
   return getDb()
     .select(cycleSummary)
     .from(cycles)
     .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
-    .where(and(eq(cycles.createdBy, userId), inArray(cycles.status, ["draft", "rejected"])))
+    .where(and(eq(cycles.siteId, siteId), eq(cycles.createdBy, userId), inArray(cycles.status, ["draft", "rejected"])))
     .orderBy(desc(cycles.createdAt))
     .limit(limit);
 }
@@ -72,13 +72,14 @@ export async function listCalibrationsDue({ siteId, withinDays = 30, now = new D
   return rows.map((r) => ({ ...r, overdue: (r.dueOn ?? "") < today }));
 }
 
-export async function getAdminOverview() {
+/** The site's accounts and its failed sign-ins of the last 7 days (an unknown e-mail belongs to no site). */
+export async function getAdminOverview({ siteId }: { siteId: string }) {
   const db = getDb();
   const since = new Date(Date.now() - 7 * DAY_MS).toISOString();
   const [[{ total }], [{ disabled }], [{ failed }]] = await Promise.all([
-    db.select({ total: count() }).from(users),
-    db.select({ disabled: count() }).from(users).where(eq(users.disabled, true)),
-    db.select({ failed: count() }).from(auditEvents).where(and(eq(auditEvents.action, "auth.sign-in-failed"), gte(auditEvents.at, since))),
+    db.select({ total: count() }).from(users).where(eq(users.siteId, siteId)),
+    db.select({ disabled: count() }).from(users).where(and(eq(users.siteId, siteId), eq(users.disabled, true))),
+    db.select({ failed: count() }).from(auditEvents).where(and(eq(auditEvents.siteId, siteId), eq(auditEvents.action, "auth.sign-in-failed"), gte(auditEvents.at, since))),
   ]);
   return { users: total, disabled, failedSignIns: failed };
 }

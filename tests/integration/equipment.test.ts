@@ -88,7 +88,7 @@ describe("recording an air leakage test", () => {
     const state = await recordAirLeakageAction(IDLE, form({ sterilizerId: ids.sterilizer, performedAt: new Date().toISOString(), unit: "kPa", p1: "4.0", p2: "5,0", p3: "6.3" }));
     expect(state).toMatchObject({ status: "ok" });
     expect(state.message).toMatch(/PASS/);
-    const { getScheduleOverview } = await import("@/db/queries/periodic-tests");
+    const { getScheduleOverview } = await import("@/lib/services/periodic-tests");
     const { getUserById } = await import("@/db/queries/users");
     const engineer = (await getUserById({ id: ids.engineer }))!;
     const { rows } = await getScheduleOverview({ actor: { ...engineer } });

@@ -1,9 +1,6 @@
 import Link from "next/link";
-import { forbidden } from "next/navigation";
-import { currentUser } from "@/lib/auth/guards";
-import { can } from "@/lib/auth/permissions";
-import { listArchivedReports } from "@/db/queries/reviews";
-import { getSiteById } from "@/db/queries/sites";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { getArchivePage } from "@/lib/services/archive";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { VerdictBadge } from "@/components/ui/badge";
 import { VerifyReport } from "@/components/archive/verify-report";
@@ -12,12 +9,9 @@ import { formatBytes, formatDateTime } from "@/lib/format";
 export const metadata = { title: "Signed archive" };
 
 export default async function ArchivePage({ searchParams }: { searchParams: Promise<{ q?: string; from?: string; to?: string }> }) {
-  const user = await currentUser();
-  if (!user) forbidden();
+  const actor = await requirePageActor();
   const { q, from, to } = await searchParams;
-  const canList = can(user.role, "archive:read");
-  const [rows, site] = await Promise.all([canList ? listArchivedReports({ actor: user, q, from, to }) : Promise.resolve([]), user.siteId ? getSiteById({ id: user.siteId }) : undefined]);
-  const tz = site?.timeZone ?? "UTC";
+  const { rows, timeZone: tz, mayList: canList } = await getArchivePage({ actor, q, from, to });
   return (
     <>
       <PageHeader title="Signed archive" subtitle="Approved reports as they were archived at signing; later software changes never re-render them." />

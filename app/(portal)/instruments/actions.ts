@@ -3,7 +3,7 @@
 import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/actions";
 import { addCertificateSchema, clearMappingSchema, createInstrumentSchema } from "@/lib/validations/equipment";
-import { addCalibrationCertificate, clearSavedMapping, createInstrument } from "@/db/queries/equipment";
+import { addCalibrationCertificate, clearSavedMapping, createInstrument } from "@/lib/services/instruments";
 
 export const createInstrumentAction = formAction("equipment:manage", createInstrumentSchema, async (input, actor) => {
   await createInstrument({ actor, input });

@@ -1,7 +1,6 @@
 import Link from "next/link";
-import { pageActor } from "@/components/equipment/page-actor";
-import { can } from "@/lib/auth/permissions";
-import { listInstruments } from "@/db/queries/equipment";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { getInstrumentsPage } from "@/lib/services/instruments";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { CalibrationBadge } from "@/components/equipment/state-badges";
@@ -12,10 +11,8 @@ import { formatDate } from "@/lib/format";
 export const metadata = { title: "Instruments" };
 
 export default async function InstrumentsPage() {
-  const actor = await pageActor("equipment:read");
-  const manage = can(actor.role, "equipment:manage");
-  const rows = await listInstruments({ actor });
-  const attention = rows.filter((r) => r.active && r.calibration.state !== "valid").length;
+  const actor = await requirePageActor("equipment:read");
+  const { rows, attention, mayManage: manage } = await getInstrumentsPage({ actor });
   return (
     <>
       <PageHeader

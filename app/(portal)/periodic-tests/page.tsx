@@ -1,7 +1,6 @@
 import Link from "next/link";
-import { pageActor } from "@/components/equipment/page-actor";
-import { can } from "@/lib/auth/permissions";
-import { getScheduleOverview, listPeriodicTests, listSterilizerChoices } from "@/db/queries/periodic-tests";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { getPeriodicTestsPage } from "@/lib/services/periodic-tests";
 import { periodicTestFiltersSchema } from "@/lib/validations/periodic-tests";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { intervalWords, ResultBadge, ScheduleBadge } from "@/components/equipment/state-badges";
@@ -15,16 +14,11 @@ export const metadata = { title: "Periodic tests" };
 type Search = Record<string, string | string[] | undefined>;
 
 export default async function PeriodicTestsPage({ searchParams }: { searchParams: Promise<Search> }) {
-  const actor = await pageActor("equipment:read");
-  const mayRecord = can(actor.role, "periodic-test:record");
+  const actor = await requirePageActor("equipment:read");
   const raw = await searchParams;
   const first = (k: string) => (Array.isArray(raw[k]) ? raw[k]![0] : (raw[k] as string | undefined)) || undefined;
   const filter = periodicTestFiltersSchema.parse({ sterilizer: first("sterilizer"), kind: first("kind"), result: first("result"), from: first("from"), to: first("to"), page: first("page") });
-  const [overview, history, choices] = await Promise.all([
-    getScheduleOverview({ actor }),
-    listPeriodicTests({ actor, filter: { ...filter, pageSize: 25 } }),
-    listSterilizerChoices({ actor }),
-  ]);
+  const { overview, history, choices, mayRecord } = await getPeriodicTestsPage({ actor, filter });
   const { rows, timeZone } = overview;
   const actionNeeded = rows.filter((r) => r.needsAction).length;
   const pages = Math.max(1, Math.ceil(history.total / history.pageSize));

@@ -3,7 +3,7 @@
 import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/actions";
 import { createProfileSchema, updateProfileSchema } from "@/lib/validations/equipment";
-import { createProfile, updateProfile } from "@/db/queries/equipment";
+import { createProfile, updateProfile } from "@/lib/services/profiles";
 
 export const createProfileAction = formAction("equipment:manage", createProfileSchema, async (input, actor) => {
   await createProfile({ actor, input });

@@ -1,7 +1,6 @@
 import Link from "next/link";
-import { pageActor } from "@/components/equipment/page-actor";
-import { can } from "@/lib/auth/permissions";
-import { listProfiles } from "@/db/queries/equipment";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { getProfilesPage } from "@/lib/services/profiles";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { ProfileForm } from "@/components/equipment/profile-form";
@@ -10,11 +9,8 @@ import { formatDate, formatSeconds } from "@/lib/format";
 export const metadata = { title: "Acceptance profiles" };
 
 export default async function ProfilesPage() {
-  const actor = await pageActor("equipment:read");
-  const manage = can(actor.role, "equipment:manage");
-  const rows = await listProfiles({ actor });
-  const active = rows.filter((r) => r.active);
-  const retired = rows.filter((r) => !r.active);
+  const actor = await requirePageActor("equipment:read");
+  const { active, retired, mayManage: manage } = await getProfilesPage({ actor });
   return (
     <>
       <PageHeader
@@ -44,7 +40,7 @@ export default async function ProfilesPage() {
   );
 }
 
-function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof listProfiles>> }) {
+function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof getProfilesPage>>["active"] }) {
   return (
     <div className="overflow-x-auto">
       <table className="data-table" data-testid="profiles-table">

@@ -3,7 +3,7 @@
 import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/actions";
 import { createSterilizerSchema, removeScheduleSchema, saveScheduleSchema, updateSterilizerSchema } from "@/lib/validations/equipment";
-import { createSterilizer, removeSchedule, saveSchedule, updateSterilizer } from "@/db/queries/equipment";
+import { createSterilizer, removeSchedule, saveSchedule, updateSterilizer } from "@/lib/services/equipment";
 import { PERIODIC_TEST_LABELS } from "@/lib/format";
 
 export const createSterilizerAction = formAction("equipment:manage", createSterilizerSchema, async (input, actor) => {

@@ -1,7 +1,6 @@
 import Link from "next/link";
-import { pageActor } from "@/components/equipment/page-actor";
-import { can } from "@/lib/auth/permissions";
-import { listActiveProfileChoices, listSterilizers, getSiteContext } from "@/db/queries/equipment";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { getSterilizersPage } from "@/lib/services/equipment";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { SterilizerForm } from "@/components/equipment/sterilizer-form";
@@ -10,9 +9,8 @@ import { formatDateTime, PERIODIC_TEST_LABELS } from "@/lib/format";
 export const metadata = { title: "Sterilizers" };
 
 export default async function SterilizersPage() {
-  const actor = await pageActor("equipment:read");
-  const manage = can(actor.role, "equipment:manage");
-  const [rows, profiles, { timeZone }] = await Promise.all([listSterilizers({ actor }), manage ? listActiveProfileChoices({ actor }) : Promise.resolve([]), getSiteContext({ actor })]);
+  const actor = await requirePageActor("equipment:read");
+  const { rows, profiles, timeZone, mayManage: manage } = await getSterilizersPage({ actor });
   return (
     <>
       <PageHeader

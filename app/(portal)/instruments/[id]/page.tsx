@@ -1,7 +1,6 @@
 import Link from "next/link";
-import { orNotFound, pageActor } from "@/components/equipment/page-actor";
-import { can } from "@/lib/auth/permissions";
-import { getInstrumentDetail } from "@/db/queries/equipment";
+import { orNotFound, requirePageActor } from "@/lib/auth/page-guard";
+import { getInstrumentPage } from "@/lib/services/instruments";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { CalibrationBadge } from "@/components/equipment/state-badges";
@@ -13,9 +12,8 @@ export const metadata = { title: "Instrument" };
 
 export default async function InstrumentPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
-  const actor = await pageActor("equipment:read");
-  const manage = can(actor.role, "equipment:manage");
-  const { instrument: i, certificates, latest, calibration, recentCycles, today, timeZone } = await orNotFound(getInstrumentDetail({ actor, id }));
+  const actor = await requirePageActor("equipment:read");
+  const { instrument: i, certificates, latest, calibration, recentCycles, today, timeZone, mayManage: manage } = await orNotFound(getInstrumentPage({ actor, id }));
   return (
     <>
       <PageHeader

@@ -1,6 +1,6 @@
 import Link from "next/link";
-import { pageActor } from "@/components/equipment/page-actor";
-import { listSterilizerChoices } from "@/db/queries/periodic-tests";
+import { requirePageActor } from "@/lib/auth/page-guard";
+import { listSterilizerChoices } from "@/lib/services/periodic-tests";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { AirLeakageForm, BowieDickForm, DrynessForm, NonCondensableGasForm, SuperheatForm } from "@/components/periodic-tests/record-forms";
 import { SafetyCaution } from "@/components/periodic-tests/safety-caution";
@@ -18,7 +18,7 @@ const SHORT: Record<RecordableKind, string> = {
 };
 
 export default async function RecordTestPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
-  const actor = await pageActor("periodic-test:record");
+  const actor = await requirePageActor("periodic-test:record");
   const raw = await searchParams;
   const kindParam = typeof raw.kind === "string" ? raw.kind : "";
   const kind: RecordableKind = isRecordable(kindParam) ? kindParam : "air-leakage";

@@ -1,7 +1,6 @@
 import Link from "next/link";
-import { orNotFound, pageActor } from "@/components/equipment/page-actor";
-import { can } from "@/lib/auth/permissions";
-import { getProfile } from "@/db/queries/equipment";
+import { orNotFound, requirePageActor } from "@/lib/auth/page-guard";
+import { getProfilePage } from "@/lib/services/profiles";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { ProfileForm } from "@/components/equipment/profile-form";
@@ -11,9 +10,8 @@ export const metadata = { title: "Acceptance profile" };
 
 export default async function ProfilePage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
-  const actor = await pageActor("equipment:read");
-  const manage = can(actor.role, "equipment:manage");
-  const p = await orNotFound(getProfile({ actor, id }));
+  const actor = await requirePageActor("equipment:read");
+  const { profile: p, mayManage: manage } = await orNotFound(getProfilePage({ actor, id }));
   const rows: Array<[string, string]> = [
     ["Sterilization temperature", `${p.sterilizationTempC} °C`],
     ["Band", `${p.sterilizationTempC}–${+(p.sterilizationTempC + p.bandK).toFixed(2)} °C (${p.bandK} K)`],

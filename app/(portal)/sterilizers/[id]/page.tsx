@@ -1,7 +1,6 @@
 import Link from "next/link";
-import { orNotFound, pageActor } from "@/components/equipment/page-actor";
-import { can } from "@/lib/auth/permissions";
-import { getSterilizerDetail, listActiveProfileChoices } from "@/db/queries/equipment";
+import { orNotFound, requirePageActor } from "@/lib/auth/page-guard";
+import { getSterilizerPage } from "@/lib/services/equipment";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge, StatusBadge, VerdictBadge } from "@/components/ui/badge";
 import { SterilizerForm } from "@/components/equipment/sterilizer-form";
@@ -24,11 +23,10 @@ const CHECK_WORDS: Record<string, string> = {
 
 export default async function SterilizerPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
-  const actor = await pageActor("equipment:read");
-  const manage = can(actor.role, "equipment:manage");
-  const record = can(actor.role, "periodic-test:record");
-  const [detail, profiles] = await Promise.all([orNotFound(getSterilizerDetail({ actor, id })), manage ? listActiveProfileChoices({ actor }) : Promise.resolve([])]);
-  const { sterilizer: s, sizeClass, profile, recentCycles, trends, schedule, timeZone, trendDays } = detail;
+  const actor = await requirePageActor("equipment:read");
+  const { sterilizer: s, sizeClass, profile, recentCycles, trends, schedule, timeZone, trendDays, profiles, mayManage: manage, mayRecord: record } = await orNotFound(
+    getSterilizerPage({ actor, id }),
+  );
   const passPct = trends.passRate === null ? null : Math.round(trends.passRate * 100);
   return (
     <>

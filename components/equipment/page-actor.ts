@@ -1,1 +1,0 @@
-export { requirePageActor as pageActor, orNotFound } from "@/lib/auth/page-guard";

@@ -1,0 +1,32 @@
+import "server-only";
+import type { Actor } from "@/db/queries/users";
+import { getAdminOverview, listCalibrationsDue, listCyclesAwaitingReview, listMyOpenCycles, listRecentFailures, listRecentlyApproved } from "@/db/queries/dashboard";
+import { can } from "@/lib/auth/permissions";
+import { getScheduleOverview } from "./periodic-tests";
+import { getSiteContext } from "./site";
+
+/**
+ * What waits for the actor on the home page, by role, from the actor's own site only. An
+ * account without a site has nothing waiting.
+ */
+export async function getHomeDashboard({ actor }: { actor: Actor }) {
+  const { site, timeZone } = await getSiteContext({ actor });
+  const siteName = site?.name ?? null;
+  const siteId = actor.siteId;
+  if (actor.role === "admin") {
+    const overview = siteId ? await getAdminOverview({ siteId }) : { users: 0, disabled: 0, failedSignIns: 0 };
+    return { kind: "admin" as const, siteName, timeZone, overview };
+  }
+  if (actor.role === "auditor") {
+    return { kind: "auditor" as const, siteName, timeZone, approved: siteId ? await listRecentlyApproved({ siteId }) : [] };
+  }
+  if (!siteId) return { kind: "worker" as const, siteName, timeZone, review: null, mine: [], failures: [], testsDue: [], calibrations: [] };
+  const [review, mine, failures, testsDue, calibrations] = await Promise.all([
+    can(actor.role, "review:queue") ? listCyclesAwaitingReview({ siteId }) : Promise.resolve(null),
+    listMyOpenCycles({ siteId, userId: actor.id }),
+    listRecentFailures({ siteId }),
+    getScheduleOverview({ actor }).then((o) => o.rows.filter((r) => r.needsAction)),
+    listCalibrationsDue({ siteId }),
+  ]);
+  return { kind: "worker" as const, siteName, timeZone, review, mine, failures, testsDue, calibrations };
+}

@@ -1,0 +1,160 @@
+import "server-only";
+import type { PeriodicTestKind, Sterilizer } from "@/db/schema";
+import type { Actor } from "@/db/queries/users";
+import { getProfileForSite, getSterilizerForSite } from "@/db/queries/catalog";
+import { listActiveProfileChoices } from "@/db/queries/profiles";
+import {
+  deleteScheduleRow,
+  findSterilizersBySerial,
+  getSchedule,
+  insertSterilizer,
+  listAnalysedCyclesOfSterilizer,
+  listLatestCycleOfEachSterilizer,
+  listRecentCyclesOfSterilizer,
+  listSterilizersOfSite,
+  saveScheduleRow,
+  updateSterilizerOnSite,
+} from "@/db/queries/sterilizers";
+import type { AnalysisResult } from "@/lib/analysis/types";
+import { can } from "@/lib/auth/permissions";
+import { AppError } from "@/lib/errors";
+import { sizeClassOf, trendsFromAnalyses } from "@/lib/periodic-tests";
+import type { SterilizerInput } from "@/lib/validations/equipment";
+import { getScheduleOverview } from "./periodic-tests";
+import { auditActor, getSiteContext, siteIdOf } from "./site";
+
+const DAY_MS = 86_400_000;
+
+/** Only the fields that changed, as { old, new } halves for the ledger. */
+export function changedFields<T extends Record<string, unknown>>(before: T, after: Partial<T>) {
+  const oldValue: Record<string, unknown> = {};
+  const newValue: Record<string, unknown> = {};
+  for (const key of Object.keys(after) as Array<keyof T & string>) {
+    if (after[key] !== undefined && after[key] !== before[key]) {
+      oldValue[key] = before[key];
+      newValue[key] = after[key];
+    }
+  }
+  return { oldValue, newValue, changed: Object.keys(newValue).length > 0 };
+}
+
+// ——— Sterilizers ———
+
+export async function listSterilizers({ actor }: { actor: Actor }) {
+  const siteId = siteIdOf(actor);
+  const [rows, lastCycles, overview] = await Promise.all([listSterilizersOfSite({ siteId }), listLatestCycleOfEachSterilizer({ siteId }), getScheduleOverview({ actor })]);
+  const lastBySterilizer = new Map(lastCycles.map((c) => [c.sterilizerId, c]));
+  return rows.map(({ sterilizer, profileName, profileActive }) => {
+    const schedule = overview.rows.filter((r) => r.sterilizerId === sterilizer.id);
+    return {
+      ...sterilizer,
+      sizeClass: sizeClassOf(sterilizer.chamberVolumeL),
+      defaultProfile: sterilizer.defaultProfileId ? { id: sterilizer.defaultProfileId, name: profileName ?? "—", active: !!profileActive } : null,
+      lastCycle: lastBySterilizer.get(sterilizer.id) ?? null,
+      testsNeedingAction: schedule.filter((r) => r.needsAction),
+      scheduledTests: schedule.length,
+    };
+  });
+}
+
+/** A sterilizer of the actor's site; any other is "not found" (404). */
+export async function getSterilizer({ actor, id }: { actor: Actor; id: string }): Promise<Sterilizer> {
+  siteIdOf(actor);
+  const row = await getSterilizerForSite({ actor, id });
+  if (!row) throw new AppError(404, "That sterilizer was not found on your site.");
+  return row;
+}
+
+export async function getSterilizerDetail({ actor, id, trendDays = 90 }: { actor: Actor; id: string; trendDays?: number }) {
+  const sterilizer = await getSterilizer({ actor, id });
+  const siteId = sterilizer.siteId;
+  const since = new Date(Date.now() - trendDays * DAY_MS).toISOString();
+  const [profile, recentCycles, analysed, overview] = await Promise.all([
+    sterilizer.defaultProfileId ? getProfileForSite({ actor, id: sterilizer.defaultProfileId }).then((p) => p ?? null) : Promise.resolve(null),
+    listRecentCyclesOfSterilizer({ siteId, sterilizerId: id, limit: 15 }),
+    listAnalysedCyclesOfSterilizer({ siteId, sterilizerId: id, since, limit: 500 }),
+    getScheduleOverview({ actor, sterilizerId: id }),
+  ]);
+  const trends = trendsFromAnalyses(analysed.map((a) => ({ ...a, result: a.result as AnalysisResult })));
+  return { sterilizer, sizeClass: sizeClassOf(sterilizer.chamberVolumeL), profile, recentCycles, trends, trendDays, schedule: overview.rows, timeZone: overview.timeZone };
+}
+
+/** The sterilizers page: the list, the site's time zone, and the profiles to choose from when the actor may manage. */
+export async function getSterilizersPage({ actor }: { actor: Actor }) {
+  const mayManage = can(actor.role, "equipment:manage");
+  const [rows, profiles, { timeZone }] = await Promise.all([
+    listSterilizers({ actor }),
+    mayManage ? listActiveProfileChoices({ siteId: siteIdOf(actor) }) : Promise.resolve([]),
+    getSiteContext({ actor }),
+  ]);
+  return { rows, profiles, timeZone, mayManage };
+}
+
+export async function getSterilizerPage({ actor, id }: { actor: Actor; id: string }) {
+  const mayManage = can(actor.role, "equipment:manage");
+  const [detail, profiles] = await Promise.all([getSterilizerDetail({ actor, id }), mayManage ? listActiveProfileChoices({ siteId: siteIdOf(actor) }) : Promise.resolve([])]);
+  return { ...detail, profiles, mayManage, mayRecord: can(actor.role, "periodic-test:record") };
+}
+
+async function checkProfileOnSite(actor: Actor, profileId: string | null) {
+  if (!profileId) return;
+  const p = await getProfileForSite({ actor, id: profileId });
+  if (!p) throw new AppError(422, "That acceptance profile does not exist on your site.", "defaultProfileId");
+  if (!p.active) throw new AppError(422, "That acceptance profile has been replaced by a newer version; choose an active one.", "defaultProfileId");
+}
+
+async function checkSerialFree(siteId: string, serialNumber: string, exceptId?: string) {
+  const clash = (await findSterilizersBySerial({ siteId, serialNumber })).find((r) => r.id !== exceptId);
+  if (clash) throw new AppError(409, `The serial number ${serialNumber} already belongs to “${clash.name}”.`, "serialNumber");
+}
+
+export async function createSterilizer({ actor, input }: { actor: Actor; input: SterilizerInput }) {
+  const siteId = siteIdOf(actor);
+  await checkProfileOnSite(actor, input.defaultProfileId);
+  await checkSerialFree(siteId, input.serialNumber);
+  return insertSterilizer({ values: { ...input, siteId }, audit: { ...auditActor(actor), action: "sterilizer.create", newValue: input } });
+}
+
+export async function updateSterilizer({ actor, id, input, active, reason }: { actor: Actor; id: string; input: SterilizerInput; active: boolean; reason: string }) {
+  const before = await getSterilizer({ actor, id });
+  if (input.defaultProfileId !== before.defaultProfileId) await checkProfileOnSite(actor, input.defaultProfileId);
+  await checkSerialFree(before.siteId, input.serialNumber, id);
+  const { oldValue, newValue, changed } = changedFields(before as Record<string, unknown>, { ...input, active });
+  if (!changed) return { changed: false };
+  await updateSterilizerOnSite({ siteId: before.siteId, id, values: { ...input, active }, audit: { ...auditActor(actor), action: "sterilizer.update", oldValue, newValue, reason } });
+  return { changed: true };
+}
+
+// ——— Test schedules ———
+
+export async function saveSchedule({ actor, sterilizerId, kind, intervalDays, reason }: { actor: Actor; sterilizerId: string; kind: PeriodicTestKind; intervalDays: number; reason: string | null }) {
+  await getSterilizer({ actor, id: sterilizerId });
+  const existing = await getSchedule({ sterilizerId, kind });
+  if (existing && existing.intervalDays === intervalDays) return { changed: false };
+  if (existing && !reason) throw new AppError(422, "Give a reason for changing the interval; it goes into the audit ledger.", "reason");
+  await saveScheduleRow({
+    existingId: existing?.id,
+    sterilizerId,
+    kind,
+    intervalDays,
+    audit: {
+      ...auditActor(actor),
+      action: existing ? "schedule.update" : "schedule.create",
+      oldValue: existing ? { kind, intervalDays: existing.intervalDays } : null,
+      newValue: { kind, intervalDays },
+      reason,
+    },
+  });
+  return { changed: true };
+}
+
+export async function removeSchedule({ actor, sterilizerId, kind, reason }: { actor: Actor; sterilizerId: string; kind: PeriodicTestKind; reason: string }) {
+  await getSterilizer({ actor, id: sterilizerId });
+  const existing = await getSchedule({ sterilizerId, kind });
+  if (!existing) throw new AppError(404, "That test is not on this sterilizer's schedule.");
+  await deleteScheduleRow({
+    id: existing.id,
+    sterilizerId,
+    audit: { ...auditActor(actor), action: "schedule.remove", oldValue: { kind, intervalDays: existing.intervalDays }, newValue: null, reason },
+  });
+}
