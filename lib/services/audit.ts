@@ -5,7 +5,7 @@ import { auditEventHash } from "@/db/ledger";
 import { GENESIS_HASH } from "@/lib/integrity";
 import { siteIdOf } from "./site";
 
-export type ChainState = { ok: boolean; events: number; firstBrokenAt?: number; problem?: string };
+type ChainState = { ok: boolean; events: number; firstBrokenAt?: number; problem?: string };
 
 /**
  * Walks the whole chain in order, recomputing each hash; names the first event that does not

@@ -58,14 +58,14 @@ export async function listSterilizers({ actor }: { actor: Actor }) {
 }
 
 /** A sterilizer of the actor's site; any other is "not found" (404). */
-export async function getSterilizer({ actor, id }: { actor: Actor; id: string }): Promise<Sterilizer> {
+async function getSterilizer({ actor, id }: { actor: Actor; id: string }): Promise<Sterilizer> {
   siteIdOf(actor);
   const row = await getSterilizerForSite({ actor, id });
   if (!row) throw new AppError(404, "That sterilizer was not found on your site.");
   return row;
 }
 
-export async function getSterilizerDetail({ actor, id, trendDays = 90 }: { actor: Actor; id: string; trendDays?: number }) {
+async function getSterilizerDetail({ actor, id, trendDays = 90 }: { actor: Actor; id: string; trendDays?: number }) {
   const sterilizer = await getSterilizer({ actor, id });
   const siteId = sterilizer.siteId;
   const since = new Date(Date.now() - trendDays * DAY_MS).toISOString();

@@ -21,7 +21,7 @@ import { auditActor, siteIdOf } from "./site";
 
 export type { OutboxStatus };
 
-export type NewMail = { to: string | string[]; subject: string; html: string; text: string; siteId: string | null; relatedCycleId?: string | null };
+type NewMail = { to: string | string[]; subject: string; html: string; text: string; siteId: string | null; relatedCycleId?: string | null };
 
 const ADDRESS = /^[^\s@<>]+@[^\s@<>]+\.[^\s@<>]+$/;
 

@@ -10,7 +10,7 @@ import { getSiteContext, siteIdOf } from "./site";
 const CYCLE_EVIDENCED_KINDS = ["thermometric-small-load", "thermometric-full-load"] as const satisfies readonly PeriodicTestKind[];
 const isCycleEvidenced = (kind: string) => (CYCLE_EVIDENCED_KINDS as readonly string[]).includes(kind);
 
-export type ScheduleRow = {
+type ScheduleRow = {
   sterilizerId: string;
   sterilizerName: string;
   sterilizerActive: boolean;

@@ -3,8 +3,7 @@ import { SignInForm } from "@/components/auth/sign-in-form";
 import { PapinMark } from "@/components/ui/papin-mark";
 import { SafetyNotice } from "@/components/shell/safety-notice";
 import { currentUser } from "@/lib/auth/guards";
-import { demoEnabled, env } from "@/lib/env";
-import { DEMO_USERS } from "@/db/demo-users";
+import { demoSignIn } from "@/lib/services/demo";
 import { ROLE_LABELS } from "@/lib/auth/permissions";
 import { SIGN_IN_ERRORS } from "@/lib/auth/messages";
 
@@ -14,7 +13,7 @@ export const dynamic = "force-dynamic";
 export default async function SignInPage({ searchParams }: { searchParams: Promise<{ callbackUrl?: string; error?: string }> }) {
   const { callbackUrl, error } = await searchParams;
   if (await currentUser()) redirect(safeCallback(callbackUrl));
-  const demo = demoEnabled();
+  const demo = demoSignIn();
   const initialError = error ? (SIGN_IN_ERRORS[error as keyof typeof SIGN_IN_ERRORS] ?? "Sign-in failed. Please try again.") : null;
   return (
     <div className="flex min-h-screen flex-col">
@@ -34,10 +33,10 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
               <div className="mt-6 rounded-md border border-brass-100 bg-brass-50 px-4 py-3 text-sm" data-testid="demo-accounts">
                 <p className="font-medium text-brass-700">Demo site — fictional data</p>
                 <p className="mt-1 text-ink-soft">
-                  Every demo account uses the password <code className="mono rounded bg-paper-raised px-1 py-0.5">{env().PAPIN_DEMO_PASSWORD}</code>
+                  Every demo account uses the password <code className="mono rounded bg-paper-raised px-1 py-0.5">{demo.password}</code>
                 </p>
                 <ul className="mt-2 space-y-0.5 text-ink-soft">
-                  {DEMO_USERS.map((u) => (
+                  {demo.accounts.map((u) => (
                     <li key={u.email}>
                       <code className="mono">{u.email}</code> — {ROLE_LABELS[u.role]}
                     </li>
