@@ -4,6 +4,7 @@
  */
 import type { SeriesResponse } from "./contracts";
 import type { AnalysisResult } from "@/lib/analysis/types";
+import { scaleLinear, scaleLog, type Scale } from "@/lib/charts/scale";
 import {
   CRITICAL_POINT,
   STANDARD_ATMOSPHERE_KPA,
@@ -461,34 +462,6 @@ export function inRange(range: PhaseRange, temperatureC: number, pressureKpa: nu
   return temperatureC >= range.tMinC && temperatureC <= range.tMaxC && pressureKpa >= range.pMinKpa && pressureKpa <= range.pMaxKpa;
 }
 
-/** "Nice" linear ticks: steps of 1, 2 or 5 × 10^k, about `target` of them. */
-export function linearTicks(min: number, max: number, target = 8): number[] {
-  if (!(max > min)) return [min];
-  const raw = (max - min) / Math.max(target, 1);
-  const magnitude = 10 ** Math.floor(Math.log10(raw));
-  const step = [1, 2, 5, 10].map((m) => m * magnitude).find((s) => s >= raw) ?? 10 * magnitude;
-  const ticks: number[] = [];
-  for (let v = Math.ceil(min / step) * step; v <= max + step * 1e-9; v += step) ticks.push(Number(v.toPrecision(12)));
-  return ticks;
-}
-
-/** Log-axis ticks: 1-2-5 per decade when few decades are shown, whole decades when many. */
-export function logTicks(min: number, max: number): Array<{ value: number; major: boolean }> {
-  if (!(min > 0 && max > min)) return [];
-  const decades = Math.log10(max) - Math.log10(min);
-  // A narrow window (a plateau close-up) reads best with evenly stepped values.
-  if (decades < 0.5) return linearTicks(min, max, 8).filter((v) => v >= min && v <= max).map((value) => ({ value, major: false }));
-  const mantissas = decades <= 1.2 ? [1, 1.5, 2, 3, 4, 5, 6, 8] : decades <= 2.5 ? [1, 2, 3, 5] : decades <= 5 ? [1, 3] : [1];
-  const out: Array<{ value: number; major: boolean }> = [];
-  for (let k = Math.floor(Math.log10(min)); k <= Math.ceil(Math.log10(max)); k++) {
-    for (const m of mantissas) {
-      const value = Number((m * 10 ** k).toPrecision(12));
-      if (value >= min * (1 - 1e-9) && value <= max * (1 + 1e-9)) out.push({ value, major: m === 1 });
-    }
-  }
-  return out;
-}
-
 export function formatPressureTick(kpa: number): string {
   if (kpa >= 1000) return `${Number((kpa / 1000).toPrecision(3))} MPa`;
   if (kpa >= 1) return `${Number(kpa.toPrecision(3))}`;
@@ -496,28 +469,11 @@ export function formatPressureTick(kpa: number): string {
 }
 
 /** Maps the range onto a plot box: x linear in °C, y logarithmic in kPa (up is higher pressure). */
-export function phaseScales(range: PhaseRange, box: { left: number; top: number; width: number; height: number }) {
-  const logMin = Math.log10(range.pMinKpa);
-  const logMax = Math.log10(range.pMaxKpa);
+export function phaseScales(range: PhaseRange, box: { left: number; top: number; width: number; height: number }): { x: Scale; y: Scale } {
   return {
-    x: (temperatureC: number) => box.left + ((temperatureC - range.tMinC) / (range.tMaxC - range.tMinC)) * box.width,
-    y: (pressureKpa: number) => box.top + (1 - (Math.log10(pressureKpa) - logMin) / (logMax - logMin)) * box.height,
+    x: scaleLinear([range.tMinC, range.tMaxC], [box.left, box.left + box.width]),
+    y: scaleLog([range.pMinKpa, range.pMaxKpa], [box.top + box.height, box.top]),
   };
-}
-
-/** An SVG path through points, breaking where a point is missing or not positive. */
-export function svgPath(points: Array<[number, number]>, x: (t: number) => number, y: (p: number) => number): string {
-  let d = "";
-  let pen = false;
-  for (const [t, p] of points) {
-    if (!Number.isFinite(t) || !(p > 0)) {
-      pen = false;
-      continue;
-    }
-    d += `${pen ? "L" : "M"}${x(t).toFixed(1)} ${y(p).toFixed(1)}`;
-    pen = true;
-  }
-  return d;
 }
 
 /** Keeps at most `max` items, evenly spread, always keeping the first and last. */

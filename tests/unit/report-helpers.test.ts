@@ -5,7 +5,6 @@ import type { SeriesResponse } from "@/lib/cycles/contracts";
 import { SAFETY_NOTES } from "@/lib/safety";
 import { downsampleForReport, pdfText } from "@/lib/reports";
 import { strideIndexes } from "@/lib/reports/downsample";
-import { linePath, niceTicks, timeTicks } from "@/lib/reports/scale";
 import { bytes, duration, fontCovers } from "@/lib/reports/text";
 import { bothClocks, instantOf, siteText } from "@/lib/reports/time";
 
@@ -204,22 +203,5 @@ describe("figures as the report prints them", () => {
     expect(siteText(new Date("2025-07-01T08:00:00Z"), "Europe/London")).toBe("1 Jul 2025 09:00:00 BST (Europe/London)");
     expect(bothClocks("2025-03-03T10:12:41.000Z", "Europe/London")).toEqual({ site: "3 Mar 2025 10:12:41 GMT (Europe/London)", utc: "2025-03-03 10:12:41 UTC" });
     expect(bothClocks(null, "Europe/London")).toEqual({ site: "—", utc: "—" });
-  });
-});
-
-describe("chart scales", () => {
-  it("chooses round temperature ticks covering the data", () => {
-    const t = niceTicks(21.3, 137.2, 7);
-    expect(t.ticks).toEqual([20, 40, 60, 80, 100, 120, 140]);
-  });
-
-  it("ticks a 21-minute record every 5 minutes and a day every 4 hours", () => {
-    expect(timeTicks(0, 1300, 5)).toEqual({ ticks: [0, 300, 600, 900, 1200], stepS: 300 });
-    expect(timeTicks(0, 86_399, 7).stepS).toBe(14_400);
-  });
-
-  it("breaks a line where a reading is missing", () => {
-    const d = linePath([0, 1, 2, 3, 4], [1, 2, null, 4, 5], (v) => v * 10, (v) => v);
-    expect(d).toBe("M0 1L10 2M30 4L40 5");
   });
 });

@@ -20,11 +20,11 @@ import {
   type TimeWindow,
   type TraceSpec,
 } from "@/lib/cycles/chart-model";
+import { TIME_STEPS_S } from "@/lib/charts/scale";
 import { CHART, loadColour } from "./chart-colors";
 import { OVERVIEW_POINTS, WINDOW_POINTS, useSeries } from "./series-fetch";
 
 const HEIGHT = 420;
-const TIME_INCREMENTS = [0.1, 0.2, 0.5, 1, 2, 5, 10, 15, 30, 60, 120, 300, 600, 900, 1800, 3600, 7200, 10800, 21600, 43200];
 
 type Props = {
   cycleId: string;
@@ -298,7 +298,7 @@ function chartOptions({
         stroke: CHART.inkMuted,
         grid: { stroke: CHART.grid },
         ticks: { stroke: CHART.line },
-        incrs: TIME_INCREMENTS,
+        incrs: [...TIME_STEPS_S],
         space: 70,
         values: (u, splits) => elapsedTickLabels(splits, (u.scales.x.max ?? 0) - (u.scales.x.min ?? 0), hours),
         label: startedAt && width >= 520 ? "Time since the first sample (clock time in the legend)" : "Time since the first sample",
