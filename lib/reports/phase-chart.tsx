@@ -11,7 +11,7 @@ import {
   toleranceBand,
   type PhaseSample,
   type PlateauSample,
-} from "@/lib/cycles/chart-model";
+} from "@/lib/cycles/phase-model";
 import { SvgLabel } from "./svg";
 import { colour } from "./theme";
 

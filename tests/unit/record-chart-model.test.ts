@@ -3,15 +3,23 @@ import {
   alignedData,
   chartTraces,
   displayedHeader,
-  classifySample,
   clockTimeAt,
-  countSides,
-  describePlateauPosition,
   describeTimeChart,
   elapsedTickLabels,
   formatElapsed,
   isZoomed,
   panWindow,
+  resolutionNote,
+  seriesUrl,
+  windowCovers,
+  windowToFetch,
+  fullResolutionSpan,
+  zoomWindow,
+} from "@/lib/cycles/chart-model";
+import {
+  classifySample,
+  countSides,
+  describePlateauPosition,
   phaseLandmarks,
   phaseRegions,
   insidePolygon,
@@ -19,17 +27,11 @@ import {
   phaseSamples,
   phaseScales,
   plateauSamples,
-  resolutionNote,
   saturationCurveInRange,
-  seriesUrl,
   thin,
   toleranceBand,
-  windowCovers,
-  windowToFetch,
-  fullResolutionSpan,
-  zoomWindow,
   FULL_PHASE_RANGE,
-} from "@/lib/cycles/chart-model";
+} from "@/lib/cycles/phase-model";
 import { pointsPath } from "@/lib/charts/scale";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
 import type { AnalysisResult } from "@/lib/analysis/types";

@@ -9,7 +9,6 @@ import {
   classifySample,
   countSides,
   describePlateauPosition,
-  formatElapsed,
   formatPressureTick,
   phaseLandmarks,
   phaseRange,
@@ -23,7 +22,8 @@ import {
   type PhaseSide,
   type PhaseView,
   type PlateauSample,
-} from "@/lib/cycles/chart-model";
+} from "@/lib/cycles/phase-model";
+import { formatElapsed } from "@/lib/cycles/chart-model";
 import { linearTicks, logTicks, pointsPath } from "@/lib/charts/scale";
 import { CHART } from "./chart-colors";
 import { OVERVIEW_POINTS, WINDOW_POINTS, useSeries } from "./series-fetch";
