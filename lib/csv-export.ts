@@ -1,32 +1,31 @@
+import Papa from "papaparse";
+
 /**
  * CSV for people who open it in a spreadsheet. Two hazards: a cell that a spreadsheet reads as a
  * formula (OWASP "CSV injection": = + - @, tab, carriage return at the start), and a cell whose
- * delimiter, quote or line break breaks the row (RFC 4180 quoting).
+ * delimiter, quote or line break breaks the row (RFC 4180 quoting). Papa.unparse handles both.
  */
 
 export type CsvCell = string | number | boolean | null | undefined;
 
+// Papa's own pattern for escapeFormulae ends in `.*$`, which misses a formula cell that goes on
+// over a line break ("+x\r\ny"); only the first character matters.
 const FORMULA_START = /^[=+\-@\t\r]/;
-const NEEDS_QUOTES = /[",\r\n]/;
 
-/** Neutralises a value a spreadsheet would run as a formula by prefixing a single quote. */
-export function neutraliseFormula(text: string): string {
-  return FORMULA_START.test(text) ? `'${text}` : text;
+// Numbers stay numbers so that a spreadsheet can sum them (a negative number is not a formula);
+// a number that is not finite is an empty cell, never "NaN".
+const cellValue = (value: CsvCell): CsvCell => (typeof value === "number" && !Number.isFinite(value) ? null : value);
+
+function unparse(rows: ReadonlyArray<readonly CsvCell[]>): string {
+  return Papa.unparse(
+    rows.map((row) => row.map(cellValue)),
+    { newline: "\r\n", escapeFormulae: FORMULA_START },
+  );
 }
 
-/** One cell as it goes into the file: formula-safe, then quoted when it has to be. */
-export function csvCell(value: CsvCell): string {
-  if (value === null || value === undefined) return "";
-  // Numbers are written as numbers so that a spreadsheet can sum them; a negative number is
-  // not a formula, and quoting it would turn it into text.
-  if (typeof value === "number") return Number.isFinite(value) ? String(value) : "";
-  if (typeof value === "boolean") return value ? "true" : "false";
-  const safe = neutraliseFormula(value);
-  return NEEDS_QUOTES.test(safe) || FORMULA_START.test(value) ? `"${safe.replace(/"/g, '""')}"` : safe;
-}
-
+/** One row of cells, formula-safe and quoted where it has to be, without a line end. */
 export function csvRow(cells: readonly CsvCell[]): string {
-  return cells.map(csvCell).join(",");
+  return unparse([cells]);
 }
 
 /**
@@ -34,7 +33,5 @@ export function csvRow(cells: readonly CsvCell[]): string {
  * mark so that spreadsheets read "°C" and accented names correctly.
  */
 export function toCsv(header: readonly string[], rows: Iterable<readonly CsvCell[]>): string {
-  const lines = [csvRow(header)];
-  for (const row of rows) lines.push(csvRow(row));
-  return "\uFEFF" + lines.join("\r\n") + "\r\n";
+  return "\uFEFF" + unparse([header, ...rows]) + "\r\n";
 }

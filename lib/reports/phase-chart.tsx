@@ -1,18 +1,17 @@
 import { Circle, ClipPath, Defs, G, Line, Path, Rect, Svg } from "@react-pdf/renderer";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
+import { linearTicks, logTicks, pointsPath } from "@/lib/charts/scale";
 import {
   formatPressureTick,
-  linearTicks,
-  logTicks,
   phaseRange,
   phaseSamples,
+  phaseScales,
   plateauSamples,
   saturationCurveInRange,
   toleranceBand,
   type PhaseSample,
   type PlateauSample,
-} from "@/lib/cycles/chart-model";
-import { scaleLinear, scaleLog } from "./scale";
+} from "@/lib/cycles/phase-model";
 import { SvgLabel } from "./svg";
 import { colour } from "./theme";
 
@@ -39,29 +38,15 @@ export function PhaseChart({ series, width, height, sterilizationTempC, bandK, s
   const plot = { x: MARGIN.left, y: MARGIN.top, w: width - MARGIN.left - MARGIN.right, h: height - MARGIN.top - MARGIN.bottom };
   const samples: PhaseSample[] = phaseSamples(series);
   const range = phaseRange("cycle", { samples, sterilizationTempC, bandK });
-  const x = scaleLinear([range.tMinC, range.tMaxC], [plot.x, plot.x + plot.w]);
-  const y = scaleLog([range.pMinKpa, range.pMaxKpa], [plot.y + plot.h, plot.y]);
+  const { x, y } = phaseScales(range, { left: plot.x, top: plot.y, width: plot.w, height: plot.h });
   const curve = saturationCurveInRange(range, 140);
   const tolerance = toleranceBand(range, saturationLimitK, 100);
   const plateau = plateauSamples(samples, series.plateau, saturationLimitK);
 
-  const curvePath = curve.map((p, i) => `${i === 0 ? "M" : "L"}${r(x(p.temperatureC))} ${r(y(p.pressureKpa))}`).join("");
-  const tolerancePath =
-    tolerance.colder.length > 1
-      ? tolerance.colder.map(([t, p], i) => `${i === 0 ? "M" : "L"}${r(x(t))} ${r(y(p))}`).join("") +
-        [...tolerance.hotter].reverse().map(([t, p]) => `L${r(x(t))} ${r(y(p))}`).join("") +
-        "Z"
-      : "";
-  let pathD = "";
-  let pen = false;
-  for (const s of samples) {
-    if (s.pressureKpa < range.pMinKpa || s.pressureKpa > range.pMaxKpa) {
-      pen = false;
-      continue;
-    }
-    pathD += `${pen ? "L" : "M"}${r(x(s.temperatureC))} ${r(y(s.pressureKpa))}`;
-    pen = true;
-  }
+  const curvePath = pointsPath(curve.map((p) => [p.temperatureC, p.pressureKpa]), x, y);
+  const tolerancePath = tolerance.colder.length > 1 ? pointsPath([...tolerance.colder, ...[...tolerance.hotter].reverse()], x, y, { close: true }) : "";
+  const inPressureRange = (s: PhaseSample) => s.pressureKpa >= range.pMinKpa && s.pressureKpa <= range.pMaxKpa;
+  const pathD = pointsPath(samples.map((s) => (inPressureRange(s) ? [s.temperatureC, s.pressureKpa] : null)), x, y);
   const tTicks = linearTicks(range.tMinC, range.tMaxC, 5);
   const pTicks = logTicks(range.pMinKpa, range.pMaxKpa);
   const clipId = "clip-phase";

@@ -1,6 +1,6 @@
 import { ClipPath, Defs, G, Line, Path, Rect, Svg } from "@react-pdf/renderer";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
-import { extent, linePath, niceTicks, scaleLinear, timeAxisUnit, timeTickLabel, timeTicks } from "./scale";
+import { extent, linePath, niceTicks, scaleLinear, timeTicks } from "@/lib/charts/scale";
 import { SvgLabel } from "./svg";
 import { colour, loadChannelStyle, seriesStyle } from "./theme";
 import { fixed } from "./text";
@@ -21,6 +21,24 @@ export type TimeChartProps = {
 };
 
 const MARGIN = { top: 12, bottom: 30, left: 36 };
+
+/** A time tick as the report prints it: m:ss, whole minutes, or hours, after the axis's step. */
+function timeTickLabel(seconds: number, stepS: number): string {
+  if (stepS >= 3600) return `${Math.round(seconds / 3600)} h`;
+  if (stepS >= 60) {
+    const minutes = Math.round(seconds / 60);
+    return minutes >= 120 ? `${Math.floor(minutes / 60)} h ${String(minutes % 60).padStart(2, "0")}` : `${minutes}`;
+  }
+  const m = Math.floor(seconds / 60);
+  const s = Math.round(seconds - m * 60);
+  return `${m}:${String(s).padStart(2, "0")}`;
+}
+
+function timeAxisUnit(stepS: number): string {
+  if (stepS >= 3600) return "h";
+  if (stepS >= 60) return "min";
+  return "min:s";
+}
 
 /** "plateau start" and "plateau end" beside their lines, or one "plateau" where the two would collide. */
 function PlateauLabels({ xStart, xEnd, left, right, y }: { xStart: number; xEnd: number; left: number; right: number; y: number }) {

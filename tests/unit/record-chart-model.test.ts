@@ -3,17 +3,23 @@ import {
   alignedData,
   chartTraces,
   displayedHeader,
-  classifySample,
   clockTimeAt,
-  countSides,
-  describePlateauPosition,
   describeTimeChart,
   elapsedTickLabels,
   formatElapsed,
   isZoomed,
-  linearTicks,
-  logTicks,
   panWindow,
+  resolutionNote,
+  seriesUrl,
+  windowCovers,
+  windowToFetch,
+  fullResolutionSpan,
+  zoomWindow,
+} from "@/lib/cycles/chart-model";
+import {
+  classifySample,
+  countSides,
+  describePlateauPosition,
   phaseLandmarks,
   phaseRegions,
   insidePolygon,
@@ -21,18 +27,12 @@ import {
   phaseSamples,
   phaseScales,
   plateauSamples,
-  resolutionNote,
   saturationCurveInRange,
-  seriesUrl,
-  svgPath,
   thin,
   toleranceBand,
-  windowCovers,
-  windowToFetch,
-  fullResolutionSpan,
-  zoomWindow,
   FULL_PHASE_RANGE,
-} from "@/lib/cycles/chart-model";
+} from "@/lib/cycles/phase-model";
+import { pointsPath } from "@/lib/charts/scale";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
 import type { AnalysisResult } from "@/lib/analysis/types";
 
@@ -308,18 +308,7 @@ describe("the phase-diagram view", () => {
     expect(y(1000)).toBeCloseTo(0, 9);
     expect(y(100)).toBeCloseTo(50, 9);
     expect(y(10)).toBeCloseTo(100, 9);
-    expect(svgPath([[0, 10], [50, 100], [Number.NaN, 1], [100, 1000]], x, y)).toBe("M0.0 100.0L100.0 50.0M200.0 0.0");
-  });
-
-  it("picks readable axis ticks", () => {
-    expect(linearTicks(90, 145, 8)).toEqual([90, 100, 110, 120, 130, 140]);
-    expect(linearTicks(90, 145, 12)).toEqual([90, 95, 100, 105, 110, 115, 120, 125, 130, 135, 140, 145]);
-    const ticks = logTicks(50, 450);
-    expect(ticks.map((t) => t.value)).toEqual([50, 60, 80, 100, 150, 200, 300, 400]);
-    expect(ticks.filter((t) => t.major).map((t) => t.value)).toEqual([100]);
-    expect(logTicks(0.3, 50_000).filter((t) => t.major).map((t) => t.value)).toEqual([1, 10, 100, 1000, 10_000]);
-    expect(logTicks(290, 330).map((t) => t.value)).toEqual([290, 295, 300, 305, 310, 315, 320, 325, 330]);
-    expect(logTicks(270, 390).map((t) => t.value)).toEqual([280, 300, 320, 340, 360, 380]);
+    expect(pointsPath([[0, 10], [50, 100], [Number.NaN, 1], [100, 1000], [100, 0]], x, y)).toBe("M0 100L100 50M200 0");
   });
 
   it("thins long lists evenly, keeping both ends", () => {

@@ -9,10 +9,7 @@ import {
   classifySample,
   countSides,
   describePlateauPosition,
-  formatElapsed,
   formatPressureTick,
-  linearTicks,
-  logTicks,
   phaseLandmarks,
   phaseRange,
   phaseRegions,
@@ -20,13 +17,14 @@ import {
   phaseScales,
   plateauSamples,
   saturationCurveInRange,
-  svgPath,
   thin,
   toleranceBand,
   type PhaseSide,
   type PhaseView,
   type PlateauSample,
-} from "@/lib/cycles/chart-model";
+} from "@/lib/cycles/phase-model";
+import { formatElapsed } from "@/lib/cycles/chart-model";
+import { linearTicks, logTicks, pointsPath } from "@/lib/charts/scale";
 import { CHART } from "./chart-colors";
 import { OVERVIEW_POINTS, WINDOW_POINTS, useSeries } from "./series-fetch";
 
@@ -197,7 +195,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
             {/* ± limit around the line */}
             {tolerancePolygon.length > 2 && <polygon points={polygon(tolerancePolygon)} fill="rgba(29,122,77,0.12)" stroke="rgba(29,122,77,0.35)" strokeDasharray="3 3" strokeWidth={0.8} />}
             {/* the liquid–vapour line */}
-            <path d={svgPath(curve.map((c) => [c.temperatureC, c.pressureKpa]), x, y)} fill="none" stroke={CHART.ink} strokeWidth={2.2} />
+            <path d={pointsPath(curve.map((c) => [c.temperatureC, c.pressureKpa]), x, y)} fill="none" stroke={CHART.ink} strokeWidth={2.2} />
             {regions?.solid && <line x1={x(TRIPLE_POINT.temperatureC)} x2={x(TRIPLE_POINT.temperatureC)} y1={y(TRIPLE_POINT.pressureKpa)} y2={BOX.top} stroke={CHART.inkMuted} strokeDasharray="4 3" />}
             {regions?.supercritical && (
               <>
@@ -206,7 +204,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
               </>
             )}
             {/* the cycle's path */}
-            <path d={svgPath(path.map((s) => [s.temperatureC, s.pressureKpa]), x, y)} fill="none" stroke={CHART.path} strokeWidth={1.3} strokeLinejoin="round" />
+            <path d={pointsPath(path.map((s) => [s.temperatureC, s.pressureKpa]), x, y)} fill="none" stroke={CHART.path} strokeWidth={1.3} strokeLinejoin="round" />
             {path.length > 0 && (
               <g>
                 <circle cx={x(path[0].temperatureC)} cy={y(path[0].pressureKpa)} r={3.5} fill={CHART.raised} stroke={CHART.inkSoft} />

@@ -1,0 +1,170 @@
+"use client";
+
+import type { ReactNode } from "react";
+import type { TestKind } from "@/db/schema";
+import { TEST_KIND_LABELS, type CreateCycleField } from "@/lib/validations/intake";
+import { formatSeconds } from "@/lib/format";
+import { Panel } from "@/components/ui/panel";
+import type { IntakeInstrument, IntakeProfile, IntakeSterilizer } from "./intake-request";
+import type { CycleFields } from "./use-cycle-fields";
+
+type Props = {
+  idPrefix: string;
+  step: number;
+  details: CycleFields;
+  sterilizers: readonly IntakeSterilizer[];
+  profiles: readonly IntakeProfile[];
+  instruments: readonly IntakeInstrument[];
+  busy: boolean;
+  onInstrumentChange: (id: string) => void;
+};
+
+type Wiring = ReturnType<typeof fieldWiring>;
+
+/** Label, control and its error sentence, wired together for screen readers. */
+function fieldWiring(idPrefix: string, details: CycleFields) {
+  const { fieldErrors } = details;
+  const errorId = (name: CreateCycleField) => `${idPrefix}-${name}-error`;
+  return {
+    invalid: (name: CreateCycleField) => ({ "aria-invalid": Boolean(fieldErrors[name]) }),
+    describedBy: (name: CreateCycleField) => (fieldErrors[name] ? errorId(name) : undefined),
+    errorText: (name: CreateCycleField): ReactNode =>
+      fieldErrors[name] ? (
+        <p id={errorId(name)} className="field-error" data-field-error={name}>
+          {fieldErrors[name]}
+        </p>
+      ) : null,
+  };
+}
+
+/** Step 2 or 3: which sterilizer, profile and logger the cycle belongs to, its number, kind and load. */
+export function DetailsPanel(props: Props) {
+  const wiring = fieldWiring(props.idPrefix, props.details);
+  return (
+    <Panel title={`${props.step} · Cycle details`}>
+      <div className="grid gap-4 md:grid-cols-2 xl:grid-cols-3">
+        <EquipmentFields {...props} wiring={wiring} />
+        <CycleFacts idPrefix={props.idPrefix} details={props.details} wiring={wiring} />
+      </div>
+      <SaveMappingBox details={props.details} />
+    </Panel>
+  );
+}
+
+function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instruments, busy, onInstrumentChange, wiring }: Props & { wiring: Wiring }) {
+  const { fields, setField } = details;
+  const { invalid, describedBy, errorText } = wiring;
+  const profile = profiles.find((p) => p.id === fields.profileId);
+  return (
+    <>
+      <div>
+        <label className="field-label" htmlFor={`${ids}-sterilizer`}>Sterilizer</label>
+        <select id={`${ids}-sterilizer`} name="sterilizerId" className="field-input" value={fields.sterilizerId} onChange={(e) => details.chooseSterilizer(e.target.value)} {...invalid("sterilizerId")} aria-describedby={describedBy("sterilizerId")}>
+          <option value="">Choose…</option>
+          {sterilizers.map((s) => (
+            <option key={s.id} value={s.id}>
+              {s.name} · {s.serialNumber} · {s.chamberVolumeL} L
+            </option>
+          ))}
+        </select>
+        {errorText("sterilizerId")}
+        {sterilizers.length === 0 && <p className="mt-1 text-xs text-ink-muted">No sterilizer is registered on your site yet; an engineer adds them under Sterilizers.</p>}
+      </div>
+      <div>
+        <label className="field-label" htmlFor={`${ids}-profile`}>Acceptance profile</label>
+        <select id={`${ids}-profile`} name="profileId" className="field-input" value={fields.profileId} onChange={(e) => setField("profileId", e.target.value)} {...invalid("profileId")} aria-describedby={describedBy("profileId") ?? `${ids}-profile-hint`}>
+          <option value="">Choose…</option>
+          {profiles.map((p) => (
+            <option key={p.id} value={p.id}>{p.name}</option>
+          ))}
+        </select>
+        {errorText("profileId")}
+        {profile && (
+          <p id={`${ids}-profile-hint`} className="mt-1 text-xs text-ink-muted">
+            {profile.sterilizationTempC} °C to {profile.sterilizationTempC + profile.bandK} °C, holding at least {formatSeconds(profile.holdingTimeS)}
+            {details.sterilizer?.defaultProfileId === profile.id ? " · the sterilizer's default" : ""}
+          </p>
+        )}
+      </div>
+      <div>
+        <label className="field-label" htmlFor={`${ids}-instrument`}>Logger (instrument)</label>
+        <select id={`${ids}-instrument`} name="instrumentId" className="field-input" value={fields.instrumentId} onChange={(e) => onInstrumentChange(e.target.value)} disabled={busy} {...invalid("instrumentId")} aria-describedby={describedBy("instrumentId")}>
+          <option value="">Not recorded</option>
+          {instruments.map((i) => (
+            <option key={i.id} value={i.id}>
+              {i.name} · {i.serialNumber}
+              {i.hasSavedMapping ? " · saved mapping" : ""}
+            </option>
+          ))}
+        </select>
+        {errorText("instrumentId")}
+      </div>
+    </>
+  );
+}
+
+function CycleFacts({ idPrefix: ids, details, wiring }: { idPrefix: string; details: CycleFields; wiring: Wiring }) {
+  const { fields, setField } = details;
+  const { invalid, describedBy, errorText } = wiring;
+  return (
+    <>
+      <div>
+        <label className="field-label" htmlFor={`${ids}-cycle-number`}>Cycle number</label>
+        <input
+          id={`${ids}-cycle-number`}
+          name="cycleNumber"
+          className="field-input"
+          value={fields.cycleNumber}
+          maxLength={80}
+          placeholder="From the sterilizer's display or printout"
+          onChange={(e) => setField("cycleNumber", e.target.value)}
+          {...invalid("cycleNumber")}
+          aria-describedby={describedBy("cycleNumber") ?? `${ids}-cycle-number-hint`}
+        />
+        {errorText("cycleNumber") ?? (
+          <p id={`${ids}-cycle-number-hint`} className="mt-1 text-xs text-ink-muted">Left empty, Papin uses the serial number and the start time.</p>
+        )}
+      </div>
+      <div>
+        <label className="field-label" htmlFor={`${ids}-test-kind`}>Kind of test</label>
+        <select id={`${ids}-test-kind`} name="testKind" className="field-input" value={fields.testKind} onChange={(e) => setField("testKind", e.target.value as TestKind)} {...invalid("testKind")} aria-describedby={describedBy("testKind")}>
+          {(Object.keys(TEST_KIND_LABELS) as TestKind[]).map((k) => (
+            <option key={k} value={k}>{TEST_KIND_LABELS[k]}</option>
+          ))}
+        </select>
+        {errorText("testKind")}
+      </div>
+      <div className="md:col-span-2 xl:col-span-3">
+        <label className="field-label" htmlFor={`${ids}-load`}>Load description</label>
+        <textarea
+          id={`${ids}-load`}
+          name="load"
+          rows={2}
+          className="field-input"
+          value={fields.load}
+          placeholder="e.g. standard test pack, 6 probes; or trays and wrapped instruments"
+          onChange={(e) => setField("load", e.target.value)}
+          {...invalid("load")}
+          aria-describedby={describedBy("load")}
+        />
+        {errorText("load")}
+      </div>
+    </>
+  );
+}
+
+function SaveMappingBox({ details }: { details: CycleFields }) {
+  const { instrument } = details;
+  return (
+    <label className={`mt-4 flex items-start gap-2 text-sm ${instrument ? "" : "text-ink-faint"}`}>
+      <input type="checkbox" className="mt-1" checked={details.saveMapping} disabled={!instrument} onChange={(e) => details.setSaveMapping(e.target.checked)} />
+      <span>
+        Save this column mapping for the instrument
+        {instrument ? ` ${instrument.name}` : ""}
+        <span className="block text-xs text-ink-muted">
+          {instrument ? "Its next files get this mapping automatically; you can still correct it." : "Choose the logger above to save its mapping."}
+        </span>
+      </span>
+    </label>
+  );
+}

@@ -1,0 +1,95 @@
+import type { InspectResponse, MappingOverrides } from "@/lib/cycles/contracts";
+import type { TestKind } from "@/db/schema";
+import { createCycleFieldsSchema, mappingProblems, type CreateCycleField } from "@/lib/validations/intake";
+import type { MappedColumn } from "./mapping-table";
+
+export type IntakeSterilizer = { id: string; name: string; serialNumber: string; chamberVolumeL: number; defaultProfileId: string | null };
+export type IntakeProfile = { id: string; name: string; sterilizationTempC: number; holdingTimeS: number; bandK: number };
+export type IntakeInstrument = { id: string; name: string; serialNumber: string; kind: string; hasSavedMapping: boolean };
+
+/** The cycle details as the form holds them. */
+export type IntakeFields = { sterilizerId: string; profileId: string; instrumentId: string; cycleNumber: string; load: string; testKind: TestKind };
+export type FieldErrors = Partial<Record<CreateCycleField, string>>;
+
+export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind"];
+
+export function columnsFrom(inspect: InspectResponse): MappedColumn[] {
+  return inspect.columns.map((c) => ({ index: c.index, header: c.header, role: c.role, unit: c.unit, gauge: c.gauge, unsure: c.unsure, edited: false }));
+}
+
+/** The confirmed mapping as the server takes it: every column named, nothing left to guess. */
+export function toMappingOverrides(columns: readonly MappedColumn[], referenceColumn: string | null): MappingOverrides {
+  const time = columns.find((c) => c.role === "time");
+  const pressure = columns.find((c) => c.role === "pressure");
+  const overrides: MappingOverrides = { columns: {} };
+  for (const c of columns) {
+    if (c.header === "" && c.role === "ignored") continue;
+    if (c.role === "temperature") overrides.columns![c.header] = { role: "temperature", unit: c.unit ?? "C" };
+    else if (c.role === "pressure") overrides.columns![c.header] = { role: "pressure", unit: c.unit ?? "kPa", gauge: c.gauge };
+    else if (c.role === "time") overrides.columns![c.header] = c.unit ? { role: "time", unit: c.unit } : { role: "time" };
+    else overrides.columns![c.header] = { role: "ignored" };
+  }
+  if (time) overrides.timeColumn = time.header;
+  if (pressure) {
+    overrides.pressureColumn = pressure.header;
+    if (pressure.unit) overrides.pressureUnit = pressure.unit as MappingOverrides["pressureUnit"];
+    overrides.pressureGauge = pressure.gauge;
+  }
+  if (referenceColumn) overrides.referenceColumn = referenceColumn;
+  return overrides;
+}
+
+export type IntakeDraft = {
+  files: readonly File[];
+  inspect: InspectResponse | null;
+  columns: readonly MappedColumn[];
+  referenceColumn: string | null;
+  fields: IntakeFields;
+  saveMapping: boolean;
+};
+
+export type DraftProblems = { fieldErrors: FieldErrors; mappingErrors: string[]; fileError: string | null };
+
+/** What stops the draft from being analysed, field by field; all empty when it may be sent. */
+export function draftProblems(draft: IntakeDraft): DraftProblems {
+  const parsed = createCycleFieldsSchema.safeParse(draft.fields);
+  const fieldErrors: FieldErrors = {};
+  if (!parsed.success) {
+    for (const issue of parsed.error.issues) {
+      const name = String(issue.path[0]) as CreateCycleField;
+      fieldErrors[name] ??= issue.message;
+    }
+  }
+  const mappingErrors = draft.inspect ? mappingProblems(draft.columns, draft.referenceColumn) : [];
+  let fileError: string | null = null;
+  if (!draft.files[0] || !draft.inspect) fileError = draft.files[0] ? "The file could not be read; choose another one." : "Add the logger file first.";
+  return { fieldErrors, mappingErrors, fileError };
+}
+
+export function hasProblems(problems: DraftProblems): boolean {
+  return Object.keys(problems.fieldErrors).length > 0 || problems.mappingErrors.length > 0 || problems.fileError !== null;
+}
+
+/** The multipart body of POST /api/cycles. */
+export function cycleForm(draft: IntakeDraft): FormData {
+  const { fields } = draft;
+  const form = new FormData();
+  for (const file of draft.files) form.append("files", file);
+  form.append("sterilizerId", fields.sterilizerId);
+  form.append("profileId", fields.profileId);
+  if (fields.instrumentId) form.append("instrumentId", fields.instrumentId);
+  if (fields.cycleNumber.trim()) form.append("cycleNumber", fields.cycleNumber.trim());
+  if (fields.load.trim()) form.append("load", fields.load.trim());
+  form.append("testKind", fields.testKind);
+  form.append("mapping", JSON.stringify(toMappingOverrides(draft.columns, draft.referenceColumn)));
+  if (draft.saveMapping && fields.instrumentId) form.append("saveMapping", "true");
+  return form;
+}
+
+/** The multipart body of POST /api/logger-files/inspect. */
+export function inspectForm(file: File, instrumentId: string): FormData {
+  const form = new FormData();
+  form.append("file", file);
+  if (instrumentId) form.append("instrumentId", instrumentId);
+  return form;
+}
