@@ -2,7 +2,7 @@ import { forbidden } from "next/navigation";
 import { currentUser } from "@/lib/auth/guards";
 import { can } from "@/lib/auth/permissions";
 import { getSiteById } from "@/db/queries/sites";
-import { siteAtmosphereKpa } from "@/db/queries/cycles";
+import { siteAtmosphereKpa } from "@/lib/cycles/analyze-file";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { SiteSettingsForm } from "@/components/admin/site-form";
 import { formatNumber } from "@/lib/format";
