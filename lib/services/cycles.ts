@@ -1,5 +1,5 @@
 import "server-only";
-import { getCycleRecordRows, listCycles as listCycleRows, type CycleFilter, type CycleSortKey } from "@/db/queries/cycles";
+import { getCycleRecordRows, getCycleRow, listCycles as listCycleRows, type CycleFilter, type CycleSortKey } from "@/db/queries/cycles";
 import { listAuditEventsForEntity, recordAuditEvent } from "@/db/queries/audit";
 import { listSterilizersForSite } from "@/db/queries/catalog";
 import { getSiteById } from "@/db/queries/sites";
@@ -95,6 +95,13 @@ export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }
     supersedesId: cycle.supersedesId,
     report: report ?? null,
   };
+}
+
+/** The cycle's id and status if the actor may read it on their site (403 for a refused role), else undefined. */
+export async function findCycle({ actor, id }: { actor: Actor; id: string }) {
+  assertAllowed(actor, "cycle:read", "read cycles");
+  const row = await getCycleRow({ actor, id });
+  return row ? { id: row.id, status: row.status } : undefined;
 }
 
 /** The cycle record page: the cycle and its history from the ledger. 404 off the actor's site. */

@@ -101,8 +101,10 @@ describe("two sites: cycle reads never show the other site's rows", () => {
     expect(await refused.json()).toEqual({ error: "That cycle was not found." });
   });
 
-  it("the record page's loader refuses the other site's cycle with 404", async () => {
-    const { getCycleRecord } = await import("@/lib/services/cycles");
+  it("the record page's guard and loader refuse the other site's cycle with 404", async () => {
+    const { findCycle, getCycleRecord } = await import("@/lib/services/cycles");
+    expect(await findCycle({ actor: people.south.auditor, id: setup.north.approvedId })).toBeUndefined();
+    expect(await findCycle({ actor: people.south.auditor, id: setup.south.approvedId })).toMatchObject({ id: setup.south.approvedId, status: "approved" });
     await expect(getCycleRecord({ actor: people.south.engineer, id: setup.north.approvedId })).rejects.toMatchObject({ status: 404 });
     const own = await getCycleRecord({ actor: people.south.engineer, id: setup.south.approvedId });
     expect(own.detail.cycleNumber).toBe(setup.south.cycleNumber);

@@ -19,14 +19,18 @@ import { SafetyCaution } from "@/components/cycles/record/safety-caution";
 import { formatStartedAt, testKindLabel } from "@/components/cycles/record/record-format";
 import { describeTimeChart } from "@/lib/cycles/chart-model";
 import { formatDateTime } from "@/lib/format";
-import { loadCycleRecord } from "./record";
+import { orNotFound } from "@/lib/auth/page-guard";
+import { getCycleRecord } from "@/lib/services/cycles";
+import { guardCycleRecord } from "./record";
 
 type Props = { params: Promise<{ id: string }> };
 
 export const metadata: Metadata = { title: "Cycle record" };
 
 export default async function CycleRecordPage({ params }: Props) {
-  const { actor, detail, history } = await loadCycleRecord((await params).id);
+  const { id } = await params;
+  const actor = await guardCycleRecord(id);
+  const { detail, history } = await orNotFound(getCycleRecord({ actor, id }));
 
   const tz = detail.site.timeZone;
   const a = detail.analysis;

@@ -1,15 +1,15 @@
 import "server-only";
 import { cache } from "react";
 import { orNotFound, requirePageActor } from "@/lib/auth/page-guard";
-import { getCycleRecord } from "@/lib/services/cycles";
+import { findCycle } from "@/lib/services/cycles";
 
 /**
- * The guard and the record, once per request: the segment's layout awaits it before the loading
- * skeleton can stream, so an unknown id, another site's cycle or a refused role answers a real
- * 404/403; the page then reads the same result without a second query.
+ * The record's guard, once per request. The segment's layout awaits it before the loading
+ * skeleton can stream, so a refused role, an unknown id or another site's cycle answers a real
+ * 403/404; the page reuses the result and loads the (slower) record behind the skeleton.
  */
-export const loadCycleRecord = cache(async (id: string) => {
+export const guardCycleRecord = cache(async (id: string) => {
   const actor = await requirePageActor("cycle:read");
-  const record = await orNotFound(getCycleRecord({ actor, id }));
-  return { actor, ...record };
+  await orNotFound(findCycle({ actor, id }));
+  return actor;
 });
