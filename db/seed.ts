@@ -337,7 +337,7 @@ async function seedPeriodicTests(
  * which approves passing cycles (archiving their reports) and returns failing ones with a reason.
  */
 async function signOlderDemoCycles(db: Database, password: string) {
-  const { signCycle } = await import("./queries/reviews");
+  const { signCycle } = await import("@/lib/services/sign-off");
   const [engineer] = await db.select().from(users).where(eq(users.role, "engineer")).limit(1);
   const actor = { id: engineer.id, email: engineer.email, name: engineer.name, role: engineer.role, siteId: engineer.siteId };
   const cutoff = new Date(Date.now() - 6 * DAY_MS).toISOString();

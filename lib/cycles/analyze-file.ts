@@ -1,7 +1,15 @@
 import { readLoggerFile, type MappingOverrides } from "@/lib/logger-files";
 import { analyzeRecording, ENGINE_VERSION, type AcceptanceLimits, type AnalysisResult } from "@/lib/analysis";
 import { canonicalJson, sha256Hex } from "@/lib/integrity";
+import { atmosphereAtAltitudeKpa, STANDARD_ATMOSPHERE_KPA } from "@/lib/steam";
 import type { AcceptanceProfile } from "@/db/schema";
+
+/** The site's atmospheric pressure for gauge readings: measured, else from altitude, else standard. */
+export function siteAtmosphereKpa(site: { atmosphereKpa: number | null; altitudeM: number | null }): number {
+  if (site.atmosphereKpa) return site.atmosphereKpa;
+  if (site.altitudeM !== null && site.altitudeM !== undefined) return atmosphereAtAltitudeKpa(site.altitudeM);
+  return STANDARD_ATMOSPHERE_KPA;
+}
 
 export function limitsOf(profile: AcceptanceProfile): AcceptanceLimits {
   return {

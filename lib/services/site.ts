@@ -1,7 +1,7 @@
 import "server-only";
 import type { Actor } from "@/db/queries/users";
 import { getSiteById, updateSite } from "@/db/queries/sites";
-import { siteAtmosphereKpa } from "@/db/queries/cycles";
+import { siteAtmosphereKpa } from "@/lib/cycles/analyze-file";
 import { AppError } from "@/lib/errors";
 import { formatNumber } from "@/lib/format";
 import { localDate } from "@/lib/periodic-tests";

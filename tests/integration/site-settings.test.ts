@@ -77,7 +77,7 @@ describe("updating the site's settings", () => {
     await expect(verifyAuditChain()).resolves.toMatchObject({ ok: true, events: 1 });
 
     // ISO 2533 / ICAO standard atmosphere: 89.875 kPa at 1000 m (from memory of the published table).
-    const { siteAtmosphereKpa } = await import("@/db/queries/cycles");
+    const { siteAtmosphereKpa } = await import("@/lib/cycles/analyze-file");
     expect(siteAtmosphereKpa(row)).toBeCloseTo(89.875, 1);
   });
 
@@ -87,7 +87,7 @@ describe("updating the site's settings", () => {
     expect(state.status).toBe("ok");
     const row = await siteRow();
     expect(row.atmosphereKpa).toBe(90.4);
-    const { siteAtmosphereKpa } = await import("@/db/queries/cycles");
+    const { siteAtmosphereKpa } = await import("@/lib/cycles/analyze-file");
     expect(siteAtmosphereKpa(row)).toBe(90.4);
     const events = await siteEvents();
     expect(JSON.parse(events[1].newValue!)).toEqual({ atmosphereKpa: 90.4 });

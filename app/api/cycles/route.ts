@@ -5,7 +5,8 @@ import { AppError } from "@/lib/errors";
 import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
 import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
 import { createCycleFieldsSchema } from "@/lib/validations/intake";
-import { createCycleFromUpload, listCycles } from "@/db/queries/cycles";
+import { listCycles } from "@/lib/services/cycles";
+import { createCycleFromUpload } from "@/lib/services/intake";
 import { kickMailDelivery } from "@/lib/mail/delivery";
 import { originOf } from "@/lib/request-origin";
 
@@ -16,7 +17,7 @@ export const GET = route(async (request) => {
   const actor = await requireRole("cycle:read");
   const parsed = cycleListQuerySchema.safeParse(queryObject(request.url));
   if (!parsed.success) throw new AppError(400, zodMessage(parsed.error));
-  return NextResponse.json(await listCycles({ actor, filter: parsed.data }));
+  return NextResponse.json(await listCycles({ actor, query: parsed.data }));
 });
 
 export const POST = route(async (request) => {

@@ -1,10 +1,5 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { forbidden, notFound, redirect } from "next/navigation";
-import { currentUser } from "@/lib/auth/guards";
-import { can } from "@/lib/auth/permissions";
-import { getCycleDetail } from "@/db/queries/cycles";
-import { listAuditEventsForEntity } from "@/db/queries/audit";
 import { Panel } from "@/components/ui/panel";
 import { StatusBadge, VerdictBadge } from "@/components/ui/badge";
 import { SignOffPanel } from "@/components/review/sign-off-panel";
@@ -24,20 +19,18 @@ import { SafetyCaution } from "@/components/cycles/record/safety-caution";
 import { formatStartedAt, testKindLabel } from "@/components/cycles/record/record-format";
 import { describeTimeChart } from "@/lib/cycles/chart-model";
 import { formatDateTime } from "@/lib/format";
+import { orNotFound } from "@/lib/auth/page-guard";
+import { getCycleRecord } from "@/lib/services/cycles";
+import { guardCycleRecord } from "./record";
 
 type Props = { params: Promise<{ id: string }> };
 
 export const metadata: Metadata = { title: "Cycle record" };
 
 export default async function CycleRecordPage({ params }: Props) {
-  // Guard first; a refused role gets a real 403 page rather than an error screen.
-  const actor = await currentUser();
-  if (!actor) redirect("/sign-in");
-  if (!can(actor.role, "cycle:read")) forbidden();
   const { id } = await params;
-  const detail = await getCycleDetail({ actor, id });
-  if (!detail) notFound();
-  const events = await listAuditEventsForEntity({ entityType: "cycle", entityId: detail.id });
+  const actor = await guardCycleRecord(id);
+  const { detail, history } = await orNotFound(getCycleRecord({ actor, id }));
 
   const tz = detail.site.timeZone;
   const a = detail.analysis;
@@ -131,10 +124,7 @@ export default async function CycleRecordPage({ params }: Props) {
             <AnalysisHistory history={detail.analysisHistory} currentId={detail.analysisId} timeZone={tz} />
           </Panel>
           <Panel title="Record history">
-            <RecordHistory
-              events={events.map((e) => ({ seq: e.seq, at: e.at, actorEmail: e.actorEmail, action: e.action, reason: e.reason, newValue: e.newValue }))}
-              timeZone={tz}
-            />
+            <RecordHistory events={history} timeZone={tz} />
           </Panel>
         </div>
 

@@ -2,7 +2,7 @@ import { NextResponse } from "next/server";
 import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { notFound } from "@/lib/errors";
-import { getCycleDetail } from "@/db/queries/cycles";
+import { getCycleDetail } from "@/lib/services/cycles";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

@@ -1,7 +1,6 @@
 import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
-import { notFound } from "@/lib/errors";
-import { getArchivedReport } from "@/db/queries/reviews";
+import { downloadArchivedReport } from "@/lib/services/reports";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -11,9 +10,8 @@ type Context = { params: Promise<{ id: string }> };
 export const GET = route<Context>(async (_request, { params }) => {
   const actor = await requireRole("archive:read", "download archived reports");
   const { id } = await params;
-  const report = await getArchivedReport({ actor, id });
-  if (!report) throw notFound("That archived report");
-  return new Response(new Uint8Array(report.bytes) as BodyInit, {
-    headers: { "Content-Type": "application/pdf", "Content-Disposition": `attachment; filename="${report.reportNumber}.pdf"`, "Cache-Control": "private, no-store" },
+  const report = await downloadArchivedReport({ actor, id });
+  return new Response(report.bytes as BodyInit, {
+    headers: { "Content-Type": "application/pdf", "Content-Disposition": `attachment; filename="${report.fileName}"`, "Cache-Control": "private, no-store" },
   });
 });

@@ -3,7 +3,7 @@ import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, readMultipart } from "@/lib/uploads";
-import { verifyReportBytes } from "@/db/queries/reviews";
+import { verifyReportBytes } from "@/lib/services/reports";
 
 export const runtime = "nodejs";
 

@@ -3,7 +3,7 @@ import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
-import { reanalyseCycle } from "@/db/queries/cycles";
+import { reanalyseCycle } from "@/lib/services/intake";
 
 export const runtime = "nodejs";
 

@@ -1,6 +1,6 @@
 import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
-import { getCycleReport } from "@/db/queries/reviews";
+import { getCycleReport } from "@/lib/services/reports";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

@@ -3,7 +3,7 @@ import { route, zodMessage } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError, notFound } from "@/lib/errors";
 import { queryObject, seriesQuerySchema } from "@/lib/validations/cycles";
-import { getCycleSeries } from "@/db/queries/cycles";
+import { getCycleSeries } from "@/lib/services/cycle-series";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";

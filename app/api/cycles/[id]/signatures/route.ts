@@ -4,7 +4,7 @@ import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { originOf } from "@/lib/request-origin";
 import { signatureSchema } from "@/lib/validations/reviews";
-import { signCycle } from "@/db/queries/reviews";
+import { signCycle } from "@/lib/services/sign-off";
 import { kickMailDelivery } from "@/lib/mail/delivery";
 
 export const runtime = "nodejs";

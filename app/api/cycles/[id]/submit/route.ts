@@ -2,7 +2,7 @@ import { NextResponse } from "next/server";
 import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { originOf } from "@/lib/request-origin";
-import { submitCycle } from "@/db/queries/reviews";
+import { submitCycle } from "@/lib/services/sign-off";
 import { kickMailDelivery } from "@/lib/mail/delivery";
 
 export const runtime = "nodejs";

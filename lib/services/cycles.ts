@@ -1,0 +1,174 @@
+import "server-only";
+import { getCycleRecordRows, getCycleRow, listCycles as listCycleRows, type CycleFilter, type CycleSortKey } from "@/db/queries/cycles";
+import { listAuditEventsForEntity, recordAuditEvent } from "@/db/queries/audit";
+import { listSterilizersForSite } from "@/db/queries/catalog";
+import { getSiteById } from "@/db/queries/sites";
+import { can } from "@/lib/auth/permissions";
+import { AppError } from "@/lib/errors";
+import { siteAtmosphereKpa } from "@/lib/cycles/analyze-file";
+import { toCsv, type CsvCell } from "@/lib/csv-export";
+import { TEST_KIND_LABELS } from "@/lib/validations/intake";
+import type { AnalysisResult } from "@/lib/analysis/types";
+import type { CycleDetail, CycleListItem, CycleListResponse, HistoryEntry, MappingOverrides } from "@/lib/cycles/contracts";
+import { assertAllowed, type Actor } from "./access";
+import { signatureIsValid } from "./record-bundle";
+
+export type CycleListQuery = CycleFilter & { page?: number; pageSize?: number; sort?: string };
+
+/** The actor's site's cycles, one page, filtered and sorted (GET /api/cycles). */
+export async function listCycles({ actor, query }: { actor: Actor; query: CycleListQuery }): Promise<CycleListResponse> {
+  assertAllowed(actor, "cycle:read", "read cycles");
+  const { page: rawPage, pageSize: rawPageSize, sort: rawSort, ...filter } = query;
+  const pageSize = Math.min(Math.max(Math.trunc(rawPageSize ?? 25), 1), 1000);
+  const page = Math.max(Math.trunc(rawPage ?? 1), 1);
+  const [sortKey, sortDir] = (rawSort ?? "startedAt:desc").split(":");
+  const key: CycleSortKey = (["startedAt", "createdAt", "cycleNumber", "status", "verdict", "sterilizer", "submittedAt"] as const).find((k) => k === sortKey) ?? "startedAt";
+  const { rows, total } = await listCycleRows({ actor, filter, page, pageSize, sort: { key, direction: sortDir === "asc" ? "asc" : "desc" } });
+  const items: CycleListItem[] = rows.map((r) => ({
+    id: r.id,
+    cycleNumber: r.cycleNumber,
+    status: r.status,
+    verdict: r.verdict,
+    testKind: r.testKind,
+    startedAt: r.startedAt,
+    createdAt: r.createdAt,
+    loadDescription: r.loadDescription,
+    sterilizer: { id: r.sterilizerId, name: r.sterilizerName },
+    profile: { id: r.profileId, name: r.profileName },
+    createdByName: r.createdByName,
+  }));
+  return { items, total, page, pageSize };
+}
+
+/** One cycle of the actor's site as GET /api/cycles/{id} sends it; undefined when not there. */
+export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }): Promise<CycleDetail | undefined> {
+  assertAllowed(actor, "cycle:read", "read cycles");
+  const rows = await getCycleRecordRows({ actor, id });
+  if (!rows) return undefined;
+  const { cycle, site, sterilizer, profile, instrument, files, analysisRows, signatureRows, report } = rows;
+  const current = analysisRows.find((a) => a.id === cycle.currentAnalysisId) ?? analysisRows[0];
+  const signatures = await Promise.all(
+    signatureRows.map(async (s) => ({
+      id: s.id,
+      printedName: s.printedName,
+      role: s.role,
+      meaning: s.meaning,
+      reason: s.reason,
+      signedAt: s.signedAt,
+      bundleHash: s.bundleHash,
+      valid: await signatureIsValid({ signature: s }),
+    })),
+  );
+  return {
+    id: cycle.id,
+    cycleNumber: cycle.cycleNumber,
+    status: cycle.status,
+    verdict: cycle.verdict,
+    testKind: cycle.testKind,
+    loadDescription: cycle.loadDescription,
+    startedAt: cycle.startedAt,
+    createdAt: cycle.createdAt,
+    submittedAt: cycle.submittedAt,
+    createdBy: { id: cycle.createdBy, name: rows.creatorName },
+    site: { id: site.id, name: site.name, timeZone: site.timeZone, atmosphereKpa: siteAtmosphereKpa(site) },
+    sterilizer: { id: sterilizer.id, name: sterilizer.name, serialNumber: sterilizer.serialNumber, chamberVolumeL: sterilizer.chamberVolumeL },
+    profile: {
+      id: profile.id,
+      name: profile.name,
+      sterilizationTempC: profile.sterilizationTempC,
+      bandK: profile.bandK,
+      holdingTime: profile.holdingTimeS,
+      holdingTimeS: profile.holdingTimeS,
+      maxEquilibrationS: profile.maxEquilibrationS,
+      maxSpreadK: profile.maxSpreadK,
+      saturationLimitK: profile.saturationLimitK,
+      f0ReferenceC: profile.f0ReferenceC,
+      f0ZK: profile.f0ZK,
+      basis: profile.basis,
+    },
+    instrument: instrument ? { id: instrument.id, name: instrument.name, serialNumber: instrument.serialNumber } : null,
+    files: files.map((f) => ({ ...f, dialect: (f.dialect ?? null) as CycleDetail["files"][number]["dialect"], mapping: (f.mapping ?? null) as MappingOverrides | null })),
+    analysis: (current?.result as AnalysisResult | undefined) ?? null,
+    analysisId: current?.id ?? null,
+    analysisHistory: analysisRows.map((a) => ({ id: a.id, createdAt: a.createdAt, verdict: a.verdict, engineVersion: a.engineVersion, inputHash: a.inputHash })),
+    signatures,
+    supersedesId: cycle.supersedesId,
+    report: report ?? null,
+  };
+}
+
+/** The cycle's id and status if the actor may read it on their site (403 for a refused role), else undefined. */
+export async function findCycle({ actor, id }: { actor: Actor; id: string }) {
+  assertAllowed(actor, "cycle:read", "read cycles");
+  const row = await getCycleRow({ actor, id });
+  return row ? { id: row.id, status: row.status } : undefined;
+}
+
+/** The cycle record page: the cycle and its history from the ledger. 404 off the actor's site. */
+export async function getCycleRecord({ actor, id }: { actor: Actor; id: string }): Promise<{ detail: CycleDetail; history: HistoryEntry[] }> {
+  const detail = await getCycleDetail({ actor, id });
+  if (!detail) throw new AppError(404, "That cycle was not found.");
+  const events = await listAuditEventsForEntity({ entityType: "cycle", entityId: detail.id });
+  const history = events.map((e) => ({ seq: e.seq, at: e.at, actorEmail: e.actorEmail, action: e.action, reason: e.reason, newValue: e.newValue }));
+  return { detail, history };
+}
+
+/** What the cycle list and review queue pages show around the table: filters and the site's time zone. */
+export async function getCycleListContext({ actor, queue = false }: { actor: Actor; queue?: boolean }) {
+  if (queue) assertAllowed(actor, "review:queue", "review cycles");
+  else assertAllowed(actor, "cycle:read", "read cycles");
+  const [sterilizers, site] = await Promise.all([listSterilizersForSite({ actor }), actor.siteId ? getSiteById({ id: actor.siteId }) : undefined]);
+  return {
+    sterilizers: sterilizers.map((s) => ({ id: s.id, name: s.name })),
+    timeZone: site?.timeZone ?? "UTC",
+    mayCreate: can(actor.role, "cycle:create"),
+  };
+}
+
+// Big enough for years of a unit's cycles; beyond it, narrow the filters.
+const MAX_EXPORT_ROWS = 50_000;
+const EXPORT_PAGE = 1000;
+
+const EXPORT_HEADER = ["Cycle number", "Started (UTC)", "Registered (UTC)", "Sterilizer", "Acceptance profile", "Kind of test", "Load", "Status", "Verdict", "Registered by", "Record ID"];
+
+function exportRow(c: CycleListItem): CsvCell[] {
+  return [
+    c.cycleNumber,
+    c.startedAt,
+    c.createdAt,
+    c.sterilizer.name,
+    c.profile.name,
+    TEST_KIND_LABELS[c.testKind] ?? c.testKind,
+    c.loadDescription,
+    c.status,
+    c.verdict ?? "not analysed",
+    c.createdByName,
+    c.id,
+  ];
+}
+
+/** The filtered cycles of the actor's site as CSV, safe to open in a spreadsheet; the export is audited. */
+export async function exportCyclesCsv({ actor, query }: { actor: Actor; query: CycleListQuery }) {
+  assertAllowed(actor, "cycle:read", "export cycles");
+  const { page: _page, pageSize: _pageSize, ...filter } = query;
+  const items: CycleListItem[] = [];
+  for (let page = 1; ; page++) {
+    const batch = await listCycles({ actor, query: { ...filter, page, pageSize: EXPORT_PAGE } });
+    if (batch.total > MAX_EXPORT_ROWS) {
+      throw new AppError(413, `These filters match ${batch.total.toLocaleString("en-GB")} cycles; an export holds at most ${MAX_EXPORT_ROWS.toLocaleString("en-GB")}. Narrow the dates or other filters.`);
+    }
+    items.push(...batch.items);
+    if (batch.items.length < EXPORT_PAGE || items.length >= batch.total) break;
+  }
+  await recordAuditEvent({
+    actorId: actor.id,
+    actorEmail: actor.email,
+    siteId: actor.siteId,
+    action: "cycles.export",
+    entityType: "cycle",
+    entityId: null,
+    newValue: { filter, rows: items.length, format: "csv" },
+  });
+  const stamp = new Date().toISOString().slice(0, 10);
+  return { csv: toCsv(EXPORT_HEADER, items.map(exportRow)), fileName: `papin-cycles-${stamp}.csv` };
+}

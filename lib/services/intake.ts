@@ -1,0 +1,240 @@
+import "server-only";
+import { getAnalysedFile, getCycleRow, insertCorrection, insertCycleRecord } from "@/db/queries/cycles";
+import { getInstrumentForSite, getProfileForSite, getSterilizerForSite, listInstrumentsForSite, listProfilesForSite, listSterilizersForSite } from "@/db/queries/catalog";
+import { getSiteById } from "@/db/queries/sites";
+import { enqueueAnalysisFailedMail } from "@/lib/services/mail";
+import type { TestKind } from "@/db/schema";
+import { AppError } from "@/lib/errors";
+import { AnalysisError } from "@/lib/analysis";
+import type { AnalysisResult } from "@/lib/analysis/types";
+import { inspectLoggerFile, LoggerFileError, type MappingOverrides } from "@/lib/logger-files";
+import { analyzeLoggerBytes, siteAtmosphereKpa, type FileAnalysis } from "@/lib/cycles/analyze-file";
+import { sha256Hex } from "@/lib/integrity";
+import type { CreateCycleResponse, InspectResponse } from "@/lib/cycles/contracts";
+import { assertAllowed, type Actor } from "./access";
+
+export type UploadedFile = { name: string; bytes: Uint8Array; contentType: string };
+
+export type CreateCycleInput = {
+  actor: Actor;
+  sterilizerId: string;
+  profileId: string;
+  instrumentId?: string | null;
+  cycleNumber?: string | null;
+  load?: string | null;
+  testKind?: TestKind;
+  files: UploadedFile[];
+  mapping?: MappingOverrides;
+  saveMapping?: boolean;
+  supersedesId?: string | null;
+  origin?: string;
+};
+
+/** The choices of the intake form: the site's active sterilizers, profiles and instruments. */
+export async function getIntakeOptions({ actor }: { actor: Actor }) {
+  assertAllowed(actor, "cycle:create", "register cycles");
+  const [sterilizers, profiles, instruments] = await Promise.all([listSterilizersForSite({ actor }), listProfilesForSite({ actor }), listInstrumentsForSite({ actor })]);
+  return {
+    sterilizers: sterilizers.map((s) => ({ id: s.id, name: s.name, serialNumber: s.serialNumber, chamberVolumeL: s.chamberVolumeL, defaultProfileId: s.defaultProfileId })),
+    profiles: profiles.map((p) => ({ id: p.id, name: p.name, sterilizationTempC: p.sterilizationTempC, holdingTimeS: p.holdingTimeS, bandK: p.bandK })),
+    instruments: instruments.map((i) => ({ id: i.id, name: i.name, serialNumber: i.serialNumber, kind: i.kind, hasSavedMapping: i.hasSavedMapping })),
+  };
+}
+
+/**
+ * The guessed mapping of one logger file, before anything is stored; an instrument's saved mapping
+ * is applied when it fits the file, else the plain guess is shown with a warning.
+ */
+export async function inspectLoggerUpload({ actor, file, instrumentId }: { actor: Actor; file: UploadedFile; instrumentId?: string }): Promise<InspectResponse> {
+  assertAllowed(actor, "cycle:create", "upload logger files");
+  let savedMapping: MappingOverrides | null = null;
+  if (instrumentId) {
+    const instrument = await getInstrumentForSite({ actor, id: instrumentId });
+    if (!instrument) throw new AppError(404, "That instrument was not found on your site.", "instrumentId");
+    savedMapping = (instrument.savedMapping as MappingOverrides | null) ?? null;
+  }
+  const warnings: string[] = [];
+  let inspected;
+  try {
+    try {
+      inspected = inspectLoggerFile(file.bytes, savedMapping ?? undefined);
+    } catch (error) {
+      // A saved mapping that does not fit this file (other column names) must not block the upload.
+      if (!savedMapping || !(error instanceof LoggerFileError)) throw error;
+      warnings.push(`The mapping saved for this instrument does not fit this file (${error.message}); the guess is shown instead.`);
+      savedMapping = null;
+      inspected = inspectLoggerFile(file.bytes);
+    }
+  } catch (error) {
+    if (error instanceof LoggerFileError) throw new AppError(422, `${file.name}: ${error.message}`, "file");
+    throw error;
+  }
+  warnings.push(...inspected.problems.map((p) => `${p} below.`));
+  return { ...inspected, name: file.name, size: file.bytes.byteLength, sha256: sha256Hex(file.bytes), warnings, savedMapping };
+}
+
+/** The first file that reads as a logger file, analysed; any others (photos, printouts) are kept beside it. */
+function analyseFirstReadable(files: UploadedFile[], analyse: (bytes: Uint8Array) => FileAnalysis) {
+  let firstProblem: string | undefined;
+  for (const [index, file] of files.entries()) {
+    try {
+      return { primaryIndex: index, analysis: analyse(file.bytes) };
+    } catch (error) {
+      if (!(error instanceof LoggerFileError || error instanceof AnalysisError)) throw error;
+      firstProblem ??= `${file.name}: ${error.message}`;
+    }
+  }
+  throw new AppError(422, firstProblem ?? "None of the files could be read as a logger file.", "files");
+}
+
+/**
+ * A new cycle from uploaded files. Bytes, hashes, mapping, analysis, cycle and audit event are
+ * written in one transaction, so a failure leaves nothing behind.
+ */
+export async function createCycleFromUpload(input: CreateCycleInput): Promise<CreateCycleResponse & { fileAnalysis: FileAnalysis }> {
+  const { actor } = input;
+  assertAllowed(actor, "cycle:create", "register cycles");
+  const site = actor.siteId ? await getSiteById({ id: actor.siteId }) : undefined;
+  if (!site) throw new AppError(403, "Your account is not attached to a site, so it cannot register cycles.");
+  const sterilizer = await getSterilizerForSite({ actor, id: input.sterilizerId });
+  if (!sterilizer) throw new AppError(404, "That sterilizer was not found on your site.", "sterilizerId");
+  const profile = await getProfileForSite({ actor, id: input.profileId });
+  if (!profile) throw new AppError(404, "That acceptance profile was not found on your site.", "profileId");
+  const instrument = input.instrumentId ? await getInstrumentForSite({ actor, id: input.instrumentId }) : undefined;
+  if (input.instrumentId && !instrument) throw new AppError(404, "That instrument was not found on your site.", "instrumentId");
+  if (input.files.length === 0) throw new AppError(400, "Attach at least one logger file.", "files");
+
+  const mapping: MappingOverrides = input.mapping ?? ((instrument?.savedMapping as MappingOverrides | null) ?? {});
+  const atmosphereKpa = siteAtmosphereKpa(site);
+  const { primaryIndex, analysis } = analyseFirstReadable(input.files, (bytes) => analyzeLoggerBytes(bytes, profile, mapping, atmosphereKpa));
+  const now = new Date().toISOString();
+  const cycleNumber = input.cycleNumber?.trim() || defaultCycleNumber(sterilizer.serialNumber, analysis.startedAt ?? now);
+  const files = input.files.map((file, index) => ({ file, primary: index === primaryIndex, sha256: index === primaryIndex ? analysis.sha256 : sha256Hex(file.bytes) }));
+  const audited = { actorId: actor.id, actorEmail: actor.email, siteId: site.id };
+
+  const id = await insertCycleRecord({
+    cycle: {
+      siteId: site.id,
+      sterilizerId: sterilizer.id,
+      profileId: profile.id,
+      instrumentId: instrument?.id ?? null,
+      cycleNumber,
+      testKind: input.testKind ?? "thermometric-small-load",
+      loadDescription: input.load?.trim() ?? "",
+      status: "draft",
+      verdict: analysis.result.verdict,
+      startedAt: analysis.startedAt ? normaliseIso(analysis.startedAt) : now,
+      createdBy: actor.id,
+      supersedesId: input.supersedesId ?? null,
+    },
+    files: files.map(({ file, primary, sha256 }) => ({
+      primary,
+      name: file.name,
+      sizeBytes: file.bytes.byteLength,
+      sha256,
+      contentType: file.contentType || "application/octet-stream",
+      bytes: Buffer.from(file.bytes),
+      dialect: primary ? analysis.dialect : null,
+      mapping: primary ? analysis.mapping : null,
+      uploadedBy: actor.id,
+    })),
+    analysis: analysisRow(analysis, actor),
+    savedMapping:
+      input.saveMapping && instrument && input.mapping
+        ? {
+            instrumentId: instrument.id,
+            mapping: input.mapping,
+            audit: { ...audited, action: "instrument.mapping-saved", entityType: "instrument", entityId: instrument.id, oldValue: instrument.savedMapping ?? null, newValue: input.mapping },
+          }
+        : undefined,
+    audit: (cycleId) => ({
+      ...audited,
+      action: "cycle.create",
+      entityType: "cycle",
+      entityId: cycleId,
+      newValue: {
+        cycleNumber,
+        sterilizer: sterilizer.name,
+        profile: profile.name,
+        files: files.map(({ file, sha256 }) => ({ name: file.name, size: file.bytes.byteLength, sha256 })),
+        verdict: analysis.result.verdict,
+        inputHash: analysis.inputHash,
+        supersedes: input.supersedesId ?? null,
+      },
+    }),
+    inside: (tx, cycleId) => notifyFailure(tx, cycleId, analysis.result, input.origin),
+  });
+  return { id, status: "draft", analysis: analysis.result, fileAnalysis: analysis };
+}
+
+/**
+ * A correction of a draft or returned cycle: a new file and/or a new mapping gives a new analysis;
+ * earlier files and analyses stay on the record. Submitted and approved cycles are locked.
+ */
+export async function reanalyseCycle({ actor, id, file, mapping }: { actor: Actor; id: string; file?: UploadedFile; mapping?: MappingOverrides }) {
+  assertAllowed(actor, "cycle:create", "correct cycles");
+  const cycle = await getCycleRow({ actor, id });
+  if (!cycle) throw new AppError(404, "That cycle was not found.");
+  if (cycle.status === "approved") throw new AppError(409, "This cycle is approved and locked; a correction must be a new, linked record.");
+  if (cycle.status === "submitted") throw new AppError(409, "This cycle is waiting for review; it can be corrected once it is returned.");
+  const [profile, site] = await Promise.all([getProfileForSite({ actor, id: cycle.profileId }), getSiteById({ id: cycle.siteId })]);
+  if (!profile || !site) throw new AppError(409, "This cycle's acceptance profile or site is missing, so it cannot be analysed again.");
+  const stored = file ? undefined : await getAnalysedFile({ analysisId: cycle.currentAnalysisId ?? "" });
+  if (!file && !stored) throw new AppError(409, "This cycle has no logger file to analyse again; upload one.");
+  const bytes = file ? file.bytes : new Uint8Array(stored!.bytes);
+  let analysis: FileAnalysis;
+  try {
+    analysis = analyzeLoggerBytes(bytes, profile, mapping ?? {}, siteAtmosphereKpa(site));
+  } catch (error) {
+    if (error instanceof LoggerFileError || error instanceof AnalysisError) throw new AppError(422, `${file?.name ?? "The stored file"}: ${error.message}`, "file");
+    throw error;
+  }
+  await insertCorrection({
+    cycleId: id,
+    file: file
+      ? { name: file.name, sizeBytes: bytes.byteLength, sha256: analysis.sha256, contentType: file.contentType || "text/csv", bytes: Buffer.from(bytes), dialect: analysis.dialect, mapping: analysis.mapping, uploadedBy: actor.id }
+      : { existingId: stored!.fileId },
+    analysis: analysisRow(analysis, actor),
+    audit: (analysisId) => ({
+      actorId: actor.id,
+      actorEmail: actor.email,
+      siteId: cycle.siteId,
+      action: "cycle.reanalyse",
+      entityType: "cycle",
+      entityId: id,
+      oldValue: { analysis: cycle.currentAnalysisId, verdict: cycle.verdict },
+      newValue: { analysis: analysisId, verdict: analysis.result.verdict, file: file ? { name: file.name, sha256: analysis.sha256 } : null, mapping: mapping ?? null },
+    }),
+    inside: (tx) => notifyFailure(tx, id, analysis.result),
+  });
+  return { id, analysis: analysis.result };
+}
+
+function analysisRow(analysis: FileAnalysis, actor: Actor) {
+  return {
+    engineVersion: analysis.engineVersion,
+    inputHash: analysis.inputHash,
+    limits: analysis.limits,
+    result: analysis.result,
+    verdict: analysis.result.verdict,
+    createdBy: actor.id,
+  };
+}
+
+type Tx = Parameters<typeof enqueueAnalysisFailedMail>[0];
+
+async function notifyFailure(tx: Tx, cycleId: string, result: AnalysisResult, origin?: string) {
+  if (result.verdict !== "fail") return;
+  const failedChecks = result.checks.filter((c) => !c.passed).map((c) => c.label);
+  await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks, origin });
+}
+
+function defaultCycleNumber(serial: string, startedAt: string) {
+  const stamp = normaliseIso(startedAt).slice(0, 16).replace(/[-:T]/g, "");
+  return `${serial}-${stamp}`;
+}
+
+function normaliseIso(value: string): string {
+  const d = new Date(value);
+  return Number.isNaN(d.getTime()) ? value : d.toISOString();
+}
