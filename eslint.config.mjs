@@ -38,9 +38,12 @@ function layer(files, { folders = [], packages = [], patterns = [] }) {
   };
 }
 
-const UP = "the layers go app → lib/services → db/queries and the pure cores (see DEVELOPERS.md)";
-const PURE_CORE = `the pure cores (lib/steam, lib/logger-files, lib/analysis) take arrays and values and give figures: no database, services, UI, framework or server-only code; ${UP}`;
-const UI_ONLY = `components/ is UI only and may reach the browser: take data as props and labels from lib/domain; ${UP}`;
+const LAYERS = "(layers: app → lib/services → db/queries and the pure cores; see DEVELOPERS.md)";
+const PURE_CORE = `The pure cores (lib/steam, lib/logger-files, lib/analysis) take values and give figures: no database, services, UI, framework or server-only code ${LAYERS}.`;
+const ui = (hint) => `components/ is UI only and may reach the browser: ${hint} ${LAYERS}.`;
+const UI_ONLY = ui("take data as props and labels from lib/domain");
+const PAGE_GUARD = ui("the page guards with requirePageActor and passes the actor down");
+const sqlOnly = (hint) => `db/queries holds SQL only (one query or one transaction)${hint ? `: ${hint}` : ""} ${LAYERS}.`;
 
 export default defineConfig([
   globalIgnores([".next/**", "node_modules/**", "data/**", "coverage/**", "test-results/**", "playwright-report/**", "bench-output/**", "tmp/**", "next-env.d.ts", "db/migrations/**"]),
@@ -84,41 +87,41 @@ export default defineConfig([
     folders: [
       ["db", UI_ONLY],
       ["lib/services", UI_ONLY],
-      ["lib/auth/guards", `${UI_ONLY} (pages guard with requirePageActor and pass the actor down)`],
-      ["lib/auth/page-guard", `${UI_ONLY} (pages guard with requirePageActor and pass the actor down)`],
+      ["lib/auth/guards", PAGE_GUARD],
+      ["lib/auth/page-guard", PAGE_GUARD],
       ["lib/auth/options", UI_ONLY],
       ["lib/auth/password", UI_ONLY],
       ["lib/mail", UI_ONLY],
-      ["lib/env", `${UI_ONLY} (a page reads the setting and passes it as a prop)`],
+      ["lib/env", ui("the page reads the setting and passes it as a prop")],
     ],
     packages: [["server-only", UI_ONLY]],
     patterns: [
       // The PDF report (react-pdf) is server code; its scale module is plain tick and path arithmetic shared with the web chart.
-      { regex: "^(?:@\\/|(?:\\.\\.\\/)+)(?:lib\\/)?reports(?:\\/(?!scale$)|$)", message: `${UI_ONLY} (the PDF report is rendered on the server)` },
+      { regex: "^(?:@\\/|(?:\\.\\.\\/)+)(?:lib\\/)?reports(?:\\/(?!scale$)|$)", message: ui("the PDF report is rendered on the server") },
     ],
   }),
 
   layer(["app/**"], {
-    folders: [["db", `pages, route handlers and actions parse the input, get the actor and call one lib/services function; ${UP}`]],
+    folders: [["db", `Pages, route handlers and actions parse the input, get the actor and call one lib/services function ${LAYERS}.`]],
   }),
 
   layer(["db/queries/**"], {
     folders: [
-      ["lib/services", `db/queries holds SQL only (one query or one transaction); the workflow belongs in lib/services; ${UP}`],
-      ["components", `db/queries holds SQL only; ${UP}`],
-      ["app", `db/queries holds SQL only; ${UP}`],
-      ["lib/reports", `db/queries holds SQL only: PDF rendering belongs in lib/services; ${UP}`],
-      ["lib/mail", `db/queries holds SQL only: mail belongs in lib/services (the outbox row itself is SQL); ${UP}`],
-      ["lib/auth/password", `db/queries holds SQL only: password hashing belongs in lib/services; ${UP}`],
-      ["lib/logger-files", `db/queries holds SQL only: parsing logger files belongs in lib/services; ${UP}`],
-      ["lib/analysis", `db/queries holds SQL only: analysing belongs in lib/services; ${UP}`],
+      ["lib/services", sqlOnly("the workflow belongs in lib/services")],
+      ["components", sqlOnly()],
+      ["app", sqlOnly()],
+      ["lib/reports", sqlOnly("rendering the PDF belongs in lib/services")],
+      ["lib/mail", sqlOnly("mail belongs in lib/services (writing the outbox row is SQL)")],
+      ["lib/auth/password", sqlOnly("password hashing belongs in lib/services")],
+      ["lib/logger-files", sqlOnly("reading logger files belongs in lib/services")],
+      ["lib/analysis", sqlOnly("analysing belongs in lib/services")],
     ],
   }),
 
   layer(["lib/services/**"], {
     folders: [
-      ["components", `lib/services is server-only workflow code and returns data, not UI; ${UP}`],
-      ["app", `lib/services is called by app/, never the reverse; ${UP}`],
+      ["components", `lib/services is server-only workflow code and returns data, not UI ${LAYERS}.`],
+      ["app", `lib/services is called by app/, never the reverse ${LAYERS}.`],
     ],
   }),
 ]);
