@@ -1,6 +1,7 @@
 import { defineConfig } from "@playwright/test";
+import { env } from "./lib/env";
 
-const port = Number(process.env.PAPIN_E2E_PORT ?? 3111);
+const { PAPIN_E2E_PORT: port, PAPIN_CHROMIUM, CI } = env();
 export const baseURL = `http://127.0.0.1:${port}`;
 
 // The browser tests run the production build on a fresh demo database of their own.
@@ -10,7 +11,7 @@ export default defineConfig({
   expect: { timeout: 10_000 },
   fullyParallel: false,
   workers: 1,
-  retries: process.env.CI ? 1 : 0,
+  retries: CI ? 1 : 0,
   reporter: [["list"]],
   outputDir: "test-results",
   use: {
@@ -19,7 +20,7 @@ export default defineConfig({
     headless: true,
     screenshot: "only-on-failure",
     launchOptions: {
-      executablePath: process.env.PAPIN_CHROMIUM ?? "/usr/bin/chromium",
+      executablePath: PAPIN_CHROMIUM,
       args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
     },
   },

@@ -1,5 +1,6 @@
 import { getToken } from "next-auth/jwt";
 import { NextResponse, type NextRequest } from "next/server";
+import { env } from "@/lib/env";
 
 // Convenience only: sends anonymous visitors of portal pages to sign-in. Every page, route
 // handler and server action still checks the session and the role on the server itself.
@@ -8,7 +9,7 @@ const PUBLIC_PREFIXES = ["/sign-in", "/safety", "/api", "/_next", "/favicon"];
 export async function proxy(request: NextRequest) {
   const { pathname, search } = request.nextUrl;
   if (PUBLIC_PREFIXES.some((p) => pathname.startsWith(p))) return NextResponse.next();
-  const secret = process.env.NEXTAUTH_SECRET;
+  const secret = env().NEXTAUTH_SECRET;
   // Without an environment secret (development) the token cannot be read here; the layout redirects.
   if (!secret) return NextResponse.next();
   const token = await getToken({ req: request, secret });

@@ -1,34 +1,85 @@
 import { z } from "zod";
 
-// Validated once, at first use, so a wrong variable fails loudly with its name.
+/*
+ * The one place that reads the environment (the linter refuses `process.env` elsewhere outside tests).
+ * Every variable Papin, its tools and its tests read is declared here and listed in README's configuration table.
+ * Imported by the portal (Node.js runtime, proxy.ts included), by scripts run under tsx and by the Playwright config,
+ * so it imports nothing but zod.
+ */
+const port = (fallback: number) => z.coerce.number().int().min(0).max(65535).default(fallback);
+
 const schema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+
+  // The database: an embedded SQLite file, or a libSQL server with its token.
   DATABASE_URL: z.string().min(1).default("file:data/papin.db"),
   DATABASE_AUTH_TOKEN: z.string().optional(),
+
+  // Sessions: the signing secret (required in production) and the public URL when the portal sits behind a proxy.
   NEXTAUTH_SECRET: z.string().min(16, "NEXTAUTH_SECRET must be at least 16 characters").optional(),
+  NEXTAUTH_URL: z.string().url("NEXTAUTH_URL must be a URL such as https://papin.example.org").optional(),
+  /** Port of `npm run dev` (and of `npm start`, which reads it in package.json's script). */
+  PORT: port(3000),
+
   PAPIN_DEMO: z.enum(["0", "1"]).default("1"),
   PAPIN_DEMO_PASSWORD: z.string().min(8).default("papin-demo"),
+  PAPIN_UPLOAD_LIMIT_MB: z.coerce.number().positive().max(500).default(50),
+
+  // Outgoing mail through the Resend SDK; with neither a key nor a base URL, mail waits in the outbox.
   RESEND_API_KEY: z.string().optional(),
   RESEND_BASE_URL: z.string().url().optional(),
   PAPIN_MAIL_FROM: z.string().default("Papin <papin@papin.example>"),
-  PAPIN_UPLOAD_LIMIT_MB: z.coerce.number().positive().max(500).default(50),
+
+  // The local fake of Resend's HTTP API (`npm run mail:fake`, started by `npm run dev`); its --options win over these.
+  FAKE_RESEND_PORT: port(3025),
+  FAKE_RESEND_HOST: z.string().default("127.0.0.1"),
+  FAKE_RESEND_MAILBOX: z.string().default("data/fake-mailbox.jsonl"),
+  FAKE_RESEND_API_KEY: z.string().optional(),
+  FAKE_RESEND_FAIL_TIMES: z.coerce.number().int().min(0).default(0),
+
+  /**
+   * The analyze command writes its peak memory and CPU time to this file on exit (`npm run bench` sets it).
+   * Declared here for the record; the command reads it itself, since loading zod would double its start-up time.
+   */
+  PAPIN_RESOURCE_REPORT: z.string().optional(),
+
+  // Browser tests (playwright.config.ts): the port of the production server they start, Debian's chromium, CI retries.
+  PAPIN_E2E_PORT: port(3111),
+  PAPIN_CHROMIUM: z.string().default("/usr/bin/chromium"),
+  CI: z.string().optional(),
 });
 
 export type Env = z.infer<typeof schema>;
 
-let cached: Env | undefined;
-
+/**
+ * The validated configuration; a wrong variable fails loudly with its name. Read afresh at each call (a few
+ * microseconds), so a variable changed while the process runs — by a test, or by `npm run dev` for the mail
+ * fake — is honoured, as the Resend SDK itself reads RESEND_BASE_URL when a client is made. An empty variable
+ * counts as unset.
+ */
 export function env(): Env {
-  if (cached) return cached;
-  const parsed = schema.safeParse(process.env);
+  const raw = Object.fromEntries(Object.keys(schema.shape).map((name) => [name, process.env[name] || undefined]));
+  const parsed = schema.safeParse(raw);
   if (!parsed.success) {
     const problems = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ");
     throw new Error(`Papin's configuration is invalid: ${problems}`);
   }
-  cached = parsed.data;
-  return cached;
+  return parsed.data;
 }
 
 export function demoEnabled(): boolean {
   return env().PAPIN_DEMO !== "0";
+}
+
+/** This process's environment, copied for a child process (`npm run dev` passes it to the mail fake and next dev). */
+export function environmentForChildProcess(): NodeJS.ProcessEnv {
+  return { ...process.env };
+}
+
+/**
+ * next-auth builds its own links from the request's Host header only when AUTH_TRUST_HOST is set. A self-hosted
+ * portal is reached under whatever host the site gives it, so that is trusted unless NEXTAUTH_URL pins the origin.
+ */
+export function trustRequestHostUnlessUrlPinned(): void {
+  if (!process.env.NEXTAUTH_URL) process.env.AUTH_TRUST_HOST ??= "1";
 }

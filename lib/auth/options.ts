@@ -6,9 +6,9 @@ import { recordAuditEvent } from "@/db/queries/audit";
 import { randomUUID } from "node:crypto";
 import { hashPassword, verifyPassword } from "./password";
 import { sessionSecret } from "./secret";
+import { trustRequestHostUnlessUrlPinned } from "@/lib/env";
 
-// A self-hosted portal is reached under whatever host the site gives it; NEXTAUTH_URL pins it.
-if (!process.env.NEXTAUTH_URL) process.env.AUTH_TRUST_HOST ??= "1";
+trustRequestHostUnlessUrlPinned();
 
 const credentialsSchema = z.object({
   email: z.string().trim().email(),

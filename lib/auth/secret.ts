@@ -1,15 +1,16 @@
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import { randomBytes } from "node:crypto";
 import path from "node:path";
+import { env } from "@/lib/env";
 
 /**
  * Production needs NEXTAUTH_SECRET from the environment. In development a secret is made on
  * first run and kept in data/, so the quick start needs no configuration.
  */
 export function sessionSecret(): string {
-  const fromEnv = process.env.NEXTAUTH_SECRET;
+  const { NEXTAUTH_SECRET: fromEnv, NODE_ENV } = env();
   if (fromEnv && fromEnv.length >= 16) return fromEnv;
-  if (process.env.NODE_ENV === "production") {
+  if (NODE_ENV === "production") {
     throw new Error("NEXTAUTH_SECRET is not set: a production server needs a secret of at least 16 characters.");
   }
   const file = path.resolve("data", ".session-secret");

@@ -5,25 +5,28 @@
  */
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import path from "node:path";
+import { env, environmentForChildProcess } from "../env";
 
 const root = path.resolve(import.meta.dirname, "../..");
 const tsx = path.join(root, "node_modules/tsx/dist/cli.mjs");
 const next = path.join(root, "node_modules/next/dist/bin/next");
-const port = process.env.PORT ?? "3000";
-const fakePort = process.env.FAKE_RESEND_PORT ?? "3025";
 const children: ChildProcess[] = [];
 
 const prepared = spawnSync(process.execPath, [tsx, "--tsconfig", "db/tsconfig.scripts.json", "db/prepare.ts"], { cwd: root, stdio: "inherit" });
 if (prepared.status !== 0) process.exit(prepared.status ?? 1);
 
-const env = { ...process.env };
-if (!env.RESEND_API_KEY && !env.RESEND_BASE_URL) {
-  env.RESEND_BASE_URL = `http://127.0.0.1:${fakePort}`;
-  env.FAKE_RESEND_MAILBOX ??= path.join(root, "data", "fake-mailbox.jsonl");
-  children.push(spawn(process.execPath, [tsx, "lib/mail/fake-resend-server.ts", "--port", fakePort], { cwd: root, env, stdio: "inherit" }));
-  console.log(`Local mail fake on ${env.RESEND_BASE_URL}; read what Papin sends under Users → Mail.`);
+// Validated by db/prepare.ts above, which names a wrong variable in one line.
+const config = env();
+const port = String(config.PORT);
+const fakePort = String(config.FAKE_RESEND_PORT);
+const childEnv = environmentForChildProcess();
+if (!config.RESEND_API_KEY && !config.RESEND_BASE_URL) {
+  childEnv.RESEND_BASE_URL = `http://127.0.0.1:${fakePort}`;
+  childEnv.FAKE_RESEND_MAILBOX ??= path.join(root, "data", "fake-mailbox.jsonl");
+  children.push(spawn(process.execPath, [tsx, "lib/mail/fake-resend-server.ts", "--port", fakePort], { cwd: root, env: childEnv, stdio: "inherit" }));
+  console.log(`Local mail fake on ${childEnv.RESEND_BASE_URL}; read what Papin sends under Users → Mail.`);
 }
-children.push(spawn(process.execPath, [next, "dev", "-H", "127.0.0.1", "-p", port], { cwd: root, env, stdio: "inherit" }));
+children.push(spawn(process.execPath, [next, "dev", "-H", "127.0.0.1", "-p", port], { cwd: root, env: childEnv, stdio: "inherit" }));
 
 const stop = () => {
   for (const child of children) child.kill("SIGTERM");

@@ -2,13 +2,13 @@ import "server-only";
 import { Resend } from "resend";
 import { claimDueMail, getNextMailAttemptAt, markMailAttemptFailed, markMailSent } from "@/db/queries/mail";
 import type { OutboxMail } from "@/db/schema";
+import { env } from "@/lib/env";
 
 /** After this many failed attempts a mail is marked failed and waits for an administrator. */
 export const MAX_MAIL_ATTEMPTS = 8;
 /** How long a sender may hold a claimed mail before another sender may take it. */
 const LEASE_MS = 2 * 60_000;
 const MAX_DELAY_MS = 2 * 60 * 60_000;
-const DEFAULT_FROM = "Papin <papin@papin.example>";
 
 /** Wait before the next try after `attempts` failures: 1, 2, 4, 8 … minutes, at most 2 hours. */
 export function retryDelayMs(attempts: number): number {
@@ -17,18 +17,14 @@ export function retryDelayMs(attempts: number): number {
 
 export type MailTransport = { configured: boolean; apiKey: string; baseUrl?: string; from: string };
 
-/**
- * Read at each delivery rather than once through lib/env, so a changed RESEND_BASE_URL (a test,
- * a restarted fake) is honoured, just as the SDK reads it when a client is constructed.
- */
+/** Read at each delivery, so a changed RESEND_BASE_URL (a test, a restarted fake) is honoured. */
 export function mailTransport(): MailTransport {
-  const apiKey = process.env.RESEND_API_KEY || undefined;
-  const baseUrl = process.env.RESEND_BASE_URL || undefined;
+  const { RESEND_API_KEY: apiKey, RESEND_BASE_URL: baseUrl, PAPIN_MAIL_FROM: from } = env();
   return {
     configured: Boolean(apiKey || baseUrl),
     apiKey: apiKey ?? "re_dev_fake",
     baseUrl,
-    from: process.env.PAPIN_MAIL_FROM || DEFAULT_FROM,
+    from,
   };
 }
 

@@ -14,6 +14,7 @@ import { appendFileSync, existsSync, mkdirSync, readFileSync, writeFileSync } fr
 import { createServer, type IncomingMessage, type ServerResponse } from "node:http";
 import type { AddressInfo } from "node:net";
 import path from "node:path";
+import { env } from "../env";
 import { FAKE_RESEND_SERVICE, type FakeEmail } from "./fake-resend-protocol";
 
 export { FAKE_RESEND_SERVICE, type FakeEmail };
@@ -360,10 +361,11 @@ function argument(args: string[], name: string): string | undefined {
 
 async function main() {
   const args = process.argv.slice(2);
-  const port = Number(argument(args, "port") ?? process.env.FAKE_RESEND_PORT ?? "3025");
-  const mailboxFile = argument(args, "mailbox") ?? process.env.FAKE_RESEND_MAILBOX ?? "data/fake-mailbox.jsonl";
-  const failTimes = Number(argument(args, "fail-times") ?? process.env.FAKE_RESEND_FAIL_TIMES ?? "0");
-  const host = argument(args, "host") ?? process.env.FAKE_RESEND_HOST ?? "127.0.0.1";
+  const config = env();
+  const port = Number(argument(args, "port") ?? config.FAKE_RESEND_PORT);
+  const mailboxFile = argument(args, "mailbox") ?? config.FAKE_RESEND_MAILBOX;
+  const failTimes = Number(argument(args, "fail-times") ?? config.FAKE_RESEND_FAIL_TIMES);
+  const host = argument(args, "host") ?? config.FAKE_RESEND_HOST;
   if (!Number.isInteger(port) || port < 0 || port > 65535) {
     console.error(`[fake-resend] --port must be a port number, not "${argument(args, "port")}".`);
     process.exit(2);
@@ -373,7 +375,7 @@ async function main() {
     process.exit(2);
   }
   try {
-    const fake = await startFakeResend({ port, host, mailboxFile, failTimes, apiKey: process.env.FAKE_RESEND_API_KEY });
+    const fake = await startFakeResend({ port, host, mailboxFile, failTimes, apiKey: config.FAKE_RESEND_API_KEY });
     console.log(`[fake-resend] listening on ${fake.url} (mailbox ${path.resolve(mailboxFile)}); set RESEND_BASE_URL=${fake.url}`);
     const stop = () => void fake.close().finally(() => process.exit(0));
     process.on("SIGINT", stop);
@@ -386,4 +388,9 @@ async function main() {
 }
 
 // Runs only as `tsx lib/mail/fake-resend-server.ts`, not when imported by tests or the portal.
-if (process.argv[1] && /fake-resend-server\.[cm]?[jt]s$/.test(process.argv[1])) void main();
+if (process.argv[1] && /fake-resend-server\.[cm]?[jt]s$/.test(process.argv[1])) {
+  main().catch((error: unknown) => {
+    console.error(`[fake-resend] could not start: ${(error as Error).message}`);
+    process.exit(1);
+  });
+}

@@ -2,6 +2,7 @@
  * Papin's notification e-mails: a subject, an HTML body and a plain-text body, each with a link
  * to the record and the short safety reminder. Pure: values in, strings out.
  */
+import { env } from "@/lib/env";
 import { SAFETY_SHORT } from "@/lib/safety";
 
 export type MailContent = { subject: string; html: string; text: string };
@@ -29,7 +30,7 @@ function oneLine(value: string | number): string {
  * origin), else NEXTAUTH_URL, else the development default.
  */
 export function portalOrigin(origin?: string | null): string {
-  const base = origin || process.env.NEXTAUTH_URL || "http://localhost:3000";
+  const base = origin || env().NEXTAUTH_URL || "http://localhost:3000";
   return base.replace(/\/+$/, "");
 }
 
