@@ -57,11 +57,19 @@ export function pickExtremes(timesS: ArrayLike<number>, series: ReadonlyArray<Re
 function pickBucket(values: Readings, from: number, to: number, out: Int32Array, at: number): void {
   let minIndex = -1;
   let maxIndex = -1;
+  let min = Infinity;
+  let max = -Infinity;
   for (let i = from; i < to; i++) {
-    const v = values[i];
-    if (v === null || v === undefined || !Number.isFinite(v)) continue;
-    if (minIndex < 0 || v < (values[minIndex] as number)) minIndex = i;
-    if (maxIndex < 0 || v > (values[maxIndex] as number)) maxIndex = i;
+    const v = values[i] as number;
+    if (!Number.isFinite(v)) continue; // null, undefined and NaN included
+    if (v < min) {
+      minIndex = i;
+      min = v;
+    }
+    if (v > max) {
+      maxIndex = i;
+      max = v;
+    }
   }
   const firstIsMin = minIndex <= maxIndex;
   out[at] = firstIsMin ? minIndex : maxIndex;
@@ -74,8 +82,15 @@ export function downsampleSeries(timesS: Float64Array, series: Float64Array[], m
   if (!buckets) {
     return { timesS: Array.from(timesS.subarray(begin, end)), series: series.map((s) => Array.from(s.subarray(begin, end))) };
   }
-  return {
-    timesS: Array.from(buckets.timeIndexes, (i) => timesS[i]),
-    series: series.map((s, k) => Array.from(buckets.valueIndexes[k], (i) => (i < 0 ? NaN : s[i]))),
-  };
+  return { timesS: takeAt(timesS, buckets.timeIndexes, NaN), series: series.map((s, k) => takeAt(s, buckets.valueIndexes[k], NaN)) };
+}
+
+/** The readings at the picked indexes, `gap` where none was picked (−1). */
+export function takeAt<T extends number | null>(values: ArrayLike<number | null | undefined>, indexes: Int32Array, gap: T): Array<number | T> {
+  const out = new Array<number | T>(indexes.length);
+  for (let j = 0; j < indexes.length; j++) {
+    const i = indexes[j];
+    out[j] = i < 0 ? gap : (values[i] as number);
+  }
+  return out;
 }

@@ -1,4 +1,4 @@
-import { pickExtremes } from "@/lib/analysis/downsample";
+import { pickExtremes, takeAt } from "@/lib/analysis/downsample";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
 
 /**
@@ -22,8 +22,8 @@ export function downsampleForReport(series: SeriesResponse, maxPoints: number, f
   }
   return {
     ...series,
-    timesS: Array.from(buckets.timeIndexes, (i) => times[i]),
-    channels: series.channels.map((c, k) => ({ ...c, values: Array.from(buckets.valueIndexes[k], (i) => (i < 0 ? null : c.values[i])) })),
+    timesS: takeAt(times, buckets.timeIndexes, null) as number[],
+    channels: series.channels.map((c, k) => ({ ...c, values: takeAt(c.values, buckets.valueIndexes[k], null) })),
     window,
     fullResolution: false,
   };
