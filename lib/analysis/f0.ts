@@ -17,3 +17,8 @@ export function lethalityMinutes(timesS: ArrayLike<number>, temperaturesC: Array
 export function lethalRate(temperatureC: number, referenceC = 121.1, zK = 10): number {
   return Math.pow(10, (temperatureC - referenceC) / zK);
 }
+
+/** Each temperature channel's F(Tref, z) over the whole record, minutes, in channel order. */
+export function channelLethalities(temperatures: ReadonlyArray<{ values: ArrayLike<number> }>, timesS: ArrayLike<number>, referenceC: number, zK: number): number[] {
+  return temperatures.map((c) => lethalityMinutes(timesS, c.values, referenceC, zK));
+}

@@ -179,6 +179,16 @@ function readBytes(file: string): Uint8Array {
   return new Uint8Array(buffer.buffer, buffer.byteOffset, buffer.byteLength);
 }
 
+export type AnalyzeRun = { exitCode: number; stdout: string; stderr: string };
+
+/** The analyze command in process: argv in, what it would print and its exit code out (the tests call this). */
+export function analyzeCommand(argv: string[]): AnalyzeRun {
+  let stdout = "";
+  let stderr = "";
+  const exitCode = runAnalyze(argv, { out: (text) => (stdout += text), err: (line) => (stderr += line + "\n") });
+  return { exitCode, stdout, stderr };
+}
+
 /** Runs the analyze command; returns the exit code, writing output through the given functions. */
 export function runAnalyze(argv: string[], io: { out: (text: string) => void; err: (line: string) => void }): number {
   try {

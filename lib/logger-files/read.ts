@@ -1,5 +1,5 @@
 import Papa from "papaparse";
-import { kpaPerUnit, type PressureUnit, type TemperatureUnit } from "../steam";
+import { rowError, toAbsoluteKpaChannel, toCelsiusChannel, toElapsedSeconds, type RowSource } from "./convert";
 import { LoggerFileError } from "./errors";
 import { planColumns, type ColumnPlan } from "./mapping";
 import { DECIMAL_CODES, parseDecimal } from "./numbers";
@@ -127,7 +127,7 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
   const fieldEnds = new Int32Array(width + 1);
 
   const failRow = (lineIndex: number, message: string): never => {
-    throw new LoggerFileError(`Row ${lineIndex + 1}${message.startsWith("column") ? ", " : " "}${message}`);
+    throw rowError(lineIndex, message);
   };
   let footerFrom = -1;
 
@@ -250,34 +250,11 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
     throw new LoggerFileError(`The file has only ${rowCount} data row${rowCount === 1 ? "" : "s"}; at least ${MIN_DATA_ROWS} are needed to analyse a cycle`);
   }
 
-  // Time: seconds since the first sample, never backwards.
+  const source: RowSource = { sourceLine, cellAt: (lineIndex, field) => cellOf(prepared, layout, lineIndex, field) };
   const rawTimes = sink.times.subarray(0, rowCount);
-  const timesS = new Float64Array(rowCount);
   const timeHeader = headers[plan.timeIndex];
-  let dayOffset = 0;
-  let rollovers = 0;
-  let repeats = 0;
-  const first = rawTimes[0] * (elapsed ? plan.elapsedScale : 1);
-  let previous = 0;
-  const scale = elapsed ? plan.elapsedScale : 1;
-  for (let n = 0; n < rowCount; n++) {
-    let t = rawTimes[n] * scale - first + dayOffset;
-    if (t < previous) {
-      if (timeFormat === "clock" && previous - t > 43200) {
-        dayOffset += 86400;
-        t += 86400;
-        rollovers++;
-      } else {
-        const here = cellOf(prepared, layout, sourceLine[n], plan.timeIndex);
-        const before = cellOf(prepared, layout, sourceLine[n - 1], plan.timeIndex);
-        failRow(sourceLine[n], `column "${timeHeader}": time goes backwards ("${here}" comes after "${before}" on row ${sourceLine[n - 1] + 1})`);
-      }
-    } else if (n > 0 && t === previous) {
-      repeats++;
-    }
-    timesS[n] = t;
-    previous = t;
-  }
+  const time = { header: timeHeader, field: plan.timeIndex };
+  const { timesS, rollovers, repeats } = toElapsedSeconds(rawTimes, elapsed ? plan.elapsedScale : 1, timeFormat, time, source);
   if (rollovers > 0) warnings.push(`The clock times pass midnight ${rollovers} time(s); a day was added at each`);
   if (repeats > 0) warnings.push(`${repeats} row(s) repeat the time of the row before`);
   if (timesS[rowCount - 1] === 0) throw new LoggerFileError(`Column "${timeHeader}": every row has the same time, so the record spans no time`);
@@ -288,35 +265,9 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
   }
 
   // Units: temperatures to °C, pressure to kPa absolute.
-  const columnsByIndex = plan.columns;
-  const temperatures = plan.temperatureIndexes.map((index, k) => {
-    const raw = sink.channels[k];
-    const unit = columnsByIndex[index].unit as TemperatureUnit;
-    const out = raw.length === rowCount ? raw : raw.slice(0, rowCount);
-    if (unit === "F") for (let n = 0; n < rowCount; n++) out[n] = ((out[n] - 32) * 5) / 9;
-    else if (unit === "K") for (let n = 0; n < rowCount; n++) out[n] = out[n] - 273.15;
-    for (let n = 0; n < rowCount; n++) {
-      if (out[n] < -273.15) {
-        failRow(sourceLine[n], `column "${headers[index]}": "${cellOf(prepared, layout, sourceLine[n], index)}" is below absolute zero in ${unit === "C" ? "°C" : unit === "F" ? "°F" : "K"}`);
-      }
-    }
-    return { header: headers[index], values: out };
-  });
-  const pressureColumn = columnsByIndex[plan.pressureIndex];
-  const pressureRaw = sink.channels[pressureSlot - 1];
-  const pressureValues = pressureRaw.length === rowCount ? pressureRaw : pressureRaw.slice(0, rowCount);
-  const pressureScale = kpaPerUnit(pressureColumn.unit as PressureUnit);
-  const pressureOffset = pressureColumn.gauge ? plan.atmosphereKpa : 0;
-  for (let n = 0; n < rowCount; n++) {
-    const kpa = pressureValues[n] * pressureScale + pressureOffset;
-    if (kpa < 0) {
-      failRow(
-        sourceLine[n],
-        `column "${pressureColumn.header}": "${cellOf(prepared, layout, sourceLine[n], plan.pressureIndex)}" ${pressureColumn.unit}${pressureColumn.gauge ? " gauge" : ""} is a negative absolute pressure; check the unit and the gauge/absolute setting`,
-      );
-    }
-    pressureValues[n] = kpa;
-  }
+  const temperatures = plan.temperatureIndexes.map((index, k) => toCelsiusChannel(sink.channels[k], rowCount, plan.columns[index], source));
+  const pressureColumn = plan.columns[plan.pressureIndex];
+  const pressureValues = toAbsoluteKpaChannel(sink.channels[pressureSlot - 1], rowCount, pressureColumn, plan.atmosphereKpa, source);
 
   const recording: Recording = {
     startedAt,

@@ -3,6 +3,7 @@ import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { analyzeCommand } from "@/lib/cli/run-analyze";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const LAUNCHER = path.join(ROOT, "lib/cli/launch.mjs");
@@ -10,8 +11,14 @@ const FIXTURES = path.join(ROOT, "tests/fixtures/logger-files");
 
 type Run = { code: number; stdout: string; stderr: string };
 
+/** Runs the analyze command in this process: the same function the command runs, the same output. */
+function analyze(args: string[]): Run {
+  const run = analyzeCommand(args);
+  return { code: run.exitCode, stdout: run.stdout, stderr: run.stderr };
+}
+
 /** Runs the analyze command as `npm run analyze` does (node lib/cli/launch.mjs analyze), as a separate process. */
-function analyze(args: string[]): Promise<Run> {
+function spawnAnalyze(args: string[]): Promise<Run> {
   return new Promise((resolve) => {
     execFile(process.execPath, [LAUNCHER, "analyze", ...args], { cwd: ROOT, maxBuffer: 32 * 1024 * 1024 }, (error, stdout, stderr) => {
       const code = error ? (typeof error.code === "number" ? error.code : 1) : 0;
@@ -32,12 +39,12 @@ function expectOneLineError(run: Run, pattern: RegExp | string): void {
 }
 
 const fixture = (name: string) => path.join(FIXTURES, name);
-// Each test starts the command as its own process; several at once on a two-core machine take a while.
+// A spawned command bundles itself first when lib/ changed; several at once on a two-core machine take a while.
 const SPAWN_TIMEOUT_MS = 90_000;
 
 describe("the analyze command on hand-made logger files", () => {
-  it.concurrent("Windows-1252, semicolons, decimal commas, day.month.year, bar abs: a passing 134 °C cycle", async () => {
-    const run = await analyze([fixture("cp1252-semicolon-dmy-pass.csv"), "--sterilization-temp", "134", "--holding-time", "180"]);
+  it("Windows-1252, semicolons, decimal commas, day.month.year, bar abs: a passing 134 °C cycle", () => {
+    const run = analyze([fixture("cp1252-semicolon-dmy-pass.csv"), "--sterilization-temp", "134", "--holding-time", "180"]);
     expect(run.stderr).toBe("");
     expect(run.code).toBe(0);
     const result = JSON.parse(run.stdout);
@@ -51,10 +58,10 @@ describe("the analyze command on hand-made logger files", () => {
     expect(result.referenceChannel).toBe("Drain (°C)");
     expect(result.input.dialect).toMatchObject({ encoding: "windows-1252", delimiter: ";", decimal: ",", lineEnding: "crlf", preambleLines: 4, timeFormat: "dmy" });
     for (const c of result.checks) expect(c).toMatchObject({ id: expect.any(String), passed: true, measured: expect.any(Number), limit: expect.any(Number) });
-  }, SPAWN_TIMEOUT_MS);
+  });
 
-  it.concurrent("tabs, month/day/year AM/PM, °F, psig: air during the hold of a 121 °C cycle", async () => {
-    const run = await analyze([fixture("tab-mdy-ampm-fahrenheit-psig-air.txt"), "--sterilization-temp", "121", "--holding-time", "900"]);
+  it("tabs, month/day/year AM/PM, °F, psig: air during the hold of a 121 °C cycle", () => {
+    const run = analyze([fixture("tab-mdy-ampm-fahrenheit-psig-air.txt"), "--sterilization-temp", "121", "--holding-time", "900"]);
     expect(run.code).toBe(0);
     const result = JSON.parse(run.stdout);
     expect(result.verdict).toBe("fail");
@@ -65,30 +72,30 @@ describe("the analyze command on hand-made logger files", () => {
     expect(result.checks.filter((c: { passed: boolean }) => !c.passed).map((c: { id: string }) => c.id)).toEqual(["saturation"]);
     expect(result.referenceChannel).toBe("REF drain (°F)");
     expect(result.input.dialect.timeFormat).toBe("mdy-ampm");
-  }, SPAWN_TIMEOUT_MS);
+  });
 
-  it.concurrent("UTF-8 with BOM, ISO with T, degC, bar(a): superheat early in the hold", async () => {
-    const run = await analyze([fixture("bom-iso-t-degc-bar-superheat.csv"), "--sterilization-temp", "134", "--holding-time", "180"]);
+  it("UTF-8 with BOM, ISO with T, degC, bar(a): superheat early in the hold", () => {
+    const run = analyze([fixture("bom-iso-t-degc-bar-superheat.csv"), "--sterilization-temp", "134", "--holding-time", "180"]);
     expect(run.code).toBe(0);
     const result = JSON.parse(run.stdout);
     expect(result.verdict).toBe("fail");
     expect(result.saturation.flags.map((f: { kind: string; start: number; end: number }) => [f.kind, f.start, f.end])).toEqual([["above", 40, 70]]);
     expect(result.saturation.flags[0].worst).toBeCloseTo(2.6, 1);
     expect(result.startedAt ?? result.record.startedAt).toBe("2025-09-09T06:00:00");
-  }, SPAWN_TIMEOUT_MS);
+  });
 
-  it.concurrent("elapsed seconds, kelvin, kPa gauge: a hold too short", async () => {
-    const run = await analyze([fixture("elapsed-kelvin-kpa-gauge-short-hold.csv"), "--sterilization-temp", "134", "--holding-time", "180"]);
+  it("elapsed seconds, kelvin, kPa gauge: a hold too short", () => {
+    const run = analyze([fixture("elapsed-kelvin-kpa-gauge-short-hold.csv"), "--sterilization-temp", "134", "--holding-time", "180"]);
     expect(run.code).toBe(0);
     const result = JSON.parse(run.stdout);
     expect(result.verdict).toBe("fail");
     expect(result.holdingTime).toBe(114);
     expect(result.checks.find((c: { id: string }) => c.id === "holding-time")).toMatchObject({ passed: false, measured: 114, limit: 180 });
     expect(result.saturation.flags).toEqual([]);
-  }, SPAWN_TIMEOUT_MS);
+  });
 
-  it.concurrent("takes the limits and overrides from the flags", async () => {
-    const run = await analyze([
+  it("takes the limits and overrides from the flags", () => {
+    const run = analyze([
       fixture("elapsed-kelvin-kpa-gauge-short-hold.csv"),
       "--sterilization-temp=134",
       "--holding-time", "100",
@@ -105,12 +112,12 @@ describe("the analyze command on hand-made logger files", () => {
     expect(result.referenceChannel).toBe("TC 2 (K)");
     expect(result.limits).toMatchObject({ holdingTimeS: 100, bandK: 4, maxEquilibrationS: 30, maxSpreadK: 2.5, saturationLimitK: 1.5, f0ReferenceC: 121 });
     expect(result.checks.find((c: { id: string }) => c.id === "band").limit).toBe(138);
-  }, SPAWN_TIMEOUT_MS);
+  });
 
-  it.concurrent("refuses a gauge file that it is told to read as absolute: the vacuum pulses would be below zero", async () => {
-    const run = await analyze([fixture("elapsed-kelvin-kpa-gauge-short-hold.csv"), "--sterilization-temp", "134", "--holding-time", "100", "--pressure-unit", "kPa abs"]);
+  it("refuses a gauge file that it is told to read as absolute: the vacuum pulses would be below zero", () => {
+    const run = analyze([fixture("elapsed-kelvin-kpa-gauge-short-hold.csv"), "--sterilization-temp", "134", "--holding-time", "100", "--pressure-unit", "kPa abs"]);
     expectOneLineError(run, /^analyze: Row \d+, column "Chamber \(kPa g\)": "-\d+\.\d+" kPa is a negative absolute pressure; check the unit and the gauge\/absolute setting$/);
-  }, SPAWN_TIMEOUT_MS);
+  });
 });
 
 describe("the analyze command on unusable input", () => {
@@ -129,7 +136,7 @@ describe("the analyze command on unusable input", () => {
   });
   afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-  it.concurrent.each([
+  it.each([
     ["an empty file", () => file("empty.csv", ""), "The file is empty (0 bytes)"],
     ["a header only", () => file("header.csv", header), "The file has a header (line 1) but no data rows below it"],
     ["too few rows", () => file("few.csv", header + row(0) + row(5)), "The file has only 2 data rows; at least 3 are needed to analyse a cycle"],
@@ -145,16 +152,16 @@ describe("the analyze command on unusable input", () => {
     ["a short row", () => file("short.csv", header + row(0) + "2025-03-03 07:30:05,134.1,134.0\n" + row(10)), "Row 3 has 3 comma-separated fields where the header has 4"],
     ["a time cell in another format", () => file("badtime.csv", header + row(0) + "yesterday,134.1,134.0,304.2\n" + row(10)), 'Row 3, column "Time": "yesterday" is not a time written as year-month-day hour:minute:second'],
     ["a missing file", () => path.join(dir, "nowhere.csv"), "Cannot open"],
-  ])("%s", async (_name, make, message) => {
-    expectOneLineError(await analyze([make(), ...limits]), message);
-  }, SPAWN_TIMEOUT_MS);
+  ])("%s", (_name, make, message) => {
+    expectOneLineError(analyze([make(), ...limits]), message);
+  });
 
-  it.concurrent("pressure that no unit setting makes physical during the plateau", async () => {
+  it("pressure that no unit setting makes physical during the plateau", () => {
     const target = file("vacuum.csv", "Time (s),Drain (°C),Pack (°C),Chamber (kPa abs)\n0,134.1,134,0.3\n1,134.2,134.1,0.3\n2,134.2,134.1,0.3\n");
-    expectOneLineError(await analyze([target, ...limits]), /Chamber pressure at 0 s during the plateau: 0\.3 kPa abs is below the triple point/);
-  }, SPAWN_TIMEOUT_MS);
+    expectOneLineError(analyze([target, ...limits]), /Chamber pressure at 0 s during the plateau: 0\.3 kPa abs is below the triple point/);
+  });
 
-  it.concurrent.each([
+  it.each([
     [["--holding-time", "180"], "--sterilization-temp is required"],
     [["--sterilization-temp", "134"], "--holding-time is required"],
     [["--sterilization-temp", "hot", "--holding-time", "180"], '--sterilization-temp needs a number, not "hot"'],
@@ -163,22 +170,46 @@ describe("the analyze command on unusable input", () => {
     [["--sterilization-temp", "134", "--holding-time", "180", "--pressure-unit", "furlongs"], '--pressure-unit "furlongs" is not a pressure unit'],
     [["--sterilization-temp", "134", "--holding-time", "180", "--time-column", "Clock"], 'The time column "Clock" is not a column of this file'],
     [["--sterilization-temp", "134", "--holding-time", "180", "--plateau", "2"], "The record holds 1 plateau; plateau 2 does not exist"],
-  ])("bad flags %j", async (flags, message) => {
-    expectOneLineError(await analyze([fixture("cp1252-semicolon-dmy-pass.csv"), ...flags]), message);
-  }, SPAWN_TIMEOUT_MS);
+  ])("bad flags %j", (flags, message) => {
+    expectOneLineError(analyze([fixture("cp1252-semicolon-dmy-pass.csv"), ...flags]), message);
+  });
 
-  it.concurrent("no file at all", async () => {
-    expectOneLineError(await analyze(limits), "No logger file given");
-  }, SPAWN_TIMEOUT_MS);
+  it("no file at all", () => {
+    expectOneLineError(analyze(limits), "No logger file given");
+  });
 
-  it.concurrent("usage errors exit 2, unusable files exit 1", async () => {
-    expect((await analyze(["--holding-time", "180", fixture("cp1252-semicolon-dmy-pass.csv")])).code).toBe(2);
-    expect((await analyze([path.join(FIXTURES, "does-not-exist.csv"), ...limits])).code).toBe(1);
-  }, SPAWN_TIMEOUT_MS);
+  it("usage errors exit 2, unusable files exit 1", () => {
+    expect((analyze(["--holding-time", "180", fixture("cp1252-semicolon-dmy-pass.csv")])).code).toBe(2);
+    expect((analyze([path.join(FIXTURES, "does-not-exist.csv"), ...limits])).code).toBe(1);
+  });
 
-  it.concurrent("--help prints the usage and exits 0", async () => {
-    const run = await analyze(["--help"]);
+  it("--help prints the usage and exits 0", () => {
+    const run = analyze(["--help"]);
     expect(run.code).toBe(0);
     expect(run.stdout).toMatch(/--sterilization-temp <°C> --holding-time <s>/);
+  });
+});
+
+describe("the analyze command started as npm run analyze starts it", () => {
+  it.concurrent("prints, byte for byte, what it prints in process, and exits 0", async () => {
+    const args = [fixture("tab-mdy-ampm-fahrenheit-psig-air.txt"), "--sterilization-temp", "121", "--holding-time", "900"];
+    const run = await spawnAnalyze(args);
+    expect(run).toEqual(analyze(args));
+    expect(run.code).toBe(0);
+    expect(JSON.parse(run.stdout).verdict).toBe("fail");
+  }, SPAWN_TIMEOUT_MS);
+
+  it.concurrent("exits 1 with one line on stderr for a file it cannot use", async () => {
+    const run = await spawnAnalyze([path.join(FIXTURES, "does-not-exist.csv"), "--sterilization-temp", "134", "--holding-time", "180"]);
+    expect(run.code).toBe(1);
+    expectOneLineError(run, "Cannot open");
+  }, SPAWN_TIMEOUT_MS);
+
+  it.concurrent("exits 2 for a usage error and 0 for --help", async () => {
+    const [usage, help] = await Promise.all([spawnAnalyze(["--holding-time", "180", fixture("cp1252-semicolon-dmy-pass.csv")]), spawnAnalyze(["--help"])]);
+    expect(usage.code).toBe(2);
+    expectOneLineError(usage, "--sterilization-temp is required");
+    expect(help.code).toBe(0);
+    expect(help.stdout).toMatch(/--sterilization-temp <°C> --holding-time <s>/);
   }, SPAWN_TIMEOUT_MS);
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { DEFAULT_LIMITS, analyzeRecording, downsampleSeries, lethalRate, lethalityMinutes } from "@/lib/analysis";
+import { DEFAULT_LIMITS, analyzeRecording, lethalRate, lethalityMinutes } from "@/lib/analysis";
 import type { Recording } from "@/lib/logger-files";
 import { saturationPressureKpa } from "@/lib/steam";
 
@@ -63,48 +63,5 @@ describe("F0", () => {
     expect(result.f0["Pack 1 (°C)"]).toBeCloseTo(3.0, 2);
     const european = analyzeRecording(recording, { ...DEFAULT_LIMITS, sterilizationTempC: 121, holdingTimeS: 60, f0ReferenceC: 121 });
     expect(european.f0["Pack 1 (°C)"]).toBeCloseTo(3 * Math.pow(10, 0.01), 2);
-  });
-});
-
-describe("downsampling for charts", () => {
-  const n = 10_000;
-  const timesS = new Float64Array(n).map((_, i) => i);
-  const smooth = new Float64Array(n).map((_, i) => 100 + Math.sin(i / 500));
-  const spiky = new Float64Array(n).fill(120);
-  spiky[4321] = 140;
-  spiky[7777] = 95;
-
-  it("keeps every sample when the window has no more than maxPoints", () => {
-    const result = downsampleSeries(timesS, [smooth], 20_000);
-    expect(result.timesS).toHaveLength(n);
-    expect(result.series[0][1234]).toBe(smooth[1234]);
-    const window = downsampleSeries(timesS, [smooth], 500, 100, 399);
-    expect(window.timesS).toHaveLength(300);
-    expect(window.timesS[0]).toBe(100);
-    expect(window.timesS[299]).toBe(399);
-  });
-
-  it("never loses a peak or a dip", () => {
-    const result = downsampleSeries(timesS, [spiky, smooth], 200);
-    expect(result.timesS.length).toBeLessThanOrEqual(200);
-    expect(Math.max(...result.series[0])).toBe(140);
-    expect(Math.min(...result.series[0])).toBe(95);
-    expect(Math.max(...result.series[1])).toBeCloseTo(Math.max(...smooth), 12);
-  });
-
-  it("keeps each bucket's extremes in the order they happened, on a rising time axis", () => {
-    const falling = new Float64Array(n).map((_, i) => 1000 - i);
-    const result = downsampleSeries(timesS, [falling], 100);
-    expect(result.series[0][0]).toBe(1000);
-    expect(result.series[0][1]).toBe(801);
-    for (let i = 1; i < result.timesS.length; i++) expect(result.timesS[i]).toBeGreaterThanOrEqual(result.timesS[i - 1]);
-  });
-
-  it("works on a window of a long record", () => {
-    const result = downsampleSeries(timesS, [spiky], 50, 4000, 5000);
-    expect(result.timesS[0]).toBe(4000);
-    expect(result.timesS[result.timesS.length - 1]).toBe(5000);
-    expect(Math.max(...result.series[0])).toBe(140);
-    expect(Math.min(...result.series[0])).toBe(120);
   });
 });
