@@ -1,13 +1,14 @@
 import Link from "next/link";
 import { redirect } from "next/navigation";
 import { currentUser } from "@/lib/auth/guards";
-import { can, ROLE_LABELS } from "@/lib/auth/permissions";
+import { can } from "@/lib/auth/permissions";
 import { NAV_ITEMS } from "@/components/shell/navigation";
 import { NavLinks } from "@/components/shell/nav-links";
 import { SignOutButton } from "@/components/shell/sign-out-button";
 import { SafetyNotice } from "@/components/shell/safety-notice";
 import { PapinMark } from "@/components/ui/papin-mark";
 import { demoEnabled } from "@/lib/env";
+import { ROLE_LABELS } from "@/lib/domain";
 
 export const dynamic = "force-dynamic";
 

@@ -1,6 +1,5 @@
 import Link from "next/link";
 import { requireUser } from "@/lib/auth/guards";
-import { ROLE_DUTIES, ROLE_LABELS } from "@/lib/auth/permissions";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { CycleList } from "@/components/home/cycle-list";
 import { CalibrationsDueList, TestsDueList } from "@/components/home/due-list";
@@ -14,6 +13,7 @@ import {
 } from "@/db/queries/dashboard";
 import { getScheduleOverview } from "@/db/queries/periodic-tests";
 import { getSiteById } from "@/db/queries/sites";
+import { ROLE_DUTIES, ROLE_LABELS } from "@/lib/domain";
 
 export const metadata = { title: "Overview" };
 

@@ -3,18 +3,13 @@
 import { useEffect, useId, useRef, useState, type FormEvent } from "react";
 import { useRouter } from "next/navigation";
 import type { CreateCycleResponse, InspectResponse, MappingOverrides } from "@/lib/cycles/contracts";
-import type { TestKind } from "@/db/schema";
-import {
-  TEST_KIND_LABELS,
-  createCycleFieldsSchema,
-  mappingProblems,
-  type CreateCycleField,
-} from "@/lib/validations/intake";
-import { formatBytes, formatSeconds } from "@/lib/format";
+import { createCycleFieldsSchema, mappingProblems, type CreateCycleField } from "@/lib/validations/intake";
+import { formatBytes } from "@/lib/format";
 import { Panel } from "@/components/ui/panel";
 import { LoggerDropzone } from "./logger-dropzone";
 import { MappingTable, changeColumn, settleReference, type MappedColumn } from "./mapping-table";
 import { sendForm, type SendProgress } from "./send-form";
+import { formatDuration, TEST_KINDS, testKindLabel, type TestKind } from "@/lib/domain";
 
 export type IntakeSterilizer = { id: string; name: string; serialNumber: string; chamberVolumeL: number; defaultProfileId: string | null };
 export type IntakeProfile = { id: string; name: string; sterilizationTempC: number; holdingTimeS: number; bandK: number };
@@ -419,7 +414,7 @@ export function IntakeForm({
             {errorText("profileId")}
             {profile && (
               <p id={`${ids}-profile-hint`} className="mt-1 text-xs text-ink-muted">
-                {profile.sterilizationTempC} °C to {profile.sterilizationTempC + profile.bandK} °C, holding at least {formatSeconds(profile.holdingTimeS)}
+                {profile.sterilizationTempC} °C to {profile.sterilizationTempC + profile.bandK} °C, holding at least {formatDuration(profile.holdingTimeS)}
                 {sterilizers.find((s) => s.id === fields.sterilizerId)?.defaultProfileId === profile.id ? " · the sterilizer's default" : ""}
               </p>
             )}
@@ -474,8 +469,8 @@ export function IntakeForm({
               aria-invalid={Boolean(fieldErrors.testKind)}
               aria-describedby={describedBy("testKind")}
             >
-              {(Object.keys(TEST_KIND_LABELS) as TestKind[]).map((k) => (
-                <option key={k} value={k}>{TEST_KIND_LABELS[k]}</option>
+              {TEST_KINDS.map((k) => (
+                <option key={k} value={k}>{testKindLabel(k)}</option>
               ))}
             </select>
             {errorText("testKind")}

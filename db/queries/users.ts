@@ -5,8 +5,9 @@ import { users, sites, type Role, type User } from "@/db/schema";
 import { appendAuditEvent } from "./audit";
 import { hashPassword } from "@/lib/auth/password";
 import { AppError } from "@/lib/errors";
+import type { Actor } from "@/lib/domain";
 
-export type Actor = { id: string; email: string; siteId: string | null; role: Role; name: string };
+export type { Actor };
 
 export async function getUserByEmail({ email }: { email: string }): Promise<User | undefined> {
   const [row] = await getDb()

@@ -7,9 +7,7 @@ import { SteamRangeError } from "@/lib/steam";
 import { airLeakageSchema, bowieDickSchema, drynessSchema, nonCondensableGasSchema, superheatSchema } from "@/lib/validations/periodic-tests";
 import { recordPeriodicTest } from "@/db/queries/periodic-tests";
 import { evaluateAirLeakage, evaluateBowieDick, evaluateDryness, evaluateNonCondensableGas, evaluateSuperheat } from "@/lib/periodic-tests";
-import { PERIODIC_TEST_LABELS } from "@/lib/format";
-import type { PeriodicTestKind } from "@/db/schema";
-import type { Actor } from "@/db/queries/users";
+import { testKindLabel, type Actor, type PeriodicTestKind } from "@/lib/domain";
 
 /** The server recomputes every result from the raw readings; the preview in the form is only a preview. */
 function compute<T>(field: string | ((message: string) => string), fn: () => T): T {
@@ -34,7 +32,7 @@ async function save(
   revalidatePath("/periodic-tests");
   revalidatePath(`/sterilizers/${input.sterilizerId}`);
   revalidatePath("/");
-  return `${PERIODIC_TEST_LABELS[kind]} for ${saved.sterilizerName} recorded: ${passed ? "PASS" : "FAIL"}.${passed ? "" : " Take the sterilizer out of use until the cause is found and a repeat test passes."}`;
+  return `${testKindLabel(kind)} for ${saved.sterilizerName} recorded: ${passed ? "PASS" : "FAIL"}.${passed ? "" : " Take the sterilizer out of use until the cause is found and a repeat test passes."}`;
 }
 
 export const recordAirLeakageAction = formAction("periodic-test:record", airLeakageSchema, async (input, actor) => {

@@ -5,8 +5,8 @@ import { SafetyNotice } from "@/components/shell/safety-notice";
 import { currentUser } from "@/lib/auth/guards";
 import { demoEnabled, env } from "@/lib/env";
 import { DEMO_USERS } from "@/db/demo-users";
-import { ROLE_LABELS } from "@/lib/auth/permissions";
 import { SIGN_IN_ERRORS } from "@/lib/auth/messages";
+import { ROLE_LABELS } from "@/lib/domain";
 
 export const metadata = { title: "Sign in" };
 export const dynamic = "force-dynamic";

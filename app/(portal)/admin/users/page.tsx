@@ -1,11 +1,12 @@
 import { forbidden } from "next/navigation";
 import { currentUser } from "@/lib/auth/guards";
-import { can, ROLE_LABELS } from "@/lib/auth/permissions";
+import { can } from "@/lib/auth/permissions";
 import { listUsers } from "@/db/queries/users";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { CreateUserForm, UserRowActions } from "@/components/admin/user-forms";
 import { formatDateTime } from "@/lib/format";
+import { ROLE_LABELS } from "@/lib/domain";
 
 export const metadata = { title: "Users" };
 

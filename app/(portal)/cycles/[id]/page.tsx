@@ -21,9 +21,10 @@ import {
   RecordHistory,
 } from "@/components/cycles/record/record-tables";
 import { SafetyCaution } from "@/components/cycles/record/safety-caution";
-import { formatStartedAt, testKindLabel } from "@/components/cycles/record/record-format";
+import { formatStartedAt } from "@/components/cycles/record/record-format";
 import { describeTimeChart } from "@/lib/cycles/chart-model";
 import { formatDateTime } from "@/lib/format";
+import { testKindLabel } from "@/lib/domain";
 
 type Props = { params: Promise<{ id: string }> };
 

@@ -3,10 +3,10 @@ import { AppError } from "@/lib/errors";
 import { route, zodMessage } from "@/lib/http";
 import { toCsv, type CsvCell } from "@/lib/csv-export";
 import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
-import { TEST_KIND_LABELS } from "@/lib/validations/intake";
 import { listCycles } from "@/db/queries/cycles";
 import { recordAuditEvent } from "@/db/queries/audit";
 import type { CycleListItem } from "@/lib/cycles/contracts";
+import { testKindLabel } from "@/lib/domain";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -24,7 +24,7 @@ function row(c: CycleListItem): CsvCell[] {
     c.createdAt,
     c.sterilizer.name,
     c.profile.name,
-    TEST_KIND_LABELS[c.testKind] ?? c.testKind,
+    testKindLabel(c.testKind),
     c.loadDescription,
     c.status,
     c.verdict ?? "not analysed",

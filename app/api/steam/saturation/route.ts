@@ -19,7 +19,7 @@ import {
   type PressureUnit,
   type TemperatureUnit,
 } from "@/lib/steam";
-import type { Actor } from "@/db/queries/users";
+import type { Actor } from "@/lib/domain";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
