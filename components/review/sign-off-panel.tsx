@@ -3,24 +3,22 @@
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import type { CycleDetail } from "@/lib/cycles/contracts";
-import type { Role, Verdict } from "@/lib/domain";
+import { SIGNATURE_MEANING_LABELS, SIGNATURE_MEANINGS, type Role, type SignatureMeaning, type Verdict } from "@/lib/domain";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { IDLE_FORM_STATE, type FormState } from "@/lib/form-state";
 import { ActionMessage } from "@/components/ui/action-message";
 
-const MEANING_WORDS = {
-  reviewed: { label: "Reviewed", statement: "I have reviewed this record; the decision stays open." },
-  approved: { label: "Approved", statement: "I approve this test cycle as meeting its acceptance profile. The record will be locked and its report archived." },
-  rejected: { label: "Rejected", statement: "I return this cycle to the technician for correction, for the reason given." },
-} as const;
-type Meaning = keyof typeof MEANING_WORDS;
-
+const MEANING_STATEMENTS: Record<SignatureMeaning, string> = {
+  reviewed: "I have reviewed this record; the decision stays open.",
+  approved: "I approve this test cycle as meeting its acceptance profile. The record will be locked and its report archived.",
+  rejected: "I return this cycle to the technician for correction, for the reason given.",
+};
 
 export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { id: string; role: Role; name: string } }) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState<FormState>(IDLE_FORM_STATE);
-  const [meaning, setMeaning] = useState<Meaning>(detail.verdict === "pass" && detail.createdBy.id !== actor.id ? "approved" : detail.verdict === "pass" ? "reviewed" : "rejected");
+  const [meaning, setMeaning] = useState<SignatureMeaning>(detail.verdict === "pass" && detail.createdBy.id !== actor.id ? "approved" : detail.verdict === "pass" ? "reviewed" : "rejected");
   const [reason, setReason] = useState("");
   const [password, setPassword] = useState("");
   const [correction, setCorrection] = useState<File | null>(null);
@@ -62,7 +60,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
         json: { password, meaning, reason: reason.trim() || null },
         what: "the signature",
       });
-      return `Signed "${MEANING_WORDS[meaning].label}" by ${s.printedName} at ${new Date(s.signedAt).toUTCString()}.`;
+      return `Signed "${SIGNATURE_MEANING_LABELS[meaning]}" by ${s.printedName} at ${new Date(s.signedAt).toUTCString()}.`;
     });
   };
 
@@ -91,7 +89,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
             {detail.signatures.map((s) => (
               <li key={s.id} className="rounded-md border border-ink-line px-3 py-2">
                 <p className="font-medium">
-                  {MEANING_WORDS[s.meaning].label} — {s.printedName} <span className="font-normal text-ink-muted">({s.role})</span>
+                  {SIGNATURE_MEANING_LABELS[s.meaning]} — {s.printedName} <span className="font-normal text-ink-muted">({s.role})</span>
                 </p>
                 <p className="text-xs text-ink-muted">{new Date(s.signedAt).toISOString().replace("T", " ").slice(0, 19)} UTC</p>
                 {s.reason && <p className="mt-1">Reason: {s.reason}</p>}
@@ -129,15 +127,15 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
             <fieldset>
               <legend className="field-label">Meaning of your signature</legend>
               <div className="space-y-1">
-                {(Object.keys(MEANING_WORDS) as Meaning[]).map((m) => {
+                {SIGNATURE_MEANINGS.map((m) => {
                   const failing = m === "approved" && detail.verdict !== "pass";
                   const blocked = m === "approved" && (ownUpload || failing);
                   return (
                     <label key={m} className={`flex items-start gap-2 ${blocked ? "opacity-50" : ""}`}>
                       <input type="radio" name="meaning" value={m} checked={meaning === m} disabled={blocked} onChange={() => setMeaning(m)} className="mt-1" />
                       <span>
-                        <span className="font-medium">{MEANING_WORDS[m].label}</span>
-                        <span className="block text-xs text-ink-muted">{failing ? "The analysis failed, so this cycle cannot be approved." : blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_WORDS[m].statement}</span>
+                        <span className="font-medium">{SIGNATURE_MEANING_LABELS[m]}</span>
+                        <span className="block text-xs text-ink-muted">{failing ? "The analysis failed, so this cycle cannot be approved." : blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_STATEMENTS[m]}</span>
                       </span>
                     </label>
                   );

@@ -14,3 +14,9 @@ export type Verdict = (typeof VERDICTS)[number];
 
 export const SIGNATURE_MEANINGS = ["reviewed", "approved", "rejected"] as const;
 export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
+
+export const SIGNATURE_MEANING_LABELS: Record<SignatureMeaning, string> = {
+  reviewed: "Reviewed",
+  approved: "Approved",
+  rejected: "Rejected",
+};
