@@ -10,36 +10,30 @@ const createdAt = () =>
     .notNull()
     .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`);
 
-import { ROLES, type Role } from "../lib/auth/roles";
+import {
+  CYCLE_STATUSES,
+  INSTRUMENT_KINDS,
+  MAIL_STATUSES,
+  PERIODIC_TEST_KINDS,
+  ROLES,
+  SIGNATURE_MEANINGS,
+  TEST_KINDS,
+  VERDICTS,
+} from "../lib/domain";
 
-export { ROLES, type Role };
-
-export const CYCLE_STATUSES = ["draft", "submitted", "approved", "rejected"] as const;
-export type CycleStatus = (typeof CYCLE_STATUSES)[number];
-
-export const SIGNATURE_MEANINGS = ["reviewed", "approved", "rejected"] as const;
-export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
-
-export const TEST_KINDS = [
-  "thermometric-small-load",
-  "thermometric-full-load",
-  "bowie-dick",
-  "air-leakage",
-  "steam-quality",
-  "routine-load",
-] as const;
-export type TestKind = (typeof TEST_KINDS)[number];
-
-export const PERIODIC_TEST_KINDS = [
-  "air-leakage",
-  "bowie-dick",
-  "steam-non-condensable-gas",
-  "steam-superheat",
-  "steam-dryness",
-  "thermometric-small-load",
-  "thermometric-full-load",
-] as const;
-export type PeriodicTestKind = (typeof PERIODIC_TEST_KINDS)[number];
+// The enums live in lib/domain; the database layer may keep taking them from here.
+export {
+  CYCLE_STATUSES,
+  PERIODIC_TEST_KINDS,
+  ROLES,
+  SIGNATURE_MEANINGS,
+  TEST_KINDS,
+  type CycleStatus,
+  type PeriodicTestKind,
+  type Role,
+  type SignatureMeaning,
+  type TestKind,
+} from "../lib/domain";
 
 export const sites = sqliteTable("sites", {
   id: id(),
@@ -122,7 +116,7 @@ export const instruments = sqliteTable("instruments", {
     .references(() => sites.id),
   name: text("name").notNull(),
   serialNumber: text("serial_number").notNull(),
-  kind: text("kind", { enum: ["logger", "pressure-sensor", "temperature-probe", "reference-thermometer"] })
+  kind: text("kind", { enum: INSTRUMENT_KINDS })
     .notNull()
     .default("logger"),
   channelCount: integer("channel_count"),
@@ -171,7 +165,7 @@ export const cycles = sqliteTable(
     testKind: text("test_kind", { enum: TEST_KINDS }).notNull().default("thermometric-small-load"),
     loadDescription: text("load_description").notNull().default(""),
     status: text("status", { enum: CYCLE_STATUSES }).notNull().default("draft"),
-    verdict: text("verdict", { enum: ["pass", "fail"] }),
+    verdict: text("verdict", { enum: VERDICTS }),
     startedAt: text("started_at"),
     currentAnalysisId: text("current_analysis_id"),
     // An approved record is never edited; a correction is a new cycle pointing at the old one.
@@ -231,7 +225,7 @@ export const analyses = sqliteTable(
     inputHash: text("input_hash").notNull(),
     limits: text("limits", { mode: "json" }).notNull(),
     result: text("result", { mode: "json" }).notNull(),
-    verdict: text("verdict", { enum: ["pass", "fail"] }).notNull(),
+    verdict: text("verdict", { enum: VERDICTS }).notNull(),
     createdBy: text("created_by").references(() => users.id),
     createdAt: createdAt(),
   },
@@ -310,7 +304,7 @@ export const mailOutbox = sqliteTable(
     subject: text("subject").notNull(),
     html: text("html").notNull(),
     text: text("text").notNull(),
-    status: text("status", { enum: ["pending", "sent", "failed"] })
+    status: text("status", { enum: MAIL_STATUSES })
       .notNull()
       .default("pending"),
     attempts: integer("attempts").notNull().default(0),
@@ -343,7 +337,7 @@ export const periodicTests = sqliteTable(
       .notNull()
       .references(() => users.id),
     measurements: text("measurements", { mode: "json" }),
-    result: text("result", { enum: ["pass", "fail"] }).notNull(),
+    result: text("result", { enum: VERDICTS }).notNull(),
     notes: text("notes"),
     cycleId: text("cycle_id").references(() => cycles.id),
     createdAt: createdAt(),

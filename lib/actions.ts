@@ -2,7 +2,7 @@ import "server-only";
 import { z, type ZodType } from "zod";
 import { requireRole } from "./auth/guards";
 import type { Permission } from "./auth/permissions";
-import type { Actor } from "@/db/queries/users";
+import type { Actor } from "@/lib/domain";
 import { AppError } from "./errors";
 
 import type { FormState } from "./form-state";

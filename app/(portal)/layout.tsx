@@ -1,6 +1,7 @@
 import Link from "next/link";
 import { requirePageActor } from "@/lib/auth/page-guard";
-import { can, ROLE_LABELS } from "@/lib/auth/permissions";
+import { can } from "@/lib/auth/permissions";
+import { ROLE_LABELS } from "@/lib/domain";
 import { NAV_ITEMS } from "@/components/shell/navigation";
 import { NavLinks } from "@/components/shell/nav-links";
 import { SignOutButton } from "@/components/shell/sign-out-button";

@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { requirePageActor } from "@/lib/auth/page-guard";
-import { ROLE_DUTIES, ROLE_LABELS } from "@/lib/auth/permissions";
+import { ROLE_DUTIES, ROLE_LABELS } from "@/lib/domain";
 import { getHomeDashboard } from "@/lib/services/dashboard";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { CycleList } from "@/components/home/cycle-list";

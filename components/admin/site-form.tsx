@@ -2,23 +2,15 @@
 
 import { useActionState, useState } from "react";
 import { updateSiteAction } from "@/app/(portal)/admin/site/actions";
-import { IDLE_STATE, type FormState } from "@/components/ui/form-state";
+import { ActionMessage } from "@/components/ui/action-message";
+import { IDLE_FORM_STATE } from "@/lib/form-state";
 
 export type SiteFormValues = { name: string; timeZone: string; atmosphereKpa: number | null; altitudeM: number | null; address: string | null };
-
-function Message({ state }: { state: FormState }) {
-  if (state.status === "idle" || !state.message) return null;
-  return (
-    <p role={state.status === "error" ? "alert" : "status"} className={`rounded-md px-3 py-2 text-sm ${state.status === "error" ? "bg-fail-50 text-fail-700" : "bg-pass-50 text-pass-700"}`}>
-      {state.message}
-    </p>
-  );
-}
 
 const asText = (v: number | string | null) => (v === null ? "" : String(v));
 
 export function SiteSettingsForm({ site, timeZones }: { site: SiteFormValues; timeZones: string[] }) {
-  const [state, action, pending] = useActionState(updateSiteAction, IDLE_STATE);
+  const [state, action, pending] = useActionState(updateSiteAction, IDLE_FORM_STATE);
   // Controlled fields: React resets an uncontrolled form after each action, which would drop what was typed when the server refuses it.
   const [values, setValues] = useState({
     name: site.name,
@@ -83,7 +75,7 @@ export function SiteSettingsForm({ site, timeZones }: { site: SiteFormValues; ti
         <input {...bind("reason")} className="field-input" placeholder="e.g. barometer reading from the plant room, 3 March" />
         {fieldError("reason")}
       </div>
-      <Message state={state} />
+      <ActionMessage state={state} />
       <button className="btn-primary" disabled={pending}>{pending ? "Saving…" : "Save site settings"}</button>
     </form>
   );

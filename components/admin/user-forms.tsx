@@ -2,22 +2,12 @@
 
 import { useActionState, useState } from "react";
 import { createUserAction, resetPasswordAction, updateUserAction } from "@/app/(portal)/admin/users/actions";
-import { IDLE_STATE, type FormState } from "@/components/ui/form-state";
-import { ROLES, type Role } from "@/lib/auth/roles";
-
-const ROLE_NAMES: Record<Role, string> = { technician: "Technician", engineer: "Validation engineer", auditor: "Auditor", admin: "Administrator" };
-
-function Message({ state }: { state: FormState }) {
-  if (state.status === "idle" || !state.message) return null;
-  return (
-    <p role={state.status === "error" ? "alert" : "status"} className={`rounded-md px-3 py-2 text-sm ${state.status === "error" ? "bg-fail-50 text-fail-700" : "bg-pass-50 text-pass-700"}`}>
-      {state.message}
-    </p>
-  );
-}
+import { ActionMessage } from "@/components/ui/action-message";
+import { IDLE_FORM_STATE } from "@/lib/form-state";
+import { ROLE_LABELS, ROLES, type Role } from "@/lib/domain";
 
 export function CreateUserForm() {
-  const [state, action, pending] = useActionState(createUserAction, IDLE_STATE);
+  const [state, action, pending] = useActionState(createUserAction, IDLE_FORM_STATE);
   const err = state.fieldErrors ?? {};
   return (
     <form action={action} className="space-y-3" noValidate>
@@ -34,7 +24,7 @@ export function CreateUserForm() {
       <div>
         <label className="field-label" htmlFor="new-role">Role</label>
         <select id="new-role" name="role" className="field-input" defaultValue="technician">
-          {ROLES.map((r) => <option key={r} value={r}>{ROLE_NAMES[r]}</option>)}
+          {ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}
         </select>
         {err.role && <p className="field-error">{err.role}</p>}
       </div>
@@ -43,15 +33,15 @@ export function CreateUserForm() {
         <input id="new-password" name="password" type="password" autoComplete="new-password" className="field-input" aria-invalid={!!err.password} />
         {err.password && <p className="field-error">{err.password}</p>}
       </div>
-      <Message state={state} />
+      <ActionMessage state={state} />
       <button className="btn-primary w-full" disabled={pending}>{pending ? "Adding…" : "Add user"}</button>
     </form>
   );
 }
 
 export function UserRowActions({ user, self }: { user: { id: string; name: string; role: Role; disabled: boolean }; self: boolean }) {
-  const [state, action, pending] = useActionState(updateUserAction, IDLE_STATE);
-  const [pwState, pwAction, pwPending] = useActionState(resetPasswordAction, IDLE_STATE);
+  const [state, action, pending] = useActionState(updateUserAction, IDLE_FORM_STATE);
+  const [pwState, pwAction, pwPending] = useActionState(resetPasswordAction, IDLE_FORM_STATE);
   const [showReset, setShowReset] = useState(false);
   return (
     <div className="flex min-w-[16rem] flex-col gap-1.5">
@@ -59,7 +49,7 @@ export function UserRowActions({ user, self }: { user: { id: string; name: strin
         <input type="hidden" name="id" value={user.id} />
         <label className="sr-only" htmlFor={`role-${user.id}`}>Role of {user.name}</label>
         <select id={`role-${user.id}`} name="role" defaultValue={user.role} disabled={self} className="field-input py-1 text-xs">
-          {ROLES.map((r) => <option key={r} value={r}>{ROLE_NAMES[r]}</option>)}
+          {ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}
         </select>
         <button className="btn-secondary px-2 py-1 text-xs" disabled={pending || self}>Save role</button>
       </form>
@@ -85,8 +75,8 @@ export function UserRowActions({ user, self }: { user: { id: string; name: strin
           <button className="btn-primary px-2 py-1 text-xs" disabled={pwPending}>Set</button>
         </form>
       )}
-      <Message state={state} />
-      <Message state={pwState} />
+      <ActionMessage state={state} />
+      <ActionMessage state={pwState} />
     </div>
   );
 }

@@ -3,6 +3,8 @@
 import Link from "next/link";
 import { useState } from "react";
 import { useDropzone } from "react-dropzone";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { ActionMessage } from "@/components/ui/action-message";
 
 type Outcome =
   | { match: true; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string }
@@ -22,10 +24,7 @@ export function VerifyReport() {
     try {
       const form = new FormData();
       form.set("file", file);
-      const response = await fetch("/api/reports/verify", { method: "POST", body: form });
-      const data = await response.json().catch(() => ({}));
-      if (!response.ok) throw new Error(data.error ?? `The server answered ${response.status}.`);
-      setOutcome(data);
+      setOutcome(await fetchJson<Outcome>("/api/reports/verify", { form, what: "the archive check" }));
     } catch (e) {
       setError(e instanceof Error ? e.message : "The check failed.");
     } finally {
@@ -53,7 +52,7 @@ export function VerifyReport() {
         <p className="font-medium">{busy ? "Checking…" : "Drop a report PDF here, or click to choose one"}</p>
         <p className="mt-1 text-xs text-ink-muted">The file is compared byte for byte with the archive; nothing is stored but the check itself, in the audit ledger.</p>
       </div>
-      {error && <p role="alert" className="rounded-md bg-fail-50 px-3 py-2 text-sm text-fail-700">{error}</p>}
+      {error && <ActionMessage state={{ status: "error", message: error }} />}
       {outcome && (
         <div role="status" data-testid="verify-outcome" className={`rounded-md px-3 py-2 text-sm ${outcome.match ? "bg-pass-50 text-pass-700" : "bg-fail-50 text-fail-700"}`}>
           {outcome.match ? (

@@ -1,7 +1,7 @@
 "use client";
 
 import { startTransition, useActionState, useEffect, useRef, useState, type FormEvent, type ReactNode } from "react";
-import { IDLE_STATE, type FormState } from "@/components/ui/form-state";
+import { IDLE_FORM_STATE, type FormState } from "@/lib/form-state";
 
 type Action = (prev: FormState, formData: FormData) => Promise<FormState>;
 
@@ -10,7 +10,7 @@ type Action = (prev: FormState, formData: FormData) => Promise<FormState>;
  * place beside their messages. `resetOnSuccess` clears a create form once it has been saved.
  */
 export function useFormAction(action: Action, { resetOnSuccess = false }: { resetOnSuccess?: boolean } = {}) {
-  const [state, dispatch, pending] = useActionState(action, IDLE_STATE);
+  const [state, dispatch, pending] = useActionState(action, IDLE_FORM_STATE);
   const formRef = useRef<HTMLFormElement>(null);
   useEffect(() => {
     if (resetOnSuccess && state.status === "ok") formRef.current?.reset();
@@ -29,17 +29,6 @@ export function useFormAction(action: Action, { resetOnSuccess = false }: { rese
   };
   const errors = Object.fromEntries(Object.entries(state.fieldErrors ?? {}).filter(([name]) => !edited.has(name)));
   return { state, pending, formRef, onSubmit, onChange, errors };
-}
-
-export function FormMessage({ state }: { state: FormState }) {
-  if (state.status === "idle" || !state.message) return null;
-  const error = state.status === "error";
-  return (
-    <p role={error ? "alert" : "status"} className={`rounded-md px-3 py-2 text-sm ${error ? "bg-fail-50 text-fail-700" : "bg-pass-50 text-pass-700"}`}>
-      {error ? "✕ " : "✓ "}
-      {state.message}
-    </p>
-  );
 }
 
 export function Field({

@@ -1,8 +1,9 @@
 "use client";
 
 import { addCertificateAction, clearMappingAction, createInstrumentAction } from "@/app/(portal)/instruments/actions";
-import { Field, FormMessage, TextInput, useFormAction } from "./form-bits";
-import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "./labels";
+import { Field, TextInput, useFormAction } from "./form-bits";
+import { ActionMessage } from "@/components/ui/action-message";
+import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/lib/domain";
 
 
 export function InstrumentForm() {
@@ -19,7 +20,7 @@ export function InstrumentForm() {
         </select>
       </Field>
       <TextInput id="inst-channels" name="channelCount" label="Channels (optional)" inputMode="numeric" error={errors.channelCount} />
-      <FormMessage state={state} />
+      <ActionMessage state={state} />
       <button className="btn-primary w-full" disabled={pending}>{pending ? "Adding…" : "Add instrument"}</button>
     </form>
   );
@@ -38,7 +39,7 @@ export function CertificateForm({ instrumentId, today }: { instrumentId: string;
       </div>
       <TextInput id="cert-uncertainty" name="uncertaintyK" label="Expanded uncertainty (optional)" suffix="K" inputMode="decimal" error={errors.uncertaintyK} hint="For temperature channels; note a pressure sensor's uncertainty in the notes." />
       <TextInput id="cert-notes" name="notes" label="Notes (optional)" error={errors.notes} />
-      <FormMessage state={state} />
+      <ActionMessage state={state} />
       <button className="btn-primary w-full" disabled={pending}>{pending ? "Saving…" : "Record certificate"}</button>
     </form>
   );
@@ -50,7 +51,7 @@ export function ClearMappingForm({ instrumentId }: { instrumentId: string }) {
     <form onSubmit={onSubmit} onChange={onChange} className="space-y-2" noValidate aria-label="Clear the saved channel mapping">
       <input type="hidden" name="instrumentId" value={instrumentId} />
       <TextInput id="clear-reason" name="reason" label="Reason" error={errors.reason} hint="e.g. probes re-wired, logger re-configured." />
-      <FormMessage state={state} />
+      <ActionMessage state={state} />
       <button className="btn-danger" disabled={pending}>{pending ? "Clearing…" : "Clear saved mapping"}</button>
     </form>
   );

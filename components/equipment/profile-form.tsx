@@ -2,7 +2,8 @@
 
 import { useState } from "react";
 import { createProfileAction, updateProfileAction } from "@/app/(portal)/profiles/actions";
-import { FormMessage, TextInput, useFormAction } from "./form-bits";
+import { TextInput, useFormAction } from "./form-bits";
+import { ActionMessage } from "@/components/ui/action-message";
 
 type Values = Record<(typeof KEYS)[number], string>;
 const KEYS = ["name", "sterilizationTempC", "bandK", "holdingTimeS", "maxEquilibrationS", "maxSpreadK", "saturationLimitK", "f0ReferenceC", "f0ZK", "basis"] as const;
@@ -70,7 +71,7 @@ export function ProfileForm({ profile }: { profile?: ProfileFormValues }) {
       </div>
       <TextInput id={`${p}-basis`} name="basis" label="Basis of these limits" error={errors.basis} value={values.basis} onChange={set("basis")} hint="Standard, clause or protocol; shown beside every check." />
       {editing && <TextInput id={`${p}-reason`} name="reason" label="Reason for the change" error={errors.reason} hint="Written to the audit ledger with the old and new limits." />}
-      <FormMessage state={state} />
+      <ActionMessage state={state} />
       <button className="btn-primary w-full" disabled={pending}>
         {pending ? "Saving…" : editing ? (profile.cycleCount > 0 ? "Save as a new version" : "Save changes") : "Create profile"}
       </button>

@@ -2,8 +2,9 @@
 
 import { useState } from "react";
 import { removeScheduleAction, saveScheduleAction } from "@/app/(portal)/sterilizers/actions";
-import { PERIODIC_TEST_LABELS } from "@/lib/format";
-import { Field, FormMessage, TextInput, useFormAction } from "./form-bits";
+import { Field, TextInput, useFormAction } from "./form-bits";
+import { ActionMessage } from "@/components/ui/action-message";
+import { testKindLabel } from "@/lib/domain";
 
 type Row = { kind: string; intervalDays: number };
 
@@ -37,7 +38,7 @@ function ScheduleRowForm({ sterilizerId, row }: { sterilizerId: string; row: Row
   const id = `sched-${row.kind}`;
   return (
     <div className="rounded-md border border-ink-line p-3">
-      <p className="text-sm font-medium">{PERIODIC_TEST_LABELS[row.kind] ?? row.kind}</p>
+      <p className="text-sm font-medium">{testKindLabel(row.kind)}</p>
       <form onSubmit={save.onSubmit} onChange={save.onChange} className="mt-2 space-y-2" noValidate>
         <input type="hidden" name="sterilizerId" value={sterilizerId} />
         <input type="hidden" name="kind" value={row.kind} />
@@ -50,7 +51,7 @@ function ScheduleRowForm({ sterilizerId, row }: { sterilizerId: string; row: Row
         <TextInput id={`${id}-reason`} name="reason" label="Reason for a change" error={save.errors.reason} />
       </form>
       <div className="mt-2">
-        <FormMessage state={save.state} />
+        <ActionMessage state={save.state} />
       </div>
       {!removing ? (
         <button type="button" className="mt-2 text-xs text-fail-700 underline" onClick={() => setRemoving(true)}>
@@ -72,7 +73,7 @@ function ScheduleRowForm({ sterilizerId, row }: { sterilizerId: string; row: Row
         </form>
       )}
       <div className="mt-2">
-        <FormMessage state={remove.state} />
+        <ActionMessage state={remove.state} />
       </div>
     </div>
   );
@@ -100,7 +101,7 @@ function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: str
           >
             {kinds.map((k) => (
               <option key={k} value={k}>
-                {PERIODIC_TEST_LABELS[k] ?? k}
+                {testKindLabel(k)}
               </option>
             ))}
           </select>
@@ -114,7 +115,7 @@ function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: str
       </div>
       <p className="mt-1 text-xs text-ink-muted">Suggested intervals follow common practice (daily Bowie-Dick, weekly air leakage, quarterly and yearly thermometric and steam quality tests); your written scheme decides.</p>
       <div className="mt-2">
-        <FormMessage state={state} />
+        <ActionMessage state={state} />
       </div>
     </form>
   );

@@ -3,7 +3,8 @@
 import { useState } from "react";
 import { createSterilizerAction, updateSterilizerAction } from "@/app/(portal)/sterilizers/actions";
 import { sizeClassOf } from "@/lib/periodic-tests/sterilizer-class";
-import { Field, FormMessage, TextInput, useFormAction } from "./form-bits";
+import { Field, TextInput, useFormAction } from "./form-bits";
+import { ActionMessage } from "@/components/ui/action-message";
 
 type ProfileChoice = { id: string; name: string };
 type SterilizerValues = {
@@ -64,7 +65,7 @@ export function SterilizerForm({ profiles, sterilizer }: { profiles: ProfileChoi
           <TextInput id={`${p}-reason`} name="reason" label="Reason for the change" error={errors.reason} hint="Written to the audit ledger with the old and new values." />
         </>
       )}
-      <FormMessage state={state} />
+      <ActionMessage state={state} />
       <button className="btn-primary w-full" disabled={pending}>
         {pending ? "Saving…" : editing ? "Save changes" : "Add sterilizer"}
       </button>

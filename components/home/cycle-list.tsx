@@ -2,13 +2,13 @@ import Link from "next/link";
 import { StatusBadge, VerdictBadge } from "@/components/ui/badge";
 import { EmptyState } from "@/components/ui/panel";
 import { formatDateTime } from "@/lib/format";
-import type { CycleStatus } from "@/db/schema";
+import type { CycleStatus, Verdict } from "@/lib/domain";
 
 export type CycleSummary = {
   id: string;
   cycleNumber: string;
   status: CycleStatus;
-  verdict: "pass" | "fail" | null;
+  verdict: Verdict | null;
   startedAt: string | null;
   sterilizerName: string;
 };

@@ -1,6 +1,7 @@
 import { Badge } from "@/components/ui/badge";
 import { EmptyState } from "@/components/ui/panel";
-import { formatDate, PERIODIC_TEST_LABELS } from "@/lib/format";
+import { formatDate } from "@/lib/format";
+import { testKindLabel } from "@/lib/domain";
 
 const STATE_BADGE: Record<string, { tone: "fail" | "caution"; words: (due: string) => string }> = {
   never: { tone: "fail", words: () => "Never done" },
@@ -19,7 +20,7 @@ export function TestsDueList({ items }: { items: Array<{ sterilizerName: string;
         return (
           <li key={`${t.sterilizerName}:${t.kind}`} className="flex items-center justify-between gap-3 py-2 text-sm">
             <div>
-              <p className="font-medium">{PERIODIC_TEST_LABELS[t.kind] ?? t.kind}</p>
+              <p className="font-medium">{testKindLabel(t.kind)}</p>
               <p className="text-xs text-ink-muted">{t.sterilizerName}</p>
             </div>
             <Badge tone={badge.tone}>{badge.words(formatDate(t.dueOn))}</Badge>

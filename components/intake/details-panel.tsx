@@ -1,9 +1,9 @@
 "use client";
 
 import type { ReactNode } from "react";
-import type { TestKind } from "@/db/schema";
-import { TEST_KIND_LABELS, type CreateCycleField } from "@/lib/validations/intake";
-import { formatSeconds } from "@/lib/format";
+import type { TestKind } from "@/lib/domain";
+import type { CreateCycleField } from "@/lib/validations/intake";
+import { formatDuration, TEST_KINDS, testKindLabel } from "@/lib/domain";
 import { Panel } from "@/components/ui/panel";
 import type { IntakeInstrument, IntakeProfile, IntakeSterilizer } from "./intake-request";
 import type { CycleFields } from "./use-cycle-fields";
@@ -81,7 +81,7 @@ function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instru
         {errorText("profileId")}
         {profile && (
           <p id={`${ids}-profile-hint`} className="mt-1 text-xs text-ink-muted">
-            {profile.sterilizationTempC} °C to {profile.sterilizationTempC + profile.bandK} °C, holding at least {formatSeconds(profile.holdingTimeS)}
+            {profile.sterilizationTempC} °C to {profile.sterilizationTempC + profile.bandK} °C, holding at least {formatDuration(profile.holdingTimeS)}
             {details.sterilizer?.defaultProfileId === profile.id ? " · the sterilizer's default" : ""}
           </p>
         )}
@@ -128,8 +128,8 @@ function CycleFacts({ idPrefix: ids, details, wiring }: { idPrefix: string; deta
       <div>
         <label className="field-label" htmlFor={`${ids}-test-kind`}>Kind of test</label>
         <select id={`${ids}-test-kind`} name="testKind" className="field-input" value={fields.testKind} onChange={(e) => setField("testKind", e.target.value as TestKind)} {...invalid("testKind")} aria-describedby={describedBy("testKind")}>
-          {(Object.keys(TEST_KIND_LABELS) as TestKind[]).map((k) => (
-            <option key={k} value={k}>{TEST_KIND_LABELS[k]}</option>
+          {TEST_KINDS.map((k) => (
+            <option key={k} value={k}>{testKindLabel(k)}</option>
           ))}
         </select>
         {errorText("testKind")}

@@ -1,5 +1,5 @@
 import type { InspectResponse, MappingOverrides } from "@/lib/cycles/contracts";
-import type { TestKind } from "@/db/schema";
+import type { TestKind } from "@/lib/domain";
 import { createCycleFieldsSchema, mappingProblems, type CreateCycleField } from "@/lib/validations/intake";
 import type { MappedColumn } from "./mapping-table";
 

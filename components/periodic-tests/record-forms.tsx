@@ -8,8 +8,9 @@ import {
   recordNonCondensableGasAction,
   recordSuperheatAction,
 } from "@/app/(portal)/periodic-tests/actions";
-import { Field, FormMessage, TextInput, useFormAction } from "@/components/equipment/form-bits";
-import type { FormState } from "@/components/ui/form-state";
+import { Field, TextInput, useFormAction } from "@/components/equipment/form-bits";
+import { ActionMessage } from "@/components/ui/action-message";
+import type { FormState } from "@/lib/form-state";
 import { PRESSURE_UNITS, type PressureUnit } from "@/lib/steam/units";
 import { evaluateAirLeakage } from "@/lib/periodic-tests/air-leakage";
 import { evaluateBowieDick } from "@/lib/periodic-tests/bowie-dick";
@@ -92,7 +93,7 @@ function SaveBar({ state, pending, label = "Save test record" }: { state: FormSt
           Saved. ✕ {state.message}
         </p>
       ) : (
-        <FormMessage state={state} />
+        <ActionMessage state={state} />
       )}
       <button className="btn-primary" disabled={pending}>{pending ? "Saving…" : label}</button>
     </div>

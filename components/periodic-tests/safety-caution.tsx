@@ -1,5 +1,5 @@
 import Link from "next/link";
-import type { RecordableKind } from "./kinds";
+import { RecordableKind } from "@/lib/domain";
 
 const CAUTIONS: Record<RecordableKind, string> = {
   "air-leakage":

@@ -1,4 +1,4 @@
-import { PERIODIC_TEST_LABELS } from "@/lib/format";
+import { testKindLabel } from "@/lib/domain";
 
 const num = (v: unknown) => (typeof v === "number" && Number.isFinite(v) ? v : null);
 
@@ -26,7 +26,7 @@ export function keyFigure(kind: string, measurements: unknown): string {
       return d === null ? "—" : `D = ${d.toFixed(3)}${limit !== null ? ` (limit ≥ ${limit.toFixed(2)})` : ""}`;
     }
     default:
-      return PERIODIC_TEST_LABELS[kind] ?? kind;
+      return testKindLabel(kind);
   }
 }
 

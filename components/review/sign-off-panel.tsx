@@ -3,31 +3,22 @@
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import type { CycleDetail } from "@/lib/cycles/contracts";
-import type { Role } from "@/lib/auth/roles";
+import { SIGNATURE_MEANING_LABELS, SIGNATURE_MEANINGS, type Role, type SignatureMeaning, type Verdict } from "@/lib/domain";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { IDLE_FORM_STATE, type FormState } from "@/lib/form-state";
+import { ActionMessage } from "@/components/ui/action-message";
 
-const MEANING_WORDS = {
-  reviewed: { label: "Reviewed", statement: "I have reviewed this record; the decision stays open." },
-  approved: { label: "Approved", statement: "I approve this test cycle as meeting its acceptance profile. The record will be locked and its report archived." },
-  rejected: { label: "Rejected", statement: "I return this cycle to the technician for correction, for the reason given." },
-} as const;
-type Meaning = keyof typeof MEANING_WORDS;
-
-async function postJson(url: string, body?: unknown) {
-  const response = await fetch(url, {
-    method: "POST",
-    headers: body ? { "Content-Type": "application/json" } : undefined,
-    body: body ? JSON.stringify(body) : undefined,
-  });
-  const data = await response.json().catch(() => ({}));
-  if (!response.ok) throw new Error(typeof data.error === "string" ? data.error : `The server answered ${response.status}.`);
-  return data;
-}
+const MEANING_STATEMENTS: Record<SignatureMeaning, string> = {
+  reviewed: "I have reviewed this record; the decision stays open.",
+  approved: "I approve this test cycle as meeting its acceptance profile. The record will be locked and its report archived.",
+  rejected: "I return this cycle to the technician for correction, for the reason given.",
+};
 
 export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { id: string; role: Role; name: string } }) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
-  const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
-  const [meaning, setMeaning] = useState<Meaning>(detail.verdict === "pass" && detail.createdBy.id !== actor.id ? "approved" : detail.verdict === "pass" ? "reviewed" : "rejected");
+  const [message, setMessage] = useState<FormState>(IDLE_FORM_STATE);
+  const [meaning, setMeaning] = useState<SignatureMeaning>(detail.verdict === "pass" && detail.createdBy.id !== actor.id ? "approved" : detail.verdict === "pass" ? "reviewed" : "rejected");
   const [reason, setReason] = useState("");
   const [password, setPassword] = useState("");
   const [correction, setCorrection] = useState<File | null>(null);
@@ -39,33 +30,37 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
 
   async function run(action: () => Promise<string>) {
     setBusy(true);
-    setMessage(null);
+    setMessage(IDLE_FORM_STATE);
     try {
-      setMessage({ tone: "ok", text: await action() });
+      setMessage({ status: "ok", message: await action() });
       setPassword("");
       router.refresh();
     } catch (error) {
-      setMessage({ tone: "error", text: error instanceof Error ? error.message : "Something went wrong." });
+      setMessage({ status: "error", message: error instanceof Error ? error.message : "Something went wrong." });
     } finally {
       setBusy(false);
     }
   }
 
-  const submit = () => run(async () => (await postJson(`/api/cycles/${detail.id}/submit`), "Submitted: the site's engineers have been notified."));
+  const submit = () =>
+    run(async () => (await fetchJson(`/api/cycles/${detail.id}/submit`, { method: "POST", what: "the submission" }), "Submitted: the site's engineers have been notified."));
 
   const sign = (event: React.FormEvent) => {
     event.preventDefault();
     if (meaning === "rejected" && !reason.trim()) {
-      setMessage({ tone: "error", text: "Give the reason for rejecting, so the technician knows what to correct." });
+      setMessage({ status: "error", message: "Give the reason for rejecting, so the technician knows what to correct." });
       return;
     }
     if (!password) {
-      setMessage({ tone: "error", text: "Enter your password: signing needs it every time." });
+      setMessage({ status: "error", message: "Enter your password: signing needs it every time." });
       return;
     }
     void run(async () => {
-      const s = await postJson(`/api/cycles/${detail.id}/signatures`, { password, meaning, reason: reason.trim() || null });
-      return `Signed "${MEANING_WORDS[meaning].label}" by ${s.printedName} at ${new Date(s.signedAt).toUTCString()}.`;
+      const s = await fetchJson<{ printedName: string; signedAt: string }>(`/api/cycles/${detail.id}/signatures`, {
+        json: { password, meaning, reason: reason.trim() || null },
+        what: "the signature",
+      });
+      return `Signed "${SIGNATURE_MEANING_LABELS[meaning]}" by ${s.printedName} at ${new Date(s.signedAt).toUTCString()}.`;
     });
   };
 
@@ -75,9 +70,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
     void run(async () => {
       const form = new FormData();
       form.set("file", correction);
-      const response = await fetch(`/api/cycles/${detail.id}/analyses`, { method: "POST", body: form });
-      const data = await response.json().catch(() => ({}));
-      if (!response.ok) throw new Error(data.error ?? `The server answered ${response.status}.`);
+      const data = await fetchJson<{ analysis: { verdict: Verdict } }>(`/api/cycles/${detail.id}/analyses`, { form, what: "the new analysis" });
       setCorrection(null);
       return `New analysis: ${data.analysis.verdict === "pass" ? "pass" : "fail"}. The earlier analysis stays in the history.`;
     });
@@ -96,7 +89,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
             {detail.signatures.map((s) => (
               <li key={s.id} className="rounded-md border border-ink-line px-3 py-2">
                 <p className="font-medium">
-                  {MEANING_WORDS[s.meaning].label} — {s.printedName} <span className="font-normal text-ink-muted">({s.role})</span>
+                  {SIGNATURE_MEANING_LABELS[s.meaning]} — {s.printedName} <span className="font-normal text-ink-muted">({s.role})</span>
                 </p>
                 <p className="text-xs text-ink-muted">{new Date(s.signedAt).toISOString().replace("T", " ").slice(0, 19)} UTC</p>
                 {s.reason && <p className="mt-1">Reason: {s.reason}</p>}
@@ -134,15 +127,15 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
             <fieldset>
               <legend className="field-label">Meaning of your signature</legend>
               <div className="space-y-1">
-                {(Object.keys(MEANING_WORDS) as Meaning[]).map((m) => {
+                {SIGNATURE_MEANINGS.map((m) => {
                   const failing = m === "approved" && detail.verdict !== "pass";
                   const blocked = m === "approved" && (ownUpload || failing);
                   return (
                     <label key={m} className={`flex items-start gap-2 ${blocked ? "opacity-50" : ""}`}>
                       <input type="radio" name="meaning" value={m} checked={meaning === m} disabled={blocked} onChange={() => setMeaning(m)} className="mt-1" />
                       <span>
-                        <span className="font-medium">{MEANING_WORDS[m].label}</span>
-                        <span className="block text-xs text-ink-muted">{failing ? "The analysis failed, so this cycle cannot be approved." : blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_WORDS[m].statement}</span>
+                        <span className="font-medium">{SIGNATURE_MEANING_LABELS[m]}</span>
+                        <span className="block text-xs text-ink-muted">{failing ? "The analysis failed, so this cycle cannot be approved." : blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_STATEMENTS[m]}</span>
                       </span>
                     </label>
                   );
@@ -175,11 +168,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
 
         {detail.status === "approved" && <p className="text-xs text-ink-muted">Approved records are locked. A correction is a new cycle that refers to this one.</p>}
 
-        {message && (
-          <p role={message.tone === "error" ? "alert" : "status"} className={`rounded-md px-3 py-2 ${message.tone === "error" ? "bg-fail-50 text-fail-700" : "bg-pass-50 text-pass-700"}`}>
-            {message.text}
-          </p>
-        )}
+        <ActionMessage state={message} />
       </div>
     </section>
   );

@@ -2,7 +2,9 @@
 
 import { useId, useMemo, useState, type FormEvent } from "react";
 import useSWR from "swr";
-import { PRESSURE_UNITS, atmosphereAtAltitudeKpa, type PressureUnit, type TemperatureUnit } from "@/lib/steam";
+import { atmosphereAtAltitudeKpa } from "@/lib/steam";
+import { formatPressure, formatTemperature, PRESSURE_UNITS, TEMPERATURE_UNIT_SYMBOL, TEMPERATURE_UNITS, type PressureUnit, type TemperatureUnit } from "@/lib/domain";
+import { fetchJson, type RequestError } from "@/lib/client/fetch-json";
 import { Panel } from "@/components/ui/panel";
 import { bandEdgePressures } from "./band-edges";
 
@@ -26,25 +28,9 @@ type SaturationAnswer = {
   atmosphereSource: string;
 };
 
-class ApiError extends Error {
-  constructor(
-    message: string,
-    readonly status: number,
-    readonly field?: string,
-  ) {
-    super(message);
-  }
-}
-
-async function fetchSaturation(url: string): Promise<SaturationAnswer> {
-  const response = await fetch(url, { headers: { accept: "application/json" } });
-  const body = await response.json().catch(() => ({ error: "The server's answer could not be read." }));
-  if (!response.ok) throw new ApiError(body.error ?? `The server answered ${response.status}.`, response.status, body.field);
-  return body as SaturationAnswer;
-}
+const fetchSaturation = (url: string) => fetchJson<SaturationAnswer>(url, { what: "the steam table" });
 
 const PRESSURE_DECIMALS: Record<PressureUnit, number> = { Pa: 0, kPa: 2, MPa: 5, bar: 4, mbar: 1, psi: 2, mmHg: 1, inHg: 2 };
-const TEMPERATURE_LABELS: Record<TemperatureUnit, string> = { C: "°C", F: "°F", K: "K" };
 
 type AtmosphereChoice = "site" | "altitude" | "measured";
 
@@ -109,8 +95,8 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
         ? `the standard atmosphere at the site's altitude (${site.altitudeM} m)`
         : "the standard atmosphere at sea level (the site has no barometric pressure or altitude set)";
 
-  const temperatureError = toPressure.error as ApiError | undefined;
-  const pressureError = toTemperature.error as ApiError | undefined;
+  const temperatureError = toPressure.error as RequestError | undefined;
+  const pressureError = toTemperature.error as RequestError | undefined;
 
   return (
     <div className="grid gap-gutter xl:grid-cols-2">
@@ -124,7 +110,7 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
               <input type="radio" name={`${ids}-atm`} className="mt-1" checked={choice === "site"} onChange={() => setChoice("site")} />
               <span>
                 <span className="font-medium">{site.siteName ? `This site (${site.siteName})` : "Standard atmosphere"}</span>
-                <span className="block mono mt-0.5" data-testid="site-atmosphere">{site.atmosphereKpa.toFixed(3)} kPa abs</span>
+                <span className="block mono mt-0.5" data-testid="site-atmosphere">{formatPressure(site.atmosphereKpa, { digits: 3, reference: "abs" })}</span>
                 <span className="block text-xs text-ink-muted">From {siteSourceText}.</span>
               </span>
             </label>
@@ -142,7 +128,7 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
                     onChange={(e) => setAltitudeText(e.target.value)}
                   />
                   <span className="text-ink-muted">m</span>
-                  {choice === "altitude" && atmosphere.kpa !== null && <span className="mono">= {atmosphere.kpa.toFixed(3)} kPa</span>}
+                  {choice === "altitude" && atmosphere.kpa !== null && <span className="mono">= {formatPressure(atmosphere.kpa, { digits: 3 })}</span>}
                 </span>
                 <span className="block text-xs text-ink-muted">Standard atmosphere (ASHRAE); weather moves it by a few kPa.</span>
               </span>
@@ -190,8 +176,8 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
           <div>
             <label className="field-label" htmlFor={`${ids}-tu`}>Unit</label>
             <select id={`${ids}-tu`} className="field-input w-24" value={temperatureUnit} onChange={(e) => setTemperatureUnit(e.target.value as TemperatureUnit)}>
-              {(["C", "F", "K"] as const).map((u) => (
-                <option key={u} value={u}>{TEMPERATURE_LABELS[u]}</option>
+              {TEMPERATURE_UNITS.map((u) => (
+                <option key={u} value={u}>{TEMPERATURE_UNIT_SYMBOL[u]}</option>
               ))}
             </select>
           </div>
@@ -204,9 +190,9 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
           <div className="mt-4" data-testid="pressure-result" aria-live="polite">
             <p className="text-sm">
               Saturated steam at{" "}
-              <strong>{fixed(toPressure.data.input.value, 2)} {TEMPERATURE_LABELS[toPressure.data.input.unit as TemperatureUnit] ?? toPressure.data.input.unit}</strong>{" "}
-              is at <strong className="mono text-base">{fixed(toPressure.data.pressureKpaAbs, 2)} kPa abs</strong>
-              {" "}(<span className="mono">{fixed(toPressure.data.pressureKpaGauge, 2)} kPa gauge</span>).
+              <strong>{fixed(toPressure.data.input.value, 2)} {TEMPERATURE_UNIT_SYMBOL[toPressure.data.input.unit as TemperatureUnit] ?? toPressure.data.input.unit}</strong>{" "}
+              is at <strong className="mono text-base">{formatPressure(toPressure.data.pressureKpaAbs, { digits: 2, reference: "abs" })}</strong>
+              {" "}(<span className="mono">{formatPressure(toPressure.data.pressureKpaGauge, { digits: 2, reference: "gauge" })}</span>).
             </p>
             <PressureTable answer={toPressure.data} />
           </div>
@@ -256,8 +242,8 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
               <strong>
                 {toTemperature.data.input.value} {toTemperature.data.input.unit} {toTemperature.data.input.gauge ? "gauge" : "abs"}
               </strong>{" "}
-              (<span className="mono">{fixed(toTemperature.data.pressureKpaAbs, 2)} kPa abs</span>) water boils at{" "}
-              <strong className="mono text-base">{fixed(toTemperature.data.temperatureC, 2)} °C</strong>.
+              (<span className="mono">{formatPressure(toTemperature.data.pressureKpaAbs, { digits: 2, reference: "abs" })}</span>) water boils at{" "}
+              <strong className="mono text-base">{formatTemperature(toTemperature.data.temperatureC)}</strong>.
             </p>
             <table className="data-table mt-3">
               <thead>
@@ -278,7 +264,7 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
       <Panel title="Pressures at the edges of the usual sterilization bands" className="xl:col-span-2">
         <p className="mb-3 text-sm text-ink-muted">
           Saturated steam at each band&apos;s lower and upper temperature (sterilization temperature to +3 K). Gauge figures use{" "}
-          {atmosphere.kpa !== null ? <span className="mono">{atmosphere.kpa.toFixed(3)} kPa</span> : "the atmosphere above, once it is valid"}.
+          {atmosphere.kpa !== null ? <span className="mono">{formatPressure(atmosphere.kpa, { digits: 3 })}</span> : "the atmosphere above, once it is valid"}.
         </p>
         <div className="overflow-x-auto">
           <table className="data-table" data-testid="band-table">

@@ -1,4 +1,5 @@
 import type { ReactNode } from "react";
+import { CYCLE_STATUS_LABELS, type CycleStatus, type Verdict } from "@/lib/domain";
 
 const TONES = {
   neutral: "bg-paper-sunk text-ink-soft ring-ink-line",
@@ -19,20 +20,14 @@ export function Badge({ tone = "neutral", children }: { tone?: BadgeTone; childr
   );
 }
 
-export function VerdictBadge({ verdict }: { verdict: "pass" | "fail" | null | undefined }) {
+export function VerdictBadge({ verdict }: { verdict: Verdict | null | undefined }) {
   if (verdict === "pass") return <Badge tone="pass">✓ Pass</Badge>;
   if (verdict === "fail") return <Badge tone="fail">✕ Fail</Badge>;
   return <Badge>Not analysed</Badge>;
 }
 
-const STATUS_WORDS = {
-  draft: { label: "Draft", tone: "neutral" },
-  submitted: { label: "Awaiting review", tone: "steam" },
-  approved: { label: "Approved", tone: "pass" },
-  rejected: { label: "Returned", tone: "caution" },
-} as const;
+const STATUS_TONES: Record<CycleStatus, BadgeTone> = { draft: "neutral", submitted: "steam", approved: "pass", rejected: "caution" };
 
-export function StatusBadge({ status }: { status: keyof typeof STATUS_WORDS }) {
-  const { label, tone } = STATUS_WORDS[status];
-  return <Badge tone={tone}>{label}</Badge>;
+export function StatusBadge({ status }: { status: CycleStatus }) {
+  return <Badge tone={STATUS_TONES[status]}>{CYCLE_STATUS_LABELS[status]}</Badge>;
 }

@@ -2,7 +2,8 @@ import "server-only";
 import { getServerSession } from "next-auth";
 import { authOptions } from "./options";
 import { can, type Permission } from "./permissions";
-import { getUserById, type Actor } from "@/db/queries/users";
+import { getUserById } from "@/db/queries/users";
+import type { Actor } from "@/lib/domain";
 import { AppError } from "@/lib/errors";
 
 /**

@@ -3,7 +3,7 @@ import { forbidden, notFound, redirect } from "next/navigation";
 import { currentUser } from "./guards";
 import { can, type Permission } from "./permissions";
 import { AppError } from "@/lib/errors";
-import type { Actor } from "@/db/queries/users";
+import type { Actor } from "@/lib/domain";
 
 /**
  * The one guard of every server page: the signed-in actor holding the permission, else the

@@ -1,4 +1,4 @@
-import type { Role } from "@/db/schema";
+import type { Role } from "@/lib/domain";
 
 /**
  * Who may do what, in one place. Route handlers, server actions and pages ask `can(role, action)`;
@@ -29,17 +29,3 @@ export function can(role: Role | undefined | null, permission: Permission): bool
   if (!role) return false;
   return (PERMISSIONS[permission] as readonly Role[]).includes(role);
 }
-
-export const ROLE_LABELS: Record<Role, string> = {
-  technician: "Technician",
-  engineer: "Validation engineer",
-  auditor: "Auditor",
-  admin: "Administrator",
-};
-
-export const ROLE_DUTIES: Record<Role, string> = {
-  technician: "Registers test cycles, uploads logger files and submits them for review.",
-  engineer: "Owns sterilizers, instruments and acceptance profiles; reviews and signs cycles.",
-  auditor: "Reads the signed archive and the audit ledger; changes nothing.",
-  admin: "Manages users, roles, sites and settings; cannot sign records.",
-};

@@ -4,7 +4,7 @@
  */
 import type { AnalysisResult } from "@/lib/analysis/types";
 import type { ColumnMapping, Dialect, InspectResult, MappingOverrides } from "@/lib/logger-files/types";
-import type { CycleStatus, SignatureMeaning, TestKind } from "@/db/schema";
+import type { CycleStatus, SignatureMeaning, TestKind } from "@/lib/domain";
 
 export type { AnalysisResult, ColumnMapping, Dialect, InspectResult, MappingOverrides };
 

@@ -8,7 +8,8 @@ import { downsampleForReport, strideIndexes } from "./downsample";
 import { REPORT_CHART_POINTS, REPORT_PHASE_POINTS, type ReportModel } from "./model";
 import { PhaseChart } from "./phase-chart";
 import { s } from "./styles";
-import { bytes, duration, fixed, pdfText, signed, testKindLabel } from "./text";
+import { formatDuration, testKindLabel } from "@/lib/domain";
+import { bytes, fixed, pdfText, signed } from "./text";
 import { CONTENT_WIDTH, colour, loadChannelStyle, seriesStyle } from "./theme";
 import { bothClocks, instantOf, siteClockAt } from "./time";
 import { TimeChart } from "./time-chart";
@@ -67,13 +68,13 @@ const verdictColours = {
 
 function measuredText(check: Check): string {
   if (check.measured === null) return "not measured";
-  if (check.unit === "s") return duration(check.measured);
+  if (check.unit === "s") return formatDuration(check.measured);
   return `${fixed(check.measured, 2)} ${check.unit}`;
 }
 
 function limitText(check: Check): string {
   if (check.limit === null) return "—";
-  const value = check.unit === "s" ? duration(check.limit) : `${fixed(check.limit, check.unit === "K" ? 1 : 2)} ${check.unit}`;
+  const value = check.unit === "s" ? formatDuration(check.limit) : `${fixed(check.limit, check.unit === "K" ? 1 : 2)} ${check.unit}`;
   if (check.id === "saturation") return `within ±${fixed(check.limit, 1)} K`;
   return `${check.comparison === "at-most" ? "at most" : "at least"} ${value}`;
 }
@@ -225,7 +226,7 @@ function ChannelsSection({ analysis, band }: { analysis: AnalysisOf; band: Serie
               <T style={[s.tdNum, { width: "13%" }, high ? s.fail : {}]}>{fixed(c.maxDuringHold, 2)}</T>
               <T style={[s.tdNum, { width: "13%" }]}>{fixed(c.meanDuringHold, 2)}</T>
               <T style={[s.tdNum, { width: "11%" }]}>{fixed(c.f0, 2)}</T>
-              <T style={[s.tdNum, { width: "15%" }]}>{c.arrivalAfterPlateauStart === null ? "never" : duration(c.arrivalAfterPlateauStart)}</T>
+              <T style={[s.tdNum, { width: "15%" }]}>{c.arrivalAfterPlateauStart === null ? "never" : formatDuration(c.arrivalAfterPlateauStart)}</T>
             </View>
           );
         })}
@@ -242,7 +243,7 @@ function ChannelsSection({ analysis, band }: { analysis: AnalysisOf; band: Serie
 function FlagBlock({ flag, index, at }: { flag: SaturationFlag; index: number; at: (s: number) => string }) {
   return (
     <View style={s.flag} wrap={false}>
-      <T style={s.strong}>{`Flag ${index + 1}: ${flagSide(flag)}, ${at(flag.start)} to ${at(flag.end)}, ${duration(flag.durationS)}, worst ${signed(flag.worst, 2)} K`}</T>
+      <T style={s.strong}>{`Flag ${index + 1}: ${flagSide(flag)}, ${at(flag.start)} to ${at(flag.end)}, ${formatDuration(flag.durationS)}, worst ${signed(flag.worst, 2)} K`}</T>
       <T>{flag.diagnosis}</T>
     </View>
   );
@@ -280,7 +281,7 @@ function RecordSection({ detail }: { detail: CycleDetail }) {
           </Fact>
           {analysis ? (
             <>
-              <Fact label="Samples">{`${analysis.record.samples.toLocaleString("en-GB")} over ${duration(analysis.record.durationS)}`}</Fact>
+              <Fact label="Samples">{`${analysis.record.samples.toLocaleString("en-GB")} over ${formatDuration(analysis.record.durationS)}`}</Fact>
               <Fact label="Sample interval">{`${fixed(analysis.record.medianSampleIntervalS, 2)} s (median)`}</Fact>
               <Fact label="Plateaus found">{`${analysis.plateausFound}${analysis.plateauIndex !== null ? `; number ${analysis.plateauIndex + 1} analysed` : ""}`}</Fact>
               <Fact label="Analysis engine">
@@ -490,8 +491,8 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           <View style={s.readouts} wrap={false}>
             {[
               { label: "Plateau start", value: analysis.plateau ? formatElapsed(analysis.plateau.start) : "none", note: analysis.plateau ? clockAt(analysis.plateau.start) ?? "since first sample" : "never reached Ts" },
-              { label: "Equilibration", value: duration(analysis.equilibrationTime), note: `limit ${duration(limits?.maxEquilibrationS)}` },
-              { label: "Holding", value: duration(analysis.holdingTime), note: `at least ${duration(limits?.holdingTimeS)}` },
+              { label: "Equilibration", value: formatDuration(analysis.equilibrationTime), note: `limit ${formatDuration(limits?.maxEquilibrationS)}` },
+              { label: "Holding", value: formatDuration(analysis.holdingTime), note: `at least ${formatDuration(limits?.holdingTimeS)}` },
               { label: "Ref. − Tsat", value: analysis.saturation.maxDeviation === null ? "—" : `${fixed(analysis.saturation.maxDeviation, 2)} K`, note: `largest, limit ±${fixed(limits?.saturationLimitK, 1)} K` },
               { label: "F0, lowest", value: lowestF0 === null ? "—" : `${fixed(lowestF0, 1)} min`, note: `Tref ${fixed(limits?.f0ReferenceC, 1)} °C, z ${fixed(limits?.f0ZK, 0)} K` },
             ].map((r, i) => (
@@ -517,7 +518,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
             <T style={s.mono}>{detail.cycleNumber}</T>
           </Fact>
           <Fact label="Test kind">{testKindLabel(detail.testKind)}</Fact>
-          <Fact label="Acceptance profile">{`${detail.profile.name} (${fixed(detail.profile.sterilizationTempC, 1)} °C, ${duration(detail.profile.holdingTimeS)})`}</Fact>
+          <Fact label="Acceptance profile">{`${detail.profile.name} (${fixed(detail.profile.sterilizationTempC, 1)} °C, ${formatDuration(detail.profile.holdingTimeS)})`}</Fact>
           <Fact label="Load" wide>
             {detail.loadDescription || "—"}
           </Fact>

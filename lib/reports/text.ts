@@ -1,5 +1,3 @@
-import { PERIODIC_TEST_LABELS } from "@/lib/format";
-
 /**
  * The shipped Inter and JetBrains Mono files are "latin" subsets. The code points below are the
  * ones every shipped face has a glyph for (read from the fonts' cmap tables); anything else would
@@ -62,13 +60,6 @@ export function pdfText(value: string | number | null | undefined): string {
   return out;
 }
 
-export function testKindLabel(kind: string): string {
-  if (PERIODIC_TEST_LABELS[kind]) return PERIODIC_TEST_LABELS[kind];
-  if (kind === "steam-quality") return "Steam quality test";
-  const words = kind.replace(/[-_]+/g, " ").trim();
-  return words.charAt(0).toUpperCase() + words.slice(1);
-}
-
 export function fixed(value: number | null | undefined, digits: number): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
   const text = value.toFixed(digits);
@@ -78,21 +69,6 @@ export function fixed(value: number | null | undefined, digits: number): string 
 export function signed(value: number | null | undefined, digits: number): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return "—";
   return value > 0 ? `+${value.toFixed(digits)}` : fixed(value, digits);
-}
-
-/** A duration the way a technician reads it: "8.0 s", "95 s", "3 min 05 s", "2 h 04 min". */
-export function duration(seconds: number | null | undefined): string {
-  if (seconds === null || seconds === undefined || !Number.isFinite(seconds)) return "—";
-  const s = Math.abs(seconds);
-  const sign = seconds < 0 ? "−" : "";
-  if (s < 10) return `${sign}${s.toFixed(1)} s`;
-  if (s < 120) return `${sign}${Math.round(s)} s`;
-  if (s < 3600) {
-    const whole = Math.round(s);
-    return `${sign}${Math.floor(whole / 60)} min ${String(whole % 60).padStart(2, "0")} s`;
-  }
-  const minutes = Math.round(s / 60);
-  return `${sign}${Math.floor(minutes / 60)} h ${String(minutes % 60).padStart(2, "0")} min`;
 }
 
 export function bytes(n: number): string {

@@ -7,7 +7,7 @@ import { can } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
 import { siteAtmosphereKpa } from "@/lib/cycles/analyze-file";
 import { toCsv, type CsvCell } from "@/lib/csv-export";
-import { TEST_KIND_LABELS } from "@/lib/validations/intake";
+import { testKindLabel } from "@/lib/domain";
 import type { AnalysisResult } from "@/lib/analysis/types";
 import type { CycleDetail, CycleListItem, CycleListResponse, HistoryEntry, MappingOverrides } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
@@ -138,7 +138,7 @@ function exportRow(c: CycleListItem): CsvCell[] {
     c.createdAt,
     c.sterilizer.name,
     c.profile.name,
-    TEST_KIND_LABELS[c.testKind] ?? c.testKind,
+    testKindLabel(c.testKind),
     c.loadDescription,
     c.status,
     c.verdict ?? "not analysed",

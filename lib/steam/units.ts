@@ -1,11 +1,8 @@
 import { KELVIN_OFFSET, STANDARD_ATMOSPHERE_KPA } from "./constants";
 import { SteamRangeError } from "./errors";
+import { TEMPERATURE_UNIT_SYMBOL, type PressureUnit, type TemperatureUnit } from "../domain/units";
 
-export type TemperatureUnit = "C" | "F" | "K";
-export type PressureUnit = "Pa" | "kPa" | "MPa" | "bar" | "mbar" | "psi" | "mmHg" | "inHg";
-
-export const TEMPERATURE_UNITS: readonly TemperatureUnit[] = ["C", "F", "K"];
-export const PRESSURE_UNITS: readonly PressureUnit[] = ["Pa", "kPa", "MPa", "bar", "mbar", "psi", "mmHg", "inHg"];
+export { PRESSURE_UNITS, TEMPERATURE_UNITS, TEMPERATURE_UNIT_SYMBOL, type PressureUnit, type TemperatureUnit } from "../domain/units";
 
 // Exact or conventional definitions, see DOMAIN.md §4.
 const KPA_PER_UNIT: Record<PressureUnit, number> = {
@@ -18,8 +15,6 @@ const KPA_PER_UNIT: Record<PressureUnit, number> = {
   mmHg: 0.133322387415,
   inHg: 3.38638864,
 };
-
-export const TEMPERATURE_UNIT_SYMBOL: Record<TemperatureUnit, string> = { C: "°C", F: "°F", K: "K" };
 
 function requireFinite(value: number, what: string): void {
   if (!Number.isFinite(value)) throw new SteamRangeError(`${what} ${value} is not a finite number`);

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { CYCLE_STATUSES } from "@/db/schema";
+import { CYCLE_STATUSES, VERDICTS } from "@/lib/domain";
 
 const isoDate = z
   .string()
@@ -8,7 +8,7 @@ const isoDate = z
 
 export const cycleListQuerySchema = z.object({
   status: z.enum(CYCLE_STATUSES, { message: `status must be one of ${CYCLE_STATUSES.join(", ")}.` }).optional(),
-  verdict: z.enum(["pass", "fail"], { message: "verdict must be pass or fail." }).optional(),
+  verdict: z.enum(VERDICTS, { message: "verdict must be pass or fail." }).optional(),
   sterilizer: z.string().trim().min(1).optional(),
   from: isoDate.optional(),
   to: isoDate.optional(),

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { PERIODIC_TEST_KINDS } from "@/db/schema";
+import { PERIODIC_TEST_KINDS } from "@/lib/domain";
 
 /** A number typed into a form: decimal comma accepted, an empty field is "missing", not 0. */
 export function numberField(what: string, { min, max, unit = "", integer = false }: { min: number; max: number; unit?: string; integer?: boolean }) {

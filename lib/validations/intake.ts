@@ -1,18 +1,8 @@
 import { z } from "zod";
-import { TEST_KINDS, type TestKind } from "@/db/schema";
-import { PRESSURE_UNITS, TEMPERATURE_UNITS, type PressureUnit, type TemperatureUnit } from "@/lib/steam/units";
+import { PRESSURE_UNITS, TEMPERATURE_UNITS, TEST_KINDS } from "@/lib/domain";
 
 /** File names the intake accepts: the text exports that loggers write. */
 export const LOGGER_FILE_EXTENSIONS = [".csv", ".txt", ".tsv", ".dat", ".log"] as const;
-
-export const TEST_KIND_LABELS: Record<TestKind, string> = {
-  "thermometric-small-load": "Thermometric test, small load",
-  "thermometric-full-load": "Thermometric test, full load",
-  "bowie-dick": "Bowie-Dick test",
-  "air-leakage": "Air leakage test",
-  "steam-quality": "Steam quality test",
-  "routine-load": "Routine load",
-};
 
 const emptyToUndefined = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
 
@@ -47,9 +37,9 @@ const columnRole = z.enum(["time", "temperature", "pressure", "ignored"]);
 export const mappingOverridesSchema = z.object({
   timeColumn: z.string().min(1).optional(),
   pressureColumn: z.string().min(1).optional(),
-  pressureUnit: z.enum(PRESSURE_UNITS as [PressureUnit, ...PressureUnit[]]).optional(),
+  pressureUnit: z.enum(PRESSURE_UNITS).optional(),
   pressureGauge: z.boolean().optional(),
-  temperatureUnit: z.enum(TEMPERATURE_UNITS as [TemperatureUnit, ...TemperatureUnit[]]).optional(),
+  temperatureUnit: z.enum(TEMPERATURE_UNITS).optional(),
   referenceColumn: z.string().min(1).optional(),
   columns: z
     .record(z.string(), z.object({ role: columnRole, unit: z.string().optional(), gauge: z.boolean().optional() }))

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { PRESSURE_UNITS, type PressureUnit } from "@/lib/steam";
+import { PRESSURE_UNITS, VERDICTS } from "@/lib/domain";
 import { numberField, optionalNumberField } from "./equipment";
 
 const common = {
@@ -20,7 +20,7 @@ const common = {
     .transform((s) => (s ? s : null)),
 };
 
-const pressureUnit = z.enum(PRESSURE_UNITS as unknown as [PressureUnit, ...PressureUnit[]], { error: "Choose the pressure unit." });
+const pressureUnit = z.enum(PRESSURE_UNITS, { error: "Choose the pressure unit." });
 
 export const airLeakageSchema = z.object({
   ...common,
@@ -69,7 +69,7 @@ export const drynessSchema = z.object({
 export const periodicTestFiltersSchema = z.object({
   sterilizer: z.string().optional().catch(undefined),
   kind: z.string().optional().catch(undefined),
-  result: z.enum(["pass", "fail"]).optional().catch(undefined),
+  result: z.enum(VERDICTS).optional().catch(undefined),
   from: z.string().regex(/^\d{4}-\d{2}-\d{2}$/).optional().catch(undefined),
   to: z.string().regex(/^\d{4}-\d{2}-\d{2}$/).optional().catch(undefined),
   page: z.coerce.number().int().min(1).optional().catch(undefined),

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { SIGNATURE_MEANINGS } from "@/db/schema";
+import { SIGNATURE_MEANINGS } from "@/lib/domain";
 
 export const signatureSchema = z
   .object({

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { ROLES } from "@/db/schema";
+import { ROLES } from "@/lib/domain";
 
 const password = z.string().min(10, "The password must have at least 10 characters.").max(200);
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { can, PERMISSIONS } from "@/lib/auth/permissions";
-import { ROLES } from "@/lib/auth/roles";
+import { ROLES } from "@/lib/domain";
 
 describe("the permissions table", () => {
   it("lets a technician upload and submit, but not sign or manage users", () => {

@@ -5,7 +5,7 @@ import type { SeriesResponse } from "@/lib/cycles/contracts";
 import { SAFETY_NOTES } from "@/lib/safety";
 import { downsampleForReport, pdfText } from "@/lib/reports";
 import { strideIndexes } from "@/lib/reports/downsample";
-import { bytes, duration, fontCovers } from "@/lib/reports/text";
+import { bytes, fontCovers } from "@/lib/reports/text";
 import { bothClocks, instantOf, siteText } from "@/lib/reports/time";
 
 function series(values: Array<Array<number | null>>, timesS = values[0].map((_, i) => i)): SeriesResponse {
@@ -176,14 +176,6 @@ describe("the shipped fonts and the report's glyph rules", () => {
 });
 
 describe("figures as the report prints them", () => {
-  it("writes durations the way a technician reads them", () => {
-    expect(duration(8)).toBe("8.0 s");
-    expect(duration(95)).toBe("95 s");
-    expect(duration(185)).toBe("3 min 05 s");
-    expect(duration(7440)).toBe("2 h 04 min");
-    expect(duration(null)).toBe("—");
-  });
-
   it("gives file sizes in binary units with the exact byte count", () => {
     expect(bytes(512)).toBe("512 bytes");
     expect(bytes(92_603)).toBe("90.4 KiB (92,603 bytes)");

@@ -5,8 +5,8 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { CalibrationBadge } from "@/components/equipment/state-badges";
 import { InstrumentForm } from "@/components/equipment/instrument-forms";
-import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/components/equipment/labels";
 import { formatDate } from "@/lib/format";
+import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/lib/domain";
 
 export const metadata = { title: "Instruments" };
 

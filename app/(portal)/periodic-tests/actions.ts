@@ -4,14 +4,13 @@ import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/actions";
 import { airLeakageSchema, bowieDickSchema, drynessSchema, nonCondensableGasSchema, superheatSchema } from "@/lib/validations/periodic-tests";
 import { recordAirLeakage, recordBowieDick, recordDryness, recordNonCondensableGas, recordSuperheat, type RecordedTest } from "@/lib/services/periodic-test-records";
-import { PERIODIC_TEST_LABELS } from "@/lib/format";
-import type { RecordableKind } from "@/components/periodic-tests/kinds";
+import { testKindLabel, type RecordableKind } from "@/lib/domain";
 
 function saved(kind: RecordableKind, sterilizerId: string, { sterilizerName, passed }: RecordedTest) {
   revalidatePath("/periodic-tests");
   revalidatePath(`/sterilizers/${sterilizerId}`);
   revalidatePath("/");
-  return `${PERIODIC_TEST_LABELS[kind]} for ${sterilizerName} recorded: ${passed ? "PASS" : "FAIL"}.${passed ? "" : " Take the sterilizer out of use until the cause is found and a repeat test passes."}`;
+  return `${testKindLabel(kind)} for ${sterilizerName} recorded: ${passed ? "PASS" : "FAIL"}.${passed ? "" : " Take the sterilizer out of use until the cause is found and a repeat test passes."}`;
 }
 
 export const recordAirLeakageAction = formAction("periodic-test:record", airLeakageSchema, async (input, actor) =>

@@ -5,9 +5,8 @@ import { periodicTestFiltersSchema } from "@/lib/validations/periodic-tests";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { intervalWords, ResultBadge, ScheduleBadge } from "@/components/equipment/state-badges";
 import { keyFigure, measurementRows } from "@/components/periodic-tests/summary";
-import { isRecordable } from "@/components/periodic-tests/kinds";
-import { formatDate, formatDateTime, PERIODIC_TEST_LABELS } from "@/lib/format";
-import { PERIODIC_TEST_KINDS } from "@/db/schema";
+import { formatDate, formatDateTime } from "@/lib/format";
+import { isRecordable, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
 
 export const metadata = { title: "Periodic tests" };
 
@@ -55,7 +54,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                     group.map((r, i) => (
                       <tr key={`${r.sterilizerId}:${r.kind}`} className={r.sterilizerActive ? "" : "opacity-60"}>
                         <td className="font-medium">{i === 0 && <Link href={`/sterilizers/${r.sterilizerId}`} className="text-steam-700 hover:underline">{r.sterilizerName}</Link>}</td>
-                        <td>{PERIODIC_TEST_LABELS[r.kind]}</td>
+                        <td>{testKindLabel(r.kind)}</td>
                         <td className="text-sm">{intervalWords(r.intervalDays)}</td>
                         <td className="whitespace-nowrap text-sm">{r.status.lastPassOn ? formatDate(r.status.lastPassOn) : "—"}</td>
                         <td className="whitespace-nowrap text-sm">{r.status.dueOn ? formatDate(r.status.dueOn) : "Now"}</td>
@@ -93,7 +92,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
               <label className="field-label" htmlFor="f-kind">Test</label>
               <select id="f-kind" name="kind" defaultValue={filter.kind ?? ""} className="field-input">
                 <option value="">All</option>
-                {PERIODIC_TEST_KINDS.map((k) => <option key={k} value={k}>{PERIODIC_TEST_LABELS[k]}</option>)}
+                {PERIODIC_TEST_KINDS.map((k) => <option key={k} value={k}>{testKindLabel(k)}</option>)}
               </select>
             </div>
             <div>
@@ -128,7 +127,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                     <tr key={t.id}>
                       <td className="whitespace-nowrap text-sm">{formatDateTime(t.performedAt, timeZone)}</td>
                       <td className="text-sm">{t.sterilizerName}</td>
-                      <td className="text-sm">{PERIODIC_TEST_LABELS[t.kind]}</td>
+                      <td className="text-sm">{testKindLabel(t.kind)}</td>
                       <td><ResultBadge result={t.result} /></td>
                       <td className="text-sm">
                         {keyFigure(t.kind, t.measurements)}

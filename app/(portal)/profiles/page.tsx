@@ -4,7 +4,8 @@ import { getProfilesPage } from "@/lib/services/profiles";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { ProfileForm } from "@/components/equipment/profile-form";
-import { formatDate, formatSeconds } from "@/lib/format";
+import { formatDate } from "@/lib/format";
+import { formatDuration } from "@/lib/domain";
 
 export const metadata = { title: "Acceptance profiles" };
 
@@ -57,7 +58,7 @@ function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof getProfilesPag
                 <p className="text-2xs text-ink-faint">Created {formatDate(p.createdAt)}</p>
               </td>
               <td className="whitespace-nowrap">{p.sterilizationTempC}–{+(p.sterilizationTempC + p.bandK).toFixed(2)} °C</td>
-              <td className="whitespace-nowrap">{formatSeconds(p.holdingTimeS)}</td>
+              <td className="whitespace-nowrap">{formatDuration(p.holdingTimeS)}</td>
               <td>{p.maxEquilibrationS} s</td>
               <td>{p.maxSpreadK} K</td>
               <td>{p.saturationLimitK} K</td>

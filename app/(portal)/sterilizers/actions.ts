@@ -4,7 +4,7 @@ import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/actions";
 import { createSterilizerSchema, removeScheduleSchema, saveScheduleSchema, updateSterilizerSchema } from "@/lib/validations/equipment";
 import { createSterilizer, removeSchedule, saveSchedule, updateSterilizer } from "@/lib/services/equipment";
-import { PERIODIC_TEST_LABELS } from "@/lib/format";
+import { testKindLabel } from "@/lib/domain";
 
 export const createSterilizerAction = formAction("equipment:manage", createSterilizerSchema, async (input, actor) => {
   await createSterilizer({ actor, input });
@@ -23,12 +23,12 @@ export const saveScheduleAction = formAction("equipment:manage", saveScheduleSch
   const { changed } = await saveSchedule({ actor, sterilizerId, kind, intervalDays, reason });
   revalidatePath(`/sterilizers/${sterilizerId}`);
   revalidatePath("/periodic-tests");
-  return changed ? `${PERIODIC_TEST_LABELS[kind]}: every ${intervalDays} day${intervalDays === 1 ? "" : "s"}.` : "Nothing changed.";
+  return changed ? `${testKindLabel(kind)}: every ${intervalDays} day${intervalDays === 1 ? "" : "s"}.` : "Nothing changed.";
 });
 
 export const removeScheduleAction = formAction("equipment:manage", removeScheduleSchema, async ({ sterilizerId, kind, reason }, actor) => {
   await removeSchedule({ actor, sterilizerId, kind, reason });
   revalidatePath(`/sterilizers/${sterilizerId}`);
   revalidatePath("/periodic-tests");
-  return `${PERIODIC_TEST_LABELS[kind]} was taken off the schedule.`;
+  return `${testKindLabel(kind)} was taken off the schedule.`;
 });

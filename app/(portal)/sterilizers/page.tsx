@@ -4,7 +4,8 @@ import { getSterilizersPage } from "@/lib/services/equipment";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { SterilizerForm } from "@/components/equipment/sterilizer-form";
-import { formatDateTime, PERIODIC_TEST_LABELS } from "@/lib/format";
+import { formatDateTime } from "@/lib/format";
+import { testKindLabel } from "@/lib/domain";
 
 export const metadata = { title: "Sterilizers" };
 
@@ -82,7 +83,7 @@ export default async function SterilizersPage() {
                               return (
                                 <li key={t.kind} className={today ? "text-caution-700" : "text-fail-700"}>
                                   <span aria-hidden>{today ? "▲ " : "✕ "}</span>
-                                  {PERIODIC_TEST_LABELS[t.kind]}: <strong className="font-semibold">{word}</strong>
+                                  {testKindLabel(t.kind)}: <strong className="font-semibold">{word}</strong>
                                 </li>
                               );
                             })}

@@ -4,7 +4,7 @@ import { PapinMark } from "@/components/ui/papin-mark";
 import { SafetyNotice } from "@/components/shell/safety-notice";
 import { currentUser } from "@/lib/auth/guards";
 import { demoSignIn } from "@/lib/services/demo";
-import { ROLE_LABELS } from "@/lib/auth/permissions";
+import { ROLE_LABELS } from "@/lib/domain";
 import { SIGN_IN_ERRORS } from "@/lib/auth/messages";
 
 export const metadata = { title: "Sign in" };

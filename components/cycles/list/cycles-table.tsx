@@ -6,12 +6,13 @@ import { useEffect, useId, useMemo, useRef, useState } from "react";
 import useSWR from "swr";
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from "@tanstack/react-table";
 import type { CycleListItem, CycleListResponse } from "@/lib/cycles/contracts";
-import { TEST_KIND_LABELS } from "@/lib/validations/intake";
+import { fetchJson, type RequestError } from "@/lib/client/fetch-json";
 import { formatDateTime } from "@/lib/format";
 import { StatusBadge, VerdictBadge } from "@/components/ui/badge";
 import { EmptyState } from "@/components/ui/panel";
 import { ListSkeletonRows } from "./list-skeleton";
 import { PAGE_SIZES, apiListQuery, exportListQuery, hasFilters, readListQuery, writeListQuery, type CycleListQuery } from "./list-query";
+import { CYCLE_STATUS_LABELS, CYCLE_STATUSES, testKindLabel } from "@/lib/domain";
 
 export type SterilizerOption = { id: string; name: string };
 
@@ -28,28 +29,9 @@ type Props = {
   caption: string;
 };
 
-class ListError extends Error {
-  constructor(
-    message: string,
-    readonly status: number,
-  ) {
-    super(message);
-  }
-}
+const fetchList = (url: string) => fetchJson<CycleListResponse>(url, { what: "the cycle list" });
 
-async function fetchList(url: string): Promise<CycleListResponse> {
-  const response = await fetch(url, { headers: { accept: "application/json" } });
-  const body = await response.json().catch(() => null);
-  if (!response.ok) throw new ListError(body?.error ?? `The server answered ${response.status}.`, response.status);
-  return body as CycleListResponse;
-}
-
-const STATUS_OPTIONS = [
-  { value: "draft", label: "Draft" },
-  { value: "submitted", label: "Awaiting review" },
-  { value: "approved", label: "Approved" },
-  { value: "rejected", label: "Returned" },
-] as const;
+const STATUS_OPTIONS = CYCLE_STATUSES.map((value) => ({ value, label: CYCLE_STATUS_LABELS[value] }));
 
 // Column id → the server's sort key; columns without one are not sortable.
 const SORT_KEYS: Record<string, string | undefined> = {
@@ -85,7 +67,7 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
   }
 
   const key = `/api/cycles?${apiListQuery(query, fixed)}`;
-  const { data, error, isLoading, isValidating, mutate } = useSWR<CycleListResponse, ListError>(key, fetchList, { keepPreviousData: true, revalidateOnFocus: true });
+  const { data, error, isLoading, isValidating, mutate } = useSWR<CycleListResponse, RequestError>(key, fetchList, { keepPreviousData: true, revalidateOnFocus: true });
 
   // Typing waits for a pause before it asks the server.
   useEffect(() => {
@@ -119,7 +101,7 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
       }),
       column.accessor("startedAt", { header: "Started", cell: (info) => <span className="whitespace-nowrap">{formatDateTime(info.getValue(), timeZone)}</span> }),
       column.accessor((row) => row.sterilizer.name, { id: "sterilizer", header: "Sterilizer" }),
-      column.accessor("testKind", { header: "Test", enableSorting: false, cell: (info) => TEST_KIND_LABELS[info.getValue()] ?? info.getValue() }),
+      column.accessor("testKind", { header: "Test", enableSorting: false, cell: (info) => testKindLabel(info.getValue()) }),
       column.accessor((row) => row.profile.name, { id: "profile", header: "Profile", enableSorting: false, cell: (info) => <span className="text-ink-soft">{info.getValue()}</span> }),
       column.accessor("verdict", { header: "Verdict", cell: (info) => <span className="whitespace-nowrap"><VerdictBadge verdict={info.getValue()} /></span> }),
       column.accessor("status", { header: "Status", cell: (info) => <span className="whitespace-nowrap"><StatusBadge status={info.getValue()} /></span> }),

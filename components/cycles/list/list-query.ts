@@ -1,9 +1,9 @@
-import type { CycleStatus } from "@/db/schema";
+import { CYCLE_STATUSES, VERDICTS, type CycleStatus, type Verdict } from "@/lib/domain";
 
 /** The list's state as it sits in the URL and in GET /api/cycles. */
 export type CycleListQuery = {
   status: CycleStatus | "";
-  verdict: "pass" | "fail" | "";
+  verdict: Verdict | "";
   sterilizer: string;
   from: string;
   to: string;
@@ -14,7 +14,6 @@ export type CycleListQuery = {
 };
 
 export const PAGE_SIZES = [10, 25, 50, 100] as const;
-const STATUSES: readonly string[] = ["draft", "submitted", "approved", "rejected"];
 const SORT_RE = /^(startedAt|createdAt|cycleNumber|status|verdict|sterilizer|submittedAt):(asc|desc)$/;
 const DATE_RE = /^\d{4}-\d{2}-\d{2}$/;
 
@@ -27,8 +26,8 @@ export function readListQuery(params: URLSearchParams, defaults: { sort: string;
   const from = params.get("from") ?? "";
   const to = params.get("to") ?? "";
   return {
-    status: STATUSES.includes(status) ? (status as CycleStatus) : "",
-    verdict: verdict === "pass" || verdict === "fail" ? verdict : "",
+    status: (CYCLE_STATUSES as readonly string[]).includes(status) ? (status as CycleStatus) : "",
+    verdict: (VERDICTS as readonly string[]).includes(verdict) ? (verdict as Verdict) : "",
     sterilizer: params.get("sterilizer") ?? "",
     from: DATE_RE.test(from) ? from : "",
     to: DATE_RE.test(to) ? to : "",

@@ -1,7 +1,8 @@
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
 import { elapsedFormatter } from "@/lib/cycles/chart-model";
-import { formatNumber, formatSeconds } from "@/lib/format";
+import { formatNumber } from "@/lib/format";
+import { formatDuration } from "@/lib/domain";
 
 /** The plain-language verdict: summary, each failed check's diagnosis, each saturation flag. */
 export function Findings({ detail }: { detail: CycleDetail }) {
@@ -76,7 +77,7 @@ export function Findings({ detail }: { detail: CycleDetail }) {
                 <p className="font-medium">
                   {f.kind === "below" ? "Colder than saturated steam: air or non-condensable gas" : "Hotter than saturated steam: superheat"}
                   <span className="font-normal text-ink-muted">
-                    {" "}· {at(f.start)}–{at(f.end)} ({formatSeconds(f.durationS)}) · worst {f.worst > 0 ? "+" : "−"}
+                    {" "}· {at(f.start)}–{at(f.end)} ({formatDuration(f.durationS)}) · worst {f.worst > 0 ? "+" : "−"}
                     {formatNumber(Math.abs(f.worst), 2)} K
                   </span>
                 </p>

@@ -5,6 +5,7 @@ import {
   CRITICAL_POINT,
   TRIPLE_POINT,
 } from "@/lib/steam";
+import { formatPressure, formatTemperature } from "@/lib/domain";
 import {
   classifySample,
   countSides,
@@ -142,7 +143,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
         ))}
         <span className="ml-auto text-xs text-ink-muted" aria-live="polite">
           {hover
-            ? `${formatElapsed(hover.timeS, { forceHours: (overview.data?.window.to ?? 0) >= 3600 })} · ${hover.temperatureC.toFixed(2)} °C · ${hover.pressureKpa.toFixed(1)} kPa abs · ${hover.deviationK >= 0 ? "+" : "−"}${Math.abs(hover.deviationK).toFixed(2)} K from saturation`
+            ? `${formatElapsed(hover.timeS, { forceHours: (overview.data?.window.to ?? 0) >= 3600 })} · ${formatTemperature(hover.temperatureC)} · ${formatPressure(hover.pressureKpa, { reference: "abs" })} · ${hover.deviationK >= 0 ? "+" : "−"}${Math.abs(hover.deviationK).toFixed(2)} K from saturation`
             : plateau
               ? "Point at a plateau sample to read it."
               : ""}

@@ -1,6 +1,7 @@
 import type { Check } from "@/lib/analysis/types";
 import type { Dialect, MappingOverrides } from "@/lib/logger-files/types";
-import { formatDateTime, formatNumber, formatSeconds, PERIODIC_TEST_LABELS } from "@/lib/format";
+import { formatDateTime, formatNumber } from "@/lib/format";
+import { formatDuration, formatTemperature } from "@/lib/domain";
 import { hasZone } from "@/lib/cycles/chart-model";
 
 /** A logger's start time: in the site's zone when the file named a zone, else as the logger's clock showed it. */
@@ -10,15 +11,11 @@ export function formatStartedAt(iso: string | null, timeZone: string): string {
   return `${formatDateTime(`${iso.trim()}Z`, "UTC")} (logger clock)`;
 }
 
-export function testKindLabel(kind: string): string {
-  return PERIODIC_TEST_LABELS[kind] ?? (kind === "steam-quality" ? "Steam quality test" : kind.replace(/-/g, " "));
-}
-
 export function formatFigure(value: number | null, unit: Check["unit"]): string {
   if (value === null || !Number.isFinite(value)) return "not measured";
-  if (unit === "s") return value >= 120 ? `${formatSeconds(value)} (${Math.round(value)} s)` : `${formatNumber(value, value < 10 ? 1 : 0)} s`;
+  if (unit === "s") return value >= 120 ? `${formatDuration(value)} (${Math.round(value)} s)` : formatDuration(value);
   if (unit === "K") return `${formatNumber(value, 2)} K`;
-  return `${formatNumber(value, 2)} °C`;
+  return formatTemperature(value);
 }
 
 export function formatLimit(check: Check): string {

@@ -2,9 +2,10 @@ import type { AnalysisResult } from "@/lib/analysis/types";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
-import { formatBytes, formatDateTime, formatNumber, formatSeconds } from "@/lib/format";
+import { formatBytes, formatDateTime, formatNumber } from "@/lib/format";
 import { elapsedFormatter } from "@/lib/cycles/chart-model";
 import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
+import { formatDuration } from "@/lib/domain";
 
 export function ChecksTable({ analysis }: { analysis: AnalysisResult }) {
   return (
@@ -92,8 +93,8 @@ export function KeyFigures({ analysis }: { analysis: AnalysisResult | null }) {
   const at = elapsedFormatter(analysis.record.durationS);
   const rows: Array<[string, string]> = [
     ["Plateau", analysis.plateau ? `${at(analysis.plateau.start)}–${at(analysis.plateau.end)}` : "not reached"],
-    ["Equilibration time", formatSeconds(analysis.equilibrationTime)],
-    ["Holding time", formatSeconds(analysis.holdingTime)],
+    ["Equilibration time", formatDuration(analysis.equilibrationTime)],
+    ["Holding time", formatDuration(analysis.holdingTime)],
     [
       "Reference − saturation",
       analysis.saturation.lowestDeviation === null || analysis.saturation.highestDeviation === null
@@ -120,7 +121,7 @@ export function ProfileLimits({ profile }: { profile: CycleDetail["profile"] }) 
   const rows: Array<[string, string]> = [
     ["Sterilization temperature", `${profile.sterilizationTempC} °C`],
     ["Band above it", `${profile.bandK} K`],
-    ["Minimum holding time", formatSeconds(profile.holdingTimeS)],
+    ["Minimum holding time", formatDuration(profile.holdingTimeS)],
     ["Longest equilibration", `${profile.maxEquilibrationS} s`],
     ["Largest spread", `${profile.maxSpreadK} K`],
     ["Saturation limit", `± ${profile.saturationLimitK} K`],

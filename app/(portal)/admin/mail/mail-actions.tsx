@@ -11,14 +11,14 @@ import { retryMailAction, sendDueMailAction } from "./actions";
  */
 export function RetryMailButton({ id, subject, canRetry }: { id: string; subject: string; canRetry: boolean }) {
   const [state, action, pending] = useActionState(retryMailAction, IDLE_FORM_STATE);
-  if (!canRetry) return <ActionMessage state={state} className="mt-1 max-w-xs" />;
+  if (!canRetry) return <ActionMessage state={state} compact className="mt-1 max-w-xs" />;
   return (
     <form action={action}>
       <input type="hidden" name="id" value={id} />
       <button className="btn-secondary whitespace-nowrap px-2 py-1 text-xs" disabled={pending} aria-label={`Retry now: ${subject}`}>
         {pending ? "Sending…" : "Retry now"}
       </button>
-      <ActionMessage state={state} className="mt-1 max-w-xs" />
+      <ActionMessage state={state} compact className="mt-1 max-w-xs" />
     </form>
   );
 }
@@ -28,7 +28,7 @@ export function SendDueMailButton({ disabled }: { disabled?: boolean }) {
   return (
     <form action={action} className="flex flex-col items-end">
       <button className="btn-primary" disabled={pending || disabled}>{pending ? "Sending…" : "Send due mail now"}</button>
-      <ActionMessage state={state} className="mt-1 max-w-xs" />
+      <ActionMessage state={state} compact className="mt-1 max-w-xs" />
     </form>
   );
 }

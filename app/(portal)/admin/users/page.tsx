@@ -1,5 +1,5 @@
 import { requirePageActor } from "@/lib/auth/page-guard";
-import { ROLE_LABELS } from "@/lib/auth/permissions";
+import { ROLE_LABELS } from "@/lib/domain";
 import { listUsers } from "@/lib/services/users";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";

@@ -16,7 +16,8 @@ import {
   RecordHistory,
 } from "@/components/cycles/record/record-tables";
 import { SafetyCaution } from "@/components/cycles/record/safety-caution";
-import { formatStartedAt, testKindLabel } from "@/components/cycles/record/record-format";
+import { formatStartedAt } from "@/components/cycles/record/record-format";
+import { testKindLabel } from "@/lib/domain";
 import { describeTimeChart } from "@/lib/cycles/chart-model";
 import { formatDateTime } from "@/lib/format";
 import { orNotFound } from "@/lib/auth/page-guard";

@@ -5,8 +5,8 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { CalibrationBadge } from "@/components/equipment/state-badges";
 import { CertificateForm, ClearMappingForm } from "@/components/equipment/instrument-forms";
-import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/components/equipment/labels";
 import { formatDate, formatDateTime } from "@/lib/format";
+import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/lib/domain";
 
 export const metadata = { title: "Instrument" };
 

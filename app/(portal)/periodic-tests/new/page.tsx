@@ -4,8 +4,7 @@ import { listSterilizerChoices } from "@/lib/services/periodic-tests";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { AirLeakageForm, BowieDickForm, DrynessForm, NonCondensableGasForm, SuperheatForm } from "@/components/periodic-tests/record-forms";
 import { SafetyCaution } from "@/components/periodic-tests/safety-caution";
-import { isRecordable, RECORDABLE_KINDS, type RecordableKind } from "@/components/periodic-tests/kinds";
-import { PERIODIC_TEST_LABELS } from "@/lib/format";
+import { isRecordable, RECORDABLE_KINDS, type RecordableKind, testKindLabel } from "@/lib/domain";
 
 export const metadata = { title: "Record a periodic test" };
 
@@ -37,7 +36,7 @@ export default async function RecordTestPage({ searchParams }: { searchParams: P
         ))}
       </nav>
       <div className="grid gap-gutter xl:grid-cols-[1fr_22rem]">
-        <Panel title={PERIODIC_TEST_LABELS[kind]}>
+        <Panel title={testKindLabel(kind)}>
           {sterilizers.filter((s) => s.active).length === 0 ? (
             <EmptyState title="No sterilizer in service on this site." />
           ) : kind === "air-leakage" ? (

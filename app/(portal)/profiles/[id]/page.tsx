@@ -4,7 +4,8 @@ import { getProfilePage } from "@/lib/services/profiles";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { ProfileForm } from "@/components/equipment/profile-form";
-import { formatDateTime, formatSeconds } from "@/lib/format";
+import { formatDateTime } from "@/lib/format";
+import { formatDuration } from "@/lib/domain";
 
 export const metadata = { title: "Acceptance profile" };
 
@@ -15,7 +16,7 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
   const rows: Array<[string, string]> = [
     ["Sterilization temperature", `${p.sterilizationTempC} °C`],
     ["Band", `${p.sterilizationTempC}–${+(p.sterilizationTempC + p.bandK).toFixed(2)} °C (${p.bandK} K)`],
-    ["Minimum holding time", formatSeconds(p.holdingTimeS)],
+    ["Minimum holding time", formatDuration(p.holdingTimeS)],
     ["Longest equilibration", `${p.maxEquilibrationS} s`],
     ["Largest spread during holding", `${p.maxSpreadK} K`],
     ["Saturation limit", `± ${p.saturationLimitK} K from Tsat(chamber pressure)`],

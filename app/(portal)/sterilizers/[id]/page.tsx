@@ -7,8 +7,8 @@ import { SterilizerForm } from "@/components/equipment/sterilizer-form";
 import { ScheduleEditor } from "@/components/equipment/schedule-editor";
 import { TrendChart } from "@/components/equipment/trend-chart";
 import { intervalWords, ScheduleBadge } from "@/components/equipment/state-badges";
-import { formatDate, formatDateTime, formatSeconds, PERIODIC_TEST_LABELS } from "@/lib/format";
-import { PERIODIC_TEST_KINDS } from "@/db/schema";
+import { formatDate, formatDateTime } from "@/lib/format";
+import { formatDuration, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
 
 export const metadata = { title: "Sterilizer" };
 
@@ -90,7 +90,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                   <tbody>
                     {schedule.map((r) => (
                       <tr key={r.kind}>
-                        <td className="font-medium">{PERIODIC_TEST_LABELS[r.kind]}</td>
+                        <td className="font-medium">{testKindLabel(r.kind)}</td>
                         <td>{intervalWords(r.intervalDays)}</td>
                         <td>{r.status.lastPassOn ? formatDate(r.status.lastPassOn) : "—"}</td>
                         <td>{r.status.dueOn ? formatDate(r.status.dueOn) : "Now"}</td>
@@ -147,7 +147,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                   <>
                     <Link href={`/profiles/${profile.id}`} className="text-steam-700 hover:underline">{profile.name}</Link>
                     <p className="text-xs text-ink-muted">
-                      {profile.sterilizationTempC}–{profile.sterilizationTempC + profile.bandK} °C · hold ≥ {formatSeconds(profile.holdingTimeS)} · equilibration ≤ {profile.maxEquilibrationS} s
+                      {profile.sterilizationTempC}–{profile.sterilizationTempC + profile.bandK} °C · hold ≥ {formatDuration(profile.holdingTimeS)} · equilibration ≤ {profile.maxEquilibrationS} s
                     </p>
                     {sizeClass.maxEquilibrationS !== null && profile.maxEquilibrationS > sizeClass.maxEquilibrationS && (
                       <p className="mt-1 text-xs text-caution-700">▲ The profile allows {profile.maxEquilibrationS} s, more than the {sizeClass.maxEquilibrationS} s EN 285 sets for this chamber size.</p>

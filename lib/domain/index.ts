@@ -1,0 +1,11 @@
+/**
+ * Papin's vocabulary: the enums every layer shares, their words, and one formatter per quantity.
+ * Imports nothing outside this folder, so the database schema, the server and the browser can
+ * all take it without pulling each other in.
+ */
+export * from "./roles";
+export * from "./cycles";
+export * from "./test-kinds";
+export * from "./equipment";
+export * from "./units";
+export * from "./format";

@@ -1,0 +1,46 @@
+/** What a registered cycle was run for. */
+export const TEST_KINDS = [
+  "thermometric-small-load",
+  "thermometric-full-load",
+  "bowie-dick",
+  "air-leakage",
+  "steam-quality",
+  "routine-load",
+] as const;
+export type TestKind = (typeof TEST_KINDS)[number];
+
+/** The tests a sterilizer's schedule asks for, and that are recorded as periodic tests. */
+export const PERIODIC_TEST_KINDS = [
+  "air-leakage",
+  "bowie-dick",
+  "steam-non-condensable-gas",
+  "steam-superheat",
+  "steam-dryness",
+  "thermometric-small-load",
+  "thermometric-full-load",
+] as const;
+export type PeriodicTestKind = (typeof PERIODIC_TEST_KINDS)[number];
+
+/** Periodic tests entered by hand; the thermometric ones are evidenced by an analysed cycle. */
+export const RECORDABLE_KINDS = ["air-leakage", "bowie-dick", "steam-non-condensable-gas", "steam-superheat", "steam-dryness"] as const;
+export type RecordableKind = (typeof RECORDABLE_KINDS)[number];
+export const isRecordable = (kind: string): kind is RecordableKind => (RECORDABLE_KINDS as readonly string[]).includes(kind);
+
+const KIND_LABELS: Record<TestKind | PeriodicTestKind, string> = {
+  "thermometric-small-load": "Thermometric test, small load",
+  "thermometric-full-load": "Thermometric test, full load",
+  "bowie-dick": "Bowie-Dick test",
+  "air-leakage": "Air leakage test",
+  "steam-quality": "Steam quality test",
+  "steam-non-condensable-gas": "Steam quality: non-condensable gases",
+  "steam-superheat": "Steam quality: superheat",
+  "steam-dryness": "Steam quality: dryness",
+  "routine-load": "Routine load",
+};
+
+/** The words for a cycle's or a periodic test's kind; a kind this version does not know is spelt out from its name. */
+export function testKindLabel(kind: string): string {
+  if (Object.hasOwn(KIND_LABELS, kind)) return KIND_LABELS[kind as TestKind | PeriodicTestKind];
+  const words = kind.replace(/[-_]+/g, " ").trim();
+  return words.charAt(0).toUpperCase() + words.slice(1);
+}
