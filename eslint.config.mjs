@@ -51,6 +51,13 @@ export default defineConfig([
   ...nextTypeScript,
   prettier,
 
+  // A leading underscore marks a value left out on purpose (`const { id: _id, ...rest } = row`).
+  {
+    rules: {
+      "@typescript-eslint/no-unused-vars": ["warn", { argsIgnorePattern: "^_", varsIgnorePattern: "^_", caughtErrorsIgnorePattern: "^_", ignoreRestSiblings: true }],
+    },
+  },
+
   // Configuration comes from one validated place; tests and their tools set variables for the code they run.
   {
     files: ["**/*.{js,jsx,mjs,cjs,ts,tsx,mts,cts}"],

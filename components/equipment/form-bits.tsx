@@ -17,7 +17,11 @@ export function useFormAction(action: Action, { resetOnSuccess = false }: { rese
   }, [state, resetOnSuccess]);
   // A field's message goes once the user changes that field; the next result brings fresh ones.
   const [edited, setEdited] = useState<ReadonlySet<string>>(new Set());
-  useEffect(() => setEdited(new Set()), [state]);
+  const [editedSince, setEditedSince] = useState(state);
+  if (editedSince !== state) {
+    setEditedSince(state);
+    setEdited(new Set());
+  }
   const onSubmit = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();
     const data = new FormData(event.currentTarget);

@@ -19,14 +19,15 @@ type Props = {
 export function IntakeForm({ sterilizers, profiles, instruments, limitMb }: Props) {
   const ids = useId();
   const intake = useIntake({ sterilizers, instruments });
-  const { busy, summary, logger, details } = intake;
+  const { busy, logger, details } = intake;
+  const { message: summaryMessage, ref: summaryRef } = intake.summary;
   const inspect = logger.inspect;
 
   return (
     <form onSubmit={intake.analyse} noValidate className="space-y-gutter" aria-label="New test cycle" data-ready={intake.ready ? "true" : "false"}>
-      {summary.message && (
-        <div ref={summary.ref} tabIndex={-1} role="alert" className="rounded-md border border-fail-500/40 bg-fail-50 px-4 py-3 text-sm text-fail-700" data-testid="intake-error">
-          {summary.message}
+      {summaryMessage && (
+        <div ref={summaryRef} tabIndex={-1} role="alert" className="rounded-md border border-fail-500/40 bg-fail-50 px-4 py-3 text-sm text-fail-700" data-testid="intake-error">
+          {summaryMessage}
         </div>
       )}
       <FilePanel logger={logger} limitMb={limitMb} busy={Boolean(busy)} onFiles={intake.addFiles} onRemove={intake.removeFile} />

@@ -1,6 +1,6 @@
 "use client";
 
-import { useCallback, useEffect, useRef, useState, type FormEvent } from "react";
+import { useCallback, useRef, useState, useSyncExternalStore, type FormEvent } from "react";
 import { useRouter } from "next/navigation";
 import type { CreateCycleResponse } from "@/lib/cycles/contracts";
 import { RequestError, uploadJson } from "@/lib/client/fetch-json";
@@ -20,11 +20,15 @@ function useErrorSummary() {
   return { message, ref, clear, show };
 }
 
+const noSubscription = () => () => {};
+
 /** Set once the form is interactive (hydrated); browser tests wait for it. */
 function useHydrated(): boolean {
-  const [ready, setReady] = useState(false);
-  useEffect(() => setReady(true), []);
-  return ready;
+  return useSyncExternalStore(
+    noSubscription,
+    () => true,
+    () => false,
+  );
 }
 
 /** Everything the intake form does: files and their mapping, the cycle's details, and the analysis request. */

@@ -35,6 +35,8 @@ function toLocalInput(d: Date): string {
 
 function CommonFields({ sterilizers, sterilizerId, errors, children }: { sterilizers: SterilizerChoice[]; sterilizerId?: string; errors: Record<string, string>; children?: ReactNode }) {
   const [local, setLocal] = useState("");
+  // The clock of the user's browser, not the server's: set after hydration.
+  // eslint-disable-next-line react-hooks/set-state-in-effect -- one update after mount, to avoid a hydration mismatch
   useEffect(() => setLocal(toLocalInput(new Date())), []);
   const iso = local && !Number.isNaN(new Date(local).getTime()) ? new Date(local).toISOString() : "";
   const active = sterilizers.filter((s) => s.active);

@@ -351,8 +351,8 @@ function SignaturesSection({ signatures, zone }: { signatures: SignatureView[]; 
       <View wrap={false}>
         <Heading>Signatures</Heading>
         <T style={[s.small, { marginBottom: 5 }]}>
-          Each electronic signature shows the signer's printed name, the date and time of signing and what the signature means (21 CFR 11.50). It is bound to this
-          record by the SHA-256 of the record's signed bundle: file hashes, analysis figures and cycle fields; a change to any of them stops the signature verifying
+          Each electronic signature shows the signer{"'"}s printed name, the date and time of signing and what the signature means (21 CFR 11.50). It is bound to this
+          record by the SHA-256 of the record{"'"}s signed bundle: file hashes, analysis figures and cycle fields; a change to any of them stops the signature verifying
           (21 CFR 11.70).
         </T>
         {signatures.length === 0 ? (
@@ -445,7 +445,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
         {draft ? (
           <View style={s.draftBanner} fixed>
             <T style={s.draftBannerStrong}>DRAFT — NOT APPROVED</T>
-            <T style={s.draftBannerText}>Not approved by an engineer. Not a record for release or for the sterilizer's file.</T>
+            <T style={s.draftBannerText}>Not approved by an engineer. Not a record for release or for the sterilizer{"'"}s file.</T>
           </View>
         ) : null}
         <View style={s.footer} fixed>

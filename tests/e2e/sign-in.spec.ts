@@ -29,7 +29,7 @@ for (const role of Object.keys(DEMO) as Array<keyof typeof DEMO>) {
   });
 }
 
-test("a technician opening the admin page is refused by the server", async ({ page, request }) => {
+test("a technician opening the admin page is refused by the server", async ({ page }) => {
   await signIn(page, "technician");
   await expect(page.getByRole("heading", { name: /Welcome/ })).toBeVisible();
   await expect(page.getByRole("link", { name: "Users" })).toHaveCount(0);

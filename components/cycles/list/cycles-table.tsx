@@ -76,11 +76,13 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
       if (searchText.trim() !== latest.current.q.trim()) navigate({ q: searchText });
     }, 350);
     return () => clearTimeout(timer);
-  }, [searchText]); // navigate and query are read fresh when the timer fires
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- navigate and query are read fresh when the timer fires
+  }, [searchText]);
 
   // A page number past the end (an old link, rows gone) goes to the last page.
   useEffect(() => {
     if (data && data.total > 0 && data.items.length === 0 && query.page > 1) navigate({ page: Math.max(1, Math.ceil(data.total / data.pageSize)) }, false);
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- runs when new rows arrive, not when the query object is rebuilt
   }, [data]);
 
   const sorting: SortingState = useMemo(() => {
@@ -111,6 +113,7 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
   );
 
   const pageCount = data ? Math.max(1, Math.ceil(data.total / data.pageSize)) : 1;
+  // eslint-disable-next-line react-hooks/incompatible-library -- TanStack Table 8 returns fresh functions each render; the compiler leaves this component alone
   const table = useReactTable({
     data: data?.items ?? [],
     columns,

@@ -1,7 +1,7 @@
 "use client";
 
 import "uplot/dist/uPlot.min.css";
-import { useCallback, useEffect, useId, useMemo, useRef, useState } from "react";
+import { useCallback, useEffect, useId, useLayoutEffect, useMemo, useRef, useState } from "react";
 import uPlot from "uplot";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
 import {
@@ -121,8 +121,11 @@ function ChartCanvas({ series, shown, view, record, timeZone, label, describedBy
   const viewRef = useRef<TimeWindow | null>(view);
   const onViewChangeRef = useRef(onViewChange);
   const [currentView, setCurrentView] = useState<TimeWindow>(record);
-  viewRef.current = view;
-  onViewChangeRef.current = onViewChange;
+  // The uPlot hooks read the latest view and callback without rebuilding the chart.
+  useLayoutEffect(() => {
+    viewRef.current = view;
+    onViewChangeRef.current = onViewChange;
+  });
 
   const traces = useMemo(() => chartTraces(series), [series]);
 
