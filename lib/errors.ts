@@ -10,6 +10,4 @@ export class AppError extends Error {
   }
 }
 
-export const unauthorized = () => new AppError(401, "Please sign in first.");
-export const forbidden = (what = "do this") => new AppError(403, `Your role does not allow you to ${what}.`);
 export const notFound = (what = "That record") => new AppError(404, `${what} was not found.`);

@@ -3,7 +3,7 @@ import { NextResponse } from "next/server";
 import { ZodError } from "zod";
 import { AppError } from "./errors";
 
-export function jsonError(status: number, error: string, extra?: Record<string, unknown>) {
+function jsonError(status: number, error: string, extra?: Record<string, unknown>) {
   return NextResponse.json({ error, ...extra }, { status });
 }
 
@@ -15,7 +15,7 @@ export function zodMessage(error: ZodError): string {
 }
 
 /** Maps whatever a handler throws to a JSON error with a plain sentence; never a stack trace. */
-export function errorResponse(error: unknown) {
+function errorResponse(error: unknown) {
   if (error instanceof AppError) return jsonError(error.status, error.message, error.field ? { field: error.field } : undefined);
   if (error instanceof ZodError) return jsonError(400, zodMessage(error));
   console.error("[papin] unexpected error in a route handler", error);

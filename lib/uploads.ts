@@ -5,9 +5,9 @@ import { zodMessage } from "./http";
 import { mappingOverridesSchema } from "./validations/intake";
 import type { MappingOverrides } from "./logger-files";
 
-export const MAX_FILES_PER_UPLOAD = 10;
+const MAX_FILES_PER_UPLOAD = 10;
 
-export function uploadLimitBytes(): number {
+function uploadLimitBytes(): number {
   return env().PAPIN_UPLOAD_LIMIT_MB * 1024 * 1024;
 }
 

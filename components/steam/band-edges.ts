@@ -1,7 +1,7 @@
 import { fromAbsoluteKpa, saturationPressureKpa } from "@/lib/steam";
 
 /** The usual sterilization bands (Ts to Ts + 3 K): 121, 126 and 134 °C (common practice; EN 285 / ISO 17665). */
-export const USUAL_BANDS = [
+const USUAL_BANDS = [
   { label: "121 °C band", lowC: 121, highC: 124 },
   { label: "126 °C band", lowC: 126, highC: 129 },
   { label: "134 °C band", lowC: 134, highC: 137 },

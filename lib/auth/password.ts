@@ -15,7 +15,7 @@ export async function verifyPassword(passwordHash: string, password: string): Pr
   }
 }
 
-export const PASSWORD_RULE = "at least 10 characters";
+const PASSWORD_RULE = "at least 10 characters";
 export function passwordProblem(password: string): string | null {
   return password.length >= 10 ? null : `The password must have ${PASSWORD_RULE}.`;
 }

@@ -24,7 +24,7 @@ const STEPS = [1, 2, 5, 10];
 const STEPS_WITH_QUARTERS = [1, 2, 2.5, 5, 10];
 
 /** The smallest round step (a mantissa × 10^k) at least as wide as `rawStep`. */
-export function niceStep(rawStep: number, mantissas: readonly number[] = STEPS): number {
+function niceStep(rawStep: number, mantissas: readonly number[] = STEPS): number {
   const magnitude = 10 ** Math.floor(Math.log10(rawStep));
   return (mantissas.find((m) => m * magnitude >= rawStep) ?? 10) * magnitude;
 }

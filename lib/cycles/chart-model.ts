@@ -183,7 +183,7 @@ export function panWindow(view: TimeWindow, fraction: number, record: TimeWindow
   return clampWindow({ from: view.from + shift, to: view.to + shift }, record);
 }
 
-export function clampWindow(view: TimeWindow, record: TimeWindow): TimeWindow {
+function clampWindow(view: TimeWindow, record: TimeWindow): TimeWindow {
   const span = Math.min(view.to - view.from, record.to - record.from);
   let from = view.from;
   if (from < record.from) from = record.from;

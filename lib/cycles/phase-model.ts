@@ -209,7 +209,7 @@ export function phaseLandmarks(range: PhaseRange): Landmark[] {
   return all.filter((l) => inRange(range, l.temperatureC, l.pressureKpa));
 }
 
-export function inRange(range: PhaseRange, temperatureC: number, pressureKpa: number): boolean {
+function inRange(range: PhaseRange, temperatureC: number, pressureKpa: number): boolean {
   return temperatureC >= range.tMinC && temperatureC <= range.tMaxC && pressureKpa >= range.pMinKpa && pressureKpa <= range.pMaxKpa;
 }
 

@@ -2,7 +2,7 @@ import { daysBetween } from "./schedule";
 
 export type CalibrationState = "none" | "overdue" | "due-soon" | "valid";
 
-export const CALIBRATION_WARNING_DAYS = 30;
+const CALIBRATION_WARNING_DAYS = 30;
 
 /** valid / due within 30 days / overdue, from the latest certificate's due date (YYYY-MM-DD). */
 export function calibrationState(dueOn: string | null | undefined, today: string, warningDays = CALIBRATION_WARNING_DAYS): { state: CalibrationState; daysLeft: number | null } {

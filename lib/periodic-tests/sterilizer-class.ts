@@ -3,8 +3,8 @@
  * §2.10): EN 13060 covers chambers under 60 l; EN 285 the larger ones, where the equilibration
  * time may be at most 15 s up to 800 l and 30 s above.
  */
-export const SMALL_STERILIZER_LIMIT_L = 60;
-export const LARGE_CHAMBER_LIMIT_L = 800;
+const SMALL_STERILIZER_LIMIT_L = 60;
+const LARGE_CHAMBER_LIMIT_L = 800;
 
 export type SizeClass = { standard: "EN 13060" | "EN 285"; label: string; maxEquilibrationS: number | null; note: string };
 

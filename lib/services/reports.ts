@@ -10,7 +10,7 @@ import { assertAllowed, type Actor } from "./access";
 import { getCycleDetail } from "./cycles";
 import { getCycleSeries } from "./cycle-series";
 
-export const REPORT_VERIFY_HINT =
+const REPORT_VERIFY_HINT =
   "To check this report, sign in to Papin and drop the PDF on Signed archive → Check a report, or POST it to /api/reports/verify. A byte-for-byte match names the archived record.";
 
 export function reportNumberFor(detail: CycleDetail, at: string) {

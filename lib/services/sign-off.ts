@@ -15,8 +15,8 @@ import { buildRecordBundle, signatureHash, type SignedFields } from "./record-bu
 import { renderReport, reportNumberFor } from "./reports";
 
 /** After this many wrong passwords in a row signing is locked for SIGNING_LOCK_MINUTES. */
-export const MAX_SIGNING_FAILURES = 5;
-export const SIGNING_LOCK_MINUTES = 15;
+const MAX_SIGNING_FAILURES = 5;
+const SIGNING_LOCK_MINUTES = 15;
 
 export async function submitCycle({ actor, id, origin }: { actor: Actor; id: string; origin?: string }) {
   const cycle = await getCycleRow({ actor, id });

@@ -2,7 +2,7 @@ import { z } from "zod";
 import { optionalNumberField, reasonField } from "./equipment";
 
 /** The canonical IANA name when the runtime knows the zone, otherwise null. */
-export function knownTimeZone(name: string): string | null {
+function knownTimeZone(name: string): string | null {
   try {
     return new Intl.DateTimeFormat(undefined, { timeZone: name }).resolvedOptions().timeZone;
   } catch {
