@@ -41,4 +41,3 @@ export async function appendAuditEvent(tx: Executor, input: AuditInput): Promise
   };
   await tx.insert(auditEvents).values({ ...fields, hash: auditEventHash(fields) });
 }
-

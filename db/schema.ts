@@ -10,30 +10,10 @@ const createdAt = () =>
     .notNull()
     .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`);
 
-import {
-  CYCLE_STATUSES,
-  INSTRUMENT_KINDS,
-  MAIL_STATUSES,
-  PERIODIC_TEST_KINDS,
-  ROLES,
-  SIGNATURE_MEANINGS,
-  TEST_KINDS,
-  VERDICTS,
-} from "../lib/domain";
+import { CYCLE_STATUSES, INSTRUMENT_KINDS, MAIL_STATUSES, PERIODIC_TEST_KINDS, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, VERDICTS } from "../lib/domain";
 
 // The enums live in lib/domain; the database layer may keep taking them from here.
-export {
-  CYCLE_STATUSES,
-  PERIODIC_TEST_KINDS,
-  ROLES,
-  SIGNATURE_MEANINGS,
-  TEST_KINDS,
-  type CycleStatus,
-  type PeriodicTestKind,
-  type Role,
-  type SignatureMeaning,
-  type TestKind,
-} from "../lib/domain";
+export { CYCLE_STATUSES, PERIODIC_TEST_KINDS, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, type CycleStatus, type PeriodicTestKind, type Role, type SignatureMeaning, type TestKind } from "../lib/domain";
 
 export const sites = sqliteTable("sites", {
   id: id(),
@@ -116,9 +96,7 @@ export const instruments = sqliteTable("instruments", {
     .references(() => sites.id),
   name: text("name").notNull(),
   serialNumber: text("serial_number").notNull(),
-  kind: text("kind", { enum: INSTRUMENT_KINDS })
-    .notNull()
-    .default("logger"),
+  kind: text("kind", { enum: INSTRUMENT_KINDS }).notNull().default("logger"),
   channelCount: integer("channel_count"),
   // A mapping confirmed by a user, applied automatically to this instrument's next files.
   savedMapping: text("saved_mapping", { mode: "json" }),
@@ -178,10 +156,7 @@ export const cycles = sqliteTable(
     createdAt: createdAt(),
     updatedAt: text("updated_at"),
   },
-  (t) => [
-    index("cycles_site_status_idx").on(t.siteId, t.status),
-    index("cycles_sterilizer_idx").on(t.sterilizerId, t.startedAt),
-  ],
+  (t) => [index("cycles_site_status_idx").on(t.siteId, t.status), index("cycles_sterilizer_idx").on(t.sterilizerId, t.startedAt)],
 );
 export type Cycle = typeof cycles.$inferSelect;
 export type NewCycle = typeof cycles.$inferInsert;
@@ -304,9 +279,7 @@ export const mailOutbox = sqliteTable(
     subject: text("subject").notNull(),
     html: text("html").notNull(),
     text: text("text").notNull(),
-    status: text("status", { enum: MAIL_STATUSES })
-      .notNull()
-      .default("pending"),
+    status: text("status", { enum: MAIL_STATUSES }).notNull().default("pending"),
     attempts: integer("attempts").notNull().default(0),
     lastError: text("last_error"),
     nextAttemptAt: text("next_attempt_at"),

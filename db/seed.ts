@@ -87,8 +87,24 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
 
 // Mostly good cycles, with each kind of failure appearing a few times over the three weeks.
 const SCENARIO_ROTATION: Scenario[] = [
-  "pass", "pass", "pass", "air", "pass", "pass", "superheat", "pass", "pass", "short-hold",
-  "pass", "pass", "slow-equilibration", "pass", "pass", "pass", "never-reaches", "pass",
+  "pass",
+  "pass",
+  "pass",
+  "air",
+  "pass",
+  "pass",
+  "superheat",
+  "pass",
+  "pass",
+  "short-hold",
+  "pass",
+  "pass",
+  "slow-equilibration",
+  "pass",
+  "pass",
+  "pass",
+  "never-reaches",
+  "pass",
 ];
 
 export type DemoOutcome = { loaded: boolean; summary: string };
@@ -117,7 +133,10 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
 
     const userIds: Record<Role, string> = {} as Record<Role, string>;
     for (const u of DEMO_USERS) {
-      const [row] = await tx.insert(users).values({ ...u, passwordHash, siteId: site.id }).returning({ id: users.id });
+      const [row] = await tx
+        .insert(users)
+        .values({ ...u, passwordHash, siteId: site.id })
+        .returning({ id: users.id });
       userIds[u.role] = row.id;
     }
     const admin = { actorId: userIds.admin, actorEmail: "admin@papin.example", siteId: site.id };
@@ -173,7 +192,14 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
     await tx.insert(calibrationCertificates).values([
       { instrumentId: instrumentRows[0].id, certificateNumber: "CAL-24-1187", issuedBy: "Riverside Calibration Lab (fictional)", calibratedOn: day(-300), dueOn: day(65), uncertaintyK: 0.25 },
       { instrumentId: instrumentRows[1].id, certificateNumber: "CAL-24-0903", issuedBy: "Riverside Calibration Lab (fictional)", calibratedOn: day(-352), dueOn: day(13), uncertaintyK: 0.25 },
-      { instrumentId: instrumentRows[2].id, certificateNumber: "CAL-24-0771", issuedBy: "Riverside Calibration Lab (fictional)", calibratedOn: day(-372), dueOn: day(-7), notes: "Overdue: book recalibration before the next quarterly test." },
+      {
+        instrumentId: instrumentRows[2].id,
+        certificateNumber: "CAL-24-0771",
+        issuedBy: "Riverside Calibration Lab (fictional)",
+        calibratedOn: day(-372),
+        dueOn: day(-7),
+        notes: "Overdue: book recalibration before the next quarterly test.",
+      },
     ]);
 
     for (const [index, s] of DEMO_STERILIZERS.entries()) {
@@ -290,10 +316,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
 
 const eqId = (id: string) => eq(cycles.id, id);
 
-async function seedPeriodicTests(
-  tx: Executor,
-  { siteId, sterilizerId, technicianId, now, index }: { siteId: string; sterilizerId: string; technicianId: string; now: Date; index: number },
-) {
+async function seedPeriodicTests(tx: Executor, { siteId, sterilizerId, technicianId, now, index }: { siteId: string; sterilizerId: string; technicianId: string; now: Date; index: number }) {
   const rows: (typeof periodicTests.$inferInsert)[] = [];
   for (let daysAgo = 20; daysAgo >= 1; daysAgo--) {
     if (index === 3 && daysAgo < 3) continue; // the benchtop's daily test is overdue in the demo
@@ -327,7 +350,15 @@ async function seedPeriodicTests(
   rows.push(
     { siteId, sterilizerId, kind: "thermometric-small-load", performedAt: longAgo(40 + index * 9), performedBy: technicianId, result: "pass", notes: "Quarterly small-load test, logger TL-12." },
     // NCG % = 100·Vg/Vc; limit 3.5 ml per 100 ml condensate (EN 285 / HTM 2010).
-    { siteId, sterilizerId, kind: "steam-non-condensable-gas", performedAt: longAgo(120 + index * 20), performedBy: technicianId, result: "pass", measurements: { gasMl: 1.2, condensateMl: 100, percent: 1.2 } },
+    {
+      siteId,
+      sterilizerId,
+      kind: "steam-non-condensable-gas",
+      performedAt: longAgo(120 + index * 20),
+      performedBy: technicianId,
+      result: "pass",
+      measurements: { gasMl: 1.2, condensateMl: 100, percent: 1.2 },
+    },
   );
   await tx.insert(periodicTests).values(rows);
 }

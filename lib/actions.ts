@@ -11,11 +11,7 @@ import type { FormState } from "./form-state";
  * The one shape of a server action: guard (session and role) → parse the form with zod → act.
  * Failures come back as a state with a plain message and per-field errors, never as a throw.
  */
-export function formAction<S extends ZodType>(
-  permission: Permission,
-  schema: S,
-  act: (input: z.infer<S>, actor: Actor) => Promise<string | void>,
-) {
+export function formAction<S extends ZodType>(permission: Permission, schema: S, act: (input: z.infer<S>, actor: Actor) => Promise<string | void>) {
   return async (_prev: FormState, formData: FormData): Promise<FormState> => {
     let actor: Actor;
     try {

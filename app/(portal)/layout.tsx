@@ -27,26 +27,36 @@ export default async function PortalLayout({ children }: { children: React.React
           </Link>
           <NavLinks items={items} />
           <div className="mt-auto border-t border-ink-line px-3 pt-4 text-sm">
-            <p className="font-medium" data-testid="signed-in-name">{user.name}</p>
-            <p className="text-xs text-ink-muted" data-testid="signed-in-role">{ROLE_LABELS[user.role]}</p>
-            <p className="mt-2"><SignOutButton /></p>
+            <p className="font-medium" data-testid="signed-in-name">
+              {user.name}
+            </p>
+            <p className="text-xs text-ink-muted" data-testid="signed-in-role">
+              {ROLE_LABELS[user.role]}
+            </p>
+            <p className="mt-2">
+              <SignOutButton />
+            </p>
           </div>
         </aside>
         <div className="flex min-w-0 flex-1 flex-col">
           <header className="border-b border-ink-line bg-paper-raised px-gutter py-2 md:hidden">
             <div className="flex items-center justify-between">
-              <Link href="/" className="flex items-center gap-2"><PapinMark className="h-6 w-6" /> <span className="font-semibold">Papin</span></Link>
+              <Link href="/" className="flex items-center gap-2">
+                <PapinMark className="h-6 w-6" /> <span className="font-semibold">Papin</span>
+              </Link>
               <SignOutButton />
             </div>
             <details className="mt-1">
               <summary className="cursor-pointer text-sm text-ink-soft">Menu · {user.name}</summary>
-              <div className="py-2"><NavLinks items={items} /></div>
+              <div className="py-2">
+                <NavLinks items={items} />
+              </div>
             </details>
           </header>
-          {demoEnabled() && (
-            <div className="border-b border-brass-100 bg-brass-50 px-gutter py-1 text-xs text-brass-700">Demo site: fictional sterilizers, people and cycles.</div>
-          )}
-          <main id="content" className="flex-1 px-gutter py-6 lg:px-8">{children}</main>
+          {demoEnabled() && <div className="border-b border-brass-100 bg-brass-50 px-gutter py-1 text-xs text-brass-700">Demo site: fictional sterilizers, people and cycles.</div>}
+          <main id="content" className="flex-1 px-gutter py-6 lg:px-8">
+            {children}
+          </main>
           <SafetyNotice />
         </div>
       </div>

@@ -34,13 +34,28 @@ export default async function HomePage() {
       <>
         <PageHeader title={`Welcome, ${user.name}`} subtitle={greeting} />
         <div className="grid gap-gutter lg:grid-cols-2">
-          <Panel title="Recently approved records" action={<Link className="text-sm text-steam-700" href="/archive">Open the archive</Link>}>
+          <Panel
+            title="Recently approved records"
+            action={
+              <Link className="text-sm text-steam-700" href="/archive">
+                Open the archive
+              </Link>
+            }
+          >
             <CycleList items={home.approved} empty="No record has been approved yet." timeZone={timeZone} />
           </Panel>
           <Panel title="Evidence checks">
             <ul className="space-y-2 text-sm">
-              <li><Link className="text-steam-700 underline" href="/audit">Audit ledger and its hash chain</Link></li>
-              <li><Link className="text-steam-700 underline" href="/archive#verify">Check a report PDF against the archive</Link></li>
+              <li>
+                <Link className="text-steam-700 underline" href="/audit">
+                  Audit ledger and its hash chain
+                </Link>
+              </li>
+              <li>
+                <Link className="text-steam-700 underline" href="/archive#verify">
+                  Check a report PDF against the archive
+                </Link>
+              </li>
             </ul>
             <p className="mt-3 text-xs text-ink-muted">{ROLE_DUTIES.auditor}</p>
           </Panel>
@@ -55,11 +70,22 @@ export default async function HomePage() {
       <PageHeader
         title={`Welcome, ${user.name}`}
         subtitle={greeting}
-        actions={<Link href="/cycles/new" className="btn-primary">Upload a test cycle</Link>}
+        actions={
+          <Link href="/cycles/new" className="btn-primary">
+            Upload a test cycle
+          </Link>
+        }
       />
       <div className="grid gap-gutter lg:grid-cols-2">
         {review && (
-          <Panel title={`Awaiting your review (${review.total})`} action={<Link className="text-sm text-steam-700" href="/review">Review queue</Link>}>
+          <Panel
+            title={`Awaiting your review (${review.total})`}
+            action={
+              <Link className="text-sm text-steam-700" href="/review">
+                Review queue
+              </Link>
+            }
+          >
             <CycleList items={review.items} empty="Nothing waits for review." timeZone={timeZone} />
           </Panel>
         )}

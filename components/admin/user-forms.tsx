@@ -12,29 +12,43 @@ export function CreateUserForm() {
   return (
     <form action={action} className="space-y-3" noValidate>
       <div>
-        <label className="field-label" htmlFor="new-name">Full name (printed on signatures)</label>
+        <label className="field-label" htmlFor="new-name">
+          Full name (printed on signatures)
+        </label>
         <input id="new-name" name="name" className="field-input" aria-invalid={!!err.name} />
         {err.name && <p className="field-error">{err.name}</p>}
       </div>
       <div>
-        <label className="field-label" htmlFor="new-email">E-mail</label>
+        <label className="field-label" htmlFor="new-email">
+          E-mail
+        </label>
         <input id="new-email" name="email" type="email" className="field-input" aria-invalid={!!err.email} />
         {err.email && <p className="field-error">{err.email}</p>}
       </div>
       <div>
-        <label className="field-label" htmlFor="new-role">Role</label>
+        <label className="field-label" htmlFor="new-role">
+          Role
+        </label>
         <select id="new-role" name="role" className="field-input" defaultValue="technician">
-          {ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}
+          {ROLES.map((r) => (
+            <option key={r} value={r}>
+              {ROLE_LABELS[r]}
+            </option>
+          ))}
         </select>
         {err.role && <p className="field-error">{err.role}</p>}
       </div>
       <div>
-        <label className="field-label" htmlFor="new-password">Initial password</label>
+        <label className="field-label" htmlFor="new-password">
+          Initial password
+        </label>
         <input id="new-password" name="password" type="password" autoComplete="new-password" className="field-input" aria-invalid={!!err.password} />
         {err.password && <p className="field-error">{err.password}</p>}
       </div>
       <ActionMessage state={state} />
-      <button className="btn-primary w-full" disabled={pending}>{pending ? "Adding…" : "Add user"}</button>
+      <button className="btn-primary w-full" disabled={pending}>
+        {pending ? "Adding…" : "Add user"}
+      </button>
     </form>
   );
 }
@@ -47,11 +61,19 @@ export function UserRowActions({ user, self }: { user: { id: string; name: strin
     <div className="flex min-w-[16rem] flex-col gap-1.5">
       <form action={action} className="flex items-center gap-1.5">
         <input type="hidden" name="id" value={user.id} />
-        <label className="sr-only" htmlFor={`role-${user.id}`}>Role of {user.name}</label>
+        <label className="sr-only" htmlFor={`role-${user.id}`}>
+          Role of {user.name}
+        </label>
         <select id={`role-${user.id}`} name="role" defaultValue={user.role} disabled={self} className="field-input py-1 text-xs">
-          {ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}
+          {ROLES.map((r) => (
+            <option key={r} value={r}>
+              {ROLE_LABELS[r]}
+            </option>
+          ))}
         </select>
-        <button className="btn-secondary px-2 py-1 text-xs" disabled={pending || self}>Save role</button>
+        <button className="btn-secondary px-2 py-1 text-xs" disabled={pending || self}>
+          Save role
+        </button>
       </form>
       <div className="flex gap-1.5">
         {!self && (
@@ -70,9 +92,13 @@ export function UserRowActions({ user, self }: { user: { id: string; name: strin
       {showReset && (
         <form action={pwAction} className="flex gap-1.5">
           <input type="hidden" name="id" value={user.id} />
-          <label className="sr-only" htmlFor={`pw-${user.id}`}>New password for {user.name}</label>
+          <label className="sr-only" htmlFor={`pw-${user.id}`}>
+            New password for {user.name}
+          </label>
           <input id={`pw-${user.id}`} name="password" type="password" autoComplete="new-password" placeholder="New password" className="field-input py-1 text-xs" />
-          <button className="btn-primary px-2 py-1 text-xs" disabled={pwPending}>Set</button>
+          <button className="btn-primary px-2 py-1 text-xs" disabled={pwPending}>
+            Set
+          </button>
         </form>
       )}
       <ActionMessage state={state} />

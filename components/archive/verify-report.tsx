@@ -6,9 +6,7 @@ import { useDropzone } from "react-dropzone";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { ActionMessage } from "@/components/ui/action-message";
 
-type Outcome =
-  | { match: true; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string }
-  | { match: false; sha256: string };
+type Outcome = { match: true; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string } | { match: false; sha256: string };
 
 export function VerifyReport() {
   const [outcome, setOutcome] = useState<Outcome | null>(null);
@@ -58,10 +56,15 @@ export function VerifyReport() {
           {outcome.match ? (
             <p>
               ✓ <strong>{name}</strong> is byte for byte the archived report <span className="mono">{outcome.reportNumber}</span> of cycle{" "}
-              <Link className="underline" href={`/cycles/${outcome.cycleId}`}>{outcome.cycleNumber}</Link>, archived {new Date(outcome.archivedAt).toUTCString()}.
+              <Link className="underline" href={`/cycles/${outcome.cycleId}`}>
+                {outcome.cycleNumber}
+              </Link>
+              , archived {new Date(outcome.archivedAt).toUTCString()}.
             </p>
           ) : (
-            <p>✕ <strong>{name}</strong> does not match any archived report of this site. It may have been altered, or it is a draft.</p>
+            <p>
+              ✕ <strong>{name}</strong> does not match any archived report of this site. It may have been altered, or it is a draft.
+            </p>
           )}
           <p className="mono mt-1 break-all opacity-80">SHA-256 {outcome.sha256}</p>
         </div>

@@ -34,11 +34,15 @@ export function SignInForm({ callbackUrl, initialError }: { callbackUrl: string;
   return (
     <form onSubmit={onSubmit} className="mt-4 space-y-4" noValidate>
       <div>
-        <label htmlFor="email" className="field-label">E-mail</label>
+        <label htmlFor="email" className="field-label">
+          E-mail
+        </label>
         <input id="email" name="email" type="email" autoComplete="username" required className="field-input" autoFocus />
       </div>
       <div>
-        <label htmlFor="password" className="field-label">Password</label>
+        <label htmlFor="password" className="field-label">
+          Password
+        </label>
         <input id="password" name="password" type="password" autoComplete="current-password" required className="field-input" />
       </div>
       {error && (

@@ -35,26 +35,18 @@ export function useFormAction(action: Action, { resetOnSuccess = false }: { rese
   return { state, pending, formRef, onSubmit, onChange, errors };
 }
 
-export function Field({
-  id,
-  label,
-  error,
-  hint,
-  children,
-}: {
-  id: string;
-  label: ReactNode;
-  error?: string;
-  hint?: ReactNode;
-  children: ReactNode;
-}) {
+export function Field({ id, label, error, hint, children }: { id: string; label: ReactNode; error?: string; hint?: ReactNode; children: ReactNode }) {
   return (
     <div>
       <label className="field-label" htmlFor={id}>
         {label}
       </label>
       {children}
-      {hint && !error && <p className="mt-1 text-xs text-ink-muted" id={`${id}-hint`}>{hint}</p>}
+      {hint && !error && (
+        <p className="mt-1 text-xs text-ink-muted" id={`${id}-hint`}>
+          {hint}
+        </p>
+      )}
       {error && (
         <p className="field-error" id={`${id}-error`}>
           {error}

@@ -5,7 +5,6 @@ import { Field, TextInput, useFormAction } from "./form-bits";
 import { ActionMessage } from "@/components/ui/action-message";
 import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/lib/domain";
 
-
 export function InstrumentForm() {
   const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(createInstrumentAction, { resetOnSuccess: true });
   return (
@@ -15,13 +14,17 @@ export function InstrumentForm() {
       <Field id="inst-kind" label="Kind" error={errors.kind}>
         <select id="inst-kind" name="kind" className="field-input" defaultValue="logger">
           {Object.entries(KIND_LABELS).map(([k, v]) => (
-            <option key={k} value={k}>{v}</option>
+            <option key={k} value={k}>
+              {v}
+            </option>
           ))}
         </select>
       </Field>
       <TextInput id="inst-channels" name="channelCount" label="Channels (optional)" inputMode="numeric" error={errors.channelCount} />
       <ActionMessage state={state} />
-      <button className="btn-primary w-full" disabled={pending}>{pending ? "Adding…" : "Add instrument"}</button>
+      <button className="btn-primary w-full" disabled={pending}>
+        {pending ? "Adding…" : "Add instrument"}
+      </button>
     </form>
   );
 }
@@ -37,10 +40,20 @@ export function CertificateForm({ instrumentId, today }: { instrumentId: string;
         <TextInput id="cert-calibrated" name="calibratedOn" type="date" label="Calibrated on" defaultValue={today} error={errors.calibratedOn} />
         <TextInput id="cert-due" name="dueOn" type="date" label="Due on" error={errors.dueOn} />
       </div>
-      <TextInput id="cert-uncertainty" name="uncertaintyK" label="Expanded uncertainty (optional)" suffix="K" inputMode="decimal" error={errors.uncertaintyK} hint="For temperature channels; note a pressure sensor's uncertainty in the notes." />
+      <TextInput
+        id="cert-uncertainty"
+        name="uncertaintyK"
+        label="Expanded uncertainty (optional)"
+        suffix="K"
+        inputMode="decimal"
+        error={errors.uncertaintyK}
+        hint="For temperature channels; note a pressure sensor's uncertainty in the notes."
+      />
       <TextInput id="cert-notes" name="notes" label="Notes (optional)" error={errors.notes} />
       <ActionMessage state={state} />
-      <button className="btn-primary w-full" disabled={pending}>{pending ? "Saving…" : "Record certificate"}</button>
+      <button className="btn-primary w-full" disabled={pending}>
+        {pending ? "Saving…" : "Record certificate"}
+      </button>
     </form>
   );
 }
@@ -52,7 +65,9 @@ export function ClearMappingForm({ instrumentId }: { instrumentId: string }) {
       <input type="hidden" name="instrumentId" value={instrumentId} />
       <TextInput id="clear-reason" name="reason" label="Reason" error={errors.reason} hint="e.g. probes re-wired, logger re-configured." />
       <ActionMessage state={state} />
-      <button className="btn-danger" disabled={pending}>{pending ? "Clearing…" : "Clear saved mapping"}</button>
+      <button className="btn-danger" disabled={pending}>
+        {pending ? "Clearing…" : "Clear saved mapping"}
+      </button>
     </form>
   );
 }

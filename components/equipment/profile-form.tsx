@@ -55,21 +55,100 @@ export function ProfileForm({ profile }: { profile?: ProfileFormValues }) {
       )}
       {editing && profile.cycleCount > 0 && (
         <p className="rounded-md bg-caution-50 px-3 py-2 text-sm text-caution-700" role="note">
-          ▲ {profile.cycleCount} cycle{profile.cycleCount === 1 ? " was" : "s were"} analysed against this profile. Saving creates a <strong>new version</strong> with these limits and retires this one, so those records keep the limits they were judged by. Sterilizers that use it by default move to the new version.
+          ▲ {profile.cycleCount} cycle{profile.cycleCount === 1 ? " was" : "s were"} analysed against this profile. Saving creates a <strong>new version</strong> with these limits and retires this
+          one, so those records keep the limits they were judged by. Sterilizers that use it by default move to the new version.
         </p>
       )}
       <TextInput id={`${p}-name`} name="name" label="Name" error={errors.name} value={values.name} onChange={set("name")} />
       <div className="grid grid-cols-2 gap-3">
-        <TextInput id={`${p}-ts`} name="sterilizationTempC" label="Sterilization temperature" suffix="°C" inputMode="decimal" error={errors.sterilizationTempC} value={values.sterilizationTempC} onChange={set("sterilizationTempC")} hint="100–140 °C" />
-        <TextInput id={`${p}-band`} name="bandK" label="Band width" suffix="K" inputMode="decimal" error={errors.bandK} value={values.bandK} onChange={set("bandK")} hint={Number.isFinite(ts + band) ? `Band ${ts}–${+(ts + band).toFixed(2)} °C` : undefined} />
-        <TextInput id={`${p}-hold`} name="holdingTimeS" label="Minimum holding time" suffix="s" inputMode="decimal" error={errors.holdingTimeS} value={values.holdingTimeS} onChange={set("holdingTimeS")} hint={Number(values.holdingTimeS) > 0 ? `${+(Number(values.holdingTimeS) / 60).toFixed(2)} min` : undefined} />
-        <TextInput id={`${p}-eq`} name="maxEquilibrationS" label="Longest equilibration" suffix="s" inputMode="decimal" error={errors.maxEquilibrationS} value={values.maxEquilibrationS} onChange={set("maxEquilibrationS")} hint="EN 285: 15 s up to 800 l, 30 s above" />
-        <TextInput id={`${p}-spread`} name="maxSpreadK" label="Largest spread" suffix="K" inputMode="decimal" error={errors.maxSpreadK} value={values.maxSpreadK} onChange={set("maxSpreadK")} hint="Between channels during holding" />
-        <TextInput id={`${p}-sat`} name="saturationLimitK" label="Saturation limit" suffix="K" inputMode="decimal" error={errors.saturationLimitK} value={values.saturationLimitK} onChange={set("saturationLimitK")} hint="|reference − Tsat(p)|" />
-        <TextInput id={`${p}-f0ref`} name="f0ReferenceC" label="F0 reference" suffix="°C" inputMode="decimal" error={errors.f0ReferenceC} value={values.f0ReferenceC} onChange={set("f0ReferenceC")} hint="121.1 (US/PDA) or 121 (Ph. Eur.)" />
+        <TextInput
+          id={`${p}-ts`}
+          name="sterilizationTempC"
+          label="Sterilization temperature"
+          suffix="°C"
+          inputMode="decimal"
+          error={errors.sterilizationTempC}
+          value={values.sterilizationTempC}
+          onChange={set("sterilizationTempC")}
+          hint="100–140 °C"
+        />
+        <TextInput
+          id={`${p}-band`}
+          name="bandK"
+          label="Band width"
+          suffix="K"
+          inputMode="decimal"
+          error={errors.bandK}
+          value={values.bandK}
+          onChange={set("bandK")}
+          hint={Number.isFinite(ts + band) ? `Band ${ts}–${+(ts + band).toFixed(2)} °C` : undefined}
+        />
+        <TextInput
+          id={`${p}-hold`}
+          name="holdingTimeS"
+          label="Minimum holding time"
+          suffix="s"
+          inputMode="decimal"
+          error={errors.holdingTimeS}
+          value={values.holdingTimeS}
+          onChange={set("holdingTimeS")}
+          hint={Number(values.holdingTimeS) > 0 ? `${+(Number(values.holdingTimeS) / 60).toFixed(2)} min` : undefined}
+        />
+        <TextInput
+          id={`${p}-eq`}
+          name="maxEquilibrationS"
+          label="Longest equilibration"
+          suffix="s"
+          inputMode="decimal"
+          error={errors.maxEquilibrationS}
+          value={values.maxEquilibrationS}
+          onChange={set("maxEquilibrationS")}
+          hint="EN 285: 15 s up to 800 l, 30 s above"
+        />
+        <TextInput
+          id={`${p}-spread`}
+          name="maxSpreadK"
+          label="Largest spread"
+          suffix="K"
+          inputMode="decimal"
+          error={errors.maxSpreadK}
+          value={values.maxSpreadK}
+          onChange={set("maxSpreadK")}
+          hint="Between channels during holding"
+        />
+        <TextInput
+          id={`${p}-sat`}
+          name="saturationLimitK"
+          label="Saturation limit"
+          suffix="K"
+          inputMode="decimal"
+          error={errors.saturationLimitK}
+          value={values.saturationLimitK}
+          onChange={set("saturationLimitK")}
+          hint="|reference − Tsat(p)|"
+        />
+        <TextInput
+          id={`${p}-f0ref`}
+          name="f0ReferenceC"
+          label="F0 reference"
+          suffix="°C"
+          inputMode="decimal"
+          error={errors.f0ReferenceC}
+          value={values.f0ReferenceC}
+          onChange={set("f0ReferenceC")}
+          hint="121.1 (US/PDA) or 121 (Ph. Eur.)"
+        />
         <TextInput id={`${p}-z`} name="f0ZK" label="z-value" suffix="K" inputMode="decimal" error={errors.f0ZK} value={values.f0ZK} onChange={set("f0ZK")} />
       </div>
-      <TextInput id={`${p}-basis`} name="basis" label="Basis of these limits" error={errors.basis} value={values.basis} onChange={set("basis")} hint="Standard, clause or protocol; shown beside every check." />
+      <TextInput
+        id={`${p}-basis`}
+        name="basis"
+        label="Basis of these limits"
+        error={errors.basis}
+        value={values.basis}
+        onChange={set("basis")}
+        hint="Standard, clause or protocol; shown beside every check."
+      />
       {editing && <TextInput id={`${p}-reason`} name="reason" label="Reason for the change" error={errors.reason} hint="Written to the audit ledger with the old and new limits." />}
       <ActionMessage state={state} />
       <button className="btn-primary w-full" disabled={pending}>

@@ -113,7 +113,9 @@ function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: str
           </button>
         </div>
       </div>
-      <p className="mt-1 text-xs text-ink-muted">Suggested intervals follow common practice (daily Bowie-Dick, weekly air leakage, quarterly and yearly thermometric and steam quality tests); your written scheme decides.</p>
+      <p className="mt-1 text-xs text-ink-muted">
+        Suggested intervals follow common practice (daily Bowie-Dick, weekly air leakage, quarterly and yearly thermometric and steam quality tests); your written scheme decides.
+      </p>
       <div className="mt-2">
         <ActionMessage state={state} />
       </div>

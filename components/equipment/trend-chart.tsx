@@ -23,7 +23,19 @@ export function TrendChart({ figure, timeZone }: { figure: TrendFigure; timeZone
     <div className="mb-1 flex flex-wrap items-baseline justify-between gap-2">
       <h3 className="text-sm font-semibold">{figure.label}</h3>
       <p className="text-xs text-ink-muted">
-        {last ? <>Latest {fmt(last.value!, figure.unit)}{last.limit !== null && <> · limit {figure.comparison === "at-most" ? "≤" : "≥"} {fmt(last.limit, figure.unit)}</>}</> : "No measured value yet"}
+        {last ? (
+          <>
+            Latest {fmt(last.value!, figure.unit)}
+            {last.limit !== null && (
+              <>
+                {" "}
+                · limit {figure.comparison === "at-most" ? "≤" : "≥"} {fmt(last.limit, figure.unit)}
+              </>
+            )}
+          </>
+        ) : (
+          "No measured value yet"
+        )}
       </p>
     </div>
   );
@@ -68,8 +80,12 @@ export function TrendChart({ figure, timeZone }: { figure: TrendFigure; timeZone
             </text>
           </g>
         ))}
-        <text x={PAD.left} y={H - 8} className="fill-ink-muted" fontSize={12}>{formatDate(new Date(t0).toISOString(), timeZone)}</text>
-        <text x={W - PAD.right} y={H - 8} textAnchor="end" className="fill-ink-muted" fontSize={12}>{formatDate(new Date(t1).toISOString(), timeZone)}</text>
+        <text x={PAD.left} y={H - 8} className="fill-ink-muted" fontSize={12}>
+          {formatDate(new Date(t0).toISOString(), timeZone)}
+        </text>
+        <text x={W - PAD.right} y={H - 8} textAnchor="end" className="fill-ink-muted" fontSize={12}>
+          {formatDate(new Date(t1).toISOString(), timeZone)}
+        </text>
         {limitPath && (
           <>
             <path d={limitPath} fill="none" className="stroke-caution-500" strokeWidth={1.5} strokeDasharray="5 3" />
@@ -79,7 +95,10 @@ export function TrendChart({ figure, timeZone }: { figure: TrendFigure; timeZone
           </>
         )}
         <polyline
-          points={figure.points.map((p, i) => (p.value === null ? null : `${x(times[i]).toFixed(1)},${y(p.value).toFixed(1)}`)).filter(Boolean).join(" ")}
+          points={figure.points
+            .map((p, i) => (p.value === null ? null : `${x(times[i]).toFixed(1)},${y(p.value).toFixed(1)}`))
+            .filter(Boolean)
+            .join(" ")}
           fill="none"
           className="stroke-steam-500/50"
           strokeWidth={1}

@@ -20,8 +20,12 @@ export function CycleList({ items, empty, timeZone }: { items: CycleSummary[]; e
       {items.map((c) => (
         <li key={c.id} className="flex items-center justify-between gap-3 py-2">
           <div className="min-w-0">
-            <Link href={`/cycles/${c.id}`} className="mono font-medium text-steam-700 hover:underline">{c.cycleNumber}</Link>
-            <p className="truncate text-xs text-ink-muted">{c.sterilizerName} · {formatDateTime(c.startedAt, timeZone)}</p>
+            <Link href={`/cycles/${c.id}`} className="mono font-medium text-steam-700 hover:underline">
+              {c.cycleNumber}
+            </Link>
+            <p className="truncate text-xs text-ink-muted">
+              {c.sterilizerName} · {formatDateTime(c.startedAt, timeZone)}
+            </p>
           </div>
           <div className="flex shrink-0 gap-1.5">
             <VerdictBadge verdict={c.verdict} />

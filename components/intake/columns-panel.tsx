@@ -32,8 +32,7 @@ export function ColumnsPanel({ logger, inspect, idPrefix }: { logger: LoggerFile
   return (
     <Panel title="2 · Check the columns" action={<DialectLine dialect={inspect.dialect} />}>
       <p className="mb-3 text-sm text-ink-soft">
-        Papin guessed what each column holds. Correct anything that is wrong; marks <span className="text-caution-700">⚠</span> show what
-        the guess was unsure of.
+        Papin guessed what each column holds. Correct anything that is wrong; marks <span className="text-caution-700">⚠</span> show what the guess was unsure of.
       </p>
       {mappingNotice && (
         <p className="mb-3 rounded-md border border-steam-100 bg-steam-50 px-3 py-2 text-sm text-steam-700" role="status" data-testid="mapping-notice">
@@ -60,7 +59,9 @@ export function ColumnsPanel({ logger, inspect, idPrefix }: { logger: LoggerFile
       {mappingErrors.length > 0 && (
         <ul className="mt-3 space-y-1" data-testid="mapping-errors">
           {mappingErrors.map((m) => (
-            <li key={m} className="field-error text-sm">{m}</li>
+            <li key={m} className="field-error text-sm">
+              {m}
+            </li>
           ))}
         </ul>
       )}

@@ -58,8 +58,18 @@ function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instru
   return (
     <>
       <div>
-        <label className="field-label" htmlFor={`${ids}-sterilizer`}>Sterilizer</label>
-        <select id={`${ids}-sterilizer`} name="sterilizerId" className="field-input" value={fields.sterilizerId} onChange={(e) => details.chooseSterilizer(e.target.value)} {...invalid("sterilizerId")} aria-describedby={describedBy("sterilizerId")}>
+        <label className="field-label" htmlFor={`${ids}-sterilizer`}>
+          Sterilizer
+        </label>
+        <select
+          id={`${ids}-sterilizer`}
+          name="sterilizerId"
+          className="field-input"
+          value={fields.sterilizerId}
+          onChange={(e) => details.chooseSterilizer(e.target.value)}
+          {...invalid("sterilizerId")}
+          aria-describedby={describedBy("sterilizerId")}
+        >
           <option value="">Choose…</option>
           {sterilizers.map((s) => (
             <option key={s.id} value={s.id}>
@@ -71,11 +81,23 @@ function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instru
         {sterilizers.length === 0 && <p className="mt-1 text-xs text-ink-muted">No sterilizer is registered on your site yet; an engineer adds them under Sterilizers.</p>}
       </div>
       <div>
-        <label className="field-label" htmlFor={`${ids}-profile`}>Acceptance profile</label>
-        <select id={`${ids}-profile`} name="profileId" className="field-input" value={fields.profileId} onChange={(e) => setField("profileId", e.target.value)} {...invalid("profileId")} aria-describedby={describedBy("profileId") ?? `${ids}-profile-hint`}>
+        <label className="field-label" htmlFor={`${ids}-profile`}>
+          Acceptance profile
+        </label>
+        <select
+          id={`${ids}-profile`}
+          name="profileId"
+          className="field-input"
+          value={fields.profileId}
+          onChange={(e) => setField("profileId", e.target.value)}
+          {...invalid("profileId")}
+          aria-describedby={describedBy("profileId") ?? `${ids}-profile-hint`}
+        >
           <option value="">Choose…</option>
           {profiles.map((p) => (
-            <option key={p.id} value={p.id}>{p.name}</option>
+            <option key={p.id} value={p.id}>
+              {p.name}
+            </option>
           ))}
         </select>
         {errorText("profileId")}
@@ -87,8 +109,19 @@ function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instru
         )}
       </div>
       <div>
-        <label className="field-label" htmlFor={`${ids}-instrument`}>Logger (instrument)</label>
-        <select id={`${ids}-instrument`} name="instrumentId" className="field-input" value={fields.instrumentId} onChange={(e) => onInstrumentChange(e.target.value)} disabled={busy} {...invalid("instrumentId")} aria-describedby={describedBy("instrumentId")}>
+        <label className="field-label" htmlFor={`${ids}-instrument`}>
+          Logger (instrument)
+        </label>
+        <select
+          id={`${ids}-instrument`}
+          name="instrumentId"
+          className="field-input"
+          value={fields.instrumentId}
+          onChange={(e) => onInstrumentChange(e.target.value)}
+          disabled={busy}
+          {...invalid("instrumentId")}
+          aria-describedby={describedBy("instrumentId")}
+        >
           <option value="">Not recorded</option>
           {instruments.map((i) => (
             <option key={i.id} value={i.id}>
@@ -109,7 +142,9 @@ function CycleFacts({ idPrefix: ids, details, wiring }: { idPrefix: string; deta
   return (
     <>
       <div>
-        <label className="field-label" htmlFor={`${ids}-cycle-number`}>Cycle number</label>
+        <label className="field-label" htmlFor={`${ids}-cycle-number`}>
+          Cycle number
+        </label>
         <input
           id={`${ids}-cycle-number`}
           name="cycleNumber"
@@ -122,20 +157,36 @@ function CycleFacts({ idPrefix: ids, details, wiring }: { idPrefix: string; deta
           aria-describedby={describedBy("cycleNumber") ?? `${ids}-cycle-number-hint`}
         />
         {errorText("cycleNumber") ?? (
-          <p id={`${ids}-cycle-number-hint`} className="mt-1 text-xs text-ink-muted">Left empty, Papin uses the serial number and the start time.</p>
+          <p id={`${ids}-cycle-number-hint`} className="mt-1 text-xs text-ink-muted">
+            Left empty, Papin uses the serial number and the start time.
+          </p>
         )}
       </div>
       <div>
-        <label className="field-label" htmlFor={`${ids}-test-kind`}>Kind of test</label>
-        <select id={`${ids}-test-kind`} name="testKind" className="field-input" value={fields.testKind} onChange={(e) => setField("testKind", e.target.value as TestKind)} {...invalid("testKind")} aria-describedby={describedBy("testKind")}>
+        <label className="field-label" htmlFor={`${ids}-test-kind`}>
+          Kind of test
+        </label>
+        <select
+          id={`${ids}-test-kind`}
+          name="testKind"
+          className="field-input"
+          value={fields.testKind}
+          onChange={(e) => setField("testKind", e.target.value as TestKind)}
+          {...invalid("testKind")}
+          aria-describedby={describedBy("testKind")}
+        >
           {TEST_KINDS.map((k) => (
-            <option key={k} value={k}>{testKindLabel(k)}</option>
+            <option key={k} value={k}>
+              {testKindLabel(k)}
+            </option>
           ))}
         </select>
         {errorText("testKind")}
       </div>
       <div className="md:col-span-2 xl:col-span-3">
-        <label className="field-label" htmlFor={`${ids}-load`}>Load description</label>
+        <label className="field-label" htmlFor={`${ids}-load`}>
+          Load description
+        </label>
         <textarea
           id={`${ids}-load`}
           name="load"
@@ -161,9 +212,7 @@ function SaveMappingBox({ details }: { details: CycleFields }) {
       <span>
         Save this column mapping for the instrument
         {instrument ? ` ${instrument.name}` : ""}
-        <span className="block text-xs text-ink-muted">
-          {instrument ? "Its next files get this mapping automatically; you can still correct it." : "Choose the logger above to save its mapping."}
-        </span>
+        <span className="block text-xs text-ink-muted">{instrument ? "Its next files get this mapping automatically; you can still correct it." : "Choose the logger above to save its mapping."}</span>
       </span>
     </label>
   );

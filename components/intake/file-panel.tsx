@@ -41,13 +41,15 @@ export function FilePanel({ logger, limitMb, busy, onFiles, onRemove }: Props) {
         </div>
       )}
       <p className="mt-3 text-xs text-ink-muted">
-        One cycle per upload. The first file is read and analysed; further files (a second logger&apos;s export, a printout saved as text)
-        are stored with the record, unanalysed. The original bytes of every file are kept with their SHA-256.
+        One cycle per upload. The first file is read and analysed; further files (a second logger&apos;s export, a printout saved as text) are stored with the record, unanalysed. The original bytes of
+        every file are kept with their SHA-256.
       </p>
       {rejections.length > 0 && (
         <ul className="mt-3 space-y-1" role="alert" data-testid="dropzone-rejections">
           {rejections.map((r) => (
-            <li key={r} className="field-error text-sm">{r}</li>
+            <li key={r} className="field-error text-sm">
+              {r}
+            </li>
           ))}
         </ul>
       )}

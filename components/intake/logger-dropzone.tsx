@@ -51,13 +51,7 @@ export function LoggerDropzone({
       if (accepted.length > 0) onFiles(accepted);
     },
   });
-  const tone = isDragReject
-    ? "border-fail-500 bg-fail-50"
-    : isDragActive
-      ? "border-steam-500 bg-steam-50"
-      : isFocused
-        ? "border-steam-500"
-        : "border-ink-line hover:border-steam-500";
+  const tone = isDragReject ? "border-fail-500 bg-fail-50" : isDragActive ? "border-steam-500 bg-steam-50" : isFocused ? "border-steam-500" : "border-ink-line hover:border-steam-500";
   return (
     <div
       {...getRootProps({

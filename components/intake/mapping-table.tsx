@@ -64,7 +64,9 @@ function UnitSelect({ column, onChange, id }: { column: MappedColumn; onChange: 
       <select id={id} aria-label={`Time unit of ${column.header}`} className="field-input px-1.5 py-1 text-xs" value={column.unit ?? ""} onChange={(e) => onChange({ unit: e.target.value || null })}>
         <option value="">date and time</option>
         {ELAPSED_UNITS.map((u) => (
-          <option key={u.value} value={u.value}>elapsed {u.label}</option>
+          <option key={u.value} value={u.value}>
+            elapsed {u.label}
+          </option>
         ))}
       </select>
     );
@@ -74,7 +76,9 @@ function UnitSelect({ column, onChange, id }: { column: MappedColumn; onChange: 
       <select id={id} aria-label={`Unit of ${column.header}`} className="field-input px-1.5 py-1 text-xs" value={column.unit ?? ""} onChange={(e) => onChange({ unit: e.target.value })}>
         {!column.unit && <option value="">choose…</option>}
         {TEMPERATURE_UNITS.map((u) => (
-          <option key={u} value={u}>{TEMPERATURE_UNIT_SYMBOL[u]}</option>
+          <option key={u} value={u}>
+            {TEMPERATURE_UNIT_SYMBOL[u]}
+          </option>
         ))}
       </select>
     );
@@ -83,7 +87,9 @@ function UnitSelect({ column, onChange, id }: { column: MappedColumn; onChange: 
     <select id={id} aria-label={`Unit of ${column.header}`} className="field-input px-1.5 py-1 text-xs" value={column.unit ?? ""} onChange={(e) => onChange({ unit: e.target.value })}>
       {!column.unit && <option value="">choose…</option>}
       {PRESSURE_UNITS.map((u) => (
-        <option key={u} value={u}>{u}</option>
+        <option key={u} value={u}>
+          {u}
+        </option>
       ))}
     </select>
   );
@@ -117,22 +123,20 @@ export function MappingTable({
     <div>
       <div className="mb-3 flex flex-wrap items-end gap-4">
         <div>
-          <label className="field-label" htmlFor={`${idPrefix}-reference`}>Reference channel (chamber drain)</label>
-          <select
-            id={`${idPrefix}-reference`}
-            className="field-input min-w-56"
-            value={referenceColumn ?? ""}
-            onChange={(e) => onReferenceChange(e.target.value)}
-          >
+          <label className="field-label" htmlFor={`${idPrefix}-reference`}>
+            Reference channel (chamber drain)
+          </label>
+          <select id={`${idPrefix}-reference`} className="field-input min-w-56" value={referenceColumn ?? ""} onChange={(e) => onReferenceChange(e.target.value)}>
             {temperatures.length === 0 && <option value="">no temperature column yet</option>}
             {temperatures.map((c) => (
-              <option key={c.index} value={c.header}>{c.header}</option>
+              <option key={c.index} value={c.header}>
+                {c.header}
+              </option>
             ))}
           </select>
         </div>
         <p className="max-w-xl pb-2 text-xs text-ink-muted">
-          The plateau starts when the reference channel reaches the sterilization temperature, and the saturation check compares it with
-          the steam temperature computed from the chamber pressure.
+          The plateau starts when the reference channel reaches the sterilization temperature, and the saturation check compares it with the steam temperature computed from the chamber pressure.
         </p>
       </div>
       <p className="mb-2 text-sm" data-testid="mapping-summary">
@@ -162,7 +166,9 @@ export function MappingTable({
                         onChange={(e) => onColumnChange(c.index, { role: e.target.value as EditableColumn["role"] })}
                       >
                         {(Object.keys(ROLE_LABELS) as EditableColumn["role"][]).map((r) => (
-                          <option key={r} value={r}>{ROLE_LABELS[r]}</option>
+                          <option key={r} value={r}>
+                            {ROLE_LABELS[r]}
+                          </option>
                         ))}
                       </select>
                       <UnitSelect id={`${idPrefix}-unit-${c.index}`} column={c} onChange={(patch) => onColumnChange(c.index, patch)} />
@@ -181,10 +187,7 @@ export function MappingTable({
                       {c.unsure.length > 0 && (
                         <ul className="space-y-0.5" aria-label={`What the guess was unsure of for ${c.header}`}>
                           {c.unsure.map((reason) => (
-                            <li
-                              key={reason}
-                              className={`text-2xs leading-snug ${c.edited || (referenceSettled && /reference/i.test(reason)) ? "text-ink-muted" : "text-caution-700"}`}
-                            >
+                            <li key={reason} className={`text-2xs leading-snug ${c.edited || (referenceSettled && /reference/i.test(reason)) ? "text-ink-muted" : "text-caution-700"}`}>
                               <span aria-hidden="true">⚠ </span>
                               {reason}
                             </li>

@@ -23,10 +23,7 @@ export function ProgressLine({ busy }: { busy: NonNullable<Busy> }) {
         )}
       </div>
       <div className="mt-2 h-1.5 overflow-hidden rounded-full bg-steam-100" aria-hidden="true">
-        <div
-          className={`h-full rounded-full bg-steam-500 transition-[width] ${uploading ? "" : "animate-pulse"}`}
-          style={{ width: `${Math.max(3, Math.round(fraction * 100))}%` }}
-        />
+        <div className={`h-full rounded-full bg-steam-500 transition-[width] ${uploading ? "" : "animate-pulse"}`} style={{ width: `${Math.max(3, Math.round(fraction * 100))}%` }} />
       </div>
       {!uploading && busy.label === "Analysing" && <p className="mt-1 text-xs text-ink-muted">The server is checking every sample; a day-long file takes a few seconds.</p>}
     </div>

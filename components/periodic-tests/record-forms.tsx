@@ -1,13 +1,7 @@
 "use client";
 
 import { useEffect, useState, type ReactNode } from "react";
-import {
-  recordAirLeakageAction,
-  recordBowieDickAction,
-  recordDrynessAction,
-  recordNonCondensableGasAction,
-  recordSuperheatAction,
-} from "@/app/(portal)/periodic-tests/actions";
+import { recordAirLeakageAction, recordBowieDickAction, recordDrynessAction, recordNonCondensableGasAction, recordSuperheatAction } from "@/app/(portal)/periodic-tests/actions";
 import { Field, TextInput, useFormAction } from "@/components/equipment/form-bits";
 import { ActionMessage } from "@/components/ui/action-message";
 import type { FormState } from "@/lib/form-state";
@@ -44,9 +38,13 @@ function CommonFields({ sterilizers, sterilizerId, errors, children }: { sterili
     <div className="grid gap-3 sm:grid-cols-2">
       <Field id="pt-sterilizer" label="Sterilizer" error={errors.sterilizerId}>
         <select id="pt-sterilizer" name="sterilizerId" className="field-input" defaultValue={sterilizerId ?? ""} aria-invalid={!!errors.sterilizerId}>
-          <option value="" disabled>Choose…</option>
+          <option value="" disabled>
+            Choose…
+          </option>
           {active.map((s) => (
-            <option key={s.id} value={s.id}>{s.name} ({s.serialNumber})</option>
+            <option key={s.id} value={s.id}>
+              {s.name} ({s.serialNumber})
+            </option>
           ))}
         </select>
       </Field>
@@ -70,15 +68,29 @@ function Notes({ error }: { error?: string }) {
 type Preview = { passed: boolean; headline: ReactNode; limit: ReactNode; basis: string; warnings?: string[] } | { error: string } | null;
 
 function ResultPreview({ preview, waiting }: { preview: Preview; waiting: string }) {
-  if (!preview) return <p className="rounded-md border border-dashed border-ink-line px-3 py-3 text-sm text-ink-muted" aria-live="polite">{waiting}</p>;
-  if ("error" in preview) return <p className="rounded-md bg-fail-50 px-3 py-2 text-sm text-fail-700" role="alert">✕ {preview.error}</p>;
+  if (!preview)
+    return (
+      <p className="rounded-md border border-dashed border-ink-line px-3 py-3 text-sm text-ink-muted" aria-live="polite">
+        {waiting}
+      </p>
+    );
+  if ("error" in preview)
+    return (
+      <p className="rounded-md bg-fail-50 px-3 py-2 text-sm text-fail-700" role="alert">
+        ✕ {preview.error}
+      </p>
+    );
   return (
     <div className={`rounded-md border px-3 py-3 text-sm ${preview.passed ? "border-pass-500/40 bg-pass-50" : "border-fail-500/40 bg-fail-50"}`} aria-live="polite" data-testid="result-preview">
-      <p className={`text-base font-semibold ${preview.passed ? "text-pass-700" : "text-fail-700"}`}>{preview.passed ? "✓ PASS" : "✕ FAIL"} — {preview.headline}</p>
+      <p className={`text-base font-semibold ${preview.passed ? "text-pass-700" : "text-fail-700"}`}>
+        {preview.passed ? "✓ PASS" : "✕ FAIL"} — {preview.headline}
+      </p>
       <p className="mt-1">Limit: {preview.limit}</p>
       <p className="mt-1 text-xs text-ink-muted">Basis: {preview.basis}</p>
       {preview.warnings?.map((w) => (
-        <p key={w} className="mt-2 rounded bg-caution-50 px-2 py-1 text-caution-700">▲ {w}</p>
+        <p key={w} className="mt-2 rounded bg-caution-50 px-2 py-1 text-caution-700">
+          ▲ {w}
+        </p>
       ))}
       <p className="mt-2 text-xs text-ink-muted">Preview: the server recomputes the result from your readings when you save.</p>
     </div>
@@ -97,7 +109,9 @@ function SaveBar({ state, pending, label = "Save test record" }: { state: FormSt
       ) : (
         <ActionMessage state={state} />
       )}
-      <button className="btn-primary" disabled={pending}>{pending ? "Saving…" : label}</button>
+      <button className="btn-primary" disabled={pending}>
+        {pending ? "Saving…" : label}
+      </button>
     </div>
   );
 }
@@ -132,8 +146,29 @@ export function AirLeakageForm({ sterilizers, sterilizerId }: { sterilizers: Ste
           const r = evaluateAirLeakage({ p1, p2, p3, unit });
           return {
             passed: r.passed,
-            headline: <>leak rate {f3(r.leakRateKpaPerMin)} kPa/min{unit !== "kPa" && <> ({+r.leakRatePerMinInUnit.toPrecision(3)} {unit}/min)</>}</>,
-            limit: <>≤ {r.limitKpaPerMin} kPa/min{unit !== "kPa" && <> = {+r.limitPerMinInUnit.toPrecision(3)} {unit}/min</>} · rise over the 10 min: {(r.p3Kpa - r.p2Kpa).toFixed(2)} kPa (≤ 1.3 kPa)</>,
+            headline: (
+              <>
+                leak rate {f3(r.leakRateKpaPerMin)} kPa/min
+                {unit !== "kPa" && (
+                  <>
+                    {" "}
+                    ({+r.leakRatePerMinInUnit.toPrecision(3)} {unit}/min)
+                  </>
+                )}
+              </>
+            ),
+            limit: (
+              <>
+                ≤ {r.limitKpaPerMin} kPa/min
+                {unit !== "kPa" && (
+                  <>
+                    {" "}
+                    = {+r.limitPerMinInUnit.toPrecision(3)} {unit}/min
+                  </>
+                )}{" "}
+                · rise over the 10 min: {(r.p3Kpa - r.p2Kpa).toFixed(2)} kPa (≤ 1.3 kPa)
+              </>
+            ),
             basis: r.basis,
             warnings: r.warnings,
           };
@@ -144,13 +179,16 @@ export function AirLeakageForm({ sterilizers, sterilizerId }: { sterilizers: Ste
         <Field id="al-unit" label="Pressure unit (absolute)" error={errors.unit}>
           <select id="al-unit" name="unit" className="field-input" value={unit} onChange={(e) => setUnit(e.target.value as PressureUnit)}>
             {PRESSURE_UNITS.map((u) => (
-              <option key={u} value={u}>{u}</option>
+              <option key={u} value={u}>
+                {u}
+              </option>
             ))}
           </select>
         </Field>
       </CommonFields>
       <p className="text-sm text-ink-muted">
-        Run the leak test cycle to its deep vacuum (normally below {AIR_LEAKAGE.startBelowKpaAbs} kPa abs), close the chamber valves and stop the pump. Read the absolute chamber pressure then (p1), after {AIR_LEAKAGE.stabilisationMin} min (p2) and after a further {AIR_LEAKAGE.testPeriodMin} min (p3). Keep the chamber temperature steady during the test.
+        Run the leak test cycle to its deep vacuum (normally below {AIR_LEAKAGE.startBelowKpaAbs} kPa abs), close the chamber valves and stop the pump. Read the absolute chamber pressure then (p1),
+        after {AIR_LEAKAGE.stabilisationMin} min (p2) and after a further {AIR_LEAKAGE.testPeriodMin} min (p3). Keep the chamber temperature steady during the test.
       </p>
       <div className="grid gap-3 sm:grid-cols-3">
         <TextInput id="al-p1" name="p1" label="p1 at start" suffix={unit} inputMode="decimal" value={p.p1} onChange={(v) => setP((o) => ({ ...o, p1: v }))} error={errors.p1} />
@@ -212,15 +250,32 @@ export function NonCondensableGasForm({ sterilizers, sterilizerId }: { sterilize
       ? null
       : safely(() => {
           const r = evaluateNonCondensableGas({ gasVolumeMl: vg, condensateVolumeMl: vc });
-          return { passed: r.passed, headline: <>{r.percent.toFixed(2)} % non-condensable gases (100 · V_g / V_c)</>, limit: <>≤ {NON_CONDENSABLE_GAS.maxPercent} % (3.5 ml of gas per 100 ml of condensate)</>, basis: r.basis };
+          return {
+            passed: r.passed,
+            headline: <>{r.percent.toFixed(2)} % non-condensable gases (100 · V_g / V_c)</>,
+            limit: <>≤ {NON_CONDENSABLE_GAS.maxPercent} % (3.5 ml of gas per 100 ml of condensate)</>,
+            basis: r.basis,
+          };
         });
   return (
     <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record a non-condensable gas test">
       <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors} />
-      <p className="text-sm text-ink-muted">Sample from the steam service pipe through the Pitot tube while demand is highest (as steam is first admitted to the chamber). Read the gas collected in the burette and the condensate collected from the same sample.</p>
+      <p className="text-sm text-ink-muted">
+        Sample from the steam service pipe through the Pitot tube while demand is highest (as steam is first admitted to the chamber). Read the gas collected in the burette and the condensate
+        collected from the same sample.
+      </p>
       <div className="grid gap-3 sm:grid-cols-2">
         <TextInput id="ncg-vg" name="gasVolumeMl" label="Gas volume V_g" suffix="ml" inputMode="decimal" value={v.vg} onChange={(x) => setV((o) => ({ ...o, vg: x }))} error={errors.gasVolumeMl} />
-        <TextInput id="ncg-vc" name="condensateVolumeMl" label="Condensate volume V_c" suffix="ml" inputMode="decimal" value={v.vc} onChange={(x) => setV((o) => ({ ...o, vc: x }))} error={errors.condensateVolumeMl} />
+        <TextInput
+          id="ncg-vc"
+          name="condensateVolumeMl"
+          label="Condensate volume V_c"
+          suffix="ml"
+          inputMode="decimal"
+          value={v.vc}
+          onChange={(x) => setV((o) => ({ ...o, vc: x }))}
+          error={errors.condensateVolumeMl}
+        />
       </div>
       <ResultPreview preview={preview} waiting="Enter V_g and V_c to see the percentage against the limit." />
       <Notes error={errors.notes} />
@@ -237,7 +292,14 @@ export function SuperheatForm({ sterilizers, sterilizerId, site }: { sterilizers
   const [alt, setAlt] = useState(site.altitudeM !== null ? String(site.altitudeM) : "");
   useClearOnSuccess(state, () => setT(""));
   const temp = parse(t);
-  const atmosphere = source === "pressure" ? (parse(atm) === null ? null : { kind: "pressure" as const, atmosphereKpa: parse(atm)! }) : parse(alt) === null ? null : { kind: "altitude" as const, altitudeM: parse(alt)! };
+  const atmosphere =
+    source === "pressure"
+      ? parse(atm) === null
+        ? null
+        : { kind: "pressure" as const, atmosphereKpa: parse(atm)! }
+      : parse(alt) === null
+        ? null
+        : { kind: "altitude" as const, altitudeM: parse(alt)! };
   const preview =
     temp === null || atmosphere === null
       ? null
@@ -245,8 +307,16 @@ export function SuperheatForm({ sterilizers, sterilizerId, site }: { sterilizers
           const r = evaluateSuperheat({ expansionTempC: temp, atmosphere });
           return {
             passed: r.passed,
-            headline: <>superheat {r.superheatK.toFixed(1)} K ({temp} °C − boiling point {r.boilingPointC.toFixed(2)} °C at {r.atmosphereKpa.toFixed(2)} kPa)</>,
-            limit: <>≤ {SUPERHEAT.maxK} K, i.e. an expansion temperature up to {r.limitTemperatureC.toFixed(2)} °C here</>,
+            headline: (
+              <>
+                superheat {r.superheatK.toFixed(1)} K ({temp} °C − boiling point {r.boilingPointC.toFixed(2)} °C at {r.atmosphereKpa.toFixed(2)} kPa)
+              </>
+            ),
+            limit: (
+              <>
+                ≤ {SUPERHEAT.maxK} K, i.e. an expansion temperature up to {r.limitTemperatureC.toFixed(2)} °C here
+              </>
+            ),
             basis: r.basis,
             warnings: r.warnings,
           };
@@ -254,7 +324,10 @@ export function SuperheatForm({ sterilizers, sterilizerId, site }: { sterilizers
   return (
     <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record a superheat test">
       <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors} />
-      <p className="text-sm text-ink-muted">Expand the sampled steam through the Pitot tube to atmospheric pressure in the expansion tube and read its temperature. The boiling point at the local atmospheric pressure comes from the IF97 saturation line.</p>
+      <p className="text-sm text-ink-muted">
+        Expand the sampled steam through the Pitot tube to atmospheric pressure in the expansion tube and read its temperature. The boiling point at the local atmospheric pressure comes from the IF97
+        saturation line.
+      </p>
       <div className="grid gap-3 sm:grid-cols-2">
         <TextInput id="sh-t" name="expansionTempC" label="Expansion temperature" suffix="°C" inputMode="decimal" value={t} onChange={setT} error={errors.expansionTempC} />
         <Field id="sh-source" label="Local atmospheric pressure from" error={errors.atmosphereSource}>
@@ -264,9 +337,29 @@ export function SuperheatForm({ sterilizers, sterilizerId, site }: { sterilizers
           </select>
         </Field>
         {source === "pressure" ? (
-          <TextInput id="sh-atm" name="atmosphereKpa" label="Barometric pressure" suffix="kPa" inputMode="decimal" value={atm} onChange={setAtm} error={errors.atmosphereKpa} hint="A measured value is better than the altitude estimate: weather moves it by a few kPa." />
+          <TextInput
+            id="sh-atm"
+            name="atmosphereKpa"
+            label="Barometric pressure"
+            suffix="kPa"
+            inputMode="decimal"
+            value={atm}
+            onChange={setAtm}
+            error={errors.atmosphereKpa}
+            hint="A measured value is better than the altitude estimate: weather moves it by a few kPa."
+          />
         ) : (
-          <TextInput id="sh-alt" name="altitudeM" label="Altitude" suffix="m" inputMode="decimal" value={alt} onChange={setAlt} error={errors.altitudeM} hint="ASHRAE standard atmosphere; weather moves real pressure by a few kPa." />
+          <TextInput
+            id="sh-alt"
+            name="altitudeM"
+            label="Altitude"
+            suffix="m"
+            inputMode="decimal"
+            value={alt}
+            onChange={setAlt}
+            error={errors.altitudeM}
+            hint="ASHRAE standard atmosphere; weather moves real pressure by a few kPa."
+          />
         )}
       </div>
       <ResultPreview preview={preview} waiting="Enter the expansion temperature and the local atmospheric pressure or altitude." />
@@ -290,8 +383,16 @@ export function DrynessForm({ sterilizers, sterilizerId }: { sterilizers: Steril
         const r = evaluateDryness({ initialWaterTempC: n.t0!, finalWaterTempC: n.t1!, waterMassKg: n.mw!, condensateMassKg: n.mc!, steamTempC: n.ts!, load });
         return {
           passed: r.passed,
-          headline: <>dryness value D = {r.dryness.toFixed(3)} (h_s = {r.liquidEnthalpyKjPerKg.toFixed(2)} kJ/kg, L = {r.latentHeatKjPerKg.toFixed(2)} kJ/kg at {n.ts} °C, IF97)</>,
-          limit: <>≥ {r.limit.toFixed(2)} for {load === "metal" ? "metal loads" : "other loads (textiles, porous)"}; a value above 1 is not accepted</>,
+          headline: (
+            <>
+              dryness value D = {r.dryness.toFixed(3)} (h_s = {r.liquidEnthalpyKjPerKg.toFixed(2)} kJ/kg, L = {r.latentHeatKjPerKg.toFixed(2)} kJ/kg at {n.ts} °C, IF97)
+            </>
+          ),
+          limit: (
+            <>
+              ≥ {r.limit.toFixed(2)} for {load === "metal" ? "metal loads" : "other loads (textiles, porous)"}; a value above 1 is not accepted
+            </>
+          ),
           basis: r.basis,
           warnings: r.warnings,
         };
@@ -307,7 +408,8 @@ export function DrynessForm({ sterilizers, sterilizerId }: { sterilizers: Steril
         </Field>
       </CommonFields>
       <p className="text-sm text-ink-muted">
-        Calorimetric method: weigh the Dewar flask empty and with its cold water (m_w), note T0, collect steam from the Pitot tube until about 80 °C, note T1, and weigh again for the condensate (m_c). T_s is the average steam temperature in the supply pipe during sampling.
+        Calorimetric method: weigh the Dewar flask empty and with its cold water (m_w), note T0, collect steam from the Pitot tube until about 80 °C, note T1, and weigh again for the condensate (m_c).
+        T_s is the average steam temperature in the supply pipe during sampling.
       </p>
       <div className="grid gap-3 sm:grid-cols-3">
         <TextInput id="dr-t0" name="initialWaterTempC" label="T0, water at start" suffix="°C" inputMode="decimal" value={v.t0} onChange={set("t0")} error={errors.initialWaterTempC} />

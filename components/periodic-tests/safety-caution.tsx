@@ -4,8 +4,7 @@ import { RecordableKind } from "@/lib/domain";
 const CAUTIONS: Record<RecordableKind, string> = {
   "air-leakage":
     "Fit test gauges and sensor glands only with the chamber at atmospheric pressure and the steam supply isolated, under the site's permit-to-work procedure. A leaking gland also upsets this test: repeat it with test sensors removed.",
-  "bowie-dick":
-    "The test pack and chamber are hot after the cycle: wear heat-resistant gloves and eye protection when unloading, and open the door only once the cycle is complete.",
+  "bowie-dick": "The test pack and chamber are hot after the cycle: wear heat-resistant gloves and eye protection when unloading, and open the door only once the cycle is complete.",
   "steam-non-condensable-gas": "",
   "steam-superheat": "",
   "steam-dryness": "",
@@ -25,7 +24,9 @@ export function SafetyCaution({ kind }: { kind: RecordableKind }) {
       </p>
       <p className="mt-1 text-xs">
         General cautions only: the sterilizer&apos;s instructions, local regulations, the standards and licensed practice come first.{" "}
-        <Link href="/safety" className="underline">Safety notes</Link>
+        <Link href="/safety" className="underline">
+          Safety notes
+        </Link>
       </p>
     </aside>
   );

@@ -42,8 +42,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
     }
   }
 
-  const submit = () =>
-    run(async () => (await fetchJson(`/api/cycles/${detail.id}/submit`, { method: "POST", what: "the submission" }), "Submitted: the site's engineers have been notified."));
+  const submit = () => run(async () => (await fetchJson(`/api/cycles/${detail.id}/submit`, { method: "POST", what: "the submission" }), "Submitted: the site's engineers have been notified."));
 
   const sign = (event: React.FormEvent) => {
     event.preventDefault();
@@ -79,7 +78,9 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
   return (
     <section className="panel" aria-labelledby="sign-off-title" data-testid="sign-off">
       <header className="border-b border-ink-line px-panel py-3">
-        <h2 id="sign-off-title" className="text-base font-semibold">Review and signatures</h2>
+        <h2 id="sign-off-title" className="text-base font-semibold">
+          Review and signatures
+        </h2>
       </header>
       <div className="space-y-4 px-panel py-4 text-sm">
         {detail.signatures.length === 0 ? (
@@ -135,7 +136,9 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
                       <input type="radio" name="meaning" value={m} checked={meaning === m} disabled={blocked} onChange={() => setMeaning(m)} className="mt-1" />
                       <span>
                         <span className="font-medium">{SIGNATURE_MEANING_LABELS[m]}</span>
-                        <span className="block text-xs text-ink-muted">{failing ? "The analysis failed, so this cycle cannot be approved." : blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_STATEMENTS[m]}</span>
+                        <span className="block text-xs text-ink-muted">
+                          {failing ? "The analysis failed, so this cycle cannot be approved." : blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_STATEMENTS[m]}
+                        </span>
                       </span>
                     </label>
                   );
@@ -143,26 +146,36 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
               </div>
             </fieldset>
             <div>
-              <label htmlFor="sign-reason" className="field-label">Reason {meaning === "rejected" ? "(required)" : "(optional)"}</label>
+              <label htmlFor="sign-reason" className="field-label">
+                Reason {meaning === "rejected" ? "(required)" : "(optional)"}
+              </label>
               <textarea id="sign-reason" className="field-input" rows={2} value={reason} onChange={(e) => setReason(e.target.value)} />
             </div>
             <div>
-              <label htmlFor="sign-password" className="field-label">Your password (re-entered to sign)</label>
+              <label htmlFor="sign-password" className="field-label">
+                Your password (re-entered to sign)
+              </label>
               <input id="sign-password" type="password" autoComplete="current-password" className="field-input" value={password} onChange={(e) => setPassword(e.target.value)} />
             </div>
             <p className="text-xs text-ink-muted">
-              Signing as <strong>{actor.name}</strong>. Your printed name, the meaning, the time (UTC) and a hash of this record are stored with the signature and printed on
-              the report; the signature is your own and equals a handwritten one.
+              Signing as <strong>{actor.name}</strong>. Your printed name, the meaning, the time (UTC) and a hash of this record are stored with the signature and printed on the report; the signature
+              is your own and equals a handwritten one.
             </p>
-            <button type="submit" className="btn-primary" disabled={busy}>{busy ? "Signing…" : "Sign"}</button>
+            <button type="submit" className="btn-primary" disabled={busy}>
+              {busy ? "Signing…" : "Sign"}
+            </button>
           </form>
         )}
 
         {canCorrect && (
           <form onSubmit={correct} className="space-y-2" aria-label="Correct the logger file">
-            <label htmlFor="correction-file" className="field-label">Correct with a new logger file</label>
+            <label htmlFor="correction-file" className="field-label">
+              Correct with a new logger file
+            </label>
             <input id="correction-file" type="file" accept=".csv,.txt,.tsv,.dat,.log" onChange={(e) => setCorrection(e.target.files?.[0] ?? null)} className="block text-sm" />
-            <button type="submit" className="btn-secondary" disabled={busy || !correction}>Analyse the new file</button>
+            <button type="submit" className="btn-secondary" disabled={busy || !correction}>
+              Analyse the new file
+            </button>
           </form>
         )}
 

@@ -9,7 +9,11 @@ export function StatusPage({ code, title, children }: { code: string; title: str
         <p className="mono mt-4 text-ink-muted">{code}</p>
         <h1 className="mt-1">{title}</h1>
         <div className="mt-2 text-sm text-ink-soft">{children}</div>
-        <p className="mt-6"><Link href="/" className="btn-secondary">Back to the overview</Link></p>
+        <p className="mt-6">
+          <Link href="/" className="btn-secondary">
+            Back to the overview
+          </Link>
+        </p>
       </div>
     </main>
   );

@@ -65,8 +65,7 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
   }, [choice, altitudeText, measuredText, site.atmosphereKpa]);
 
   const temperatureQuery = (text: string, unit: TemperatureUnit) => `/api/steam/saturation?temperature=${encodeURIComponent(text.trim().replace(",", "."))}&unit=${unit}`;
-  const pressureQuery = (text: string, unit: PressureUnit, gauge: boolean) =>
-    `/api/steam/saturation?pressure=${encodeURIComponent(text.trim().replace(",", "."))}&unit=${unit}&gauge=${gauge}`;
+  const pressureQuery = (text: string, unit: PressureUnit, gauge: boolean) => `/api/steam/saturation?pressure=${encodeURIComponent(text.trim().replace(",", "."))}&unit=${unit}&gauge=${gauge}`;
 
   const [temperatureRequest, setTemperatureRequest] = useState(() => temperatureQuery("134", "C"));
   const [pressureRequest, setPressureRequest] = useState(() => pressureQuery("2.03", "bar", true));
@@ -102,15 +101,15 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
     <div className="grid gap-gutter xl:grid-cols-2">
       <Panel title="Atmospheric pressure for gauge readings" className="xl:col-span-2">
         <fieldset>
-          <legend className="mb-2 text-sm text-ink-muted">
-            Gauge pressure is measured against the air around the sterilizer. Choose the atmosphere to add to gauge readings.
-          </legend>
+          <legend className="mb-2 text-sm text-ink-muted">Gauge pressure is measured against the air around the sterilizer. Choose the atmosphere to add to gauge readings.</legend>
           <div className="grid gap-3 md:grid-cols-3">
             <label className="flex items-start gap-2 rounded-md border border-ink-line p-3 text-sm has-[:checked]:border-steam-500 has-[:checked]:bg-steam-50">
               <input type="radio" name={`${ids}-atm`} className="mt-1" checked={choice === "site"} onChange={() => setChoice("site")} />
               <span>
                 <span className="font-medium">{site.siteName ? `This site (${site.siteName})` : "Standard atmosphere"}</span>
-                <span className="block mono mt-0.5" data-testid="site-atmosphere">{formatPressure(site.atmosphereKpa, { digits: 3, reference: "abs" })}</span>
+                <span className="block mono mt-0.5" data-testid="site-atmosphere">
+                  {formatPressure(site.atmosphereKpa, { digits: 3, reference: "abs" })}
+                </span>
                 <span className="block text-xs text-ink-muted">From {siteSourceText}.</span>
               </span>
             </label>
@@ -162,7 +161,9 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
       <Panel title="Temperature → saturation pressure">
         <form onSubmit={submitTemperature} className="flex flex-wrap items-end gap-3" aria-label="Temperature to pressure">
           <div>
-            <label className="field-label" htmlFor={`${ids}-t`}>Temperature</label>
+            <label className="field-label" htmlFor={`${ids}-t`}>
+              Temperature
+            </label>
             <input
               id={`${ids}-t`}
               className="field-input w-36"
@@ -174,25 +175,35 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
             />
           </div>
           <div>
-            <label className="field-label" htmlFor={`${ids}-tu`}>Unit</label>
+            <label className="field-label" htmlFor={`${ids}-tu`}>
+              Unit
+            </label>
             <select id={`${ids}-tu`} className="field-input w-24" value={temperatureUnit} onChange={(e) => setTemperatureUnit(e.target.value as TemperatureUnit)}>
               {TEMPERATURE_UNITS.map((u) => (
-                <option key={u} value={u}>{TEMPERATURE_UNIT_SYMBOL[u]}</option>
+                <option key={u} value={u}>
+                  {TEMPERATURE_UNIT_SYMBOL[u]}
+                </option>
               ))}
             </select>
           </div>
-          <button type="submit" className="btn-primary">Find the pressure</button>
+          <button type="submit" className="btn-primary">
+            Find the pressure
+          </button>
         </form>
         {temperatureError && (
-          <p id={`${ids}-t-error`} className="field-error text-sm" role="alert">{temperatureError.message}</p>
+          <p id={`${ids}-t-error`} className="field-error text-sm" role="alert">
+            {temperatureError.message}
+          </p>
         )}
         {toPressure.data && !temperatureError && (
           <div className="mt-4" data-testid="pressure-result" aria-live="polite">
             <p className="text-sm">
               Saturated steam at{" "}
-              <strong>{fixed(toPressure.data.input.value, 2)} {TEMPERATURE_UNIT_SYMBOL[toPressure.data.input.unit as TemperatureUnit] ?? toPressure.data.input.unit}</strong>{" "}
-              is at <strong className="mono text-base">{formatPressure(toPressure.data.pressureKpaAbs, { digits: 2, reference: "abs" })}</strong>
-              {" "}(<span className="mono">{formatPressure(toPressure.data.pressureKpaGauge, { digits: 2, reference: "gauge" })}</span>).
+              <strong>
+                {fixed(toPressure.data.input.value, 2)} {TEMPERATURE_UNIT_SYMBOL[toPressure.data.input.unit as TemperatureUnit] ?? toPressure.data.input.unit}
+              </strong>{" "}
+              is at <strong className="mono text-base">{formatPressure(toPressure.data.pressureKpaAbs, { digits: 2, reference: "abs" })}</strong> (
+              <span className="mono">{formatPressure(toPressure.data.pressureKpaGauge, { digits: 2, reference: "gauge" })}</span>).
             </p>
             <PressureTable answer={toPressure.data} />
           </div>
@@ -202,7 +213,9 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
       <Panel title="Pressure → saturation temperature">
         <form onSubmit={submitPressure} className="flex flex-wrap items-end gap-3" aria-label="Pressure to temperature">
           <div>
-            <label className="field-label" htmlFor={`${ids}-p`}>Pressure</label>
+            <label className="field-label" htmlFor={`${ids}-p`}>
+              Pressure
+            </label>
             <input
               id={`${ids}-p`}
               className="field-input w-36"
@@ -214,10 +227,14 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
             />
           </div>
           <div>
-            <label className="field-label" htmlFor={`${ids}-pu`}>Unit</label>
+            <label className="field-label" htmlFor={`${ids}-pu`}>
+              Unit
+            </label>
             <select id={`${ids}-pu`} className="field-input w-24" value={pressureUnit} onChange={(e) => setPressureUnit(e.target.value as PressureUnit)}>
               {PRESSURE_UNITS.map((u) => (
-                <option key={u} value={u}>{u}</option>
+                <option key={u} value={u}>
+                  {u}
+                </option>
               ))}
             </select>
           </div>
@@ -230,10 +247,14 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
               <input type="radio" name={`${ids}-g`} checked={!pressureGauge} onChange={() => setPressureGauge(false)} /> absolute
             </label>
           </fieldset>
-          <button type="submit" className="btn-primary">Find the temperature</button>
+          <button type="submit" className="btn-primary">
+            Find the temperature
+          </button>
         </form>
         {pressureError && (
-          <p id={`${ids}-p-error`} className="field-error text-sm" role="alert">{pressureError.message}</p>
+          <p id={`${ids}-p-error`} className="field-error text-sm" role="alert">
+            {pressureError.message}
+          </p>
         )}
         {toTemperature.data && !pressureError && (
           <div className="mt-4" data-testid="temperature-result" aria-live="polite">
@@ -247,7 +268,11 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
             </p>
             <table className="data-table mt-3">
               <thead>
-                <tr><th>°C</th><th>°F</th><th>K</th></tr>
+                <tr>
+                  <th>°C</th>
+                  <th>°F</th>
+                  <th>K</th>
+                </tr>
               </thead>
               <tbody>
                 <tr className="mono">

@@ -13,11 +13,7 @@ const TONES = {
 export type BadgeTone = keyof typeof TONES;
 
 export function Badge({ tone = "neutral", children }: { tone?: BadgeTone; children: ReactNode }) {
-  return (
-    <span className={`inline-flex items-center gap-1 rounded-full px-2 py-0.5 text-xs font-medium ring-1 ring-inset ${TONES[tone]}`}>
-      {children}
-    </span>
-  );
+  return <span className={`inline-flex items-center gap-1 rounded-full px-2 py-0.5 text-xs font-medium ring-1 ring-inset ${TONES[tone]}`}>{children}</span>;
 }
 
 export function VerdictBadge({ verdict }: { verdict: Verdict | null | undefined }) {

@@ -40,7 +40,13 @@ export async function listAuditEventsOfSite({ siteId, filter }: { siteId: string
   const pageSize = Math.min(Math.max(filter.pageSize ?? 50, 1), 500);
   const page = Math.max(filter.page ?? 1, 1);
   const [items, [{ total }]] = await Promise.all([
-    db.select().from(auditEvents).where(where).orderBy(desc(auditEvents.seq)).limit(pageSize).offset((page - 1) * pageSize),
+    db
+      .select()
+      .from(auditEvents)
+      .where(where)
+      .orderBy(desc(auditEvents.seq))
+      .limit(pageSize)
+      .offset((page - 1) * pageSize),
     db.select({ total: count() }).from(auditEvents).where(where),
   ]);
   return { items, total };

@@ -40,7 +40,11 @@ export async function listInstrumentsForSite({ actor }: { actor: Actor }) {
 }
 
 export async function getSterilizerForSite({ actor, id }: { actor: Actor; id: string }) {
-  const [row] = await getDb().select().from(sterilizers).where(and(eq(sterilizers.id, id), eq(sterilizers.siteId, siteOf(actor)))).limit(1);
+  const [row] = await getDb()
+    .select()
+    .from(sterilizers)
+    .where(and(eq(sterilizers.id, id), eq(sterilizers.siteId, siteOf(actor))))
+    .limit(1);
   return row;
 }
 
@@ -54,6 +58,10 @@ export async function getProfileForSite({ actor, id }: { actor: Actor; id: strin
 }
 
 export async function getInstrumentForSite({ actor, id }: { actor: Actor; id: string }) {
-  const [row] = await getDb().select().from(instruments).where(and(eq(instruments.id, id), eq(instruments.siteId, siteOf(actor)))).limit(1);
+  const [row] = await getDb()
+    .select()
+    .from(instruments)
+    .where(and(eq(instruments.id, id), eq(instruments.siteId, siteOf(actor))))
+    .limit(1);
   return row;
 }

@@ -234,10 +234,7 @@ export async function insertCorrection(input: CorrectionInsert): Promise<string>
       .insert(analyses)
       .values({ ...input.analysis, cycleId: input.cycleId, loggerFileId: fileId })
       .returning({ id: analyses.id });
-    await tx
-      .update(cycles)
-      .set({ currentAnalysisId: saved.id, verdict: input.analysis.verdict, updatedAt: new Date().toISOString() })
-      .where(eq(cycles.id, input.cycleId));
+    await tx.update(cycles).set({ currentAnalysisId: saved.id, verdict: input.analysis.verdict, updatedAt: new Date().toISOString() }).where(eq(cycles.id, input.cycleId));
     await appendAuditEvent(tx, input.audit(saved.id));
     await input.inside?.(tx, input.cycleId);
     return saved.id;

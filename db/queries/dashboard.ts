@@ -78,8 +78,14 @@ export async function getAdminOverview({ siteId }: { siteId: string }) {
   const since = new Date(Date.now() - 7 * DAY_MS).toISOString();
   const [[{ total }], [{ disabled }], [{ failed }]] = await Promise.all([
     db.select({ total: count() }).from(users).where(eq(users.siteId, siteId)),
-    db.select({ disabled: count() }).from(users).where(and(eq(users.siteId, siteId), eq(users.disabled, true))),
-    db.select({ failed: count() }).from(auditEvents).where(and(eq(auditEvents.siteId, siteId), eq(auditEvents.action, "auth.sign-in-failed"), gte(auditEvents.at, since))),
+    db
+      .select({ disabled: count() })
+      .from(users)
+      .where(and(eq(users.siteId, siteId), eq(users.disabled, true))),
+    db
+      .select({ failed: count() })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.siteId, siteId), eq(auditEvents.action, "auth.sign-in-failed"), gte(auditEvents.at, since))),
   ]);
   return { users: total, disabled, failedSignIns: failed };
 }

@@ -11,7 +11,15 @@ export async function listInstrumentsWithCertificates({ siteId }: { siteId: stri
   const db = getDb();
   const rows = await db.select().from(instruments).where(eq(instruments.siteId, siteId)).orderBy(desc(instruments.active), asc(instruments.name));
   const certificates = rows.length
-    ? await db.select().from(calibrationCertificates).where(inArray(calibrationCertificates.instrumentId, rows.map((r) => r.id)))
+    ? await db
+        .select()
+        .from(calibrationCertificates)
+        .where(
+          inArray(
+            calibrationCertificates.instrumentId,
+            rows.map((r) => r.id),
+          ),
+        )
     : [];
   return { rows, certificates };
 }
@@ -75,7 +83,10 @@ export async function insertCertificate({ values, audit }: { values: NewCertific
 
 export async function clearInstrumentMapping({ siteId, id, audit }: { siteId: string; id: string; audit: Audit }) {
   await getDb().transaction(async (tx) => {
-    await tx.update(instruments).set({ savedMapping: null }).where(and(eq(instruments.id, id), eq(instruments.siteId, siteId)));
+    await tx
+      .update(instruments)
+      .set({ savedMapping: null })
+      .where(and(eq(instruments.id, id), eq(instruments.siteId, siteId)));
     await appendAuditEvent(tx, { ...audit, entityType: "instrument", entityId: id });
   });
 }

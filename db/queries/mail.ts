@@ -51,11 +51,7 @@ export async function getCycleMailFacts(tx: Executor, cycleId: string) {
     .limit(1);
   if (!row) return undefined;
   const submitterId = row.submittedBy ?? row.createdBy;
-  const [submitter] = await tx
-    .select({ name: users.name, email: users.email, disabled: users.disabled })
-    .from(users)
-    .where(eq(users.id, submitterId))
-    .limit(1);
+  const [submitter] = await tx.select({ name: users.name, email: users.email, disabled: users.disabled }).from(users).where(eq(users.id, submitterId)).limit(1);
   return { ...row, submitterId, submitter };
 }
 
@@ -103,12 +99,7 @@ export async function markMailAttemptFailed({ id, attempts, lastError, nextAttem
 
 /** When the next pending mail falls due (null when nothing waits). */
 export async function getNextMailAttemptAt(): Promise<string | null> {
-  const [row] = await getDb()
-    .select({ at: mailOutbox.nextAttemptAt })
-    .from(mailOutbox)
-    .where(eq(mailOutbox.status, "pending"))
-    .orderBy(asc(mailOutbox.nextAttemptAt))
-    .limit(1);
+  const [row] = await getDb().select({ at: mailOutbox.nextAttemptAt }).from(mailOutbox).where(eq(mailOutbox.status, "pending")).orderBy(asc(mailOutbox.nextAttemptAt)).limit(1);
   if (!row) return null;
   return row.at ?? new Date(0).toISOString();
 }

@@ -12,7 +12,15 @@ const startedOrCreated = sql<string>`coalesce(${cycles.startedAt}, ${cycles.crea
  * evidenced by a logged cycle the latest approved pass, the latest approved failure and the
  * passing cycles still waiting for sign-off.
  */
-export async function getScheduleFacts({ siteId, sterilizerId, cycleEvidencedKinds }: { siteId: string; sterilizerId?: string; cycleEvidencedKinds: ReadonlyArray<Extract<PeriodicTestKind, TestKind>> }) {
+export async function getScheduleFacts({
+  siteId,
+  sterilizerId,
+  cycleEvidencedKinds,
+}: {
+  siteId: string;
+  sterilizerId?: string;
+  cycleEvidencedKinds: ReadonlyArray<Extract<PeriodicTestKind, TestKind>>;
+}) {
   const db = getDb();
   const ofSterilizer = sterilizerId ? eq(periodicTests.sterilizerId, sterilizerId) : undefined;
   const byCycle = inArray(cycles.testKind, [...cycleEvidencedKinds]);

@@ -43,7 +43,10 @@ export async function insertProfile({ values, audit }: { values: NewAcceptancePr
 
 export async function updateProfileInPlace({ siteId, id, values, audit }: { siteId: string; id: string; values: Partial<NewAcceptanceProfile>; audit: Audit }) {
   await getDb().transaction(async (tx) => {
-    await tx.update(acceptanceProfiles).set(values).where(and(eq(acceptanceProfiles.id, id), eq(acceptanceProfiles.siteId, siteId)));
+    await tx
+      .update(acceptanceProfiles)
+      .set(values)
+      .where(and(eq(acceptanceProfiles.id, id), eq(acceptanceProfiles.siteId, siteId)));
     await appendAuditEvent(tx, { ...audit, entityType: "acceptance-profile", entityId: id });
   });
 }
@@ -68,8 +71,14 @@ export async function replaceProfileVersion({
   reason: string;
 }) {
   return getDb().transaction(async (tx) => {
-    const [created] = await tx.insert(acceptanceProfiles).values({ ...values, siteId }).returning();
-    await tx.update(acceptanceProfiles).set({ active: false }).where(and(eq(acceptanceProfiles.id, oldId), eq(acceptanceProfiles.siteId, siteId)));
+    const [created] = await tx
+      .insert(acceptanceProfiles)
+      .values({ ...values, siteId })
+      .returning();
+    await tx
+      .update(acceptanceProfiles)
+      .set({ active: false })
+      .where(and(eq(acceptanceProfiles.id, oldId), eq(acceptanceProfiles.siteId, siteId)));
     const moved = await tx
       .update(sterilizers)
       .set({ defaultProfileId: created.id })
@@ -84,9 +93,25 @@ export async function replaceProfileVersion({
       newValue: { id: created.id, supersedes: oldId, ...values, sterilizersMoved: moved.map((m) => m.name) },
       reason,
     });
-    await appendAuditEvent(tx, { ...actor, action: "profile.retire", entityType: "acceptance-profile", entityId: oldId, oldValue: { active: true }, newValue: { active: false, replacedBy: created.id }, reason });
+    await appendAuditEvent(tx, {
+      ...actor,
+      action: "profile.retire",
+      entityType: "acceptance-profile",
+      entityId: oldId,
+      oldValue: { active: true },
+      newValue: { active: false, replacedBy: created.id },
+      reason,
+    });
     for (const m of moved) {
-      await appendAuditEvent(tx, { ...actor, action: "sterilizer.update", entityType: "sterilizer", entityId: m.id, oldValue: { defaultProfileId: oldId }, newValue: { defaultProfileId: created.id }, reason: `Default profile moved to its new version: ${reason}` });
+      await appendAuditEvent(tx, {
+        ...actor,
+        action: "sterilizer.update",
+        entityType: "sterilizer",
+        entityId: m.id,
+        oldValue: { defaultProfileId: oldId },
+        newValue: { defaultProfileId: created.id },
+        reason: `Default profile moved to its new version: ${reason}`,
+      });
     }
     return { id: created.id, moved: moved.length };
   });

@@ -86,7 +86,14 @@ export async function applySignature(input: SignatureWrite): Promise<{ reportId:
     if (input.report) {
       const [report] = await tx
         .insert(reports)
-        .values({ cycleId: signature.cycleId, signatureId: signature.id, reportNumber: input.report.reportNumber, sha256: input.report.sha256, sizeBytes: input.report.bytes.byteLength, bytes: input.report.bytes })
+        .values({
+          cycleId: signature.cycleId,
+          signatureId: signature.id,
+          reportNumber: input.report.reportNumber,
+          sha256: input.report.sha256,
+          sizeBytes: input.report.bytes.byteLength,
+          bytes: input.report.bytes,
+        })
         .returning({ id: reports.id });
       reportId = report.id;
     }
@@ -137,9 +144,7 @@ export async function listArchivedReports({ actor, q, from, to }: { actor: Actor
       and(
         eq(cycles.siteId, actor.siteId ?? ""),
         ne(cycles.status, "draft"),
-        needle
-          ? or(like(reports.reportNumber, needle), like(cycles.cycleNumber, needle), like(sterilizers.name, needle), like(signatures.printedName, needle))
-          : undefined,
+        needle ? or(like(reports.reportNumber, needle), like(cycles.cycleNumber, needle), like(sterilizers.name, needle), like(signatures.printedName, needle)) : undefined,
         from ? gte(reports.createdAt, from) : undefined,
         to ? lte(reports.createdAt, `${to}T23:59:59.999Z`) : undefined,
       ),

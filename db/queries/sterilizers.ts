@@ -27,7 +27,15 @@ export async function listLatestCycleOfEachSterilizer({ siteId }: { siteId: stri
     .groupBy(cycles.sterilizerId)
     .as("latest");
   return db
-    .select({ id: cycles.id, sterilizerId: cycles.sterilizerId, cycleNumber: cycles.cycleNumber, verdict: cycles.verdict, status: cycles.status, startedAt: cycles.startedAt, createdAt: cycles.createdAt })
+    .select({
+      id: cycles.id,
+      sterilizerId: cycles.sterilizerId,
+      cycleNumber: cycles.cycleNumber,
+      verdict: cycles.verdict,
+      status: cycles.status,
+      startedAt: cycles.startedAt,
+      createdAt: cycles.createdAt,
+    })
     .from(cycles)
     .innerJoin(latest, and(eq(latest.sterilizerId, cycles.sterilizerId), eq(startedOrCreated, latest.startedAt)))
     .where(eq(cycles.siteId, siteId));
@@ -35,7 +43,15 @@ export async function listLatestCycleOfEachSterilizer({ siteId }: { siteId: stri
 
 export async function listRecentCyclesOfSterilizer({ siteId, sterilizerId, limit }: { siteId: string; sterilizerId: string; limit: number }) {
   return getDb()
-    .select({ id: cycles.id, cycleNumber: cycles.cycleNumber, status: cycles.status, verdict: cycles.verdict, startedAt: cycles.startedAt, testKind: cycles.testKind, profileName: acceptanceProfiles.name })
+    .select({
+      id: cycles.id,
+      cycleNumber: cycles.cycleNumber,
+      status: cycles.status,
+      verdict: cycles.verdict,
+      startedAt: cycles.startedAt,
+      testKind: cycles.testKind,
+      profileName: acceptanceProfiles.name,
+    })
     .from(cycles)
     .innerJoin(acceptanceProfiles, eq(cycles.profileId, acceptanceProfiles.id))
     .where(and(eq(cycles.siteId, siteId), eq(cycles.sterilizerId, sterilizerId)))
@@ -72,7 +88,10 @@ export async function insertSterilizer({ values, audit }: { values: NewSterilize
 
 export async function updateSterilizerOnSite({ siteId, id, values, audit }: { siteId: string; id: string; values: Partial<NewSterilizer>; audit: Audit }) {
   await getDb().transaction(async (tx) => {
-    await tx.update(sterilizers).set(values).where(and(eq(sterilizers.id, id), eq(sterilizers.siteId, siteId)));
+    await tx
+      .update(sterilizers)
+      .set(values)
+      .where(and(eq(sterilizers.id, id), eq(sterilizers.siteId, siteId)));
     await appendAuditEvent(tx, { ...audit, entityType: "sterilizer", entityId: id });
   });
 }
@@ -89,7 +108,19 @@ export async function getSchedule({ sterilizerId, kind }: { sterilizerId: string
 }
 
 /** Sets the interval of one test (updating `existingId`, or adding the test) with its audit event. */
-export async function saveScheduleRow({ existingId, sterilizerId, kind, intervalDays, audit }: { existingId?: string; sterilizerId: string; kind: PeriodicTestKind; intervalDays: number; audit: Audit }) {
+export async function saveScheduleRow({
+  existingId,
+  sterilizerId,
+  kind,
+  intervalDays,
+  audit,
+}: {
+  existingId?: string;
+  sterilizerId: string;
+  kind: PeriodicTestKind;
+  intervalDays: number;
+  audit: Audit;
+}) {
   await getDb().transaction(async (tx) => {
     if (existingId) await tx.update(testSchedules).set({ intervalDays }).where(eq(testSchedules.id, existingId));
     else await tx.insert(testSchedules).values({ sterilizerId, kind, intervalDays });

@@ -42,8 +42,17 @@ export function timePlateau(recording: Recording, span: PlateauSpan, sterilizati
   const arrivals = arrivalIndex.map((i) => (i >= 0 ? timesS[i] : null));
   const missing = temperatures.filter((_, k) => arrivalIndex[k] < 0);
   const timing: PlateauTiming = {
-    startIndex: s, regionEndIndex: regionEnd, startS, arrivalIndex, arrivals, missing,
-    equilibrationTime: null, holdingTime: null, holdStart: -1, holdEnd: -1, plateauEndIndex: s,
+    startIndex: s,
+    regionEndIndex: regionEnd,
+    startS,
+    arrivalIndex,
+    arrivals,
+    missing,
+    equilibrationTime: null,
+    holdingTime: null,
+    holdStart: -1,
+    holdEnd: -1,
+    plateauEndIndex: s,
   };
   if (missing.length > 0) {
     for (let i = s; i <= regionEnd; i++) if (reference[i] >= ts) timing.plateauEndIndex = i;

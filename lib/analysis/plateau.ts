@@ -34,9 +34,7 @@ export function findPlateaus(reference: ArrayLike<number>, sterilizationTempC: n
 export function choosePlateau(plateaus: PlateauSpan[], wanted = 0): number {
   if (!Number.isInteger(wanted) || wanted < 0) throw new AnalysisError(`Plateau ${wanted} is not a valid plateau number`);
   if (plateaus.length > 0 && wanted >= plateaus.length) {
-    throw new AnalysisError(
-      `The record holds ${plateaus.length} plateau${plateaus.length === 1 ? "" : "s"}; plateau ${wanted + 1} does not exist`,
-    );
+    throw new AnalysisError(`The record holds ${plateaus.length} plateau${plateaus.length === 1 ? "" : "s"}; plateau ${wanted + 1} does not exist`);
   }
   return wanted;
 }

@@ -22,9 +22,7 @@ function tsatAt(recording: Recording, i: number): number {
     return saturationTemperatureC(recording.pressure.values[i]);
   } catch (error) {
     if (error instanceof SteamRangeError) {
-      throw new AnalysisError(
-        `Chamber pressure at ${seconds(recording.timesS[i])} during the plateau: ${error.message}. Check the pressure unit and the gauge/absolute setting`,
-      );
+      throw new AnalysisError(`Chamber pressure at ${seconds(recording.timesS[i])} during the plateau: ${error.message}. Check the pressure unit and the gauge/absolute setting`);
     }
     throw error;
   }

@@ -37,7 +37,14 @@ export function unmeasuredChecks(limits: AcceptanceLimits, bases: Record<CheckId
     ["saturation", "K", "at-most", limits.saturationLimitK],
   ] as const;
   return unmeasured.map(([id, unit, comparison, limit]) => ({
-    id, label: CHECK_LABELS[id], passed: false, measured: null, limit: round(limit, 3), comparison, unit, basis: bases[id],
+    id,
+    label: CHECK_LABELS[id],
+    passed: false,
+    measured: null,
+    limit: round(limit, 3),
+    comparison,
+    unit,
+    basis: bases[id],
   }));
 }
 

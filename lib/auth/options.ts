@@ -19,7 +19,6 @@ const credentialsSchema = z.object({
 let dummyHash: Promise<string> | undefined;
 const timingDecoy = () => (dummyHash ??= hashPassword(randomUUID()));
 
-
 let cached: NextAuthOptions | undefined;
 
 export function authOptions(): NextAuthOptions {

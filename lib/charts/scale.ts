@@ -58,7 +58,10 @@ export function logTicks(min: number, max: number): Array<{ value: number; major
   if (!(min > 0 && max > min)) return [];
   const decades = Math.log10(max) - Math.log10(min);
   // A narrow window (a plateau close-up) reads best with evenly stepped values.
-  if (decades < 0.5) return linearTicks(min, max, 8).filter((v) => v >= min && v <= max).map((value) => ({ value, major: false }));
+  if (decades < 0.5)
+    return linearTicks(min, max, 8)
+      .filter((v) => v >= min && v <= max)
+      .map((value) => ({ value, major: false }));
   const mantissas = decades <= 1.2 ? [1, 1.5, 2, 3, 4, 5, 6, 8] : decades <= 2.5 ? [1, 2, 3, 5] : decades <= 5 ? [1, 3] : [1];
   const out: Array<{ value: number; major: boolean }> = [];
   for (let k = Math.floor(Math.log10(min)); k <= Math.ceil(Math.log10(max)); k++) {
@@ -71,9 +74,7 @@ export function logTicks(min: number, max: number): Array<{ value: number; major
 }
 
 /** Steps of an elapsed-time axis in seconds: tenths for a close-up, then whole minutes and hours. */
-export const TIME_STEPS_S = [
-  0.1, 0.2, 0.5, 1, 2, 5, 10, 15, 30, 60, 120, 300, 600, 900, 1200, 1800, 3600, 7200, 10800, 14400, 21600, 43200, 86400,
-] as const;
+export const TIME_STEPS_S = [0.1, 0.2, 0.5, 1, 2, 5, 10, 15, 30, 60, 120, 300, 600, 900, 1200, 1800, 3600, 7200, 10800, 14400, 21600, 43200, 86400] as const;
 
 /** Ticks on an elapsed-time axis in seconds, about `count` of them, no closer than `minStepS`. */
 export function timeTicks(fromS: number, toS: number, count = 8, minStepS = 5): { ticks: number[]; stepS: number } {

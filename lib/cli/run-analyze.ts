@@ -38,8 +38,23 @@ export class UsageError extends Error {
 type Parsed = { file: string; limits: AcceptanceLimits; overrides: MappingOverrides; plateau: number; help: boolean };
 
 const VALUE_FLAGS = new Set([
-  "sterilization-temp", "holding-time", "band", "max-equilibration", "max-spread", "saturation-limit", "f0-reference", "f0-z",
-  "plateau", "reference", "time-column", "pressure-column", "pressure-unit", "temperature-unit", "atmosphere", "altitude", "mapping",
+  "sterilization-temp",
+  "holding-time",
+  "band",
+  "max-equilibration",
+  "max-spread",
+  "saturation-limit",
+  "f0-reference",
+  "f0-z",
+  "plateau",
+  "reference",
+  "time-column",
+  "pressure-column",
+  "pressure-unit",
+  "temperature-unit",
+  "atmosphere",
+  "altitude",
+  "mapping",
 ]);
 const SWITCH_FLAGS = new Set(["pressure-gauge", "pressure-absolute", "help"]);
 
@@ -104,7 +119,11 @@ export function parseArguments(argv: string[]): Parsed {
     f0ZK: numberFlag(values, "f0-z", DEFAULT_LIMITS.f0ZK),
   };
   const positive: Array<[keyof AcceptanceLimits, string]> = [
-    ["holdingTimeS", "holding-time"], ["bandK", "band"], ["maxSpreadK", "max-spread"], ["saturationLimitK", "saturation-limit"], ["f0ZK", "f0-z"],
+    ["holdingTimeS", "holding-time"],
+    ["bandK", "band"],
+    ["maxSpreadK", "max-spread"],
+    ["saturationLimitK", "saturation-limit"],
+    ["f0ZK", "f0-z"],
   ];
   for (const [key, flag] of positive) if (!(limits[key] > 0)) throw new UsageError(`--${flag} must be above 0, not ${limits[key]}`);
   if (limits.maxEquilibrationS < 0) throw new UsageError(`--max-equilibration cannot be negative`);

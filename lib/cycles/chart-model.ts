@@ -52,9 +52,7 @@ export function clockTimeAt(startedAt: string | null, seconds: number, timeZone:
   const zoned = hasZone(startedAt);
   const start = new Date(zoned ? startedAt : `${startedAt.trim()}Z`).getTime();
   if (Number.isNaN(start)) return null;
-  return new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23", timeZone: zoned ? timeZone : "UTC" }).format(
-    new Date(start + seconds * 1000),
-  );
+  return new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", second: "2-digit", hourCycle: "h23", timeZone: zoned ? timeZone : "UTC" }).format(new Date(start + seconds * 1000));
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -87,12 +85,7 @@ export function chartTraces(series: SeriesResponse): TraceSpec[] {
   return ordered.map(({ channel, channelIndex }) => {
     const isLoad = channel.role === "load";
     const shown = displayedHeader(channel.header, channel.kind);
-    const label =
-      channel.role === "saturation"
-        ? "Saturation temperature from pressure"
-        : channel.role === "reference"
-          ? `${shown} (reference)`
-          : shown;
+    const label = channel.role === "saturation" ? "Saturation temperature from pressure" : channel.role === "reference" ? `${shown} (reference)` : shown;
     return {
       channelIndex,
       label,

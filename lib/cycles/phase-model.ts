@@ -4,14 +4,7 @@
  */
 import type { SeriesResponse } from "./contracts";
 import { scaleLinear, scaleLog, type Scale } from "@/lib/charts/scale";
-import {
-  CRITICAL_POINT,
-  STANDARD_ATMOSPHERE_KPA,
-  TRIPLE_POINT,
-  saturationLine,
-  saturationPressureKpa,
-  saturationTemperatureC,
-} from "@/lib/steam";
+import { CRITICAL_POINT, STANDARD_ATMOSPHERE_KPA, TRIPLE_POINT, saturationLine, saturationPressureKpa, saturationTemperatureC } from "@/lib/steam";
 import { signedTenths } from "./chart-model";
 
 export type PhaseView = "sterilization" | "plateau" | "cycle" | "full";
@@ -101,10 +94,7 @@ export function describePlateauPosition(samples: PlateauSample[], limitK: number
 }
 
 /** The view's ranges. The sterilization view is fixed around the usual bands, the cycle view fits the path. */
-export function phaseRange(
-  view: PhaseView,
-  options: { samples: PhaseSample[]; sterilizationTempC: number; bandK: number; plateau?: PhaseSample[]; limitK?: number },
-): PhaseRange {
+export function phaseRange(view: PhaseView, options: { samples: PhaseSample[]; sterilizationTempC: number; bandK: number; plateau?: PhaseSample[]; limitK?: number }): PhaseRange {
   if (view === "full") return FULL_PHASE_RANGE;
   if (view === "plateau") {
     const pts = (options.plateau ?? []).filter((s) => s.pressureKpa >= TRIPLE_POINT.pressureKpa && s.pressureKpa <= CRITICAL_POINT.pressureKpa);
@@ -284,8 +274,22 @@ export function phaseRegions(range: PhaseRange, curve: Array<{ temperatureC: num
   return {
     liquid,
     vapour,
-    solid: startsAtTriple ? [[tMinC, sP], [tMinC, pMaxKpa], [sT, pMaxKpa], [sT, sP]] : null,
-    supercritical: endsAtCritical ? [[eT, eP], [eT, pMaxKpa], [tMaxC, pMaxKpa], [tMaxC, eP]] : null,
+    solid: startsAtTriple
+      ? [
+          [tMinC, sP],
+          [tMinC, pMaxKpa],
+          [sT, pMaxKpa],
+          [sT, sP],
+        ]
+      : null,
+    supercritical: endsAtCritical
+      ? [
+          [eT, eP],
+          [eT, pMaxKpa],
+          [tMaxC, pMaxKpa],
+          [tMaxC, eP],
+        ]
+      : null,
   };
 }
 

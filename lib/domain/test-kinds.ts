@@ -1,24 +1,9 @@
 /** What a registered cycle was run for. */
-export const TEST_KINDS = [
-  "thermometric-small-load",
-  "thermometric-full-load",
-  "bowie-dick",
-  "air-leakage",
-  "steam-quality",
-  "routine-load",
-] as const;
+export const TEST_KINDS = ["thermometric-small-load", "thermometric-full-load", "bowie-dick", "air-leakage", "steam-quality", "routine-load"] as const;
 export type TestKind = (typeof TEST_KINDS)[number];
 
 /** The tests a sterilizer's schedule asks for, and that are recorded as periodic tests. */
-export const PERIODIC_TEST_KINDS = [
-  "air-leakage",
-  "bowie-dick",
-  "steam-non-condensable-gas",
-  "steam-superheat",
-  "steam-dryness",
-  "thermometric-small-load",
-  "thermometric-full-load",
-] as const;
+export const PERIODIC_TEST_KINDS = ["air-leakage", "bowie-dick", "steam-non-condensable-gas", "steam-superheat", "steam-dryness", "thermometric-small-load", "thermometric-full-load"] as const;
 export type PeriodicTestKind = (typeof PERIODIC_TEST_KINDS)[number];
 
 /** Periodic tests entered by hand; the thermometric ones are evidenced by an analysed cycle. */

@@ -41,7 +41,7 @@ function applyOverride(column: ColumnMapping, o: ColumnOverride, headerUnit: Hea
 function markNamedPressure(column: ColumnMapping, headerUnit: HeaderUnit): void {
   column.role = "pressure";
   column.unit = headerUnit?.kind === "pressure" ? headerUnit.unit : null;
-  column.gauge = headerUnit?.kind === "pressure" ? headerUnit.gauge ?? false : false;
+  column.gauge = headerUnit?.kind === "pressure" ? (headerUnit.gauge ?? false) : false;
   if (!(headerUnit?.kind === "pressure" && headerUnit.gauge !== null)) column.unsure.push("gauge-or-absolute");
 }
 
@@ -85,7 +85,7 @@ function guessFromValues(column: ColumnMapping, values: number[]): void {
 /** One chamber pressure: the named one, else one whose header says chamber, else the first; the others are ignored. */
 export function chooseChamberPressure(columns: ColumnMapping[], forcedPressure: number): ColumnMapping | undefined {
   const pressureColumns = columns.filter((c) => c.role === "pressure");
-  const pressure = forcedPressure >= 0 ? columns[forcedPressure] : pressureColumns.find((c) => /chamber|kammer/i.test(c.header)) ?? pressureColumns[0];
+  const pressure = forcedPressure >= 0 ? columns[forcedPressure] : (pressureColumns.find((c) => /chamber|kammer/i.test(c.header)) ?? pressureColumns[0]);
   for (const c of pressureColumns) {
     if (c !== pressure) {
       c.role = "ignored";
@@ -133,7 +133,7 @@ export function chooseReference(columns: ColumnMapping[], temperatures: ColumnMa
   }
   const referenceColumn = temperatures.find((c) => REFERENCE_NAME_RE.test(c.header)) ?? temperatures[0];
   if (!REFERENCE_NAME_RE.test(referenceColumn.header)) {
-    referenceColumn.unsure.push('no header names the drain or reference point; the first temperature column is taken as the reference');
+    referenceColumn.unsure.push("no header names the drain or reference point; the first temperature column is taken as the reference");
   }
   return referenceColumn;
 }

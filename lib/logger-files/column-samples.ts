@@ -8,7 +8,10 @@ export function findHeader(headers: string[], name: string, what: string): numbe
   let index = headers.indexOf(wanted);
   if (index < 0) index = headers.findIndex((h) => h.toLowerCase() === wanted.toLowerCase());
   if (index < 0) {
-    const list = headers.filter((h) => h !== "").map((h) => `"${h}"`).join(", ");
+    const list = headers
+      .filter((h) => h !== "")
+      .map((h) => `"${h}"`)
+      .join(", ");
     throw new LoggerFileError(`The ${what} "${wanted}" is not a column of this file; its columns are ${list}`);
   }
   return index;

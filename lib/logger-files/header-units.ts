@@ -1,9 +1,6 @@
 import { parsePressureLabel, parseTemperatureUnit, type PressureUnit, type TemperatureUnit } from "../steam";
 
-export type HeaderUnit =
-  | { kind: "temperature"; unit: TemperatureUnit }
-  | { kind: "pressure"; unit: PressureUnit; gauge: boolean | null }
-  | null;
+export type HeaderUnit = { kind: "temperature"; unit: TemperatureUnit } | { kind: "pressure"; unit: PressureUnit; gauge: boolean | null } | null;
 
 const BRACKETED = /[([{]([^)\]}]*)[)\]}]\s*$/;
 
@@ -12,7 +9,10 @@ export function unitFromHeader(header: string): HeaderUnit {
   const candidates: string[] = [];
   const bracket = BRACKETED.exec(header);
   if (bracket) candidates.push(bracket[1]);
-  const tokens = header.replace(BRACKETED, (m) => " " + m).split(/[\s_/]+/).filter(Boolean);
+  const tokens = header
+    .replace(BRACKETED, (m) => " " + m)
+    .split(/[\s_/]+/)
+    .filter(Boolean);
   if (tokens.length >= 2) candidates.push(tokens.slice(-2).join(" "));
   if (tokens.length >= 3) candidates.push(tokens.slice(-3).join(" "));
   if (tokens.length >= 1) candidates.push(tokens[tokens.length - 1]);

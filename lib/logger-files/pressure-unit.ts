@@ -12,14 +12,7 @@ function describeUnit(unit: PressureUnit, gauge: boolean): string {
  * Settles a pressure column's unit and gauge/absolute reading. What the header or the overrides
  * say wins; what they leave open is chosen so that hot samples sit closest to saturated steam.
  */
-export function resolvePressureUnit(
-  pressure: ColumnMapping,
-  reference: ColumnMapping,
-  sampleRows: string[][],
-  decimal: DecimalMark,
-  overrides: MappingOverrides,
-  atmosphereKpa: number,
-): void {
+export function resolvePressureUnit(pressure: ColumnMapping, reference: ColumnMapping, sampleRows: string[][], decimal: DecimalMark, overrides: MappingOverrides, atmosphereKpa: number): void {
   if (overrides.pressureUnit) {
     pressure.unit = overrides.pressureUnit;
     pressure.unsure = pressure.unsure.filter((u) => u !== "unit-unknown");

@@ -156,9 +156,7 @@ export function findTable(prepared: PreparedText): TableLayout {
     }
   }
   if (!chosen) {
-    throw new LoggerFileError(
-      "The file holds no table: no run of lines splits into two or more fields by comma, semicolon or tab (it reads like prose or a single column)",
-    );
+    throw new LoggerFileError("The file holds no table: no run of lines splits into two or more fields by comma, semicolon or tab (it reads like prose or a single column)");
   }
   const { delimiter, width } = chosen;
 
@@ -175,9 +173,7 @@ export function findTable(prepared: PreparedText): TableLayout {
     if (headerIndex >= 0 && sample.slice(headerIndex + 1).every((l) => isBlankLine(l, delimiter))) {
       throw new LoggerFileError(`The file has a header (line ${headerIndex + 1}) but no data rows below it`);
     }
-    throw new LoggerFileError(
-      `The file holds no data rows: none of its first ${sample.length} lines has numbers or times in ${width} ${delimiterName(delimiter)}-separated fields`,
-    );
+    throw new LoggerFileError(`The file holds no data rows: none of its first ${sample.length} lines has numbers or times in ${width} ${delimiterName(delimiter)}-separated fields`);
   }
 
   let headerLineIndex = -1;

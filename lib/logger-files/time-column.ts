@@ -41,9 +41,7 @@ export function findTimeColumn(evidence: ColumnEvidence, overrides: MappingOverr
     const guess = timeFromContent(evidence, forced);
     if (!guess) {
       const example = sampleRows.find((r) => (r[forced] ?? "").trim() !== "")?.[forced] ?? "";
-      throw new LoggerFileError(
-        `Column "${headers[forced]}" was given as the time column, but its cells (e.g. "${example.trim()}") are neither date-times, clock times nor rising elapsed seconds`,
-      );
+      throw new LoggerFileError(`Column "${headers[forced]}" was given as the time column, but its cells (e.g. "${example.trim()}") are neither date-times, clock times nor rising elapsed seconds`);
     }
     return { index: forced, ...guess };
   }
@@ -57,9 +55,7 @@ export function findTimeColumn(evidence: ColumnEvidence, overrides: MappingOverr
     const guess = guessTimeFormat(sampleRows.map((r) => r[i] ?? ""));
     if (guess) return { index: i, format: guess.format, elapsedScale: 1, unsure: [...guess.unsure, "the header does not name it as time; found by its content"] };
   }
-  throw new LoggerFileError(
-    "No time column: no header names a time and no column holds date-times, clock times or elapsed seconds; say which column is the time",
-  );
+  throw new LoggerFileError("No time column: no header names a time and no column holds date-times, clock times or elapsed seconds; say which column is the time");
 }
 
 /** Marks the time column's role and unit, and says when an elapsed time had no unit to go by. */

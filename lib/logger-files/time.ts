@@ -155,7 +155,7 @@ export function parseTimeCell(text: string, start: number, end: number, format: 
   if (count < 0) return NaN;
   const s = scanState;
   if (format === "clock") {
-    if (count < 2 || count > 3 || s.ampm === 0 && g[0] > 99) return NaN;
+    if (count < 2 || count > 3 || (s.ampm === 0 && g[0] > 99)) return NaN;
     if (!/^::? ?$/.test(s.separators)) return NaN;
     const hour = s.ampm ? hourWithAmPm(g[0], s.ampm) : g[0];
     return hour * 3600 + g[1] * 60 + (count === 3 ? g[2] : 0) + s.fraction;
@@ -174,9 +174,7 @@ export function parseTimeCell(text: string, start: number, end: number, format: 
     if (wantsAmPm !== (s.ampm !== 0)) return NaN;
     const hour = hourWithAmPm(g[3], s.ampm);
     const dayFirst = format === "dmy" || format === "dmy-ampm";
-    seconds = dayFirst
-      ? dateSeconds(g[2], g[1], g[0], hour, g[4], secondsPart)
-      : dateSeconds(g[2], g[0], g[1], hour, g[4], secondsPart);
+    seconds = dayFirst ? dateSeconds(g[2], g[1], g[0], hour, g[4], secondsPart) : dateSeconds(g[2], g[0], g[1], hour, g[4], secondsPart);
   }
   return seconds + s.fraction;
 }

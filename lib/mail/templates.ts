@@ -65,10 +65,25 @@ ${htmlBlocks}
 </body></html>`;
   const textBlocks = blocks.map((b) => {
     if (b.kind === "p") return b.text;
-    if (b.kind === "quote") return `${b.label}\n${b.text.split("\n").map((l) => `> ${l}`).join("\n")}`;
+    if (b.kind === "quote")
+      return `${b.label}\n${b.text
+        .split("\n")
+        .map((l) => `> ${l}`)
+        .join("\n")}`;
     return `${b.label}\n${b.items.map((i) => `- ${i}`).join("\n")}`;
   });
-  const text = [heading, "", ...textBlocks.flatMap((t) => [t, ""]), `${action}: ${url}`, "", "--", SAFETY_SHORT, "", "You receive this because of your role in Papin. It was sent automatically; replies are not read.", ""].join("\n");
+  const text = [
+    heading,
+    "",
+    ...textBlocks.flatMap((t) => [t, ""]),
+    `${action}: ${url}`,
+    "",
+    "--",
+    SAFETY_SHORT,
+    "",
+    "You receive this because of your role in Papin. It was sent automatically; replies are not read.",
+    "",
+  ].join("\n");
   return { html, text };
 }
 

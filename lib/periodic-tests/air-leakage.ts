@@ -34,7 +34,11 @@ export function evaluateAirLeakage(input: AirLeakageInput): AirLeakageResult {
   const p1Kpa = toKpa(input.p1);
   const p2Kpa = toKpa(input.p2);
   const p3Kpa = toKpa(input.p3);
-  for (const [name, v] of [["p1", p1Kpa], ["p2", p2Kpa], ["p3", p3Kpa]] as const) {
+  for (const [name, v] of [
+    ["p1", p1Kpa],
+    ["p2", p2Kpa],
+    ["p3", p3Kpa],
+  ] as const) {
     if (v < 0) throw new RangeError(`${name} is negative: enter absolute pressures (a vacuum is a small positive absolute value).`);
   }
   const leakRateKpaPerMin = (p3Kpa - p2Kpa) / AIR_LEAKAGE.testPeriodMin;
@@ -47,9 +51,7 @@ export function evaluateAirLeakage(input: AirLeakageInput): AirLeakageResult {
     );
   }
   if (p1Kpa > AIR_LEAKAGE.startBelowKpaAbs) {
-    warnings.push(
-      `The test started at ${p1Kpa.toFixed(2)} kPa abs; it normally starts from a deep vacuum below ${AIR_LEAKAGE.startBelowKpaAbs} kPa abs. Check that the readings are absolute.`,
-    );
+    warnings.push(`The test started at ${p1Kpa.toFixed(2)} kPa abs; it normally starts from a deep vacuum below ${AIR_LEAKAGE.startBelowKpaAbs} kPa abs. Check that the readings are absolute.`);
   }
   if (p3Kpa < p2Kpa) {
     warnings.push("The pressure fell during the test period. A sealed chamber under vacuum should not lose pressure: check the chamber temperature was stable and the readings are in order.");

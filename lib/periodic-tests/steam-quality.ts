@@ -88,12 +88,14 @@ export function evaluateDryness(input: DrynessInput): DrynessResult {
   const hs = saturatedLiquidEnthalpy(steamTempC);
   const latent = latentHeat(steamTempC);
   const cw = DRYNESS.waterHeatCapacity;
-  const dryness = ((t1 - t0) * (cw * mw + DRYNESS.flaskHeatCapacity) / mc + cw * t1 - hs) / latent;
+  const dryness = (((t1 - t0) * (cw * mw + DRYNESS.flaskHeatCapacity)) / mc + cw * t1 - hs) / latent;
   const limit = input.load === "metal" ? DRYNESS.minMetal : DRYNESS.minOther;
   const aboveOne = dryness > 1;
   const warnings: string[] = [];
   if (aboveOne) {
-    warnings.push(`A dryness value above 1 (${dryness.toFixed(3)}) is not possible for wet steam: it means superheated steam or a measurement error (masses, temperatures). Check the readings and the superheat test.`);
+    warnings.push(
+      `A dryness value above 1 (${dryness.toFixed(3)}) is not possible for wet steam: it means superheated steam or a measurement error (masses, temperatures). Check the readings and the superheat test.`,
+    );
   }
   return { dryness, liquidEnthalpyKjPerKg: hs, latentHeatKjPerKg: latent, limit, passed: atLeast(dryness, limit) && !aboveOne, aboveOne, warnings, basis: DRYNESS.basis };
 }

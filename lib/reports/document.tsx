@@ -20,8 +20,7 @@ type Styles = Style | Style[] | Record<string, string | number>;
 
 /** Text with the report's glyph rules applied to every string child. */
 function T({ style, children, ...rest }: { style?: Styles | Styles[]; children?: ReactNode; fixed?: boolean; wrap?: boolean; minPresenceAhead?: number }) {
-  const clean = (node: ReactNode): ReactNode =>
-    typeof node === "string" || typeof node === "number" ? pdfText(node) : Array.isArray(node) ? node.map((n) => clean(n)) : node;
+  const clean = (node: ReactNode): ReactNode => (typeof node === "string" || typeof node === "number" ? pdfText(node) : Array.isArray(node) ? node.map((n) => clean(n)) : node);
   return (
     <Text style={style as never} {...rest}>
       {clean(children)}
@@ -109,7 +108,11 @@ function Legend({ series }: { series: SeriesResponse }) {
     items.push({ key: c.header, label: c.header, swatch: lineSwatch(st.stroke, seriesStyle.load.width, st.dash) });
   }
   if (series.channels.some((c) => c.role === "saturation")) {
-    items.push({ key: "sat", label: "Saturation temperature from chamber pressure (IAPWS-IF97)", swatch: lineSwatch(seriesStyle.saturation.stroke, seriesStyle.saturation.width, seriesStyle.saturation.dash) });
+    items.push({
+      key: "sat",
+      label: "Saturation temperature from chamber pressure (IAPWS-IF97)",
+      swatch: lineSwatch(seriesStyle.saturation.stroke, seriesStyle.saturation.width, seriesStyle.saturation.dash),
+    });
   }
   if (series.channels.some((c) => c.kind === "pressure")) {
     items.push({ key: "p", label: "Chamber pressure (right axis)", swatch: lineSwatch(seriesStyle.pressure.stroke, seriesStyle.pressure.width, seriesStyle.pressure.dash) });
@@ -126,15 +129,15 @@ function Legend({ series }: { series: SeriesResponse }) {
   if (series.plateau) items.push({ key: "plateau", label: "Plateau start and end", swatch: lineSwatch(colour.brass600, 0.7, "2 1.5") });
   if (series.flags.length > 0)
     items.push({
-    key: "flag",
-    label: "Saturation flag",
-    swatch: (
-      <Svg width={16} height={7}>
-        <Rect x={0} y={0} width={16} height={7} fill={colour.fail50} />
-        <Rect x={0} y={0} width={16} height={2} fill={colour.fail500} />
-      </Svg>
-    ),
-  });
+      key: "flag",
+      label: "Saturation flag",
+      swatch: (
+        <Svg width={16} height={7}>
+          <Rect x={0} y={0} width={16} height={7} fill={colour.fail50} />
+          <Rect x={0} y={0} width={16} height={2} fill={colour.fail500} />
+        </Svg>
+      ),
+    });
   return (
     <View style={s.legend}>
       {items.map((item) => (
@@ -331,15 +334,11 @@ function SignatureBlock({ sig, zone }: { sig: SignatureView; zone: string }) {
           <T style={[s.small, { textAlign: "right" }]}>{when.site}</T>
         </View>
       </View>
-      <T style={[s.signatureMeaning, { color: sig.meaning === "rejected" ? colour.fail700 : sig.meaning === "approved" ? colour.pass700 : colour.ink }]}>
-        {MEANING_TEXT[sig.meaning]}
-      </T>
+      <T style={[s.signatureMeaning, { color: sig.meaning === "rejected" ? colour.fail700 : sig.meaning === "approved" ? colour.pass700 : colour.ink }]}>{MEANING_TEXT[sig.meaning]}</T>
       {sig.reason ? <T>{`Reason: ${sig.reason}`}</T> : null}
       <T style={[s.monoSmall, { marginTop: 3 }]}>{`Bundle SHA-256 ${sig.bundleHash}`}</T>
       <T style={[s.small, sig.valid ? { color: colour.pass700 } : s.fail]}>
-        {sig.valid
-          ? "Verified when this report was made: the bundle recomputed from the record matches the signed hash."
-          : "DOES NOT VERIFY: the record has changed since this signature was given."}
+        {sig.valid ? "Verified when this report was made: the bundle recomputed from the record matches the signed hash." : "DOES NOT VERIFY: the record has changed since this signature was given."}
       </T>
     </View>
   );
@@ -351,9 +350,8 @@ function SignaturesSection({ signatures, zone }: { signatures: SignatureView[]; 
       <View wrap={false}>
         <Heading>Signatures</Heading>
         <T style={[s.small, { marginBottom: 5 }]}>
-          Each electronic signature shows the signer{"'"}s printed name, the date and time of signing and what the signature means (21 CFR 11.50). It is bound to this
-          record by the SHA-256 of the record{"'"}s signed bundle: file hashes, analysis figures and cycle fields; a change to any of them stops the signature verifying
-          (21 CFR 11.70).
+          Each electronic signature shows the signer{"'"}s printed name, the date and time of signing and what the signature means (21 CFR 11.50). It is bound to this record by the SHA-256 of the
+          record{"'"}s signed bundle: file hashes, analysis figures and cycle fields; a change to any of them stops the signature verifying (21 CFR 11.70).
         </T>
         {signatures.length === 0 ? (
           <View style={s.signatureBlank}>
@@ -398,9 +396,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
 
   const flagDiagnoses = new Set(analysis?.saturation.flags.map((f) => f.diagnosis) ?? []);
   const checkLabel = new Map((analysis?.checks ?? []).map((c) => [c.id, c.label]));
-  const failures: FindingItem[] = (analysis?.diagnoses ?? [])
-    .filter((d) => !flagDiagnoses.has(d.text))
-    .map((d) => ({ title: checkLabel.get(d.checkId) ?? d.checkId, text: d.text }));
+  const failures: FindingItem[] = (analysis?.diagnoses ?? []).filter((d) => !flagDiagnoses.has(d.text)).map((d) => ({ title: checkLabel.get(d.checkId) ?? d.checkId, text: d.text }));
   const flags = analysis?.saturation.flags ?? [];
   if (flags.length > 0) {
     failures.push({
@@ -490,10 +486,18 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
         {analysis ? (
           <View style={s.readouts} wrap={false}>
             {[
-              { label: "Plateau start", value: analysis.plateau ? formatElapsed(analysis.plateau.start) : "none", note: analysis.plateau ? clockAt(analysis.plateau.start) ?? "since first sample" : "never reached Ts" },
+              {
+                label: "Plateau start",
+                value: analysis.plateau ? formatElapsed(analysis.plateau.start) : "none",
+                note: analysis.plateau ? (clockAt(analysis.plateau.start) ?? "since first sample") : "never reached Ts",
+              },
               { label: "Equilibration", value: formatDuration(analysis.equilibrationTime), note: `limit ${formatDuration(limits?.maxEquilibrationS)}` },
               { label: "Holding", value: formatDuration(analysis.holdingTime), note: `at least ${formatDuration(limits?.holdingTimeS)}` },
-              { label: "Ref. − Tsat", value: analysis.saturation.maxDeviation === null ? "—" : `${fixed(analysis.saturation.maxDeviation, 2)} K`, note: `largest, limit ±${fixed(limits?.saturationLimitK, 1)} K` },
+              {
+                label: "Ref. − Tsat",
+                value: analysis.saturation.maxDeviation === null ? "—" : `${fixed(analysis.saturation.maxDeviation, 2)} K`,
+                note: `largest, limit ±${fixed(limits?.saturationLimitK, 1)} K`,
+              },
               { label: "F0, lowest", value: lowestF0 === null ? "—" : `${fixed(lowestF0, 1)} min`, note: `Tref ${fixed(limits?.f0ReferenceC, 1)} °C, z ${fixed(limits?.f0ZK, 0)} K` },
             ].map((r, i) => (
               <View key={r.label} style={i === 0 ? s.readout : [s.readout, s.readoutGap]}>
@@ -571,7 +575,17 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
             <View style={[s.chartBox, { width: 292 }]}>
               <T style={s.h3}>{plateau ? "Holding in detail" : "Around the highest reading"}</T>
               {detailSeries && detailWindow ? (
-                <TimeChart id="detail" series={detailSeries} width={280} height={196} fromS={detailWindow.from} toS={detailWindow.to} temperatureDomain={detailDomain} showPressure={false} labelPlateau />
+                <TimeChart
+                  id="detail"
+                  series={detailSeries}
+                  width={280}
+                  height={196}
+                  fromS={detailWindow.from}
+                  toS={detailWindow.to}
+                  temperatureDomain={detailDomain}
+                  showPressure={false}
+                  labelPlateau
+                />
               ) : (
                 <T style={s.muted}>No data to draw.</T>
               )}

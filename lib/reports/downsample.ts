@@ -9,7 +9,13 @@ import type { SeriesResponse } from "@/lib/cycles/contracts";
  */
 export function downsampleForReport(series: SeriesResponse, maxPoints: number, fromS?: number, toS?: number): SeriesResponse {
   const times = series.timesS;
-  const { begin, end, buckets } = pickExtremes(times, series.channels.map((c) => c.values), maxPoints, fromS, toS);
+  const { begin, end, buckets } = pickExtremes(
+    times,
+    series.channels.map((c) => c.values),
+    maxPoints,
+    fromS,
+    toS,
+  );
   const window = end - begin > 0 ? { from: times[begin], to: times[end - 1] } : series.window;
   if (!buckets) {
     const whole = begin === 0 && end === times.length;

@@ -1,17 +1,7 @@
 import { Circle, ClipPath, Defs, G, Line, Path, Rect, Svg } from "@react-pdf/renderer";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
 import { linearTicks, logTicks, pointsPath } from "@/lib/charts/scale";
-import {
-  formatPressureTick,
-  phaseRange,
-  phaseSamples,
-  phaseScales,
-  plateauSamples,
-  saturationCurveInRange,
-  toleranceBand,
-  type PhaseSample,
-  type PlateauSample,
-} from "@/lib/cycles/phase-model";
+import { formatPressureTick, phaseRange, phaseSamples, phaseScales, plateauSamples, saturationCurveInRange, toleranceBand, type PhaseSample, type PlateauSample } from "@/lib/cycles/phase-model";
 import { SvgLabel } from "./svg";
 import { colour } from "./theme";
 
@@ -43,10 +33,18 @@ export function PhaseChart({ series, width, height, sterilizationTempC, bandK, s
   const tolerance = toleranceBand(range, saturationLimitK, 100);
   const plateau = plateauSamples(samples, series.plateau, saturationLimitK);
 
-  const curvePath = pointsPath(curve.map((p) => [p.temperatureC, p.pressureKpa]), x, y);
+  const curvePath = pointsPath(
+    curve.map((p) => [p.temperatureC, p.pressureKpa]),
+    x,
+    y,
+  );
   const tolerancePath = tolerance.colder.length > 1 ? pointsPath([...tolerance.colder, ...[...tolerance.hotter].reverse()], x, y, { close: true }) : "";
   const inPressureRange = (s: PhaseSample) => s.pressureKpa >= range.pMinKpa && s.pressureKpa <= range.pMaxKpa;
-  const pathD = pointsPath(samples.map((s) => (inPressureRange(s) ? [s.temperatureC, s.pressureKpa] : null)), x, y);
+  const pathD = pointsPath(
+    samples.map((s) => (inPressureRange(s) ? [s.temperatureC, s.pressureKpa] : null)),
+    x,
+    y,
+  );
   const tTicks = linearTicks(range.tMinC, range.tMaxC, 5);
   const pTicks = logTicks(range.pMinKpa, range.pMaxKpa);
   const clipId = "clip-phase";

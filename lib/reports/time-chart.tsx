@@ -113,9 +113,7 @@ export function TimeChart({ id, series, width, height, fromS, toS, temperatureDo
         </ClipPath>
       </Defs>
       <Rect x={plot.x} y={plot.y} width={plot.w} height={plot.h} fill={colour.paperRaised} />
-      {yBandLow - yBandTop > 0.2 ? (
-        <Rect x={plot.x} y={yBandTop} width={plot.w} height={yBandLow - yBandTop} fill={colour.pass50} />
-      ) : null}
+      {yBandLow - yBandTop > 0.2 ? <Rect x={plot.x} y={yBandTop} width={plot.w} height={yBandLow - yBandTop} fill={colour.pass50} /> : null}
       {series.flags.map((flag, i) => {
         const from = clamp(x(flag.start), plot.x, plot.x + plot.w);
         const to = clamp(x(flag.end), plot.x, plot.x + plot.w);
@@ -157,10 +155,22 @@ export function TimeChart({ id, series, width, height, fromS, toS, temperatureDo
       <G clipPath={`url(#${clipId})`}>
         {loadPaths}
         {showPressure && pressureChannel ? (
-          <Path d={linePath(series.timesS, pressureChannel.values, x, yP)} stroke={seriesStyle.pressure.stroke} strokeWidth={seriesStyle.pressure.width} strokeDasharray={seriesStyle.pressure.dash} fill="none" />
+          <Path
+            d={linePath(series.timesS, pressureChannel.values, x, yP)}
+            stroke={seriesStyle.pressure.stroke}
+            strokeWidth={seriesStyle.pressure.width}
+            strokeDasharray={seriesStyle.pressure.dash}
+            fill="none"
+          />
         ) : null}
         {saturation ? (
-          <Path d={linePath(series.timesS, saturation.values, x, yT)} stroke={seriesStyle.saturation.stroke} strokeWidth={seriesStyle.saturation.width} strokeDasharray={seriesStyle.saturation.dash} fill="none" />
+          <Path
+            d={linePath(series.timesS, saturation.values, x, yT)}
+            stroke={seriesStyle.saturation.stroke}
+            strokeWidth={seriesStyle.saturation.width}
+            strokeDasharray={seriesStyle.saturation.dash}
+            fill="none"
+          />
         ) : null}
         {reference ? <Path d={linePath(series.timesS, reference.values, x, yT)} stroke={seriesStyle.reference.stroke} strokeWidth={seriesStyle.reference.width} fill="none" /> : null}
       </G>
@@ -172,9 +182,7 @@ export function TimeChart({ id, series, width, height, fromS, toS, temperatureDo
             ] as const
           )
             .filter(([, s]) => inSpan(s))
-            .map(([name, s]) => (
-              <Line key={`plateau-${name}`} x1={x(s)} x2={x(s)} y1={plot.y} y2={plot.y + plot.h} stroke={colour.brass600} strokeWidth={0.7} strokeDasharray="2 1.5" />
-            ))
+            .map(([name, s]) => <Line key={`plateau-${name}`} x1={x(s)} x2={x(s)} y1={plot.y} y2={plot.y + plot.h} stroke={colour.brass600} strokeWidth={0.7} strokeDasharray="2 1.5" />)
         : null}
       {plateau && labelPlateau ? <PlateauLabels xStart={x(plateau.start)} xEnd={x(plateau.end)} left={plot.x} right={plot.x + plot.w} y={plot.y - 3} /> : null}
       <Rect x={plot.x} y={plot.y} width={plot.w} height={plot.h} fill="none" stroke={colour.inkFaint} strokeWidth={0.6} />

@@ -26,19 +26,7 @@ async function recordingOfAnalysis(analysisId: string): Promise<{ recording: Rec
 }
 
 /** Chart data of a cycle's current analysis; undefined when the cycle or its analysis is not there. */
-export async function getCycleSeries({
-  actor,
-  id,
-  fromS,
-  toS,
-  points = 3000,
-}: {
-  actor: Actor;
-  id: string;
-  fromS?: number;
-  toS?: number;
-  points?: number;
-}): Promise<SeriesResponse | undefined> {
+export async function getCycleSeries({ actor, id, fromS, toS, points = 3000 }: { actor: Actor; id: string; fromS?: number; toS?: number; points?: number }): Promise<SeriesResponse | undefined> {
   assertAllowed(actor, "cycle:read", "read cycles");
   const cycle = await getCycleRow({ actor, id });
   if (!cycle?.currentAnalysisId) return undefined;

@@ -132,19 +132,7 @@ const EXPORT_PAGE = 1000;
 const EXPORT_HEADER = ["Cycle number", "Started (UTC)", "Registered (UTC)", "Sterilizer", "Acceptance profile", "Kind of test", "Load", "Status", "Verdict", "Registered by", "Record ID"];
 
 function exportRow(c: CycleListItem): CsvCell[] {
-  return [
-    c.cycleNumber,
-    c.startedAt,
-    c.createdAt,
-    c.sterilizer.name,
-    c.profile.name,
-    testKindLabel(c.testKind),
-    c.loadDescription,
-    c.status,
-    c.verdict ?? "not analysed",
-    c.createdByName,
-    c.id,
-  ];
+  return [c.cycleNumber, c.startedAt, c.createdAt, c.sterilizer.name, c.profile.name, testKindLabel(c.testKind), c.loadDescription, c.status, c.verdict ?? "not analysed", c.createdByName, c.id];
 }
 
 /** The filtered cycles of the actor's site as CSV, safe to open in a spreadsheet; the export is audited. */
@@ -155,7 +143,10 @@ export async function exportCyclesCsv({ actor, query }: { actor: Actor; query: C
   for (let page = 1; ; page++) {
     const batch = await listCycles({ actor, query: { ...filter, page, pageSize: EXPORT_PAGE } });
     if (batch.total > MAX_EXPORT_ROWS) {
-      throw new AppError(413, `These filters match ${batch.total.toLocaleString("en-GB")} cycles; an export holds at most ${MAX_EXPORT_ROWS.toLocaleString("en-GB")}. Narrow the dates or other filters.`);
+      throw new AppError(
+        413,
+        `These filters match ${batch.total.toLocaleString("en-GB")} cycles; an export holds at most ${MAX_EXPORT_ROWS.toLocaleString("en-GB")}. Narrow the dates or other filters.`,
+      );
     }
     items.push(...batch.items);
     if (batch.items.length < EXPORT_PAGE || items.length >= batch.total) break;

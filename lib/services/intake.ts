@@ -104,7 +104,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
   if (input.instrumentId && !instrument) throw new AppError(404, "That instrument was not found on your site.", "instrumentId");
   if (input.files.length === 0) throw new AppError(400, "Attach at least one logger file.", "files");
 
-  const mapping: MappingOverrides = input.mapping ?? ((instrument?.savedMapping as MappingOverrides | null) ?? {});
+  const mapping: MappingOverrides = input.mapping ?? (instrument?.savedMapping as MappingOverrides | null) ?? {};
   const atmosphereKpa = siteAtmosphereKpa(site);
   const { primaryIndex, analysis } = analyseFirstReadable(input.files, (bytes) => analyzeLoggerBytes(bytes, profile, mapping, atmosphereKpa));
   const now = new Date().toISOString();
@@ -192,7 +192,16 @@ export async function reanalyseCycle({ actor, id, file, mapping }: { actor: Acto
   await insertCorrection({
     cycleId: id,
     file: file
-      ? { name: file.name, sizeBytes: bytes.byteLength, sha256: analysis.sha256, contentType: file.contentType || "text/csv", bytes: Buffer.from(bytes), dialect: analysis.dialect, mapping: analysis.mapping, uploadedBy: actor.id }
+      ? {
+          name: file.name,
+          sizeBytes: bytes.byteLength,
+          sha256: analysis.sha256,
+          contentType: file.contentType || "text/csv",
+          bytes: Buffer.from(bytes),
+          dialect: analysis.dialect,
+          mapping: analysis.mapping,
+          uploadedBy: actor.id,
+        }
       : { existingId: stored!.fileId },
     analysis: analysisRow(analysis, actor),
     audit: (analysisId) => ({

@@ -41,7 +41,10 @@ async function record(actor: Actor, input: Common, kind: PeriodicTestKind, passe
 }
 
 export async function recordAirLeakage({ actor, input }: { actor: Actor; input: z.infer<typeof airLeakageSchema> }) {
-  const r = compute((m) => (/^p[123]/.test(m) ? m.slice(0, 2) : "p3"), () => evaluateAirLeakage({ p1: input.p1, p2: input.p2, p3: input.p3, unit: input.unit }));
+  const r = compute(
+    (m) => (/^p[123]/.test(m) ? m.slice(0, 2) : "p3"),
+    () => evaluateAirLeakage({ p1: input.p1, p2: input.p2, p3: input.p3, unit: input.unit }),
+  );
   return record(actor, input, "air-leakage", r.passed, {
     unit: input.unit,
     p1: input.p1,

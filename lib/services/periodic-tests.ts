@@ -25,7 +25,11 @@ type ScheduleRow = {
 };
 
 const key = (sterilizerId: string, kind: string) => `${sterilizerId}:${kind}`;
-const latestOf = (...values: Array<string | null | undefined>) => values.filter((v): v is string => !!v).sort().at(-1) ?? null;
+const latestOf = (...values: Array<string | null | undefined>) =>
+  values
+    .filter((v): v is string => !!v)
+    .sort()
+    .at(-1) ?? null;
 
 /** Each scheduled test of the site's sterilizers (or one of them) with its state, most urgent first. */
 export async function getScheduleOverview({ actor, sterilizerId, now = new Date() }: { actor: Actor; sterilizerId?: string; now?: Date }) {
@@ -50,7 +54,9 @@ export async function getScheduleOverview({ actor, sterilizerId, now = new Date(
     const status = scheduleStatus({ intervalDays: s.intervalDays, lastPassAt, lastAttempt, today, timeZone });
     return { ...s, lastPassAt, lastAttempt, awaitingSignOff: pendingBy.get(k) ?? 0, status, needsAction: s.sterilizerActive && needsAction(status.state) };
   });
-  rows.sort((a, b) => SCHEDULE_URGENCY[a.status.state] - SCHEDULE_URGENCY[b.status.state] || (a.status.dueOn ?? "").localeCompare(b.status.dueOn ?? "") || a.sterilizerName.localeCompare(b.sterilizerName));
+  rows.sort(
+    (a, b) => SCHEDULE_URGENCY[a.status.state] - SCHEDULE_URGENCY[b.status.state] || (a.status.dueOn ?? "").localeCompare(b.status.dueOn ?? "") || a.sterilizerName.localeCompare(b.sterilizerName),
+  );
   return { rows, timeZone, today };
 }
 
@@ -70,10 +76,6 @@ export async function listSterilizerChoices({ actor }: { actor: Actor }) {
 
 /** The periodic-tests page: the schedule, one page of the history, the filter's choices, and whether the actor may record. */
 export async function getPeriodicTestsPage({ actor, filter }: { actor: Actor; filter: PeriodicTestFilter & { page?: number } }) {
-  const [overview, history, choices] = await Promise.all([
-    getScheduleOverview({ actor }),
-    listPeriodicTests({ actor, filter: { ...filter, pageSize: 25 } }),
-    listSterilizerChoices({ actor }),
-  ]);
+  const [overview, history, choices] = await Promise.all([getScheduleOverview({ actor }), listPeriodicTests({ actor, filter: { ...filter, pageSize: 25 } }), listSterilizerChoices({ actor })]);
   return { overview, history, choices, mayRecord: can(actor.role, "periodic-test:record") };
 }

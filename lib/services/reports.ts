@@ -62,6 +62,14 @@ export async function downloadArchivedReport({ actor, id }: { actor: Actor; id: 
   assertAllowed(actor, "archive:read", "download archived reports");
   const row = await getArchivedReportRow({ actor, id });
   if (!row) throw new AppError(404, "That archived report was not found.");
-  await recordAuditEvent({ actorId: actor.id, actorEmail: actor.email, siteId: actor.siteId, action: "report.download", entityType: "cycle", entityId: row.cycleId, newValue: { report: row.reportNumber } });
+  await recordAuditEvent({
+    actorId: actor.id,
+    actorEmail: actor.email,
+    siteId: actor.siteId,
+    action: "report.download",
+    entityType: "cycle",
+    entityId: row.cycleId,
+    newValue: { report: row.reportNumber },
+  });
   return { bytes: new Uint8Array(row.bytes), fileName: `${row.reportNumber}.pdf` };
 }

@@ -30,7 +30,16 @@ export async function submitCycle({ actor, id, origin }: { actor: Actor; id: str
     fromStatus: cycle.status,
     submittedBy: actor.id,
     at: new Date().toISOString(),
-    audit: { actorId: actor.id, actorEmail: actor.email, siteId: cycle.siteId, action: "cycle.submit", entityType: "cycle", entityId: id, oldValue: { status: cycle.status }, newValue: { status: "submitted" } },
+    audit: {
+      actorId: actor.id,
+      actorEmail: actor.email,
+      siteId: cycle.siteId,
+      action: "cycle.submit",
+      entityType: "cycle",
+      entityId: id,
+      oldValue: { status: cycle.status },
+      newValue: { status: "submitted" },
+    },
     inside: async (tx) => {
       await enqueueCycleSubmittedMail(tx, { cycleId: id, origin });
     },
@@ -49,7 +58,10 @@ async function reauthenticate(actor: Actor, cycle: Cycle, password: string, now:
   const signer = await getUserById({ id: actor.id });
   if (!signer || signer.disabled) throw new AppError(401, "Please sign in again.");
   if (signer.signingLockedUntil && new Date(signer.signingLockedUntil) > now) {
-    throw new AppError(423, `Signing is locked after ${MAX_SIGNING_FAILURES} wrong passwords; try again after ${new Date(signer.signingLockedUntil).toISOString().slice(11, 16)} UTC or ask an administrator to reset your password.`);
+    throw new AppError(
+      423,
+      `Signing is locked after ${MAX_SIGNING_FAILURES} wrong passwords; try again after ${new Date(signer.signingLockedUntil).toISOString().slice(11, 16)} UTC or ask an administrator to reset your password.`,
+    );
   }
   if (await verifyPassword(signer.passwordHash, password)) return signer;
   const failures = signer.failedSigningAttempts + 1;

@@ -154,7 +154,7 @@ function runCycle(
         state.drainC += (chamberC + offsetDrainC - state.drainC) * Math.min(1, dtS / 2);
         for (let p = 0; p < state.probesC.length; p++) {
           const tau = state.probeTauS[p];
-          state.probesC[p] += (chamberC + offsetLoadC + 0.25 * (p % 3) / 3 - state.probesC[p]) * Math.min(1, dtS / tau);
+          state.probesC[p] += (chamberC + offsetLoadC + (0.25 * (p % 3)) / 3 - state.probesC[p]) * Math.min(1, dtS / tau);
         }
       } else {
         const targetC = 0.5 * tsatC + 0.5 * jacketC;

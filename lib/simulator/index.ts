@@ -1,12 +1,2 @@
-export {
-  simulateCycle,
-  simulateDay,
-  seededRandom,
-  SCENARIOS,
-  type Scenario,
-  type SimulateCycleOptions,
-  type SimulateDayOptions,
-  type SimulatedChannel,
-  type SimulatedCycle,
-} from "./cycle";
+export { simulateCycle, simulateDay, seededRandom, SCENARIOS, type Scenario, type SimulateCycleOptions, type SimulateDayOptions, type SimulatedChannel, type SimulatedCycle } from "./cycle";
 export { toLoggerCsv, type CsvDialect, type CsvTimeFormat } from "./csv";

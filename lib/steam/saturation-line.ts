@@ -5,11 +5,7 @@ import { saturationPressureKpa, saturationTemperatureC } from "./if97";
 export type SaturationLine = { temperatureC: number[]; pressureKpa: number[] };
 
 /** Points along the liquid–vapour line, evenly spaced in log(pressure), for drawing the phase diagram. */
-export function saturationLine(
-  points: number,
-  fromC: number = TRIPLE_POINT.temperatureC,
-  toC: number = CRITICAL_POINT.temperatureC,
-): SaturationLine {
+export function saturationLine(points: number, fromC: number = TRIPLE_POINT.temperatureC, toC: number = CRITICAL_POINT.temperatureC): SaturationLine {
   if (!Number.isInteger(points) || points < 2) {
     throw new SteamRangeError(`A saturation line needs a whole number of at least 2 points, not ${points}`);
   }

@@ -62,9 +62,7 @@ export function toAbsoluteKpa(value: number, unit: PressureUnit, options: GaugeO
   const kpa = value * KPA_PER_UNIT[unit];
   const absoluteKpa = options.gauge ? kpa + atmosphereKpa : kpa;
   if (absoluteKpa < 0) {
-    throw new SteamRangeError(
-      `${value} ${unit}${options.gauge ? " gauge" : ""} is ${absoluteKpa.toFixed(3)} kPa absolute: an absolute pressure cannot be negative`,
-    );
+    throw new SteamRangeError(`${value} ${unit}${options.gauge ? " gauge" : ""} is ${absoluteKpa.toFixed(3)} kPa absolute: an absolute pressure cannot be negative`);
   }
   return absoluteKpa;
 }
@@ -111,10 +109,20 @@ export type PressureLabel = { unit: PressureUnit; gauge: boolean | null };
 
 const PRESSURE_BASES: ReadonlyArray<readonly [string, PressureUnit, number]> = [
   // [spelling, unit, extra factor] — hPa is mbar; Torr differs from mmHg by 1.5e-7 relative.
-  ["mpa", "MPa", 1], ["kpa", "kPa", 1], ["hpa", "mbar", 1], ["pa", "Pa", 1],
-  ["mbar", "mbar", 1], ["millibar", "mbar", 1], ["bar", "bar", 1],
-  ["psi", "psi", 1], ["lbf/in2", "psi", 1], ["lbf/in²", "psi", 1],
-  ["mmhg", "mmHg", 1], ["torr", "mmHg", 1], ["inhg", "inHg", 1], ["inchhg", "inHg", 1],
+  ["mpa", "MPa", 1],
+  ["kpa", "kPa", 1],
+  ["hpa", "mbar", 1],
+  ["pa", "Pa", 1],
+  ["mbar", "mbar", 1],
+  ["millibar", "mbar", 1],
+  ["bar", "bar", 1],
+  ["psi", "psi", 1],
+  ["lbf/in2", "psi", 1],
+  ["lbf/in²", "psi", 1],
+  ["mmhg", "mmHg", 1],
+  ["torr", "mmHg", 1],
+  ["inhg", "inHg", 1],
+  ["inchhg", "inHg", 1],
 ];
 
 /**
@@ -122,7 +130,10 @@ const PRESSURE_BASES: ReadonlyArray<readonly [string, PressureUnit, number]> = [
  * "bara", "barg", "psig", "psia", "mbar g", "kPa gauge", "mmHg". gauge is null when unmarked.
  */
 export function parsePressureLabel(s: string): PressureLabel | null {
-  let t = normaliseUnitText(s).toLowerCase().replace(/[\s_,.]+/g, " ").trim();
+  let t = normaliseUnitText(s)
+    .toLowerCase()
+    .replace(/[\s_,.]+/g, " ")
+    .trim();
   let gauge: boolean | null = null;
   const markerMatch = t.match(/^(.*?)\s*\(?\s*(absolute|abs|a|gauge|gage|g|rel|relative|ü)\s*\)?$/);
   const bareMatch = PRESSURE_BASES.find(([spelling]) => t.replace(/\s/g, "") === spelling);

@@ -77,7 +77,12 @@ export const saveScheduleSchema = z.object({
   sterilizerId: z.string().min(1),
   kind: z.enum(PERIODIC_TEST_KINDS, { error: "Choose a test." }),
   intervalDays: numberField("the interval", { min: 1, max: 1100, unit: "days", integer: true }),
-  reason: z.string().trim().max(500).optional().transform((s) => (s ? s : null)),
+  reason: z
+    .string()
+    .trim()
+    .max(500)
+    .optional()
+    .transform((s) => (s ? s : null)),
 });
 export const removeScheduleSchema = z.object({
   sterilizerId: z.string().min(1),

@@ -34,7 +34,12 @@ export const airLeakageSchema = z.object({
 export const bowieDickSchema = z.object({
   ...common,
   outcome: z.enum(["uniform", "non-uniform"], { error: "Say whether the indicator changed uniformly." }),
-  indicatorLot: z.string().trim().max(80).optional().transform((s) => (s ? s : null)),
+  indicatorLot: z
+    .string()
+    .trim()
+    .max(80)
+    .optional()
+    .transform((s) => (s ? s : null)),
 });
 
 export const nonCondensableGasSchema = z.object({
@@ -70,7 +75,15 @@ export const periodicTestFiltersSchema = z.object({
   sterilizer: z.string().optional().catch(undefined),
   kind: z.string().optional().catch(undefined),
   result: z.enum(VERDICTS).optional().catch(undefined),
-  from: z.string().regex(/^\d{4}-\d{2}-\d{2}$/).optional().catch(undefined),
-  to: z.string().regex(/^\d{4}-\d{2}-\d{2}$/).optional().catch(undefined),
+  from: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/)
+    .optional()
+    .catch(undefined),
+  to: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/)
+    .optional()
+    .catch(undefined),
   page: z.coerce.number().int().min(1).optional().catch(undefined),
 });

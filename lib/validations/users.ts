@@ -13,7 +13,10 @@ export const createUserSchema = z.object({
 export const updateUserSchema = z.object({
   id: z.string().uuid(),
   role: z.enum(ROLES).optional(),
-  disabled: z.enum(["true", "false"]).transform((v) => v === "true").optional(),
+  disabled: z
+    .enum(["true", "false"])
+    .transform((v) => v === "true")
+    .optional(),
   reason: z.string().trim().max(500).optional(),
 });
 

@@ -112,7 +112,9 @@ async function main(): Promise<number> {
     ];
     const widths = [0, 1, 2, 3, 4].map((k) => Math.max(...rows.map((r) => r[k].length), ["measure", "value", "goal", "must", "status"][k].length));
     const line = (cells: string[]) => "| " + cells.map((c, k) => c.padEnd(widths[k])).join(" | ") + " |";
-    console.log(`Papin benchmark: a day-long logger file, ${sim.timesS.length.toLocaleString("en")} rows × ${sim.channels.length - 1} temperature channels + 1 pressure, ${(bytes.length / 1e6).toFixed(1)} MB`);
+    console.log(
+      `Papin benchmark: a day-long logger file, ${sim.timesS.length.toLocaleString("en")} rows × ${sim.channels.length - 1} temperature channels + 1 pressure, ${(bytes.length / 1e6).toFixed(1)} MB`,
+    );
     console.log(`median of ${RUNS} runs each after one warm-up; node ${process.version}; verdict of the first of ${output.plateausFound} plateaus: ${output.verdict}`);
     console.log(line(["measure", "value", "goal", "must", "status"]));
     console.log(line(widths.map((w) => "-".repeat(w))));
@@ -132,7 +134,9 @@ async function intakePath(bytes: Uint8Array) {
   const { buildSeries } = await import("../../lib/cycles/series");
   const { renderCycleReport } = await import("../../lib/reports");
   const { buildReportModel } = await import("../fixtures/reports/model");
-  const profile = { sterilizationTempC: 134, holdingTimeS: 180, bandK: 3, maxEquilibrationS: 15, maxSpreadK: 2, saturationLimitK: 2, f0ReferenceC: 121.1, f0ZK: 10 } as Parameters<typeof analyzeLoggerBytes>[1];
+  const profile = { sterilizationTempC: 134, holdingTimeS: 180, bandK: 3, maxEquilibrationS: 15, maxSpreadK: 2, saturationLimitK: 2, f0ReferenceC: 121.1, f0ZK: 10 } as Parameters<
+    typeof analyzeLoggerBytes
+  >[1];
   let t = performance.now();
   const analysed = analyzeLoggerBytes(bytes, profile);
   const analyseS = (performance.now() - t) / 1000;

@@ -27,10 +27,13 @@ function genericLoggerFile(name: string, seed: number): string {
   expect(pressureAt).toBeGreaterThan(0);
   const order = [0, ...header.map((_, i) => i).filter((i) => i !== 0 && i !== drainAt && i !== pressureAt), drainAt, pressureAt];
   const renamed = order.map((i, n) => (i === 0 ? "Time" : i === pressureAt ? "Chamber pressure" : `CH${n} (°C)`));
-  const out = [renamed.join(","), ...lines.slice(1).map((line) => {
-    const cells = line.split(",");
-    return order.map((i) => cells[i]).join(",");
-  })];
+  const out = [
+    renamed.join(","),
+    ...lines.slice(1).map((line) => {
+      const cells = line.split(",");
+      return order.map((i) => cells[i]).join(",");
+    }),
+  ];
   const file = path.join(workDir, name);
   writeFileSync(file, out.join("\r\n") + "\r\n");
   return file;

@@ -48,15 +48,24 @@ beforeAll(async () => {
   const { hashPassword } = await import("@/lib/auth/password");
   const passwordHash = await hashPassword(PASSWORD);
   for (const key of SITES) {
-    const [site] = await ctx.db.insert(sites).values({ name: `${key} hospital`, code: key.toUpperCase() }).returning();
+    const [site] = await ctx.db
+      .insert(sites)
+      .values({ name: `${key} hospital`, code: key.toUpperCase() })
+      .returning();
     people[key] = {} as Record<Person["role"], Person>;
     for (const role of ["technician", "engineer", "auditor"] as const) {
       const email = `${role}@${key}.example`;
-      const [u] = await ctx.db.insert(users).values({ email, name: `${key} ${role}`, role, passwordHash, siteId: site.id }).returning();
+      const [u] = await ctx.db
+        .insert(users)
+        .values({ email, name: `${key} ${role}`, role, passwordHash, siteId: site.id })
+        .returning();
       people[key][role] = { id: u.id, email, name: u.name, role, siteId: site.id };
     }
     const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180 }).returning();
-    const [sterilizer] = await ctx.db.insert(sterilizers).values({ siteId: site.id, name: `${key} sterilizer`, serialNumber: `${key.toUpperCase()}-001`, chamberVolumeL: 400 }).returning();
+    const [sterilizer] = await ctx.db
+      .insert(sterilizers)
+      .values({ siteId: site.id, name: `${key} sterilizer`, serialNumber: `${key.toUpperCase()}-001`, chamberVolumeL: 400 })
+      .returning();
     setup[key] = { sterilizerId: sterilizer.id, profileId: profile.id, approvedId: "", draftId: "", reportId: "", reportPdf: new Uint8Array(), cycleNumber: `${key.toUpperCase()}-APPROVED` };
   }
   for (const key of SITES) {
@@ -75,7 +84,10 @@ afterAll(() => ctx.cleanup());
 describe("two sites: cycle reads never show the other site's rows", () => {
   it("the list holds only the reader's own site's cycles, whatever the filter", async () => {
     const { GET } = await import("@/app/api/cycles/route");
-    for (const [mine, theirs] of [["south", "north"], ["north", "south"]] as const) {
+    for (const [mine, theirs] of [
+      ["south", "north"],
+      ["north", "south"],
+    ] as const) {
       as(people[mine].auditor);
       const all = await (await GET(new Request(url("/api/cycles?pageSize=100")), undefined)).json();
       expect(all.total).toBe(2);
@@ -92,7 +104,11 @@ describe("two sites: cycle reads never show the other site's rows", () => {
     const series = (await import("@/app/api/cycles/[id]/series/route")).GET;
     const report = (await import("@/app/api/cycles/[id]/report/route")).GET;
     as(people.south.auditor);
-    for (const [id, status] of [[setup.north.approvedId, 404], [setup.north.draftId, 404], [setup.south.approvedId, 200]] as const) {
+    for (const [id, status] of [
+      [setup.north.approvedId, 404],
+      [setup.north.draftId, 404],
+      [setup.south.approvedId, 200],
+    ] as const) {
       expect((await detail(new Request(url("/")), params(id))).status).toBe(status);
       expect((await series(new Request(url(`/api/cycles/${id}/series?points=100`)), params(id))).status).toBe(status);
       expect((await report(new Request(url("/")), params(id))).status).toBe(status);

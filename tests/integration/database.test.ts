@@ -13,7 +13,24 @@ describe("migrations on a new database file", () => {
   it("create every table of the product", async () => {
     const rows = await ctx.db.all<{ name: string }>(sql`select name from sqlite_master where type = 'table' order by name`);
     const names = rows.map((r) => r.name);
-    for (const table of ["sites", "users", "sterilizers", "instruments", "calibration_certificates", "acceptance_profiles", "cycles", "logger_files", "analyses", "signatures", "audit_events", "mail_outbox", "periodic_tests", "test_schedules", "api_tokens", "reports"]) {
+    for (const table of [
+      "sites",
+      "users",
+      "sterilizers",
+      "instruments",
+      "calibration_certificates",
+      "acceptance_profiles",
+      "cycles",
+      "logger_files",
+      "analyses",
+      "signatures",
+      "audit_events",
+      "mail_outbox",
+      "periodic_tests",
+      "test_schedules",
+      "api_tokens",
+      "reports",
+    ]) {
       expect(names).toContain(table);
     }
     // Dropped in 0002: nothing ever read or wrote it.
@@ -26,9 +43,7 @@ describe("migrations on a new database file", () => {
   });
 
   it("enforce foreign keys", async () => {
-    expect(
-      await failureOf(ctx.db.run(sql`insert into sterilizers (id, site_id, name, serial_number, chamber_volume_l) values ('s1', 'no-such-site', 'x', 'y', 10)`)),
-    ).toMatch(/FOREIGN KEY/i);
+    expect(await failureOf(ctx.db.run(sql`insert into sterilizers (id, site_id, name, serial_number, chamber_volume_l) values ('s1', 'no-such-site', 'x', 'y', 10)`))).toMatch(/FOREIGN KEY/i);
   });
 });
 

@@ -9,7 +9,23 @@ beforeAll(async () => {
 });
 afterAll(() => ctx.cleanup());
 
-const TABLES = ["sites", "users", "sterilizers", "instruments", "calibration_certificates", "acceptance_profiles", "cycles", "logger_files", "analyses", "signatures", "reports", "audit_events", "periodic_tests", "test_schedules", "mail_outbox"];
+const TABLES = [
+  "sites",
+  "users",
+  "sterilizers",
+  "instruments",
+  "calibration_certificates",
+  "acceptance_profiles",
+  "cycles",
+  "logger_files",
+  "analyses",
+  "signatures",
+  "reports",
+  "audit_events",
+  "periodic_tests",
+  "test_schedules",
+  "mail_outbox",
+];
 
 async function counts() {
   const out: Record<string, number> = {};
@@ -32,7 +48,12 @@ describe("the demo loader", () => {
     const roles = await ctx.db.all<{ role: string }>(sql`select role from users order by role`);
     expect(roles.map((r) => r.role)).toEqual(["admin", "auditor", "engineer", "technician"]);
     const profiles = await ctx.db.all<{ t: number; h: number }>(sql`select sterilization_temp_c as t, holding_time_s as h from acceptance_profiles`);
-    expect(profiles).toEqual(expect.arrayContaining([{ t: 134, h: 180 }, { t: 121, h: 900 }]));
+    expect(profiles).toEqual(
+      expect.arrayContaining([
+        { t: 134, h: 180 },
+        { t: 121, h: 900 },
+      ]),
+    );
     const verdicts = await ctx.db.all<{ verdict: string; n: number }>(sql`select verdict, count(*) as n from cycles group by verdict`);
     expect(verdicts.find((v) => v.verdict === "fail")?.n).toBeGreaterThanOrEqual(4);
     const kinds = await ctx.db.all<{ id: string }>(sql`select distinct j.value ->> 'id' as id from analyses, json_each(json_extract(result, '$.checks')) j where j.value ->> 'passed' = 0`);

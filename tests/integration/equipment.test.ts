@@ -31,13 +31,13 @@ beforeAll(async () => {
   ids.site = site.id;
   const passwordHash = await hashPassword("a test password");
   for (const role of ["technician", "engineer", "auditor"] as const) {
-    const [u] = await ctx.db.insert(users).values({ email: `${role}@test.example`, name: role, role, passwordHash, siteId: site.id }).returning();
+    const [u] = await ctx.db
+      .insert(users)
+      .values({ email: `${role}@test.example`, name: role, role, passwordHash, siteId: site.id })
+      .returning();
     ids[role] = u.id;
   }
-  const [profile] = await ctx.db
-    .insert(acceptanceProfiles)
-    .values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180, basis: "EN 285" })
-    .returning();
+  const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180, basis: "EN 285" }).returning();
   ids.profile = profile.id;
   const [st] = await ctx.db.insert(sterilizers).values({ siteId: site.id, name: "Porous load 1", serialNumber: "S-1", chamberVolumeL: 445, defaultProfileId: profile.id }).returning();
   ids.sterilizer = st.id;
@@ -125,7 +125,16 @@ describe("steam dryness recorded through the action", () => {
     const { recordDrynessAction } = await import("@/app/(portal)/periodic-tests/actions");
     const state = await recordDrynessAction(
       IDLE,
-      form({ sterilizerId: ids.sterilizer, performedAt: new Date().toISOString(), initialWaterTempC: "20", finalWaterTempC: "80", waterMassKg: "0.650", condensateMassKg: "0.075", steamTempC: "134", load: "metal" }),
+      form({
+        sterilizerId: ids.sterilizer,
+        performedAt: new Date().toISOString(),
+        initialWaterTempC: "20",
+        finalWaterTempC: "80",
+        waterMassKg: "0.650",
+        condensateMassKg: "0.075",
+        steamTempC: "134",
+        load: "metal",
+      }),
     );
     expect(state.status).toBe("ok");
     const { periodicTests } = await import("@/db/schema");
@@ -170,7 +179,17 @@ describe("who may change equipment", () => {
 });
 
 describe("acceptance profiles", () => {
-  const limits = { sterilizationTempC: "134", bandK: "3", holdingTimeS: "210", maxEquilibrationS: "15", maxSpreadK: "2", saturationLimitK: "2", f0ReferenceC: "121.1", f0ZK: "10", basis: "EN 285, site protocol rev. B" };
+  const limits = {
+    sterilizationTempC: "134",
+    bandK: "3",
+    holdingTimeS: "210",
+    maxEquilibrationS: "15",
+    maxSpreadK: "2",
+    saturationLimitK: "2",
+    f0ReferenceC: "121.1",
+    f0ZK: "10",
+    basis: "EN 285, site protocol rev. B",
+  };
 
   it("refuses a sterilization temperature outside 100–140 °C beside the field", async () => {
     as("engineer");
@@ -227,7 +246,10 @@ describe("instruments and calibration", () => {
   it("clearing a saved mapping needs an engineer and a reason, and keeps the old mapping in the ledger", async () => {
     const { instruments } = await import("@/db/schema");
     const { eq } = await import("drizzle-orm");
-    await ctx.db.update(instruments).set({ savedMapping: { time: "Time", pressure: "P" } }).where(eq(instruments.id, ids.instrument));
+    await ctx.db
+      .update(instruments)
+      .set({ savedMapping: { time: "Time", pressure: "P" } })
+      .where(eq(instruments.id, ids.instrument));
     const { clearMappingAction } = await import("@/app/(portal)/instruments/actions");
     as("technician");
     expect((await clearMappingAction(IDLE, form({ instrumentId: ids.instrument, reason: "probes re-wired" }))).message).toMatch(/role does not allow/);

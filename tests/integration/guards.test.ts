@@ -17,7 +17,10 @@ beforeAll(async () => {
   const [site] = await ctx.db.insert(sites).values({ name: "Test site", code: "T" }).returning();
   const passwordHash = await hashPassword("a test password");
   for (const role of ["technician", "engineer", "auditor", "admin"] as const) {
-    const [u] = await ctx.db.insert(users).values({ email: `${role}@test.example`, name: role, role, passwordHash, siteId: site.id }).returning();
+    const [u] = await ctx.db
+      .insert(users)
+      .values({ email: `${role}@test.example`, name: role, role, passwordHash, siteId: site.id })
+      .returning();
     ids[role] = u.id;
   }
   const [d] = await ctx.db.insert(users).values({ email: "gone@test.example", name: "Gone", role: "engineer", passwordHash, siteId: site.id, disabled: true }).returning();

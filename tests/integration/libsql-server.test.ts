@@ -203,9 +203,7 @@ describe("Papin on a libSQL server URL", () => {
     as("technician");
     const before = await count("audit_events");
     const files = await Promise.all([simulatedFile("pass", 51), simulatedFile("air", 52)]);
-    const responses = await Promise.all(
-      files.map((bytes, i) => POST(uploadRequest({ sterilizerId, profileId, cycleNumber: `REMOTE-PAR-${i}` }, { name: `par-${i}.csv`, bytes }), undefined)),
-    );
+    const responses = await Promise.all(files.map((bytes, i) => POST(uploadRequest({ sterilizerId, profileId, cycleNumber: `REMOTE-PAR-${i}` }, { name: `par-${i}.csv`, bytes }), undefined)));
     expect(responses.map((r) => r.status)).toEqual([201, 201]);
     expect(await count("audit_events")).toBeGreaterThan(before);
     const links = onServerFile<{ n: number }>("select count(*) as n from audit_events a join audit_events b on a.prev_hash = b.prev_hash and a.seq < b.seq");
@@ -335,8 +333,26 @@ describe("the test server keeps to the protocol and says so when it cannot", () 
       { stmt: { sql: "select * from no_such_table" } },
       { condition: { type: "ok", step: 1 }, stmt: { sql: "select 2" } },
       { condition: { type: "error", step: 1 }, stmt: { sql: "select 3" } },
-      { condition: { type: "and", conds: [{ type: "ok", step: 0 }, { type: "not", cond: { type: "ok", step: 2 } }] }, stmt: { sql: "select 4" } },
-      { condition: { type: "or", conds: [{ type: "ok", step: 2 }, { type: "ok", step: 1 }] }, stmt: { sql: "select 5" } },
+      {
+        condition: {
+          type: "and",
+          conds: [
+            { type: "ok", step: 0 },
+            { type: "not", cond: { type: "ok", step: 2 } },
+          ],
+        },
+        stmt: { sql: "select 4" },
+      },
+      {
+        condition: {
+          type: "or",
+          conds: [
+            { type: "ok", step: 2 },
+            { type: "ok", step: 1 },
+          ],
+        },
+        stmt: { sql: "select 5" },
+      },
     ];
     const { status, body } = await pipeline({ requests: [{ type: "batch", batch: { steps } }, { type: "close" }] });
     expect(status).toBe(200);
@@ -354,10 +370,21 @@ describe("the test server keeps to the protocol and says so when it cannot", () 
   });
 
   it("keeps one connection per stream: a transaction opened in one request is still open in the next, and a baton is good once", async () => {
-    const first = await pipeline({ requests: [{ type: "execute", stmt: { sql: "BEGIN IMMEDIATE" } }, { type: "store_sql", sql_id: 1, sql: "select count(*) from sites" }] });
+    const first = await pipeline({
+      requests: [
+        { type: "execute", stmt: { sql: "BEGIN IMMEDIATE" } },
+        { type: "store_sql", sql_id: 1, sql: "select count(*) from sites" },
+      ],
+    });
     expect(first.status).toBe(200);
     expect(typeof first.body.baton).toBe("string");
-    const second = await pipeline({ baton: first.body.baton, requests: [{ type: "execute", stmt: { sql_id: 1 } }, { type: "execute", stmt: { sql: "BEGIN" } }] });
+    const second = await pipeline({
+      baton: first.body.baton,
+      requests: [
+        { type: "execute", stmt: { sql_id: 1 } },
+        { type: "execute", stmt: { sql: "BEGIN" } },
+      ],
+    });
     expect(second.body.results[0].response.result.rows).toEqual([[{ type: "integer", value: "1" }]]);
     // BEGIN inside BEGIN fails: the first BEGIN is still open on this stream's connection.
     expect(second.body.results[1]).toMatchObject({ type: "error", error: { code: "SQLITE_ERROR", message: expect.stringMatching(/within a transaction/) } });
@@ -438,7 +465,12 @@ describe("the test server keeps to the protocol and says so when it cannot", () 
         return r.json();
       };
       await call({ requests: [{ type: "execute", stmt: { sql: "create table t (x)" } }, { type: "close" }] });
-      const open = await call({ requests: [{ type: "execute", stmt: { sql: "BEGIN" } }, { type: "execute", stmt: { sql: "insert into t values (1)" } }] });
+      const open = await call({
+        requests: [
+          { type: "execute", stmt: { sql: "BEGIN" } },
+          { type: "execute", stmt: { sql: "insert into t values (1)" } },
+        ],
+      });
       await vi.waitFor(() => expect(quick.stats.expiredStreams).toBe(1), { timeout: 3_000 });
       expect(await call({ baton: open.baton, requests: [{ type: "execute", stmt: { sql: "COMMIT" } }] })).toMatchObject({ code: "STREAM_EXPIRED" });
       const rows = await call({ requests: [{ type: "execute", stmt: { sql: "select count(*) from t" } }, { type: "close" }] });

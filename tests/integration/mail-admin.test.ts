@@ -26,7 +26,10 @@ beforeAll(async () => {
   const [site] = await ctx.db.insert(sites).values({ name: "Marlow Bridge General Hospital — Sterile Services", code: "MBGH" }).returning();
   siteId = site.id;
   for (const role of ROLES) {
-    const [u] = await ctx.db.insert(users).values({ email: `${role}@marlow-bridge.example`, name: role, role, passwordHash: "x", siteId: site.id }).returning();
+    const [u] = await ctx.db
+      .insert(users)
+      .values({ email: `${role}@marlow-bridge.example`, name: role, role, passwordHash: "x", siteId: site.id })
+      .returning();
     ids[role] = u.id;
   }
 });
@@ -54,7 +57,10 @@ function form(fields: Record<string, string> = {}) {
 
 async function queueOne(subject: string) {
   const { mailOutbox } = await import("@/db/schema");
-  const [row] = await ctx.db.insert(mailOutbox).values({ to: ["technician@marlow-bridge.example"], subject, html: "<p>x</p>", text: "x", siteId }).returning();
+  const [row] = await ctx.db
+    .insert(mailOutbox)
+    .values({ to: ["technician@marlow-bridge.example"], subject, html: "<p>x</p>", text: "x", siteId })
+    .returning();
   return row.id;
 }
 

@@ -199,7 +199,10 @@ describe("the mailbox file", () => {
       await client.emails.send({ ...message, subject: "one", to: "a@marlow-bridge.example" });
       await client.emails.send({ ...message, subject: "two", to: "b@marlow-bridge.example" });
       await first.close();
-      const lines = readFileSync(file, "utf8").trim().split("\n").map((l) => JSON.parse(l));
+      const lines = readFileSync(file, "utf8")
+        .trim()
+        .split("\n")
+        .map((l) => JSON.parse(l));
       expect(lines.map((l) => l.subject)).toEqual(["one", "two"]);
 
       const again = await startFakeResend({ quiet: true, mailboxFile: file });
@@ -233,7 +236,10 @@ describe("the runnable entry (tsx lib/mail/fake-resend-server.ts --port N)", () 
       const url = `http://127.0.0.1:${port}`;
       let health: Record<string, unknown> | undefined;
       for (let i = 0; i < 100 && !health; i++) {
-        health = await fetch(`${url}/_health`).then((r) => r.json(), () => undefined);
+        health = await fetch(`${url}/_health`).then(
+          (r) => r.json(),
+          () => undefined,
+        );
         if (!health) await new Promise((r) => setTimeout(r, 100));
       }
       expect(health).toMatchObject({ ok: true, service: "papin-fake-resend" });

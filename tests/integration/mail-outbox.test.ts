@@ -50,19 +50,30 @@ beforeAll(async () => {
     passwordHash: "not-a-real-hash",
     ...extra,
   });
-  await ctx.db.insert(users).values([
-    person(ids.tech, "Tomás Brooks", "t.brooks@marlow-bridge.example", "technician"),
-    person(ids.eng1, "Adaeze Okafor", "a.okafor@marlow-bridge.example", "engineer"),
-    person(ids.eng2, "Priya Nair", "P.Nair@marlow-bridge.example", "engineer"),
-    person(ids.engDisabled, "Former Engineer", "former@marlow-bridge.example", "engineer", { disabled: true }),
-    person(ids.engOtherSite, "Elsewhere Engineer", "eng@other.example", "engineer", { siteId: ids.otherSite }),
-    person(ids.auditor, "Ruth Lindqvist", "r.lindqvist@marlow-bridge.example", "auditor"),
-  ]);
+  await ctx.db
+    .insert(users)
+    .values([
+      person(ids.tech, "Tomás Brooks", "t.brooks@marlow-bridge.example", "technician"),
+      person(ids.eng1, "Adaeze Okafor", "a.okafor@marlow-bridge.example", "engineer"),
+      person(ids.eng2, "Priya Nair", "P.Nair@marlow-bridge.example", "engineer"),
+      person(ids.engDisabled, "Former Engineer", "former@marlow-bridge.example", "engineer", { disabled: true }),
+      person(ids.engOtherSite, "Elsewhere Engineer", "eng@other.example", "engineer", { siteId: ids.otherSite }),
+      person(ids.auditor, "Ruth Lindqvist", "r.lindqvist@marlow-bridge.example", "auditor"),
+    ]);
   await ctx.db.insert(acceptanceProfiles).values({ id: ids.profile, siteId: ids.site, name: "134 °C porous load", sterilizationTempC: 134, holdingTimeS: 180 });
   await ctx.db.insert(sterilizers).values({ id: ids.sterilizer, siteId: ids.site, name: "Porous load 1", serialNumber: "MB-PL-0417", chamberVolumeL: 445 });
   await ctx.db.insert(cycles).values([
     { id: ids.cycle, siteId: ids.site, sterilizerId: ids.sterilizer, profileId: ids.profile, cycleNumber: "P1-20260310-001", createdBy: ids.tech, submittedBy: ids.tech, status: "submitted" },
-    { id: ids.cycleByEngineer, siteId: ids.site, sterilizerId: ids.sterilizer, profileId: ids.profile, cycleNumber: "P1-20260310-002", createdBy: ids.eng1, submittedBy: ids.eng1, status: "submitted" },
+    {
+      id: ids.cycleByEngineer,
+      siteId: ids.site,
+      sterilizerId: ids.sterilizer,
+      profileId: ids.profile,
+      cycleNumber: "P1-20260310-002",
+      createdBy: ids.eng1,
+      submittedBy: ids.eng1,
+      status: "submitted",
+    },
   ]);
   process.env.NEXTAUTH_URL = "https://papin.marlow-bridge.example";
   process.env.PAPIN_MAIL_FROM = "Papin at Marlow Bridge <papin@marlow-bridge.example>";
@@ -127,9 +138,7 @@ describe("each notification reaches the right people through the real SDK", () =
   });
 
   it("rejected → the submitter, with the reason and who returned it", async () => {
-    await ctx.db.transaction((tx) =>
-      mail.enqueueCycleRejectedMail(tx, { cycleId: ids.cycle, reason: "Drain probe not in the chamber drain; repeat the test.", signerName: "Adaeze Okafor" }),
-    );
+    await ctx.db.transaction((tx) => mail.enqueueCycleRejectedMail(tx, { cycleId: ids.cycle, reason: "Drain probe not in the chamber drain; repeat the test.", signerName: "Adaeze Okafor" }));
     const [got] = await deliverAndRead();
     expect(got.to).toEqual(["t.brooks@marlow-bridge.example"]);
     expect(got.subject).toBe("Cycle P1-20260310-001 on Porous load 1 was returned");
@@ -269,7 +278,10 @@ describe("the outbox", () => {
   });
 
   it("marks a mail the service will never accept (422) failed at once", async () => {
-    const [row] = await ctx.db.insert(schema.mailOutbox).values({ to: ["no-at-sign"], subject: "s", html: "h", text: "t" }).returning();
+    const [row] = await ctx.db
+      .insert(schema.mailOutbox)
+      .values({ to: ["no-at-sign"], subject: "s", html: "h", text: "t" })
+      .returning();
     expect(await delivery.deliverPendingMail()).toMatchObject({ failed: 1 });
     expect(await outboxRow(row.id)).toMatchObject({ status: "failed", attempts: 1 });
     expect((await outboxRow(row.id)).lastError).toMatch(/validation_error \(422\)/);

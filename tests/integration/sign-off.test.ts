@@ -23,7 +23,10 @@ beforeAll(async () => {
   const { hashPassword } = await import("@/lib/auth/password");
   for (const u of await ctx.db.select().from(users)) people[u.role] = { id: u.id, name: u.name };
   const [site] = await ctx.db.select().from(sites);
-  const [e2] = await ctx.db.insert(users).values({ email: "second.engineer@papin.example", name: "Second Engineer", role: "engineer", passwordHash: await hashPassword(PASSWORD), siteId: site.id }).returning();
+  const [e2] = await ctx.db
+    .insert(users)
+    .values({ email: "second.engineer@papin.example", name: "Second Engineer", role: "engineer", passwordHash: await hashPassword(PASSWORD), siteId: site.id })
+    .returning();
   secondEngineer = e2.id;
   sterilizerId = (await ctx.db.select().from(sterilizers).limit(1))[0].id;
   profileId = (await ctx.db.select().from(acceptanceProfiles)).find((p) => p.sterilizationTempC === 134 && p.maxEquilibrationS === 15)!.id;

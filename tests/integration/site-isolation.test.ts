@@ -25,13 +25,22 @@ const inDays = (n: number) => new Date(today.getTime() + n * 86_400_000).toISOSt
 
 async function seedSite(key: "a" | "b", code: string): Promise<SiteFixture> {
   const { sites, users, sterilizers, acceptanceProfiles, instruments, calibrationCertificates, cycles, periodicTests, testSchedules, mailOutbox } = schema;
-  const [s] = await ctx.db.insert(sites).values({ name: `Site ${code}`, code }).returning();
+  const [s] = await ctx.db
+    .insert(sites)
+    .values({ name: `Site ${code}`, code })
+    .returning();
   const people = {} as Record<Actor["role"], Actor>;
   for (const role of ["technician", "engineer", "auditor", "admin"] as const) {
-    const [u] = await ctx.db.insert(users).values({ email: `${role}@${key}.example`, name: `${role} ${code}`, role, passwordHash: "x", siteId: s.id }).returning();
+    const [u] = await ctx.db
+      .insert(users)
+      .values({ email: `${role}@${key}.example`, name: `${role} ${code}`, role, passwordHash: "x", siteId: s.id })
+      .returning();
     people[role] = { id: u.id, email: u.email, name: u.name, role, siteId: s.id };
   }
-  const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: s.id, name: `134 °C ${code}`, sterilizationTempC: 134, holdingTimeS: 180 }).returning();
+  const [profile] = await ctx.db
+    .insert(acceptanceProfiles)
+    .values({ siteId: s.id, name: `134 °C ${code}`, sterilizationTempC: 134, holdingTimeS: 180 })
+    .returning();
   const [sterilizer] = await ctx.db
     .insert(sterilizers)
     .values({ siteId: s.id, name: `Sterilizer ${code}`, serialNumber: `SER-${code}`, chamberVolumeL: 300, defaultProfileId: profile.id })
@@ -52,7 +61,10 @@ async function seedSite(key: "a" | "b", code: string): Promise<SiteFixture> {
     .values({ siteId: s.id, sterilizerId: sterilizer.id, kind: "bowie-dick", performedAt: today.toISOString(), performedBy: people.technician.id, result: "pass" })
     .returning();
   await ctx.db.insert(testSchedules).values({ sterilizerId: sterilizer.id, kind: "air-leakage", intervalDays: 7 });
-  const [mail] = await ctx.db.insert(mailOutbox).values({ to: [people.engineer.email], subject: `Mail of ${code}`, html: "<p>x</p>", text: "x", siteId: s.id }).returning();
+  const [mail] = await ctx.db
+    .insert(mailOutbox)
+    .values({ to: [people.engineer.email], subject: `Mail of ${code}`, html: "<p>x</p>", text: "x", siteId: s.id })
+    .returning();
   const { recordAuditEvent } = await import("@/db/queries/audit");
   await recordAuditEvent({ actorId: people.engineer.id, actorEmail: people.engineer.email, siteId: s.id, action: "test.event", entityType: "test", entityId: `event-${code}` });
   await recordAuditEvent({ actorEmail: people.technician.email, siteId: s.id, action: "auth.sign-in-failed", entityType: "user", entityId: people.technician.id });

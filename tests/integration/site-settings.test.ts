@@ -24,7 +24,10 @@ beforeAll(async () => {
     .returning();
   siteId = site.id;
   for (const role of ["engineer", "admin"] as const) {
-    const [u] = await ctx.db.insert(users).values({ email: `${role}@marlow-bridge.example`, name: role, role, passwordHash: "x", siteId }).returning();
+    const [u] = await ctx.db
+      .insert(users)
+      .values({ email: `${role}@marlow-bridge.example`, name: role, role, passwordHash: "x", siteId })
+      .returning();
     ids[role] = u.id;
   }
 });
@@ -35,7 +38,15 @@ const as = (role: string) => {
 };
 
 function form(overrides: Record<string, string> = {}) {
-  const fields = { name: "Marlow Bridge General Hospital — Sterile Services", timeZone: "Europe/London", atmosphereKpa: "", altitudeM: "", address: "1 Weir Lane, Marlow Bridge", reason: "", ...overrides };
+  const fields = {
+    name: "Marlow Bridge General Hospital — Sterile Services",
+    timeZone: "Europe/London",
+    atmosphereKpa: "",
+    altitudeM: "",
+    address: "1 Weir Lane, Marlow Bridge",
+    reason: "",
+    ...overrides,
+  };
   const f = new FormData();
   for (const [k, v] of Object.entries(fields)) f.set(k, v);
   return f;

@@ -28,7 +28,10 @@ beforeAll(async () => {
   ] as const;
   for (const [key, siteId] of people) {
     const role = key === "hill" ? "technician" : key;
-    const [u] = await ctx.db.insert(users).values({ email: `${key}@test.example`, name: key, role, passwordHash, siteId }).returning();
+    const [u] = await ctx.db
+      .insert(users)
+      .values({ email: `${key}@test.example`, name: key, role, passwordHash, siteId })
+      .returning();
     ids[key] = u.id;
   }
   ({ GET } = await import("@/app/api/steam/saturation/route"));

@@ -88,8 +88,7 @@ class RequestRefused extends Error {
   }
 }
 const protocol = (message: string) => new RequestRefused("PROTOCOL_ERROR", message);
-const unimplemented = (what: string) =>
-  new RequestRefused("NOT_IMPLEMENTED", `${what} is not implemented by this test server (it speaks Hrana 2 over HTTP only).`);
+const unimplemented = (what: string) => new RequestRefused("NOT_IMPLEMENTED", `${what} is not implemented by this test server (it speaks Hrana 2 over HTTP only).`);
 
 /** A failed statement: reported in the stream result (or batch step), the stream goes on. */
 class StmtError extends Error {
@@ -215,7 +214,8 @@ export function splitStatements(sql: string): SqlStatement[] {
           break;
         }
         j = close + 1;
-        if (closer !== "]" && sql[j] === closer) j++; // a doubled quote stays inside
+        if (closer !== "]" && sql[j] === closer)
+          j++; // a doubled quote stays inside
         else break;
       }
       token = "OTHER";
@@ -247,12 +247,7 @@ export function splitStatements(sql: string): SqlStatement[] {
 // ---------------------------------------------------------------------------------------------------
 // Wire values (Hrana 2 JSON)
 
-type WireValue =
-  | { type: "null" }
-  | { type: "integer"; value: string }
-  | { type: "float"; value: number }
-  | { type: "text"; value: string }
-  | { type: "blob"; base64: string };
+type WireValue = { type: "null" } | { type: "integer"; value: string } | { type: "float"; value: number } | { type: "text"; value: string } | { type: "blob"; base64: string };
 type SqlValue = null | bigint | number | string | Buffer;
 
 const I64_MIN = -(2n ** 63n);

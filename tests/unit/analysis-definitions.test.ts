@@ -20,20 +20,19 @@ function record(durationS: number, channels: Record<string, Channel>, pressure?:
 }
 
 /** Rises 1 K/s from 100 °C, reaching Ts at `arrivalS` and `level` after; holds to `endS`, then drops below Ts. */
-const ramp = (arrivalS: number, endS: number, level = TS + 1) => (t: number) => {
-  const rising = level - (arrivalS + (level - TS) - t);
-  if (t <= endS) return Math.max(100, Math.min(level, rising));
-  return Math.max(100, TS - 1 - (t - endS));
-};
+const ramp =
+  (arrivalS: number, endS: number, level = TS + 1) =>
+  (t: number) => {
+    const rising = level - (arrivalS + (level - TS) - t);
+    if (t <= endS) return Math.max(100, Math.min(level, rising));
+    return Math.max(100, TS - 1 - (t - endS));
+  };
 
 const check = (result: ReturnType<typeof analyzeRecording>, id: string) => result.checks.find((c) => c.id === id)!;
 
 describe("plateau, equilibration and holding", () => {
   it("the plateau starts when the drain reaches Ts; equilibration ends with the last probe to arrive", () => {
-    const result = analyzeRecording(
-      record(400, { "Drain (°C)": ramp(10, 300), "Pack 1 (°C)": ramp(12, 300), "Pack 2 (°C)": ramp(17, 300) }),
-      limits,
-    );
+    const result = analyzeRecording(record(400, { "Drain (°C)": ramp(10, 300), "Pack 1 (°C)": ramp(12, 300), "Pack 2 (°C)": ramp(17, 300) }), limits);
     expect(result.plateau?.start).toBe(10);
     expect(result.channels.map((c) => c.firstArrival)).toEqual([10, 12, 17]);
     expect(result.channels.map((c) => c.arrivalAfterPlateauStart)).toEqual([0, 2, 7]);

@@ -34,7 +34,7 @@ describe("F0", () => {
     // 60 s at L = 1, a 30 s step to L = 10 (trapezoid: mean of the ends), then 60 s at L = 10.
     const timesS = new Float64Array([0, 60, 90, 150]);
     const values = new Float64Array([121.1, 121.1, 131.1, 131.1]);
-    const expected = (60 * 1 + 30 * (1 + 10) / 2 + 60 * 10) / 60;
+    const expected = (60 * 1 + (30 * (1 + 10)) / 2 + 60 * 10) / 60;
     expect(lethalityMinutes(timesS, values)).toBeCloseTo(expected, 12);
   });
 

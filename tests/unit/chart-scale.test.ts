@@ -13,7 +13,12 @@ describe("scales", () => {
   });
 
   it("finds the smallest and largest finite value over several series", () => {
-    expect(extent([[3, null, 7], [Number.NaN, -1]])).toEqual([-1, 7]);
+    expect(
+      extent([
+        [3, null, 7],
+        [Number.NaN, -1],
+      ]),
+    ).toEqual([-1, 7]);
     expect(extent([[null], []])).toBeNull();
   });
 });
@@ -32,7 +37,11 @@ describe("ticks", () => {
     const ticks = logTicks(50, 450);
     expect(ticks.map((t) => t.value)).toEqual([50, 60, 80, 100, 150, 200, 300, 400]);
     expect(ticks.filter((t) => t.major).map((t) => t.value)).toEqual([100]);
-    expect(logTicks(0.3, 50_000).filter((t) => t.major).map((t) => t.value)).toEqual([1, 10, 100, 1000, 10_000]);
+    expect(
+      logTicks(0.3, 50_000)
+        .filter((t) => t.major)
+        .map((t) => t.value),
+    ).toEqual([1, 10, 100, 1000, 10_000]);
     expect(logTicks(290, 330).map((t) => t.value)).toEqual([290, 295, 300, 305, 310, 315, 320, 325, 330]);
     expect(logTicks(270, 390).map((t) => t.value)).toEqual([280, 300, 320, 340, 360, 380]);
   });
@@ -48,18 +57,43 @@ describe("ticks", () => {
 
 describe("paths", () => {
   it("breaks a line where a reading is missing", () => {
-    expect(linePath([0, 1, 2, 3, 4], [1, 2, null, 4, 5], (v) => v * 10, (v) => v)).toBe("M0 1L10 2M30 4L40 5");
+    expect(
+      linePath(
+        [0, 1, 2, 3, 4],
+        [1, 2, null, 4, 5],
+        (v) => v * 10,
+        (v) => v,
+      ),
+    ).toBe("M0 1L10 2M30 4L40 5");
   });
 
   it("drops a point that lands on the one before and rounds to hundredths of a pixel", () => {
-    expect(linePath([0, 0.0001, 1], [1, 1, 2.345678], (v) => v * 10, (v) => v)).toBe("M0 1L10 2.35");
+    expect(
+      linePath(
+        [0, 0.0001, 1],
+        [1, 1, 2.345678],
+        (v) => v * 10,
+        (v) => v,
+      ),
+    ).toBe("M0 1L10 2.35");
   });
 
   it("breaks a path through data points at a gap or a point the scale cannot place, and can close it", () => {
     const y = scaleLog([10, 1000], [100, 0]);
     const x = (t: number) => t * 2;
     expect(pointsPath([[0, 10], [50, 100], null, [100, 1000], [100, 0], [110, 1000]], x, y)).toBe("M0 100L100 50M200 0M220 0");
-    expect(pointsPath([[0, 10], [50, 100], [100, 1000]], x, y, { close: true })).toBe("M0 100L100 50L200 0Z");
+    expect(
+      pointsPath(
+        [
+          [0, 10],
+          [50, 100],
+          [100, 1000],
+        ],
+        x,
+        y,
+        { close: true },
+      ),
+    ).toBe("M0 100L100 50L200 0Z");
     expect(pointsPath([], x, y, { close: true })).toBe("");
   });
 });

@@ -98,14 +98,22 @@ describe("the analyze command on hand-made logger files", () => {
     const run = analyze([
       fixture("elapsed-kelvin-kpa-gauge-short-hold.csv"),
       "--sterilization-temp=134",
-      "--holding-time", "100",
-      "--band", "4",
-      "--max-equilibration", "30",
-      "--max-spread", "2.5",
-      "--saturation-limit", "1.5",
-      "--reference", "TC 2 (K)",
-      "--f0-reference", "121",
-      "--f0-z", "10",
+      "--holding-time",
+      "100",
+      "--band",
+      "4",
+      "--max-equilibration",
+      "30",
+      "--max-spread",
+      "2.5",
+      "--saturation-limit",
+      "1.5",
+      "--reference",
+      "TC 2 (K)",
+      "--f0-reference",
+      "121",
+      "--f0-z",
+      "10",
     ]);
     expect(run.code).toBe(0);
     const result = JSON.parse(run.stdout);
@@ -146,11 +154,24 @@ describe("the analyze command on unusable input", () => {
     ["binary bytes", () => file("binary.dat", new Uint8Array([0x41, 0x42, 0x00, 0x01, 0xff, 0x10, 0x00, 0x43])), "The file is not text: byte 0x00 at offset 2"],
     ["a spreadsheet workbook", () => file("book.xlsx", new Uint8Array([0x50, 0x4b, 0x03, 0x04, 0x14, 0x00, 0x06, 0x00])), "The file is a ZIP archive (or an .xlsx workbook), not a text export"],
     ["prose", () => file("notes.txt", "The cycle ran fine today.\nWe changed the door seal on Monday and the test passed.\nNothing else to report.\n"), "The file holds no table"],
-    ["time going backwards", () => file("back.csv", header + row(0) + row(5) + row(3) + row(10)), 'Row 4, column "Time": time goes backwards ("2025-03-03 07:30:03" comes after "2025-03-03 07:30:05" on row 3)'],
-    ["text in a numeric cell", () => file("text.csv", "Time;Drain (°C);Pack 1 (°C);Chamber (kPa abs)\n" + "03.03.2025 07:30:00;134,1;134,0;304,2\n03.03.2025 07:30:05;134,1;12,a;304,2\n03.03.2025 07:30:10;134,1;134,0;304,2\n"), 'Row 3, column "Pack 1 (°C)": "12,a" is not a number'],
+    [
+      "time going backwards",
+      () => file("back.csv", header + row(0) + row(5) + row(3) + row(10)),
+      'Row 4, column "Time": time goes backwards ("2025-03-03 07:30:03" comes after "2025-03-03 07:30:05" on row 3)',
+    ],
+    [
+      "text in a numeric cell",
+      () =>
+        file("text.csv", "Time;Drain (°C);Pack 1 (°C);Chamber (kPa abs)\n" + "03.03.2025 07:30:00;134,1;134,0;304,2\n03.03.2025 07:30:05;134,1;12,a;304,2\n03.03.2025 07:30:10;134,1;134,0;304,2\n"),
+      'Row 3, column "Pack 1 (°C)": "12,a" is not a number',
+    ],
     ["an empty cell", () => file("gap.csv", header + row(0) + row(5, "") + row(10)), 'Row 3, column "Pack 1 (°C)": the cell is empty'],
     ["a short row", () => file("short.csv", header + row(0) + "2025-03-03 07:30:05,134.1,134.0\n" + row(10)), "Row 3 has 3 comma-separated fields where the header has 4"],
-    ["a time cell in another format", () => file("badtime.csv", header + row(0) + "yesterday,134.1,134.0,304.2\n" + row(10)), 'Row 3, column "Time": "yesterday" is not a time written as year-month-day hour:minute:second'],
+    [
+      "a time cell in another format",
+      () => file("badtime.csv", header + row(0) + "yesterday,134.1,134.0,304.2\n" + row(10)),
+      'Row 3, column "Time": "yesterday" is not a time written as year-month-day hour:minute:second',
+    ],
     ["a missing file", () => path.join(dir, "nowhere.csv"), "Cannot open"],
   ])("%s", (_name, make, message) => {
     expectOneLineError(analyze([make(), ...limits]), message);
@@ -179,8 +200,8 @@ describe("the analyze command on unusable input", () => {
   });
 
   it("usage errors exit 2, unusable files exit 1", () => {
-    expect((analyze(["--holding-time", "180", fixture("cp1252-semicolon-dmy-pass.csv")])).code).toBe(2);
-    expect((analyze([path.join(FIXTURES, "does-not-exist.csv"), ...limits])).code).toBe(1);
+    expect(analyze(["--holding-time", "180", fixture("cp1252-semicolon-dmy-pass.csv")]).code).toBe(2);
+    expect(analyze([path.join(FIXTURES, "does-not-exist.csv"), ...limits]).code).toBe(1);
   });
 
   it("--help prints the usage and exits 0", () => {
@@ -191,25 +212,37 @@ describe("the analyze command on unusable input", () => {
 });
 
 describe("the analyze command started as npm run analyze starts it", () => {
-  it.concurrent("prints, byte for byte, what it prints in process, and exits 0", async () => {
-    const args = [fixture("tab-mdy-ampm-fahrenheit-psig-air.txt"), "--sterilization-temp", "121", "--holding-time", "900"];
-    const run = await spawnAnalyze(args);
-    expect(run).toEqual(analyze(args));
-    expect(run.code).toBe(0);
-    expect(JSON.parse(run.stdout).verdict).toBe("fail");
-  }, SPAWN_TIMEOUT_MS);
+  it.concurrent(
+    "prints, byte for byte, what it prints in process, and exits 0",
+    async () => {
+      const args = [fixture("tab-mdy-ampm-fahrenheit-psig-air.txt"), "--sterilization-temp", "121", "--holding-time", "900"];
+      const run = await spawnAnalyze(args);
+      expect(run).toEqual(analyze(args));
+      expect(run.code).toBe(0);
+      expect(JSON.parse(run.stdout).verdict).toBe("fail");
+    },
+    SPAWN_TIMEOUT_MS,
+  );
 
-  it.concurrent("exits 1 with one line on stderr for a file it cannot use", async () => {
-    const run = await spawnAnalyze([path.join(FIXTURES, "does-not-exist.csv"), "--sterilization-temp", "134", "--holding-time", "180"]);
-    expect(run.code).toBe(1);
-    expectOneLineError(run, "Cannot open");
-  }, SPAWN_TIMEOUT_MS);
+  it.concurrent(
+    "exits 1 with one line on stderr for a file it cannot use",
+    async () => {
+      const run = await spawnAnalyze([path.join(FIXTURES, "does-not-exist.csv"), "--sterilization-temp", "134", "--holding-time", "180"]);
+      expect(run.code).toBe(1);
+      expectOneLineError(run, "Cannot open");
+    },
+    SPAWN_TIMEOUT_MS,
+  );
 
-  it.concurrent("exits 2 for a usage error and 0 for --help", async () => {
-    const [usage, help] = await Promise.all([spawnAnalyze(["--holding-time", "180", fixture("cp1252-semicolon-dmy-pass.csv")]), spawnAnalyze(["--help"])]);
-    expect(usage.code).toBe(2);
-    expectOneLineError(usage, "--sterilization-temp is required");
-    expect(help.code).toBe(0);
-    expect(help.stdout).toMatch(/--sterilization-temp <°C> --holding-time <s>/);
-  }, SPAWN_TIMEOUT_MS);
+  it.concurrent(
+    "exits 2 for a usage error and 0 for --help",
+    async () => {
+      const [usage, help] = await Promise.all([spawnAnalyze(["--holding-time", "180", fixture("cp1252-semicolon-dmy-pass.csv")]), spawnAnalyze(["--help"])]);
+      expect(usage.code).toBe(2);
+      expectOneLineError(usage, "--sterilization-temp is required");
+      expect(help.code).toBe(0);
+      expect(help.stdout).toMatch(/--sterilization-temp <°C> --holding-time <s>/);
+    },
+    SPAWN_TIMEOUT_MS,
+  );
 });

@@ -7,10 +7,7 @@ const values = (a: Float64Array) => Array.from(a, (v) => Math.round(v * 1e6) / 1
 describe("delimiters, decimal marks and time formats", () => {
   it("comma-separated, ISO date-times with a space, °C and kPa abs", () => {
     const file = utf8(
-      "Time,Drain (°C),Pack 1 (°C),Chamber (kPa abs)\n" +
-        "2025-03-03 07:30:00,121.50,120.25,205.10\n" +
-        "2025-03-03 07:30:01,121.60,120.50,205.90\n" +
-        "2025-03-03 07:30:02,121.70,120.75,206.70\n",
+      "Time,Drain (°C),Pack 1 (°C),Chamber (kPa abs)\n" + "2025-03-03 07:30:00,121.50,120.25,205.10\n" + "2025-03-03 07:30:01,121.60,120.50,205.90\n" + "2025-03-03 07:30:02,121.70,120.75,206.70\n",
     );
     const { recording, dialect, columns } = readLoggerFile(file);
     expect(dialect).toMatchObject({ delimiter: ",", decimal: ".", timeFormat: "iso", encoding: "utf-8", lineEnding: "lf", preambleLines: 0, headerLine: 1 });
@@ -19,15 +16,17 @@ describe("delimiters, decimal marks and time formats", () => {
     expect(recording.temperatures.map((t) => t.header)).toEqual(["Drain (°C)", "Pack 1 (°C)"]);
     expect(values(recording.temperatures[1].values)).toEqual([120.25, 120.5, 120.75]);
     expect(values(recording.pressure.values)).toEqual([205.1, 205.9, 206.7]);
-    expect(columns.map((c) => [c.role, c.unit, c.gauge])).toEqual([["time", null, false], ["temperature", "C", false], ["temperature", "C", false], ["pressure", "kPa", false]]);
+    expect(columns.map((c) => [c.role, c.unit, c.gauge])).toEqual([
+      ["time", null, false],
+      ["temperature", "C", false],
+      ["temperature", "C", false],
+      ["pressure", "kPa", false],
+    ]);
   });
 
   it("semicolons with decimal commas, day.month.year times and bar gauge", () => {
     const file = utf8(
-      "Zeit;Drain (°C);Pack 1 (°C);Kammer (bar g)\n" +
-        "03.03.2025 23:59:58;134,10;133,95;2,028\n" +
-        "03.03.2025 23:59:59;134,20;134,05;2,030\n" +
-        "04.03.2025 00:00:00;134,30;134,15;2,032\n",
+      "Zeit;Drain (°C);Pack 1 (°C);Kammer (bar g)\n" + "03.03.2025 23:59:58;134,10;133,95;2,028\n" + "03.03.2025 23:59:59;134,20;134,05;2,030\n" + "04.03.2025 00:00:00;134,30;134,15;2,032\n",
     );
     const { recording, dialect } = readLoggerFile(file);
     expect(dialect).toMatchObject({ delimiter: ";", decimal: ",", timeFormat: "dmy" });
@@ -55,22 +54,14 @@ describe("delimiters, decimal marks and time formats", () => {
   });
 
   it("12 AM is midnight and 12 PM is noon", () => {
-    const file = utf8(
-      "Time,Drain (°C),Pack (°C),P (kPa)\n" +
-        "12/31/2024 11:59:59 PM,20,20,101\n" +
-        "01/01/2025 12:00:00 AM,20,20,101\n" +
-        "01/01/2025 12:00:01 AM,20,20,101\n",
-    );
+    const file = utf8("Time,Drain (°C),Pack (°C),P (kPa)\n" + "12/31/2024 11:59:59 PM,20,20,101\n" + "01/01/2025 12:00:00 AM,20,20,101\n" + "01/01/2025 12:00:01 AM,20,20,101\n");
     const { recording } = readLoggerFile(file);
     expect(values(recording.timesS)).toEqual([0, 1, 2]);
   });
 
   it("ISO date-times with a T, a fraction of a second and a UTC offset", () => {
     const file = utf8(
-      "timestamp,drain_degC,load_degC,p_kPa_abs\n" +
-        "2025-06-01T10:00:00.500+02:00,100,99,101.4\n" +
-        "2025-06-01T10:00:01.000+02:00,101,100,105.0\n" +
-        "2025-06-01T10:00:01.500+02:00,102,101,108.8\n",
+      "timestamp,drain_degC,load_degC,p_kPa_abs\n" + "2025-06-01T10:00:00.500+02:00,100,99,101.4\n" + "2025-06-01T10:00:01.000+02:00,101,100,105.0\n" + "2025-06-01T10:00:01.500+02:00,102,101,108.8\n",
     );
     const { recording, dialect, columns } = readLoggerFile(file);
     expect(dialect.timeFormat).toBe("iso");
@@ -107,8 +98,7 @@ describe("delimiters, decimal marks and time formats", () => {
 });
 
 describe("units and gauge markers in headers", () => {
-  const hot = (pressure: string[]) =>
-    pressure.map((p, i) => `${i},${(134 + i * 0.1).toFixed(1)},${(133.9 + i * 0.1).toFixed(1)},${p}`).join("\n") + "\n";
+  const hot = (pressure: string[]) => pressure.map((p, i) => `${i},${(134 + i * 0.1).toFixed(1)},${(133.9 + i * 0.1).toFixed(1)},${p}`).join("\n") + "\n";
 
   it.each([
     ["Chamber (kPa abs)", ["304.2", "305.1", "306.0"], "kPa", false, 304.2],
@@ -218,12 +208,7 @@ describe("encodings, line endings, preambles and quotes", () => {
 
 describe("inspecting and overriding the mapping", () => {
   const file = utf8(
-    "Run 17\n" +
-      "Index,Clock,TC1,TC2,Kammerdruck\n" +
-      "1,10:00:00,20.0,20.1,101.3\n" +
-      "2,10:00:10,60.0,55.0,150.0\n" +
-      "3,10:00:20,134.2,134.0,203.1\n" +
-      "4,10:00:30,134.3,134.1,203.3\n",
+    "Run 17\n" + "Index,Clock,TC1,TC2,Kammerdruck\n" + "1,10:00:00,20.0,20.1,101.3\n" + "2,10:00:10,60.0,55.0,150.0\n" + "3,10:00:20,134.2,134.0,203.1\n" + "4,10:00:30,134.3,134.1,203.3\n",
   );
 
   it("shows the guessed mapping, a preview and what it is unsure of", () => {

@@ -32,9 +32,7 @@ describe("unusable logger files are refused with a message that says what and wh
 
   it("a time column override whose cells are not times", () => {
     const file = utf8("Label,Time,Drain (°C),Pack 1 (°C),Chamber (kPa abs)\nA,2025-03-03 07:30:00,134.1,134,304\nB,2025-03-03 07:30:01,134.1,134,304\nC,2025-03-03 07:30:02,134.1,134,304\n");
-    expect(messageOf(file, { timeColumn: "Label" })).toMatch(
-      /^Column "Label" was given as the time column, but its cells \(e\.g\. "A"\) are neither/,
-    );
+    expect(messageOf(file, { timeColumn: "Label" })).toMatch(/^Column "Label" was given as the time column, but its cells \(e\.g\. "A"\) are neither/);
   });
 
   it("a reference that is not a temperature column", () => {
@@ -42,9 +40,7 @@ describe("unusable logger files are refused with a message that says what and wh
   });
 
   it("a temperature below absolute zero", () => {
-    expect(messageOf(utf8("Time (s),Drain (K),Pack (K),P (kPa abs)\n0,407,407,304\n1,-3,407,304\n2,407,407,304\n"))).toBe(
-      'Row 3, column "Drain (K)": "-3" is below absolute zero in K',
-    );
+    expect(messageOf(utf8("Time (s),Drain (K),Pack (K),P (kPa abs)\n0,407,407,304\n1,-3,407,304\n2,407,407,304\n"))).toBe('Row 3, column "Drain (K)": "-3" is below absolute zero in K');
   });
 
   it("every row at the same time", () => {

@@ -25,7 +25,7 @@ describe("every notification", () => {
 });
 
 describe("escaping", () => {
-  const hostile = '<script>alert("x")</script> & \'co\'';
+  const hostile = "<script>alert(\"x\")</script> & 'co'";
   const m = cycleRejectedMail({ cycleNumber: "7<b>", sterilizerName: hostile, url: 'https://p.example/cycles/a"onmouseover="x', reason: hostile, signerName: "<img src=x onerror=alert(1)>" });
 
   it("turns markup in names and reasons into text in the HTML body", () => {

@@ -157,7 +157,11 @@ describe("size class and equilibration limit from chamber volume (DOMAIN §2.3 a
 
 describe("schedule: next due date from the last pass (constructed definition tests)", () => {
   it("a daily test passed yesterday is due today; one passed three days ago is two days overdue", () => {
-    expect(scheduleStatus({ intervalDays: 1, lastPassAt: "2025-03-09T06:30:00Z", lastAttempt: { at: "2025-03-09T06:30:00Z", result: "pass" }, today: "2025-03-10" })).toMatchObject({ state: "due-today", dueOn: "2025-03-10", daysLeft: 0 });
+    expect(scheduleStatus({ intervalDays: 1, lastPassAt: "2025-03-09T06:30:00Z", lastAttempt: { at: "2025-03-09T06:30:00Z", result: "pass" }, today: "2025-03-10" })).toMatchObject({
+      state: "due-today",
+      dueOn: "2025-03-10",
+      daysLeft: 0,
+    });
     expect(scheduleStatus({ intervalDays: 1, lastPassAt: "2025-03-07T06:30:00Z", lastAttempt: null, today: "2025-03-10" })).toMatchObject({ state: "overdue", daysLeft: -2 });
   });
   it("a weekly test two days old is fine; a failure after the last pass needs a repeat at once", () => {
@@ -202,8 +206,26 @@ describe("trends from stored analyses", () => {
 
   it("orders cycles by start, carries the limit of each analysis and counts the pass rate", () => {
     const cycles: AnalysedCycle[] = [
-      { cycleId: "b", cycleNumber: "B", startedAt: "2025-03-02T06:00:00Z", createdAt: "", result: result({}, [["equilibration-time", false, 21, 15], ["spread", true, 1.1, 2]]) },
-      { cycleId: "a", cycleNumber: "A", startedAt: "2025-03-01T06:00:00Z", createdAt: "", result: result({}, [["equilibration-time", true, 9, 15], ["spread", true, 0.8, 2]]) },
+      {
+        cycleId: "b",
+        cycleNumber: "B",
+        startedAt: "2025-03-02T06:00:00Z",
+        createdAt: "",
+        result: result({}, [
+          ["equilibration-time", false, 21, 15],
+          ["spread", true, 1.1, 2],
+        ]),
+      },
+      {
+        cycleId: "a",
+        cycleNumber: "A",
+        startedAt: "2025-03-01T06:00:00Z",
+        createdAt: "",
+        result: result({}, [
+          ["equilibration-time", true, 9, 15],
+          ["spread", true, 0.8, 2],
+        ]),
+      },
       { cycleId: "c", cycleNumber: "C", startedAt: "2025-03-03T06:00:00Z", createdAt: "", result: result({ equilibrationTime: null }, [["plateau-reached", false, null, 0]]) },
     ];
     const t = trendsFromAnalyses(cycles);
@@ -211,7 +233,11 @@ describe("trends from stored analyses", () => {
     expect(t.passed).toBe(1);
     expect(t.passRate).toBeCloseTo(1 / 3, 12);
     const eq = t.figures.find((f) => f.id === "equilibration")!;
-    expect(eq.points.map((p) => [p.cycleNumber, p.value, p.limit, p.passed])).toEqual([["A", 9, 15, true], ["B", 21, 15, false], ["C", null, 15, null]]);
+    expect(eq.points.map((p) => [p.cycleNumber, p.value, p.limit, p.passed])).toEqual([
+      ["A", 9, 15, true],
+      ["B", 21, 15, false],
+      ["C", null, 15, null],
+    ]);
     expect(t.failuresByCheck).toEqual({ "equilibration-time": 1, "plateau-reached": 1 });
   });
 });

@@ -185,10 +185,14 @@ describe("the phase-diagram view", () => {
   });
 
   it("pairs a downsampled series by interval, since its extremes need not share an instant", () => {
-    const s = series({ fullResolution: false, timesS: [0, 9, 10, 19], channels: [
-      { header: "Drain (°C)", kind: "temperature", unit: "°C", role: "reference", values: [100, 110, 120, 130] },
-      { header: "Chamber (kPa abs)", kind: "pressure", unit: "kPa abs", role: "pressure", values: [100, 400, 200, 200] },
-    ] });
+    const s = series({
+      fullResolution: false,
+      timesS: [0, 9, 10, 19],
+      channels: [
+        { header: "Drain (°C)", kind: "temperature", unit: "°C", role: "reference", values: [100, 110, 120, 130] },
+        { header: "Chamber (kPa abs)", kind: "pressure", unit: "kPa abs", role: "pressure", values: [100, 400, 200, 200] },
+      ],
+    });
     const samples = phaseSamples(s);
     expect(samples).toHaveLength(2);
     expect(samples[0].timeS).toBeCloseTo(4.5, 9);
@@ -308,7 +312,19 @@ describe("the phase-diagram view", () => {
     expect(y(1000)).toBeCloseTo(0, 9);
     expect(y(100)).toBeCloseTo(50, 9);
     expect(y(10)).toBeCloseTo(100, 9);
-    expect(pointsPath([[0, 10], [50, 100], [Number.NaN, 1], [100, 1000], [100, 0]], x, y)).toBe("M0 100L100 50M200 0");
+    expect(
+      pointsPath(
+        [
+          [0, 10],
+          [50, 100],
+          [Number.NaN, 1],
+          [100, 1000],
+          [100, 0],
+        ],
+        x,
+        y,
+      ),
+    ).toBe("M0 100L100 50M200 0");
   });
 
   it("thins long lists evenly, keeping both ends", () => {

@@ -103,7 +103,18 @@ describe("the cycle report of a passing, approved cycle", () => {
   });
 
   it("carries the chart legend and the phase diagram with its liquid and vapour sides named", () => {
-    for (const text of ["The cycle against time", "Temperature (°C)", "Chamber pressure (kPa abs)", "Saturation temperature from chamber pressure (IAPWS-IF97)", "Sterilization band 134.0 to 137.0 °C", "plateau start", "plateau end", "Phase diagram of water", "LIQUID", "VAPOUR"]) {
+    for (const text of [
+      "The cycle against time",
+      "Temperature (°C)",
+      "Chamber pressure (kPa abs)",
+      "Saturation temperature from chamber pressure (IAPWS-IF97)",
+      "Sterilization band 134.0 to 137.0 °C",
+      "plateau start",
+      "plateau end",
+      "Phase diagram of water",
+      "LIQUID",
+      "VAPOUR",
+    ]) {
       expect(pass.text).toContain(text);
     }
   });
@@ -138,7 +149,14 @@ describe("the cycle report of a passing, approved cycle", () => {
   });
 
   it("prints the general safety cautions and defers to local codes and licensed practice", () => {
-    for (const text of ["competent person", "written scheme of examination", "Door interlocks", "Hot liquids on exhaust", "does not replace the sterilizer's own controls", "licensed engineering practice"]) {
+    for (const text of [
+      "competent person",
+      "written scheme of examination",
+      "Door interlocks",
+      "Hot liquids on exhaust",
+      "does not replace the sterilizer's own controls",
+      "licensed engineering practice",
+    ]) {
       expect(pass.text).toContain(text);
     }
   });

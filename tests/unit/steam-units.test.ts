@@ -30,8 +30,18 @@ describe("temperature units", () => {
   });
 
   it.each([
-    ["°C", "C"], ["degC", "C"], ["deg C", "C"], ["C", "C"], ["celsius", "C"], ["℃", "C"], ["ºC", "C"],
-    ["°F", "F"], ["degF", "F"], ["Fahrenheit", "F"], ["K", "K"], ["kelvin", "K"],
+    ["°C", "C"],
+    ["degC", "C"],
+    ["deg C", "C"],
+    ["C", "C"],
+    ["celsius", "C"],
+    ["℃", "C"],
+    ["ºC", "C"],
+    ["°F", "F"],
+    ["degF", "F"],
+    ["Fahrenheit", "F"],
+    ["K", "K"],
+    ["kelvin", "K"],
   ])("reads %s as %s", (spelling, unit) => {
     expect(parseTemperatureUnit(spelling)).toBe(unit);
   });
@@ -73,12 +83,29 @@ describe("pressure units", () => {
   });
 
   it.each([
-    ["kPa", "kPa", null], ["kPa abs", "kPa", false], ["kPa(a)", "kPa", false], ["kPa g", "kPa", true], ["kPa gauge", "kPa", true],
-    ["bar", "bar", null], ["bara", "bar", false], ["bar(a)", "bar", false], ["barg", "bar", true], ["bar g", "bar", true],
-    ["mbar", "mbar", null], ["mbar abs", "mbar", false], ["mbar(g)", "mbar", true], ["hPa", "mbar", null],
-    ["MPa", "MPa", null], ["MPa a", "MPa", false], ["Pa", "Pa", null],
-    ["psi", "psi", null], ["psia", "psi", false], ["psig", "psi", true],
-    ["mmHg", "mmHg", null], ["Torr", "mmHg", null], ["inHg", "inHg", null],
+    ["kPa", "kPa", null],
+    ["kPa abs", "kPa", false],
+    ["kPa(a)", "kPa", false],
+    ["kPa g", "kPa", true],
+    ["kPa gauge", "kPa", true],
+    ["bar", "bar", null],
+    ["bara", "bar", false],
+    ["bar(a)", "bar", false],
+    ["barg", "bar", true],
+    ["bar g", "bar", true],
+    ["mbar", "mbar", null],
+    ["mbar abs", "mbar", false],
+    ["mbar(g)", "mbar", true],
+    ["hPa", "mbar", null],
+    ["MPa", "MPa", null],
+    ["MPa a", "MPa", false],
+    ["Pa", "Pa", null],
+    ["psi", "psi", null],
+    ["psia", "psi", false],
+    ["psig", "psi", true],
+    ["mmHg", "mmHg", null],
+    ["Torr", "mmHg", null],
+    ["inHg", "inHg", null],
   ])("reads %s as %s (gauge %s)", (spelling, unit, gauge) => {
     expect(parsePressureLabel(spelling)).toEqual({ unit, gauge });
     expect(parsePressureUnit(spelling)).toBe(unit);
@@ -93,7 +120,12 @@ describe("pressure units", () => {
 describe("atmosphere at altitude", () => {
   // ASHRAE Handbook—Fundamentals 2021 ch. 1 Table 1 [found, DOMAIN.md §4]
   it.each([
-    [0, 101.325], [500, 95.461], [1000, 89.875], [1500, 84.556], [2000, 79.495], [3000, 70.108],
+    [0, 101.325],
+    [500, 95.461],
+    [1000, 89.875],
+    [1500, 84.556],
+    [2000, 79.495],
+    [3000, 70.108],
   ])("%d m: %f kPa", (altitudeM, kpa) => {
     expect(atmosphereAtAltitudeKpa(altitudeM)).toBeCloseTo(kpa, 2);
   });

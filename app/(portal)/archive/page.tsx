@@ -20,15 +20,21 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
           <Panel title={`${rows.length} archived report${rows.length === 1 ? "" : "s"}`}>
             <form className="mb-4 flex flex-wrap items-end gap-2" role="search">
               <div>
-                <label htmlFor="q" className="field-label">Search</label>
+                <label htmlFor="q" className="field-label">
+                  Search
+                </label>
                 <input id="q" name="q" defaultValue={q} placeholder="Report, cycle, sterilizer, signer" className="field-input" />
               </div>
               <div>
-                <label htmlFor="from" className="field-label">Archived from</label>
+                <label htmlFor="from" className="field-label">
+                  Archived from
+                </label>
                 <input id="from" name="from" type="date" defaultValue={from} className="field-input" />
               </div>
               <div>
-                <label htmlFor="to" className="field-label">to</label>
+                <label htmlFor="to" className="field-label">
+                  to
+                </label>
                 <input id="to" name="to" type="date" defaultValue={to} className="field-input" />
               </div>
               <button className="btn-secondary">Filter</button>
@@ -39,20 +45,41 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
               <div className="overflow-x-auto">
                 <table className="data-table" data-testid="archive-table">
                   <thead>
-                    <tr><th>Report</th><th>Cycle</th><th>Sterilizer</th><th>Verdict</th><th>Approved by</th><th>Archived</th><th>File</th></tr>
+                    <tr>
+                      <th>Report</th>
+                      <th>Cycle</th>
+                      <th>Sterilizer</th>
+                      <th>Verdict</th>
+                      <th>Approved by</th>
+                      <th>Archived</th>
+                      <th>File</th>
+                    </tr>
                   </thead>
                   <tbody>
                     {rows.map((r) => (
                       <tr key={r.id}>
                         <td className="mono">{r.reportNumber}</td>
-                        <td><Link className="mono text-steam-700 underline" href={`/cycles/${r.cycleId}`}>{r.cycleNumber}</Link></td>
+                        <td>
+                          <Link className="mono text-steam-700 underline" href={`/cycles/${r.cycleId}`}>
+                            {r.cycleNumber}
+                          </Link>
+                        </td>
                         <td>{r.sterilizerName}</td>
-                        <td><VerdictBadge verdict={r.verdict} /></td>
+                        <td>
+                          <VerdictBadge verdict={r.verdict} />
+                        </td>
                         <td>{r.signerName ?? "—"}</td>
                         <td className="text-xs">{formatDateTime(r.createdAt, tz)}</td>
                         <td>
-                          <a className="text-steam-700 underline" href={`/api/reports/${r.id}`}>Download</a>
-                          <span className="block text-2xs text-ink-muted">{formatBytes(r.sizeBytes)} · <span className="mono" title={r.sha256}>{r.sha256.slice(0, 12)}…</span></span>
+                          <a className="text-steam-700 underline" href={`/api/reports/${r.id}`}>
+                            Download
+                          </a>
+                          <span className="block text-2xs text-ink-muted">
+                            {formatBytes(r.sizeBytes)} ·{" "}
+                            <span className="mono" title={r.sha256}>
+                              {r.sha256.slice(0, 12)}…
+                            </span>
+                          </span>
                         </td>
                       </tr>
                     ))}

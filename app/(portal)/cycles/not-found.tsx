@@ -7,7 +7,10 @@ export default function CycleNotFound() {
       <h1 className="mb-4">Cycle not found</h1>
       <EmptyState title="There is no cycle at this address on your site.">
         The link may be mistyped, or the record belongs to another site.{" "}
-        <Link href="/cycles" className="text-steam-700 underline">Go to the cycles list</Link>.
+        <Link href="/cycles" className="text-steam-700 underline">
+          Go to the cycles list
+        </Link>
+        .
       </EmptyState>
     </div>
   );

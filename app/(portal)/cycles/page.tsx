@@ -16,7 +16,13 @@ export default async function CyclesPage() {
       <PageHeader
         title="Cycles"
         subtitle="Every test cycle registered on your site, newest first. Filter, sort and open a record."
-        actions={mayCreate ? <Link href="/cycles/new" className="btn-primary">Upload a test cycle</Link> : undefined}
+        actions={
+          mayCreate ? (
+            <Link href="/cycles/new" className="btn-primary">
+              Upload a test cycle
+            </Link>
+          ) : undefined
+        }
       />
       <Suspense fallback={<CycleListSkeleton />}>
         <CyclesTable
@@ -25,7 +31,15 @@ export default async function CyclesPage() {
           timeZone={timeZone}
           defaultSort="startedAt:desc"
           emptyTitle="No cycle has been registered yet."
-          emptyHint={mayCreate ? <Link className="text-steam-700 underline" href="/cycles/new">Upload a logger file to register the first one.</Link> : "Technicians and engineers register cycles."}
+          emptyHint={
+            mayCreate ? (
+              <Link className="text-steam-700 underline" href="/cycles/new">
+                Upload a logger file to register the first one.
+              </Link>
+            ) : (
+              "Technicians and engineers register cycles."
+            )
+          }
         />
       </Suspense>
     </>

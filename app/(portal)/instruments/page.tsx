@@ -27,16 +27,28 @@ export default async function InstrumentsPage() {
             <div className="overflow-x-auto">
               <table className="data-table" data-testid="instruments-table">
                 <thead>
-                  <tr><th>Instrument</th><th>Kind</th><th>Certificate in force</th><th>Due</th><th>Calibration</th><th>Saved mapping</th></tr>
+                  <tr>
+                    <th>Instrument</th>
+                    <th>Kind</th>
+                    <th>Certificate in force</th>
+                    <th>Due</th>
+                    <th>Calibration</th>
+                    <th>Saved mapping</th>
+                  </tr>
                 </thead>
                 <tbody>
                   {rows.map((i) => (
                     <tr key={i.id} className={i.active ? "" : "opacity-60"}>
                       <td>
-                        <Link href={`/instruments/${i.id}`} className="font-medium text-steam-700 hover:underline">{i.name}</Link>
+                        <Link href={`/instruments/${i.id}`} className="font-medium text-steam-700 hover:underline">
+                          {i.name}
+                        </Link>
                         <p className="mono text-ink-muted">{i.serialNumber}</p>
                       </td>
-                      <td className="text-sm">{KIND_LABELS[i.kind]}{i.channelCount ? ` · ${i.channelCount} ch` : ""}</td>
+                      <td className="text-sm">
+                        {KIND_LABELS[i.kind]}
+                        {i.channelCount ? ` · ${i.channelCount} ch` : ""}
+                      </td>
                       <td className="text-sm">
                         {i.latestCertificate ? (
                           <>
@@ -48,7 +60,9 @@ export default async function InstrumentsPage() {
                         )}
                       </td>
                       <td className="whitespace-nowrap text-sm">{formatDate(i.latestCertificate?.dueOn)}</td>
-                      <td><CalibrationBadge state={i.calibration.state} daysLeft={i.calibration.daysLeft} dueOn={i.latestCertificate?.dueOn} /></td>
+                      <td>
+                        <CalibrationBadge state={i.calibration.state} daysLeft={i.calibration.daysLeft} dueOn={i.latestCertificate?.dueOn} />
+                      </td>
                       <td>{i.hasSavedMapping ? <Badge tone="steam">Saved</Badge> : <span className="text-sm text-ink-muted">None</span>}</td>
                     </tr>
                   ))}
@@ -56,7 +70,9 @@ export default async function InstrumentsPage() {
               </table>
             </div>
           )}
-          <p className="mt-3 text-xs text-ink-muted">✓ valid · ▲ due within 30 days · ✕ overdue or no certificate. Test instruments are checked at least yearly against traceable references (SHTM 2010 Part 3, common practice).</p>
+          <p className="mt-3 text-xs text-ink-muted">
+            ✓ valid · ▲ due within 30 days · ✕ overdue or no certificate. Test instruments are checked at least yearly against traceable references (SHTM 2010 Part 3, common practice).
+          </p>
         </Panel>
         {manage && (
           <Panel title="Add an instrument">

@@ -13,22 +13,14 @@ function saved(kind: RecordableKind, sterilizerId: string, { sterilizerName, pas
   return `${testKindLabel(kind)} for ${sterilizerName} recorded: ${passed ? "PASS" : "FAIL"}.${passed ? "" : " Take the sterilizer out of use until the cause is found and a repeat test passes."}`;
 }
 
-export const recordAirLeakageAction = formAction("periodic-test:record", airLeakageSchema, async (input, actor) =>
-  saved("air-leakage", input.sterilizerId, await recordAirLeakage({ actor, input })),
-);
+export const recordAirLeakageAction = formAction("periodic-test:record", airLeakageSchema, async (input, actor) => saved("air-leakage", input.sterilizerId, await recordAirLeakage({ actor, input })));
 
-export const recordBowieDickAction = formAction("periodic-test:record", bowieDickSchema, async (input, actor) =>
-  saved("bowie-dick", input.sterilizerId, await recordBowieDick({ actor, input })),
-);
+export const recordBowieDickAction = formAction("periodic-test:record", bowieDickSchema, async (input, actor) => saved("bowie-dick", input.sterilizerId, await recordBowieDick({ actor, input })));
 
 export const recordNonCondensableGasAction = formAction("periodic-test:record", nonCondensableGasSchema, async (input, actor) =>
   saved("steam-non-condensable-gas", input.sterilizerId, await recordNonCondensableGas({ actor, input })),
 );
 
-export const recordSuperheatAction = formAction("periodic-test:record", superheatSchema, async (input, actor) =>
-  saved("steam-superheat", input.sterilizerId, await recordSuperheat({ actor, input })),
-);
+export const recordSuperheatAction = formAction("periodic-test:record", superheatSchema, async (input, actor) => saved("steam-superheat", input.sterilizerId, await recordSuperheat({ actor, input })));
 
-export const recordDrynessAction = formAction("periodic-test:record", drynessSchema, async (input, actor) =>
-  saved("steam-dryness", input.sterilizerId, await recordDryness({ actor, input })),
-);
+export const recordDrynessAction = formAction("periodic-test:record", drynessSchema, async (input, actor) => saved("steam-dryness", input.sterilizerId, await recordDryness({ actor, input })));

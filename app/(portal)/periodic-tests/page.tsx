@@ -37,7 +37,13 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
       <PageHeader
         title="Periodic tests"
         subtitle="What each sterilizer's written scheme asks for, when it was last passed, and every recorded result."
-        actions={mayRecord ? <Link href="/periodic-tests/new" className="btn-primary">Record a test</Link> : undefined}
+        actions={
+          mayRecord ? (
+            <Link href="/periodic-tests/new" className="btn-primary">
+              Record a test
+            </Link>
+          ) : undefined
+        }
       />
       <div className="space-y-gutter">
         <Panel title={`Schedule${actionNeeded ? ` · ${actionNeeded} need${actionNeeded === 1 ? "s" : ""} action` : ""}`}>
@@ -47,26 +53,50 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
             <div className="overflow-x-auto">
               <table className="data-table" data-testid="schedule-table">
                 <thead>
-                  <tr><th>Sterilizer</th><th>Test</th><th>Interval</th><th>Last pass</th><th>Next due</th><th>State</th><th><span className="sr-only">Record</span></th></tr>
+                  <tr>
+                    <th>Sterilizer</th>
+                    <th>Test</th>
+                    <th>Interval</th>
+                    <th>Last pass</th>
+                    <th>Next due</th>
+                    <th>State</th>
+                    <th>
+                      <span className="sr-only">Record</span>
+                    </th>
+                  </tr>
                 </thead>
                 <tbody>
                   {[...bySterilizer.values()].flatMap((group) =>
                     group.map((r, i) => (
                       <tr key={`${r.sterilizerId}:${r.kind}`} className={r.sterilizerActive ? "" : "opacity-60"}>
-                        <td className="font-medium">{i === 0 && <Link href={`/sterilizers/${r.sterilizerId}`} className="text-steam-700 hover:underline">{r.sterilizerName}</Link>}</td>
+                        <td className="font-medium">
+                          {i === 0 && (
+                            <Link href={`/sterilizers/${r.sterilizerId}`} className="text-steam-700 hover:underline">
+                              {r.sterilizerName}
+                            </Link>
+                          )}
+                        </td>
                         <td>{testKindLabel(r.kind)}</td>
                         <td className="text-sm">{intervalWords(r.intervalDays)}</td>
                         <td className="whitespace-nowrap text-sm">{r.status.lastPassOn ? formatDate(r.status.lastPassOn) : "—"}</td>
                         <td className="whitespace-nowrap text-sm">{r.status.dueOn ? formatDate(r.status.dueOn) : "Now"}</td>
                         <td>
                           <ScheduleBadge status={r.status} />
-                          {r.awaitingSignOff > 0 && <p className="mt-1 text-xs text-ink-muted">{r.awaitingSignOff} passing cycle{r.awaitingSignOff === 1 ? "" : "s"} awaiting sign-off</p>}
+                          {r.awaitingSignOff > 0 && (
+                            <p className="mt-1 text-xs text-ink-muted">
+                              {r.awaitingSignOff} passing cycle{r.awaitingSignOff === 1 ? "" : "s"} awaiting sign-off
+                            </p>
+                          )}
                         </td>
                         <td>
                           {mayRecord && r.sterilizerActive && isRecordable(r.kind) ? (
-                            <Link href={`/periodic-tests/new?kind=${r.kind}&sterilizer=${r.sterilizerId}`} className="text-sm text-steam-700 underline">Record</Link>
+                            <Link href={`/periodic-tests/new?kind=${r.kind}&sterilizer=${r.sterilizerId}`} className="text-sm text-steam-700 underline">
+                              Record
+                            </Link>
                           ) : mayRecord && r.kind.startsWith("thermometric") ? (
-                            <Link href="/cycles/new" className="text-sm text-steam-700 underline">Upload cycle</Link>
+                            <Link href="/cycles/new" className="text-sm text-steam-700 underline">
+                              Upload cycle
+                            </Link>
                           ) : null}
                         </td>
                       </tr>
@@ -76,27 +106,44 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
               </table>
             </div>
           )}
-          <p className="mt-2 text-xs text-ink-muted">Dates in {timeZone}. The next test is due one interval after the last pass; a failure after it needs a repeat before the sterilizer is used. Thermometric tests are logged cycles and count once approved.</p>
+          <p className="mt-2 text-xs text-ink-muted">
+            Dates in {timeZone}. The next test is due one interval after the last pass; a failure after it needs a repeat before the sterilizer is used. Thermometric tests are logged cycles and count
+            once approved.
+          </p>
         </Panel>
 
         <Panel title={`History · ${history.total} record${history.total === 1 ? "" : "s"}`}>
           <form method="get" action="/periodic-tests#history" className="mb-4 grid gap-3 sm:grid-cols-3 lg:grid-cols-6 lg:items-end" id="history" aria-label="Filter the history">
             <div>
-              <label className="field-label" htmlFor="f-sterilizer">Sterilizer</label>
+              <label className="field-label" htmlFor="f-sterilizer">
+                Sterilizer
+              </label>
               <select id="f-sterilizer" name="sterilizer" defaultValue={filter.sterilizer ?? ""} className="field-input">
                 <option value="">All</option>
-                {choices.sterilizers.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
+                {choices.sterilizers.map((s) => (
+                  <option key={s.id} value={s.id}>
+                    {s.name}
+                  </option>
+                ))}
               </select>
             </div>
             <div>
-              <label className="field-label" htmlFor="f-kind">Test</label>
+              <label className="field-label" htmlFor="f-kind">
+                Test
+              </label>
               <select id="f-kind" name="kind" defaultValue={filter.kind ?? ""} className="field-input">
                 <option value="">All</option>
-                {PERIODIC_TEST_KINDS.map((k) => <option key={k} value={k}>{testKindLabel(k)}</option>)}
+                {PERIODIC_TEST_KINDS.map((k) => (
+                  <option key={k} value={k}>
+                    {testKindLabel(k)}
+                  </option>
+                ))}
               </select>
             </div>
             <div>
-              <label className="field-label" htmlFor="f-result">Result</label>
+              <label className="field-label" htmlFor="f-result">
+                Result
+              </label>
               <select id="f-result" name="result" defaultValue={filter.result ?? ""} className="field-input">
                 <option value="">Any</option>
                 <option value="pass">Pass</option>
@@ -104,16 +151,22 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
               </select>
             </div>
             <div>
-              <label className="field-label" htmlFor="f-from">From</label>
+              <label className="field-label" htmlFor="f-from">
+                From
+              </label>
               <input id="f-from" name="from" type="date" defaultValue={filter.from ?? ""} className="field-input" />
             </div>
             <div>
-              <label className="field-label" htmlFor="f-to">To</label>
+              <label className="field-label" htmlFor="f-to">
+                To
+              </label>
               <input id="f-to" name="to" type="date" defaultValue={filter.to ?? ""} className="field-input" />
             </div>
             <div className="flex gap-2">
               <button className="btn-secondary">Filter</button>
-              <Link href="/periodic-tests#history" className="btn-secondary">Clear</Link>
+              <Link href="/periodic-tests#history" className="btn-secondary">
+                Clear
+              </Link>
             </div>
           </form>
           {history.items.length === 0 ? (
@@ -121,23 +174,42 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
           ) : (
             <div className="overflow-x-auto">
               <table className="data-table" data-testid="history-table">
-                <thead><tr><th>Done at</th><th>Sterilizer</th><th>Test</th><th>Result</th><th>Measured</th><th>By</th></tr></thead>
+                <thead>
+                  <tr>
+                    <th>Done at</th>
+                    <th>Sterilizer</th>
+                    <th>Test</th>
+                    <th>Result</th>
+                    <th>Measured</th>
+                    <th>By</th>
+                  </tr>
+                </thead>
                 <tbody>
                   {history.items.map((t) => (
                     <tr key={t.id}>
                       <td className="whitespace-nowrap text-sm">{formatDateTime(t.performedAt, timeZone)}</td>
                       <td className="text-sm">{t.sterilizerName}</td>
                       <td className="text-sm">{testKindLabel(t.kind)}</td>
-                      <td><ResultBadge result={t.result} /></td>
+                      <td>
+                        <ResultBadge result={t.result} />
+                      </td>
                       <td className="text-sm">
                         {keyFigure(t.kind, t.measurements)}
                         <details className="mt-1">
                           <summary className="cursor-pointer text-xs text-steam-700">Readings and notes</summary>
                           <dl className="mt-1 grid grid-cols-[12rem_1fr] gap-x-2 text-xs">
                             {measurementRows(t.measurements).map(([k, v], i) => (
-                              <div key={`${k}-${i}`} className="contents"><dt className="text-ink-muted">{k}</dt><dd>{v}</dd></div>
+                              <div key={`${k}-${i}`} className="contents">
+                                <dt className="text-ink-muted">{k}</dt>
+                                <dd>{v}</dd>
+                              </div>
                             ))}
-                            {t.notes && <div className="contents"><dt className="text-ink-muted">Notes</dt><dd>{t.notes}</dd></div>}
+                            {t.notes && (
+                              <div className="contents">
+                                <dt className="text-ink-muted">Notes</dt>
+                                <dd>{t.notes}</dd>
+                              </div>
+                            )}
                           </dl>
                         </details>
                       </td>
@@ -150,9 +222,19 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
           )}
           {pages > 1 && (
             <nav className="mt-3 flex items-center gap-3 text-sm" aria-label="Pages">
-              {history.page > 1 && <Link href={pageHref(history.page - 1)} className="btn-secondary px-2 py-1">← Newer</Link>}
-              <span className="text-ink-muted">Page {history.page} of {pages}</span>
-              {history.page < pages && <Link href={pageHref(history.page + 1)} className="btn-secondary px-2 py-1">Older →</Link>}
+              {history.page > 1 && (
+                <Link href={pageHref(history.page - 1)} className="btn-secondary px-2 py-1">
+                  ← Newer
+                </Link>
+              )}
+              <span className="text-ink-muted">
+                Page {history.page} of {pages}
+              </span>
+              {history.page < pages && (
+                <Link href={pageHref(history.page + 1)} className="btn-secondary px-2 py-1">
+                  Older →
+                </Link>
+              )}
             </nav>
           )}
         </Panel>

@@ -17,7 +17,11 @@ export default async function ProfilesPage() {
       <PageHeader
         title="Acceptance profiles"
         subtitle="The limits each cycle is judged against. A profile that cycles were analysed with is never changed in place: an edit creates a new version and retires the old one."
-        actions={<Link href="/sterilizers" className="btn-secondary">Sterilizers</Link>}
+        actions={
+          <Link href="/sterilizers" className="btn-secondary">
+            Sterilizers
+          </Link>
+        }
       />
       <div className={`grid gap-gutter ${manage ? "2xl:grid-cols-[1fr_26rem]" : ""}`}>
         <div className="space-y-gutter">
@@ -46,23 +50,43 @@ function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof getProfilesPag
     <div className="overflow-x-auto">
       <table className="data-table" data-testid="profiles-table">
         <thead>
-          <tr><th>Profile</th><th>Band</th><th>Hold ≥</th><th>Equil. ≤</th><th>Spread ≤</th><th>Saturation ±</th><th>F0</th><th>Used by</th></tr>
+          <tr>
+            <th>Profile</th>
+            <th>Band</th>
+            <th>Hold ≥</th>
+            <th>Equil. ≤</th>
+            <th>Spread ≤</th>
+            <th>Saturation ±</th>
+            <th>F0</th>
+            <th>Used by</th>
+          </tr>
         </thead>
         <tbody>
           {rows.map((p) => (
             <tr key={p.id}>
               <td className="min-w-[15rem]">
-                <Link href={`/profiles/${p.id}`} className="font-medium text-steam-700 hover:underline">{p.name}</Link>
-                {!p.active && <> <Badge>Retired</Badge></>}
+                <Link href={`/profiles/${p.id}`} className="font-medium text-steam-700 hover:underline">
+                  {p.name}
+                </Link>
+                {!p.active && (
+                  <>
+                    {" "}
+                    <Badge>Retired</Badge>
+                  </>
+                )}
                 <p className="max-w-xs text-xs text-ink-muted">{p.basis}</p>
                 <p className="text-2xs text-ink-faint">Created {formatDate(p.createdAt)}</p>
               </td>
-              <td className="whitespace-nowrap">{p.sterilizationTempC}–{+(p.sterilizationTempC + p.bandK).toFixed(2)} °C</td>
+              <td className="whitespace-nowrap">
+                {p.sterilizationTempC}–{+(p.sterilizationTempC + p.bandK).toFixed(2)} °C
+              </td>
               <td className="whitespace-nowrap">{formatDuration(p.holdingTimeS)}</td>
               <td>{p.maxEquilibrationS} s</td>
               <td>{p.maxSpreadK} K</td>
               <td>{p.saturationLimitK} K</td>
-              <td className="whitespace-nowrap text-xs">{p.f0ReferenceC} °C, z {p.f0ZK} K</td>
+              <td className="whitespace-nowrap text-xs">
+                {p.f0ReferenceC} °C, z {p.f0ZK} K
+              </td>
               <td className="min-w-[9rem] text-xs">
                 {p.cycleCount} cycle{p.cycleCount === 1 ? "" : "s"}
                 {p.defaultFor.length > 0 && <p className="text-ink-muted">Default for {p.defaultFor.join(", ")}</p>}

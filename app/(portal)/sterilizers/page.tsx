@@ -19,8 +19,12 @@ export default async function SterilizersPage() {
         subtitle="Each chamber with its size class, default acceptance profile, latest cycle and the periodic tests that need doing."
         actions={
           <>
-            <Link href="/profiles" className="btn-secondary">Acceptance profiles</Link>
-            <Link href="/periodic-tests" className="btn-secondary">Periodic tests</Link>
+            <Link href="/profiles" className="btn-secondary">
+              Acceptance profiles
+            </Link>
+            <Link href="/periodic-tests" className="btn-secondary">
+              Periodic tests
+            </Link>
           </>
         }
       />
@@ -44,17 +48,24 @@ export default async function SterilizersPage() {
                   {rows.map((s) => (
                     <tr key={s.id} className={s.active ? "" : "opacity-60"}>
                       <td>
-                        <Link href={`/sterilizers/${s.id}`} className="font-medium text-steam-700 hover:underline">{s.name}</Link>
+                        <Link href={`/sterilizers/${s.id}`} className="font-medium text-steam-700 hover:underline">
+                          {s.name}
+                        </Link>
                         <p className="mono text-ink-muted">{s.serialNumber}</p>
                         {!s.active && <Badge>Retired</Badge>}
                       </td>
                       <td>
                         <p className="tabular-nums">{s.chamberVolumeL} l</p>
-                        <p className="text-xs text-ink-muted">{s.sizeClass.standard}{s.sizeClass.maxEquilibrationS !== null && <> · equilibration ≤ {s.sizeClass.maxEquilibrationS} s</>}</p>
+                        <p className="text-xs text-ink-muted">
+                          {s.sizeClass.standard}
+                          {s.sizeClass.maxEquilibrationS !== null && <> · equilibration ≤ {s.sizeClass.maxEquilibrationS} s</>}
+                        </p>
                       </td>
                       <td className="text-sm">
                         {s.defaultProfile ? (
-                          <Link href={`/profiles/${s.defaultProfile.id}`} className="hover:underline">{s.defaultProfile.name}</Link>
+                          <Link href={`/profiles/${s.defaultProfile.id}`} className="hover:underline">
+                            {s.defaultProfile.name}
+                          </Link>
                         ) : (
                           <span className="text-ink-muted">None set</span>
                         )}
@@ -62,7 +73,9 @@ export default async function SterilizersPage() {
                       <td>
                         {s.lastCycle ? (
                           <div className="space-y-1">
-                            <Link href={`/cycles/${s.lastCycle.id}`} className="mono whitespace-nowrap font-medium text-steam-700 hover:underline">{s.lastCycle.cycleNumber}</Link>
+                            <Link href={`/cycles/${s.lastCycle.id}`} className="mono whitespace-nowrap font-medium text-steam-700 hover:underline">
+                              {s.lastCycle.cycleNumber}
+                            </Link>
                             <p className="text-xs text-ink-muted">{formatDateTime(s.lastCycle.startedAt ?? s.lastCycle.createdAt, timeZone)}</p>
                             <VerdictBadge verdict={s.lastCycle.verdict} />
                           </div>

@@ -26,8 +26,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
             </div>
             <p className="mt-4 text-lg text-ink-soft">Proof that your steam sterilizers work.</p>
             <p className="mt-2 text-sm text-ink-muted">
-              Upload the logger file of a test cycle; Papin checks every moment of the plateau against saturated steam, computes the
-              figures the standards define and prepares the record for signature.
+              Upload the logger file of a test cycle; Papin checks every moment of the plateau against saturated steam, computes the figures the standards define and prepares the record for signature.
             </p>
             {demo && (
               <div className="mt-6 rounded-md border border-brass-100 bg-brass-50 px-4 py-3 text-sm" data-testid="demo-accounts">

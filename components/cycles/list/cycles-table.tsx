@@ -105,8 +105,22 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
       column.accessor((row) => row.sterilizer.name, { id: "sterilizer", header: "Sterilizer" }),
       column.accessor("testKind", { header: "Test", enableSorting: false, cell: (info) => testKindLabel(info.getValue()) }),
       column.accessor((row) => row.profile.name, { id: "profile", header: "Profile", enableSorting: false, cell: (info) => <span className="text-ink-soft">{info.getValue()}</span> }),
-      column.accessor("verdict", { header: "Verdict", cell: (info) => <span className="whitespace-nowrap"><VerdictBadge verdict={info.getValue()} /></span> }),
-      column.accessor("status", { header: "Status", cell: (info) => <span className="whitespace-nowrap"><StatusBadge status={info.getValue()} /></span> }),
+      column.accessor("verdict", {
+        header: "Verdict",
+        cell: (info) => (
+          <span className="whitespace-nowrap">
+            <VerdictBadge verdict={info.getValue()} />
+          </span>
+        ),
+      }),
+      column.accessor("status", {
+        header: "Status",
+        cell: (info) => (
+          <span className="whitespace-nowrap">
+            <StatusBadge status={info.getValue()} />
+          </span>
+        ),
+      }),
       column.accessor("createdByName", { header: "Registered by", enableSorting: false, cell: (info) => <span className="text-ink-muted">{info.getValue()}</span> }),
     ],
     [timeZone],
@@ -151,7 +165,9 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
         }}
       >
         <div className="min-w-52 flex-1">
-          <label className="field-label" htmlFor={`${ids}-q`}>Search</label>
+          <label className="field-label" htmlFor={`${ids}-q`}>
+            Search
+          </label>
           <input
             id={`${ids}-q`}
             type="search"
@@ -164,17 +180,23 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
         </div>
         {!("status" in fixed) && (
           <div>
-            <label className="field-label" htmlFor={`${ids}-status`}>Status</label>
+            <label className="field-label" htmlFor={`${ids}-status`}>
+              Status
+            </label>
             <select id={`${ids}-status`} className="field-input" value={query.status} onChange={(e) => navigate({ status: e.target.value as CycleListQuery["status"] })}>
               <option value="">Any</option>
               {STATUS_OPTIONS.map((s) => (
-                <option key={s.value} value={s.value}>{s.label}</option>
+                <option key={s.value} value={s.value}>
+                  {s.label}
+                </option>
               ))}
             </select>
           </div>
         )}
         <div>
-          <label className="field-label" htmlFor={`${ids}-verdict`}>Verdict</label>
+          <label className="field-label" htmlFor={`${ids}-verdict`}>
+            Verdict
+          </label>
           <select id={`${ids}-verdict`} className="field-input" value={query.verdict} onChange={(e) => navigate({ verdict: e.target.value as CycleListQuery["verdict"] })}>
             <option value="">Any</option>
             <option value="pass">Pass</option>
@@ -182,20 +204,28 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
           </select>
         </div>
         <div>
-          <label className="field-label" htmlFor={`${ids}-sterilizer`}>Sterilizer</label>
+          <label className="field-label" htmlFor={`${ids}-sterilizer`}>
+            Sterilizer
+          </label>
           <select id={`${ids}-sterilizer`} className="field-input" value={query.sterilizer} onChange={(e) => navigate({ sterilizer: e.target.value })}>
             <option value="">All</option>
             {sterilizers.map((s) => (
-              <option key={s.id} value={s.id}>{s.name}</option>
+              <option key={s.id} value={s.id}>
+                {s.name}
+              </option>
             ))}
           </select>
         </div>
         <div>
-          <label className="field-label" htmlFor={`${ids}-from`}>Started from</label>
+          <label className="field-label" htmlFor={`${ids}-from`}>
+            Started from
+          </label>
           <input id={`${ids}-from`} type="date" className="field-input" value={query.from} max={query.to || undefined} onChange={(e) => navigate({ from: e.target.value })} />
         </div>
         <div>
-          <label className="field-label" htmlFor={`${ids}-to`}>to</label>
+          <label className="field-label" htmlFor={`${ids}-to`}>
+            to
+          </label>
           <input id={`${ids}-to`} type="date" className="field-input" value={query.to} min={query.from || undefined} onChange={(e) => navigate({ to: e.target.value })} />
         </div>
         {filtersOn && (
@@ -276,36 +306,46 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
         {error && (
           <div className="border-t border-ink-line px-panel py-4 text-sm text-fail-700" role="alert">
             {error.status === 401 ? "Your session has ended; sign in again to see the list." : error.message}{" "}
-            <button type="button" className="underline" onClick={() => void mutate()}>Try again</button>
+            <button type="button" className="underline" onClick={() => void mutate()}>
+              Try again
+            </button>
           </div>
         )}
         {data && data.total === 0 && !error && (
           <div className="px-panel py-6" data-testid="list-empty">
-            {filtersOn ? (
-              <EmptyState title="No cycles match these filters.">Widen the dates or clear the filters.</EmptyState>
-            ) : (
-              <EmptyState title={emptyTitle}>{emptyHint}</EmptyState>
-            )}
+            {filtersOn ? <EmptyState title="No cycles match these filters.">Widen the dates or clear the filters.</EmptyState> : <EmptyState title={emptyTitle}>{emptyHint}</EmptyState>}
           </div>
         )}
         {data && data.total > 0 && (
           <nav className="flex flex-wrap items-center justify-between gap-3 border-t border-ink-line px-panel py-3 text-sm" aria-label="Pages">
             <div className="flex items-center gap-2">
-              <label htmlFor={`${ids}-size`} className="text-ink-muted">Rows per page</label>
+              <label htmlFor={`${ids}-size`} className="text-ink-muted">
+                Rows per page
+              </label>
               <select id={`${ids}-size`} className="field-input w-20 py-1" value={query.pageSize} onChange={(e) => navigate({ pageSize: Number(e.target.value) })}>
                 {PAGE_SIZES.map((n) => (
-                  <option key={n} value={n}>{n}</option>
+                  <option key={n} value={n}>
+                    {n}
+                  </option>
                 ))}
               </select>
             </div>
             <div className="flex items-center gap-2">
-              <button type="button" className="btn-secondary px-2.5 py-1" disabled={query.page <= 1} onClick={() => navigate({ page: 1 }, false)} aria-label="First page">«</button>
-              <button type="button" className="btn-secondary px-2.5 py-1" disabled={query.page <= 1} onClick={() => navigate({ page: query.page - 1 }, false)}>Previous</button>
+              <button type="button" className="btn-secondary px-2.5 py-1" disabled={query.page <= 1} onClick={() => navigate({ page: 1 }, false)} aria-label="First page">
+                «
+              </button>
+              <button type="button" className="btn-secondary px-2.5 py-1" disabled={query.page <= 1} onClick={() => navigate({ page: query.page - 1 }, false)}>
+                Previous
+              </button>
               <span className="px-1 text-ink-soft" data-testid="page-indicator">
                 Page {Math.min(query.page, pageCount)} of {pageCount}
               </span>
-              <button type="button" className="btn-secondary px-2.5 py-1" disabled={query.page >= pageCount} onClick={() => navigate({ page: query.page + 1 }, false)}>Next</button>
-              <button type="button" className="btn-secondary px-2.5 py-1" disabled={query.page >= pageCount} onClick={() => navigate({ page: pageCount }, false)} aria-label="Last page">»</button>
+              <button type="button" className="btn-secondary px-2.5 py-1" disabled={query.page >= pageCount} onClick={() => navigate({ page: query.page + 1 }, false)}>
+                Next
+              </button>
+              <button type="button" className="btn-secondary px-2.5 py-1" disabled={query.page >= pageCount} onClick={() => navigate({ page: pageCount }, false)} aria-label="Last page">
+                »
+              </button>
             </div>
           </nav>
         )}

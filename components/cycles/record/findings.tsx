@@ -10,8 +10,7 @@ export function Findings({ detail }: { detail: CycleDetail }) {
   if (!a) {
     return (
       <EmptyState title="No analysis yet">
-        No logger file on this record has been analysed, so there is no verdict, chart, phase diagram or channel table yet. Add the
-        cycle&apos;s logger file to analyse it.
+        No logger file on this record has been analysed, so there is no verdict, chart, phase diagram or channel table yet. Add the cycle&apos;s logger file to analyse it.
       </EmptyState>
     );
   }
@@ -35,8 +34,8 @@ export function Findings({ detail }: { detail: CycleDetail }) {
         <div className="rounded-md border border-caution-500/30 bg-caution-50 px-4 py-3 text-sm text-caution-700" data-testid="no-plateau">
           <p className="font-semibold">No plateau found</p>
           <p className="mt-1">
-            The reference channel ({a.referenceChannel}) never reached the sterilization temperature of {ts} °C, so there was no plateau to time or to
-            compare with saturated steam. Equilibration, holding, band, spread and saturation could not be measured.
+            The reference channel ({a.referenceChannel}) never reached the sterilization temperature of {ts} °C, so there was no plateau to time or to compare with saturated steam. Equilibration,
+            holding, band, spread and saturation could not be measured.
           </p>
         </div>
       )}
@@ -46,8 +45,8 @@ export function Findings({ detail }: { detail: CycleDetail }) {
           <p className="font-semibold">{a.plateausFound} plateaus in this record</p>
           <p className="mt-1">
             The reference channel reached {ts} °C {a.plateausFound} separate times. The {a.plateauIndex === 0 ? "first" : ordinal(a.plateauIndex + 1)} plateau
-            {a.plateau ? ` (from ${at(a.plateau.start)} to ${at(a.plateau.end)})` : ""} was analysed; the others are shown on the chart
-            but not judged. If the record holds more than one cycle, split the file and register each cycle on its own.
+            {a.plateau ? ` (from ${at(a.plateau.start)} to ${at(a.plateau.end)})` : ""} was analysed; the others are shown on the chart but not judged. If the record holds more than one cycle, split
+            the file and register each cycle on its own.
           </p>
         </div>
       )}
@@ -58,7 +57,9 @@ export function Findings({ detail }: { detail: CycleDetail }) {
           <ul className="mt-1 space-y-1.5 text-sm">
             {a.diagnoses.map((d, i) => (
               <li key={`${d.checkId}-${i}`} className="flex gap-2">
-                <span aria-hidden="true" className="text-fail-700">✕</span>
+                <span aria-hidden="true" className="text-fail-700">
+                  ✕
+                </span>
                 <span>
                   <span className="font-medium">{a.checks.find((c) => c.id === d.checkId)?.label ?? d.checkId}:</span> {d.text}
                 </span>
@@ -77,7 +78,8 @@ export function Findings({ detail }: { detail: CycleDetail }) {
                 <p className="font-medium">
                   {f.kind === "below" ? "Colder than saturated steam: air or non-condensable gas" : "Hotter than saturated steam: superheat"}
                   <span className="font-normal text-ink-muted">
-                    {" "}· {at(f.start)}–{at(f.end)} ({formatDuration(f.durationS)}) · worst {f.worst > 0 ? "+" : "−"}
+                    {" "}
+                    · {at(f.start)}–{at(f.end)} ({formatDuration(f.durationS)}) · worst {f.worst > 0 ? "+" : "−"}
                     {formatNumber(Math.abs(f.worst), 2)} K
                   </span>
                 </p>

@@ -1,10 +1,7 @@
 "use client";
 
 import { useId, useMemo, useRef, useState } from "react";
-import {
-  CRITICAL_POINT,
-  TRIPLE_POINT,
-} from "@/lib/steam";
+import { CRITICAL_POINT, TRIPLE_POINT } from "@/lib/steam";
 import { formatPressure, formatTemperature } from "@/lib/domain";
 import {
   classifySample,
@@ -94,7 +91,9 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
     return (
       <div role="alert" className="rounded-md border border-fail-500/30 bg-fail-50 px-4 py-3 text-sm text-fail-700">
         <p>{overview.error.message}</p>
-        <button type="button" className="btn-secondary mt-2" onClick={() => overview.mutate()}>Try again</button>
+        <button type="button" className="btn-secondary mt-2" onClick={() => overview.mutate()}>
+          Try again
+        </button>
       </div>
     );
   }
@@ -131,13 +130,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
     <figure className="m-0" data-testid="phase-diagram">
       <div className="mb-2 flex flex-wrap items-center gap-2 text-sm" role="group" aria-label="Phase-diagram range">
         {VIEWS.filter((v) => v.id !== "plateau" || plateau).map((v) => (
-          <button
-            key={v.id}
-            type="button"
-            aria-pressed={view === v.id}
-            onClick={() => setView(v.id)}
-            className={view === v.id ? "btn-primary px-2.5 py-1" : "btn-secondary px-2.5 py-1"}
-          >
+          <button key={v.id} type="button" aria-pressed={view === v.id} onClick={() => setView(v.id)} className={view === v.id ? "btn-primary px-2.5 py-1" : "btn-secondary px-2.5 py-1"}>
             {v.label}
           </button>
         ))}
@@ -161,7 +154,9 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
           onPointerLeave={() => setHover(null)}
           fontFamily="system-ui, sans-serif"
         >
-          <title id={titleId}>{`Cycle ${cycleNumber} on the water phase diagram: ${referenceChannel} against ${pressureChannel}, pressure on a logarithmic axis, over the IF97 liquid–vapour line`}</title>
+          <title
+            id={titleId}
+          >{`Cycle ${cycleNumber} on the water phase diagram: ${referenceChannel} against ${pressureChannel}, pressure on a logarithmic axis, over the IF97 liquid–vapour line`}</title>
           <defs>
             <clipPath id={clipId}>
               <rect x={BOX.left} y={BOX.top} width={BOX.width} height={BOX.height} />
@@ -196,20 +191,48 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
             {/* ± limit around the line */}
             {tolerancePolygon.length > 2 && <polygon points={polygon(tolerancePolygon)} fill="rgba(29,122,77,0.12)" stroke="rgba(29,122,77,0.35)" strokeDasharray="3 3" strokeWidth={0.8} />}
             {/* the liquid–vapour line */}
-            <path d={pointsPath(curve.map((c) => [c.temperatureC, c.pressureKpa]), x, y)} fill="none" stroke={CHART.ink} strokeWidth={2.2} />
+            <path
+              d={pointsPath(
+                curve.map((c) => [c.temperatureC, c.pressureKpa]),
+                x,
+                y,
+              )}
+              fill="none"
+              stroke={CHART.ink}
+              strokeWidth={2.2}
+            />
             {regions?.solid && <line x1={x(TRIPLE_POINT.temperatureC)} x2={x(TRIPLE_POINT.temperatureC)} y1={y(TRIPLE_POINT.pressureKpa)} y2={BOX.top} stroke={CHART.inkMuted} strokeDasharray="4 3" />}
             {regions?.supercritical && (
               <>
                 <line x1={x(CRITICAL_POINT.temperatureC)} x2={x(CRITICAL_POINT.temperatureC)} y1={y(CRITICAL_POINT.pressureKpa)} y2={BOX.top} stroke={CHART.inkMuted} strokeDasharray="4 3" />
-                <line x1={x(CRITICAL_POINT.temperatureC)} x2={BOX.left + BOX.width} y1={y(CRITICAL_POINT.pressureKpa)} y2={y(CRITICAL_POINT.pressureKpa)} stroke={CHART.inkMuted} strokeDasharray="4 3" />
+                <line
+                  x1={x(CRITICAL_POINT.temperatureC)}
+                  x2={BOX.left + BOX.width}
+                  y1={y(CRITICAL_POINT.pressureKpa)}
+                  y2={y(CRITICAL_POINT.pressureKpa)}
+                  stroke={CHART.inkMuted}
+                  strokeDasharray="4 3"
+                />
               </>
             )}
             {/* the cycle's path */}
-            <path d={pointsPath(path.map((s) => [s.temperatureC, s.pressureKpa]), x, y)} fill="none" stroke={CHART.path} strokeWidth={1.3} strokeLinejoin="round" />
+            <path
+              d={pointsPath(
+                path.map((s) => [s.temperatureC, s.pressureKpa]),
+                x,
+                y,
+              )}
+              fill="none"
+              stroke={CHART.path}
+              strokeWidth={1.3}
+              strokeLinejoin="round"
+            />
             {path.length > 0 && (
               <g>
                 <circle cx={x(path[0].temperatureC)} cy={y(path[0].pressureKpa)} r={3.5} fill={CHART.raised} stroke={CHART.inkSoft} />
-                <text x={x(path[0].temperatureC) + 6} y={y(path[0].pressureKpa) - 5} fontSize={10} fill={CHART.inkSoft} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">start</text>
+                <text x={x(path[0].temperatureC) + 6} y={y(path[0].pressureKpa) - 5} fontSize={10} fill={CHART.inkSoft} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">
+                  start
+                </text>
               </g>
             )}
             {/* plateau samples */}
@@ -219,29 +242,52 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
             {hover && <circle cx={x(hover.temperatureC)} cy={y(hover.pressureKpa)} r={6} fill="none" stroke={CHART.ink} strokeWidth={1.5} />}
             {/* names */}
             {lineLabel && (
-              <text x={lineLabel.x} y={lineLabel.y} fontSize={11} fill={CHART.ink} textAnchor="middle" transform={`rotate(${lineLabel.angle} ${lineLabel.x} ${lineLabel.y})`} fontWeight={600} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">
+              <text
+                x={lineLabel.x}
+                y={lineLabel.y}
+                fontSize={11}
+                fill={CHART.ink}
+                textAnchor="middle"
+                transform={`rotate(${lineLabel.angle} ${lineLabel.x} ${lineLabel.y})`}
+                fontWeight={600}
+                stroke={CHART.raised}
+                strokeWidth={3}
+                paintOrder="stroke"
+              >
                 liquid–vapour line (IF97)
               </text>
             )}
             {liquidLabel && (
               <text x={x(liquidLabel.t)} y={y(liquidLabel.p)} fontSize={13} fill={CHART.airEdge} fontWeight={600}>
                 LIQUID side
-                <tspan x={x(liquidLabel.t)} dy={15} fontSize={10} fontWeight={400}>higher pressure than saturation at that temperature;</tspan>
-                <tspan x={x(liquidLabel.t)} dy={13} fontSize={10} fontWeight={400}>steam with air in it reads here</tspan>
+                <tspan x={x(liquidLabel.t)} dy={15} fontSize={10} fontWeight={400}>
+                  higher pressure than saturation at that temperature;
+                </tspan>
+                <tspan x={x(liquidLabel.t)} dy={13} fontSize={10} fontWeight={400}>
+                  steam with air in it reads here
+                </tspan>
               </text>
             )}
             {vapourLabel && (
               <text x={x(vapourLabel.t)} y={y(vapourLabel.p)} fontSize={13} fill={CHART.superheatEdge} fontWeight={600} textAnchor="end">
                 VAPOUR side
-                <tspan x={x(vapourLabel.t)} dy={15} fontSize={10} fontWeight={400} textAnchor="end">lower pressure than saturation;</tspan>
-                <tspan x={x(vapourLabel.t)} dy={13} fontSize={10} fontWeight={400} textAnchor="end">superheated steam reads here</tspan>
+                <tspan x={x(vapourLabel.t)} dy={15} fontSize={10} fontWeight={400} textAnchor="end">
+                  lower pressure than saturation;
+                </tspan>
+                <tspan x={x(vapourLabel.t)} dy={13} fontSize={10} fontWeight={400} textAnchor="end">
+                  superheated steam reads here
+                </tspan>
               </text>
             )}
             {regions?.solid && (
-              <text x={(BOX.left + x(TRIPLE_POINT.temperatureC)) / 2} y={BOX.top + 18} fontSize={10} fill={CHART.inkMuted} textAnchor="middle">ice</text>
+              <text x={(BOX.left + x(TRIPLE_POINT.temperatureC)) / 2} y={BOX.top + 18} fontSize={10} fill={CHART.inkMuted} textAnchor="middle">
+                ice
+              </text>
             )}
             {regions?.supercritical && (
-              <text x={(x(CRITICAL_POINT.temperatureC) + BOX.left + BOX.width) / 2} y={BOX.top + 18} fontSize={10} fill={CHART.inkMuted} textAnchor="middle">supercritical</text>
+              <text x={(x(CRITICAL_POINT.temperatureC) + BOX.left + BOX.width) / 2} y={BOX.top + 18} fontSize={10} fill={CHART.inkMuted} textAnchor="middle">
+                supercritical
+              </text>
             )}
             {landmarks.map((l) => {
               const cx = x(l.temperatureC);
@@ -250,7 +296,16 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
               return (
                 <g key={l.id}>
                   <circle cx={cx} cy={cy} r={4.5} fill={CHART.raised} stroke={CHART.ink} strokeWidth={1.5} />
-                  <text x={cx + (right ? 9 : -9)} y={cy + (l.id === "critical" ? -9 : 15)} fontSize={10.5} fill={CHART.ink} textAnchor={right ? "start" : "end"} stroke={CHART.raised} strokeWidth={3} paintOrder="stroke">
+                  <text
+                    x={cx + (right ? 9 : -9)}
+                    y={cy + (l.id === "critical" ? -9 : 15)}
+                    fontSize={10.5}
+                    fill={CHART.ink}
+                    textAnchor={right ? "start" : "end"}
+                    stroke={CHART.raised}
+                    strokeWidth={3}
+                    paintOrder="stroke"
+                  >
                     {`${l.label} (${formatLandmark(l.temperatureC)} °C, ${formatPressureTick(l.pressureKpa)}${l.pressureKpa >= 1000 ? "" : " kPa"})`}
                   </text>
                 </g>
@@ -279,12 +334,29 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
         </svg>
       </div>
       <ul className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-xs text-ink-soft" aria-label="Key">
-        <li className="flex items-center gap-1.5"><KeySwatch><line x1={1} x2={15} y1={8} y2={8} stroke={CHART.ink} strokeWidth={2.2} /></KeySwatch>liquid–vapour line (IAPWS-IF97)</li>
-        <li className="flex items-center gap-1.5"><KeySwatch><rect x={1} y={3} width={14} height={10} fill="rgba(29,122,77,0.12)" stroke="rgba(29,122,77,0.35)" strokeDasharray="3 3" /></KeySwatch>within ±{saturationLimitK} K of saturation (the limit)</li>
-        <li className="flex items-center gap-1.5"><KeySwatch><line x1={1} x2={15} y1={8} y2={8} stroke={CHART.path} strokeWidth={1.5} /></KeySwatch>the cycle&apos;s path{overview.data && !overview.data.fullResolution ? " (downsampled)" : ""}</li>
+        <li className="flex items-center gap-1.5">
+          <KeySwatch>
+            <line x1={1} x2={15} y1={8} y2={8} stroke={CHART.ink} strokeWidth={2.2} />
+          </KeySwatch>
+          liquid–vapour line (IAPWS-IF97)
+        </li>
+        <li className="flex items-center gap-1.5">
+          <KeySwatch>
+            <rect x={1} y={3} width={14} height={10} fill="rgba(29,122,77,0.12)" stroke="rgba(29,122,77,0.35)" strokeDasharray="3 3" />
+          </KeySwatch>
+          within ±{saturationLimitK} K of saturation (the limit)
+        </li>
+        <li className="flex items-center gap-1.5">
+          <KeySwatch>
+            <line x1={1} x2={15} y1={8} y2={8} stroke={CHART.path} strokeWidth={1.5} />
+          </KeySwatch>
+          the cycle&apos;s path{overview.data && !overview.data.fullResolution ? " (downsampled)" : ""}
+        </li>
         {(Object.keys(SIDE_STYLE) as PhaseSide[]).map((side) => (
           <li key={side} className="flex items-start gap-1.5">
-            <KeySwatch><Marker side={side} cx={8} cy={8} /></KeySwatch>
+            <KeySwatch>
+              <Marker side={side} cx={8} cy={8} />
+            </KeySwatch>
             <span>
               plateau sample {SIDE_STYLE[side].label}: <span className="font-semibold tabular-nums">{counts[side]}</span>
             </span>
@@ -293,8 +365,8 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
       </ul>
       <figcaption id={descId} className="mt-2 text-sm text-ink-soft" data-testid="phase-diagram-summary">
         {overview.isLoading ? "Loading the cycle's path…" : sentence}
-        {plateauSeries.data && !plateauSeries.data.fullResolution ? " The plateau is long, so its samples are shown downsampled." : ""}
-        {" "}A thermometer in steam with air or another non-condensable gas reads colder than saturated steam at the chamber&apos;s total pressure, so its points fall on the liquid side of the line; superheated steam falls on the vapour side.
+        {plateauSeries.data && !plateauSeries.data.fullResolution ? " The plateau is long, so its samples are shown downsampled." : ""} A thermometer in steam with air or another non-condensable gas
+        reads colder than saturated steam at the chamber&apos;s total pressure, so its points fall on the liquid side of the line; superheated steam falls on the vapour side.
       </figcaption>
     </figure>
   );

@@ -75,7 +75,13 @@ const ACTION_WORDS: Record<string, string> = {
 };
 
 export function actionLabel(action: string): string {
-  return ACTION_WORDS[action] ?? action.replace(/^cycle\./, "").replace(/[.-]/g, " ").replace(/^./, (c) => c.toUpperCase());
+  return (
+    ACTION_WORDS[action] ??
+    action
+      .replace(/^cycle\./, "")
+      .replace(/[.-]/g, " ")
+      .replace(/^./, (c) => c.toUpperCase())
+  );
 }
 
 /** A short, readable line from an audit event's JSON value; the full JSON stays available beside it. */

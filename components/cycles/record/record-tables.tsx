@@ -50,11 +50,21 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
             <tr>
               <th scope="col">Channel</th>
               <th scope="col">Role</th>
-              <th scope="col" className="text-right">Min (°C)</th>
-              <th scope="col" className="text-right">Max (°C)</th>
-              <th scope="col" className="text-right">Mean (°C)</th>
-              <th scope="col" className="text-right">Reached Ts after plateau start</th>
-              <th scope="col" className="text-right">F0 (min)</th>
+              <th scope="col" className="text-right">
+                Min (°C)
+              </th>
+              <th scope="col" className="text-right">
+                Max (°C)
+              </th>
+              <th scope="col" className="text-right">
+                Mean (°C)
+              </th>
+              <th scope="col" className="text-right">
+                Reached Ts after plateau start
+              </th>
+              <th scope="col" className="text-right">
+                F0 (min)
+              </th>
             </tr>
           </thead>
           <tbody>
@@ -67,7 +77,11 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
                 <td className="text-right tabular-nums">{formatNumber(ch.meanDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">
                   {ch.arrivalAfterPlateauStart === null ? (
-                    analysis.plateau ? <span className="text-fail-700">never</span> : "—"
+                    analysis.plateau ? (
+                      <span className="text-fail-700">never</span>
+                    ) : (
+                      "—"
+                    )
                   ) : (
                     `${formatNumber(ch.arrivalAfterPlateauStart, ch.arrivalAfterPlateauStart < 10 ? 1 : 0)} s`
                   )}
@@ -79,8 +93,8 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
         </table>
       </div>
       <p className="mt-2 text-xs text-ink-muted">
-        Min, max and mean over the holding time{analysis.holdingTime === null ? " (none here, so no figures)" : ""}. F0 over the whole record with
-        T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber pressure from {analysis.pressureChannel}, in kPa absolute
+        Min, max and mean over the holding time{analysis.holdingTime === null ? " (none here, so no figures)" : ""}. F0 over the whole record with T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber
+        pressure from {analysis.pressureChannel}, in kPa absolute
         {hold ? `; its saturation temperature during holding was ${formatNumber(hold.min, 2)} to ${formatNumber(hold.max, 2)} °C (mean ${formatNumber(hold.mean, 2)} °C).` : "."}
       </p>
     </>
@@ -157,14 +171,13 @@ export function FilesList({ files, timeZone }: { files: CycleDetail["files"]; ti
               </p>
             </div>
             <p className="mt-1 text-xs text-ink-muted">
-              SHA-256 <span className="mono break-all text-ink-soft" data-testid="file-sha256">{f.sha256}</span>
+              SHA-256{" "}
+              <span className="mono break-all text-ink-soft" data-testid="file-sha256">
+                {f.sha256}
+              </span>
             </p>
             <p className="mt-1 text-xs text-ink-soft">{describeDialect(f.dialect)}</p>
-            {f.dialect && (
-              <p className="mt-1 text-xs text-ink-soft">
-                Mapping: {mapping.length ? mapping.join("; ") : "as guessed from the headers and values, no corrections"}.
-              </p>
-            )}
+            {f.dialect && <p className="mt-1 text-xs text-ink-soft">Mapping: {mapping.length ? mapping.join("; ") : "as guessed from the headers and values, no corrections"}.</p>}
           </li>
         );
       })}
@@ -190,9 +203,15 @@ export function AnalysisHistory({ history, currentId, timeZone }: { history: Cyc
             <tr key={h.id}>
               <td className="whitespace-nowrap">
                 {formatDateTime(h.createdAt, timeZone)}
-                {h.id === currentId && <span className="ml-2"><Badge tone="steam">current</Badge></span>}
+                {h.id === currentId && (
+                  <span className="ml-2">
+                    <Badge tone="steam">current</Badge>
+                  </span>
+                )}
               </td>
-              <td><VerdictBadge verdict={h.verdict} /></td>
+              <td>
+                <VerdictBadge verdict={h.verdict} />
+              </td>
               <td className="mono">{h.engineVersion}</td>
               <td className="mono break-all">{h.inputHash}</td>
             </tr>
@@ -216,11 +235,16 @@ export function RecordHistory({ events, timeZone }: { events: HistoryEvent[]; ti
             <span aria-hidden="true" className="absolute -left-[5px] mt-1.5 h-2.5 w-2.5 rounded-full border border-ink-line bg-paper-raised" />
             <p>
               <span className="font-medium">{actionLabel(e.action)}</span>
-              <span className="text-ink-muted"> · {formatDateTime(e.at, timeZone)} · {e.actorEmail ?? "system"}</span>
+              <span className="text-ink-muted">
+                {" "}
+                · {formatDateTime(e.at, timeZone)} · {e.actorEmail ?? "system"}
+              </span>
             </p>
             {e.reason && <p className="text-ink-soft">Reason: {e.reason}</p>}
             {summary && <p className="mono text-ink-muted break-all">{summary}</p>}
-            <p className="text-2xs text-ink-faint">Ledger event #{e.seq} · {e.action}</p>
+            <p className="text-2xs text-ink-faint">
+              Ledger event #{e.seq} · {e.action}
+            </p>
           </li>
         );
       })}

@@ -7,7 +7,9 @@ export function SafetyCaution() {
   const notes = SAFETY_NOTES.filter((n) => ON_THE_RECORD.includes(n.title));
   return (
     <section aria-labelledby="record-safety" className="rounded-panel border border-caution-500/30 bg-caution-50 px-4 py-3 text-sm" data-testid="record-safety">
-      <h2 id="record-safety" className="text-sm font-semibold text-caution-700">⚠ Steam and pressure equipment</h2>
+      <h2 id="record-safety" className="text-sm font-semibold text-caution-700">
+        ⚠ Steam and pressure equipment
+      </h2>
       <p className="mt-1 text-ink-soft">{SAFETY_SHORT}</p>
       <details className="mt-2">
         <summary className="cursor-pointer text-xs font-medium text-caution-700">More cautions</summary>
@@ -20,7 +22,9 @@ export function SafetyCaution() {
         </ul>
       </details>
       <p className="mt-2 text-xs">
-        <Link href="/safety" className="font-medium text-steam-700 underline underline-offset-2">All safety notes</Link>
+        <Link href="/safety" className="font-medium text-steam-700 underline underline-offset-2">
+          All safety notes
+        </Link>
       </p>
     </section>
   );

@@ -4,19 +4,7 @@ import "uplot/dist/uPlot.min.css";
 import { useCallback, useEffect, useId, useLayoutEffect, useMemo, useRef, useState } from "react";
 import uPlot from "uplot";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
-import {
-  alignedData,
-  chartTraces,
-  formatElapsed,
-  fullResolutionSpan,
-  isZoomed,
-  panWindow,
-  resolutionNote,
-  windowCovers,
-  windowToFetch,
-  zoomWindow,
-  type TimeWindow,
-} from "@/lib/cycles/chart-model";
+import { alignedData, chartTraces, formatElapsed, fullResolutionSpan, isZoomed, panWindow, resolutionNote, windowCovers, windowToFetch, zoomWindow, type TimeWindow } from "@/lib/cycles/chart-model";
 import { CHART_HEIGHT_PX, chartOptions, makeLegendKeyboardFriendly } from "./time-chart-options";
 import { OVERVIEW_POINTS, WINDOW_POINTS, useSeries } from "./series-fetch";
 
@@ -37,8 +25,7 @@ export function TimeChart({ cycleId, cycleNumber, timeZone, summary }: Props) {
   const zoomed = useSeries(cycleId, fetchWindow, WINDOW_POINTS, fetchWindow !== null);
 
   const record = overview.data?.window ?? null;
-  const shown: SeriesResponse | undefined =
-    view && zoomed.data && windowCovers(zoomed.data.window, view) ? zoomed.data : overview.data;
+  const shown: SeriesResponse | undefined = view && zoomed.data && windowCovers(zoomed.data.window, view) ? zoomed.data : overview.data;
   const loadingWindow = view !== null && shown === overview.data && zoomed.isLoading;
 
   const fullSpan = overview.data ? fullResolutionSpan(overview.data.totalSamples, overview.data.window, WINDOW_POINTS) : Infinity;
@@ -68,7 +55,9 @@ export function TimeChart({ cycleId, cycleNumber, timeZone, summary }: Props) {
     return (
       <div role="alert" className="rounded-md border border-fail-500/30 bg-fail-50 px-4 py-3 text-sm text-fail-700">
         <p>{overview.error.message}</p>
-        <button type="button" className="btn-secondary mt-2" onClick={() => overview.mutate()}>Try again</button>
+        <button type="button" className="btn-secondary mt-2" onClick={() => overview.mutate()}>
+          Try again
+        </button>
       </div>
     );
   }
@@ -95,7 +84,9 @@ export function TimeChart({ cycleId, cycleNumber, timeZone, summary }: Props) {
         {loadingWindow ? "Loading this window at full resolution…" : resolutionNote(shown ?? overview.data)}
         {zoomed.error && view ? ` The zoomed window could not be loaded (${zoomed.error.message}); showing the downsampled view.` : ""}
       </p>
-      <figcaption id={summaryId} className="mt-2 text-sm text-ink-soft">{summary}</figcaption>
+      <figcaption id={summaryId} className="mt-2 text-sm text-ink-soft">
+        {summary}
+      </figcaption>
     </figure>
   );
 }
@@ -191,10 +182,30 @@ function ChartCanvas({ series, shown, view, record, timeZone, label, describedBy
   return (
     <div>
       <div className="mb-2 flex flex-wrap items-center gap-2 text-sm" role="toolbar" aria-label="Chart zoom and pan">
-        <button type="button" className="btn-secondary px-2.5 py-1" onClick={() => setX(zoomWindow(currentView, 0.5, record))}>Zoom in</button>
-        <button type="button" className="btn-secondary px-2.5 py-1" onClick={() => setX(zoomWindow(currentView, 2, record))} disabled={!zoomedNow}>Zoom out</button>
-        <button type="button" className="btn-secondary px-2.5 py-1" onClick={() => setX(panWindow(currentView, -0.5, record))} disabled={!zoomedNow || currentView.from <= record.from} aria-label="Pan earlier">← Earlier</button>
-        <button type="button" className="btn-secondary px-2.5 py-1" onClick={() => setX(panWindow(currentView, 0.5, record))} disabled={!zoomedNow || currentView.to >= record.to} aria-label="Pan later">Later →</button>
+        <button type="button" className="btn-secondary px-2.5 py-1" onClick={() => setX(zoomWindow(currentView, 0.5, record))}>
+          Zoom in
+        </button>
+        <button type="button" className="btn-secondary px-2.5 py-1" onClick={() => setX(zoomWindow(currentView, 2, record))} disabled={!zoomedNow}>
+          Zoom out
+        </button>
+        <button
+          type="button"
+          className="btn-secondary px-2.5 py-1"
+          onClick={() => setX(panWindow(currentView, -0.5, record))}
+          disabled={!zoomedNow || currentView.from <= record.from}
+          aria-label="Pan earlier"
+        >
+          ← Earlier
+        </button>
+        <button
+          type="button"
+          className="btn-secondary px-2.5 py-1"
+          onClick={() => setX(panWindow(currentView, 0.5, record))}
+          disabled={!zoomedNow || currentView.to >= record.to}
+          aria-label="Pan later"
+        >
+          Later →
+        </button>
         {plateau && (
           <button
             type="button"
@@ -207,9 +218,12 @@ function ChartCanvas({ series, shown, view, record, timeZone, label, describedBy
             Zoom to plateau
           </button>
         )}
-        <button type="button" className="btn-primary px-2.5 py-1" onClick={() => setX(record)} disabled={!zoomedNow} data-testid="reset-zoom">Reset zoom</button>
+        <button type="button" className="btn-primary px-2.5 py-1" onClick={() => setX(record)} disabled={!zoomedNow} data-testid="reset-zoom">
+          Reset zoom
+        </button>
         <span className="ml-auto text-xs text-ink-muted">
-          Showing {formatElapsed(currentView.from, { forceHours: record.to >= 3600 })} – {formatElapsed(currentView.to, { forceHours: record.to >= 3600 })}. Drag across the chart to zoom, Shift-drag to pan, double-click to reset.
+          Showing {formatElapsed(currentView.from, { forceHours: record.to >= 3600 })} – {formatElapsed(currentView.to, { forceHours: record.to >= 3600 })}. Drag across the chart to zoom, Shift-drag
+          to pan, double-click to reset.
         </span>
       </div>
       <div ref={plotRef} role="img" aria-label={label} aria-describedby={describedBy} className="w-full" data-testid="time-chart-plot" />

@@ -6,17 +6,13 @@ import { formAction } from "@/lib/actions";
 import { AppError } from "@/lib/errors";
 import { MAIL_NOT_CONFIGURED, retryMailNow, sendDueMail } from "@/lib/services/mail";
 
-export const retryMailAction = formAction(
-  "mail:read-outbox",
-  z.object({ id: z.string().trim().min(1, "Choose an e-mail to retry.") }),
-  async ({ id }, actor) => {
-    try {
-      return await retryMailNow({ actor, id });
-    } finally {
-      revalidatePath("/admin/mail");
-    }
-  },
-);
+export const retryMailAction = formAction("mail:read-outbox", z.object({ id: z.string().trim().min(1, "Choose an e-mail to retry.") }), async ({ id }, actor) => {
+  try {
+    return await retryMailNow({ actor, id });
+  } finally {
+    revalidatePath("/admin/mail");
+  }
+});
 
 export const sendDueMailAction = formAction("mail:read-outbox", z.object({}), async (_input, actor) => {
   const report = await sendDueMail({ actor });

@@ -27,7 +27,9 @@ export function SendDueMailButton({ disabled }: { disabled?: boolean }) {
   const [state, action, pending] = useActionState(sendDueMailAction, IDLE_FORM_STATE);
   return (
     <form action={action} className="flex flex-col items-end">
-      <button className="btn-primary" disabled={pending || disabled}>{pending ? "Sending…" : "Send due mail now"}</button>
+      <button className="btn-primary" disabled={pending || disabled}>
+        {pending ? "Sending…" : "Send due mail now"}
+      </button>
       <ActionMessage state={state} compact className="mt-1 max-w-xs" />
     </form>
   );

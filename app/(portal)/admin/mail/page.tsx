@@ -73,16 +73,26 @@ export default async function MailPage({ searchParams }: { searchParams: Promise
                   <th>Last error</th>
                   <th>Queued (UTC)</th>
                   <th>Sent / next try (UTC)</th>
-                  <th><span className="sr-only">Actions</span></th>
+                  <th>
+                    <span className="sr-only">Actions</span>
+                  </th>
                 </tr>
               </thead>
               <tbody>
                 {rows.map((m) => (
                   <tr key={m.id} data-status={m.status}>
-                    <td><Badge tone={STATUS[m.status].tone}>{STATUS[m.status].label}</Badge></td>
+                    <td>
+                      <Badge tone={STATUS[m.status].tone}>{STATUS[m.status].label}</Badge>
+                    </td>
                     <td className="mono max-w-[14rem] break-words">{m.to.join(", ")}</td>
                     <td className="max-w-[20rem]">
-                      {m.relatedCycleId ? <Link className="underline decoration-ink-line underline-offset-2 hover:decoration-ink" href={`/cycles/${m.relatedCycleId}`}>{m.subject}</Link> : m.subject}
+                      {m.relatedCycleId ? (
+                        <Link className="underline decoration-ink-line underline-offset-2 hover:decoration-ink" href={`/cycles/${m.relatedCycleId}`}>
+                          {m.subject}
+                        </Link>
+                      ) : (
+                        m.subject
+                      )}
                     </td>
                     <td className="text-right tabular-nums">{m.attempts}</td>
                     <td className={`max-w-[18rem] break-words text-xs ${m.status === "sent" ? "text-ink-faint" : "text-fail-700"}`}>
@@ -92,7 +102,9 @@ export default async function MailPage({ searchParams }: { searchParams: Promise
                     <td className="whitespace-nowrap text-xs text-ink-muted">
                       {m.status === "sent" ? formatDateTime(m.sentAt) : m.status === "pending" ? (m.nextAttemptAt ? `next ${formatDateTime(m.nextAttemptAt)}` : "due now") : "—"}
                     </td>
-                    <td><RetryMailButton id={m.id} subject={m.subject} canRetry={m.status !== "sent"} /></td>
+                    <td>
+                      <RetryMailButton id={m.id} subject={m.subject} canRetry={m.status !== "sent"} />
+                    </td>
                   </tr>
                 ))}
               </tbody>
@@ -111,8 +123,8 @@ function TransportNotice({ configured, baseUrl, mailbox }: { configured: boolean
   if (!configured) {
     return (
       <p role="status" className="mb-gutter rounded-md border border-caution-500/30 bg-caution-50 px-4 py-3 text-sm text-caution-700">
-        Mail is not configured: e-mail stays pending in the outbox. Set <span className="mono">RESEND_API_KEY</span> to send through Resend, or{" "}
-        <span className="mono">RESEND_BASE_URL</span> to the local fake mail service in development.
+        Mail is not configured: e-mail stays pending in the outbox. Set <span className="mono">RESEND_API_KEY</span> to send through Resend, or <span className="mono">RESEND_BASE_URL</span> to the
+        local fake mail service in development.
       </p>
     );
   }
@@ -123,11 +135,7 @@ function TransportNotice({ configured, baseUrl, mailbox }: { configured: boolean
       </p>
     );
   }
-  return (
-    <p className="mb-gutter rounded-md border border-ink-line bg-paper-sunk px-4 py-3 text-sm text-ink-soft">
-      Sending through {baseUrl ? <span className="mono">{baseUrl}</span> : "Resend"}.
-    </p>
-  );
+  return <p className="mb-gutter rounded-md border border-ink-line bg-paper-sunk px-4 py-3 text-sm text-ink-soft">Sending through {baseUrl ? <span className="mono">{baseUrl}</span> : "Resend"}.</p>;
 }
 
 function FakeMailboxPanel({ mailbox }: { mailbox: Extract<FakeMailbox, { state: "ok" | "unreachable" }> }) {
@@ -151,13 +159,23 @@ function FakeMailboxPanel({ mailbox }: { mailbox: Extract<FakeMailbox, { state: 
                 </summary>
                 <div className="mt-2 space-y-3 px-1">
                   <dl className="grid grid-cols-[auto_1fr] gap-x-3 text-xs">
-                    <dt className="text-ink-muted">From</dt><dd className="mono">{m.from}</dd>
-                    <dt className="text-ink-muted">To</dt><dd className="mono">{m.to.join(", ")}</dd>
-                    <dt className="text-ink-muted">Message id</dt><dd className="mono">{m.id}</dd>
+                    <dt className="text-ink-muted">From</dt>
+                    <dd className="mono">{m.from}</dd>
+                    <dt className="text-ink-muted">To</dt>
+                    <dd className="mono">{m.to.join(", ")}</dd>
+                    <dt className="text-ink-muted">Message id</dt>
+                    <dd className="mono">{m.id}</dd>
                   </dl>
                   {m.html && (
                     // An empty sandbox: no scripts, no forms, no access to the portal's origin.
-                    <iframe sandbox="" loading="lazy" referrerPolicy="no-referrer" srcDoc={m.html} title={`HTML body of “${m.subject}”`} className="h-96 w-full rounded-md border border-ink-line bg-white" />
+                    <iframe
+                      sandbox=""
+                      loading="lazy"
+                      referrerPolicy="no-referrer"
+                      srcDoc={m.html}
+                      title={`HTML body of “${m.subject}”`}
+                      className="h-96 w-full rounded-md border border-ink-line bg-white"
+                    />
                   )}
                   {m.text && (
                     <details>

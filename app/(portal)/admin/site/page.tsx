@@ -30,12 +30,18 @@ export default async function SiteSettingsPage() {
         </Panel>
         <Panel title="Atmospheric pressure in use">
           <p className="text-2xl font-semibold" data-testid="atmosphere-in-use">
-            {atmosphere.kpa === null ? "—" : <>{formatNumber(atmosphere.kpa, 3)} <span className="text-base font-normal text-ink-muted">kPa</span></>}
+            {atmosphere.kpa === null ? (
+              "—"
+            ) : (
+              <>
+                {formatNumber(atmosphere.kpa, 3)} <span className="text-base font-normal text-ink-muted">kPa</span>
+              </>
+            )}
           </p>
           <p className="mt-1 text-sm text-ink-muted">{atmosphere.source}.</p>
           <p className="mt-3 text-sm text-ink-soft">
-            Papin adds this to gauge readings to get absolute pressure; a measured barometer reading is better than the standard atmosphere, and a change
-            applies to analyses made from now on (stored analyses are not recomputed).
+            Papin adds this to gauge readings to get absolute pressure; a measured barometer reading is better than the standard atmosphere, and a change applies to analyses made from now on (stored
+            analyses are not recomputed).
           </p>
         </Panel>
       </div>

@@ -19,7 +19,16 @@ export default async function UsersPage() {
           <div className="overflow-x-auto">
             <table className="data-table" data-testid="users-table">
               <thead>
-                <tr><th>Name</th><th>E-mail</th><th>Role</th><th>State</th><th>Last sign-in</th><th><span className="sr-only">Actions</span></th></tr>
+                <tr>
+                  <th>Name</th>
+                  <th>E-mail</th>
+                  <th>Role</th>
+                  <th>State</th>
+                  <th>Last sign-in</th>
+                  <th>
+                    <span className="sr-only">Actions</span>
+                  </th>
+                </tr>
               </thead>
               <tbody>
                 {rows.map((u) => (
@@ -29,7 +38,9 @@ export default async function UsersPage() {
                     <td>{ROLE_LABELS[u.role]}</td>
                     <td>{u.disabled ? <Badge tone="fail">Disabled</Badge> : <Badge tone="pass">Active</Badge>}</td>
                     <td className="text-xs text-ink-muted">{formatDateTime(u.lastSignInAt)}</td>
-                    <td><UserRowActions user={{ id: u.id, name: u.name, role: u.role, disabled: u.disabled }} self={u.id === user.id} /></td>
+                    <td>
+                      <UserRowActions user={{ id: u.id, name: u.name, role: u.role, disabled: u.disabled }} self={u.id === user.id} />
+                    </td>
                   </tr>
                 ))}
               </tbody>

@@ -6,15 +6,7 @@ import { SignOffPanel } from "@/components/review/sign-off-panel";
 import { Findings } from "@/components/cycles/record/findings";
 import { TimeChart } from "@/components/cycles/record/time-chart";
 import { PhaseDiagram } from "@/components/cycles/record/phase-diagram";
-import {
-  AnalysisHistory,
-  ChannelTable,
-  ChecksTable,
-  FilesList,
-  KeyFigures,
-  ProfileLimits,
-  RecordHistory,
-} from "@/components/cycles/record/record-tables";
+import { AnalysisHistory, ChannelTable, ChecksTable, FilesList, KeyFigures, ProfileLimits, RecordHistory } from "@/components/cycles/record/record-tables";
 import { SafetyCaution } from "@/components/cycles/record/safety-caution";
 import { formatStartedAt } from "@/components/cycles/record/record-format";
 import { testKindLabel } from "@/lib/domain";
@@ -40,7 +32,9 @@ export default async function CycleRecordPage({ params }: Props) {
   return (
     <>
       <nav aria-label="Breadcrumb" className="mb-2 text-sm text-ink-muted">
-        <Link href="/cycles" className="text-steam-700 hover:underline">Cycles</Link>
+        <Link href="/cycles" className="text-steam-700 hover:underline">
+          Cycles
+        </Link>
         <span aria-hidden="true"> / </span>
         <span className="mono">{detail.cycleNumber}</span>
       </nav>
@@ -55,8 +49,11 @@ export default async function CycleRecordPage({ params }: Props) {
           </div>
           <p className="mt-1 text-sm text-ink-soft">
             {testKindLabel(detail.testKind)} on <span className="font-medium">{detail.sterilizer.name}</span>
-            <span className="text-ink-muted"> (serial {detail.sterilizer.serialNumber}, {detail.sterilizer.chamberVolumeL} L)</span> against{" "}
-            <span className="font-medium">{profile.name}</span>
+            <span className="text-ink-muted">
+              {" "}
+              (serial {detail.sterilizer.serialNumber}, {detail.sterilizer.chamberVolumeL} L)
+            </span>{" "}
+            against <span className="font-medium">{profile.name}</span>
           </p>
           <p className="mt-0.5 text-sm text-ink-muted">
             Started {formatStartedAt(detail.startedAt, tz)} · registered by {detail.createdBy.name} on {formatDateTime(detail.createdAt, tz)}
@@ -66,7 +63,9 @@ export default async function CycleRecordPage({ params }: Props) {
           {detail.loadDescription && <p className="mt-0.5 text-sm text-ink-muted">Load: {detail.loadDescription}</p>}
           {detail.supersedesId && (
             <p className="mt-0.5 text-sm">
-              <Link href={`/cycles/${detail.supersedesId}`} className="text-steam-700 underline">This record replaces an earlier one</Link>
+              <Link href={`/cycles/${detail.supersedesId}`} className="text-steam-700 underline">
+                This record replaces an earlier one
+              </Link>
             </p>
           )}
         </div>

@@ -18,8 +18,17 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
     <>
       <PageHeader
         title={i.name}
-        subtitle={<><span className="mono">{i.serialNumber}</span> · {KIND_LABELS[i.kind]}{i.channelCount ? ` · ${i.channelCount} channels` : ""}</>}
-        actions={<Link href="/instruments" className="btn-secondary">All instruments</Link>}
+        subtitle={
+          <>
+            <span className="mono">{i.serialNumber}</span> · {KIND_LABELS[i.kind]}
+            {i.channelCount ? ` · ${i.channelCount} channels` : ""}
+          </>
+        }
+        actions={
+          <Link href="/instruments" className="btn-secondary">
+            All instruments
+          </Link>
+        }
       />
       <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[1fr_24rem]" : ""}`}>
         <div className="space-y-gutter">
@@ -29,13 +38,27 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
             ) : (
               <div className="overflow-x-auto">
                 <table className="data-table" data-testid="certificates-table">
-                  <thead><tr><th>Certificate</th><th>Issued by</th><th>Calibrated</th><th>Due</th><th>Uncertainty</th><th>Notes</th></tr></thead>
+                  <thead>
+                    <tr>
+                      <th>Certificate</th>
+                      <th>Issued by</th>
+                      <th>Calibrated</th>
+                      <th>Due</th>
+                      <th>Uncertainty</th>
+                      <th>Notes</th>
+                    </tr>
+                  </thead>
                   <tbody>
                     {certificates.map((c) => (
                       <tr key={c.id}>
                         <td className="mono">
                           {c.certificateNumber}
-                          {latest?.id === c.id && <> <Badge tone="steam">In force</Badge></>}
+                          {latest?.id === c.id && (
+                            <>
+                              {" "}
+                              <Badge tone="steam">In force</Badge>
+                            </>
+                          )}
                         </td>
                         <td className="text-sm">{c.issuedBy}</td>
                         <td className="whitespace-nowrap text-sm">{formatDate(c.calibratedOn)}</td>
@@ -52,7 +75,9 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
           <Panel title="Saved channel mapping">
             {i.hasSavedMapping ? (
               <>
-                <p className="text-sm"><Badge tone="steam">Saved</Badge> A confirmed mapping is applied automatically to this instrument&apos;s next logger files.</p>
+                <p className="text-sm">
+                  <Badge tone="steam">Saved</Badge> A confirmed mapping is applied automatically to this instrument&apos;s next logger files.
+                </p>
                 <details className="mt-2 text-sm">
                   <summary className="cursor-pointer text-steam-700">Show the mapping</summary>
                   <pre className="mono mt-2 max-h-64 overflow-auto rounded-md bg-paper-sunk p-3">{JSON.stringify(i.savedMapping, null, 2)}</pre>
@@ -75,8 +100,12 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
                 {recentCycles.map((c) => (
                   <li key={c.id} className="flex items-center justify-between gap-3 py-2 text-sm">
                     <div>
-                      <Link href={`/cycles/${c.id}`} className="mono font-medium text-steam-700 hover:underline">{c.cycleNumber}</Link>
-                      <p className="text-xs text-ink-muted">{c.sterilizerName} · {formatDateTime(c.startedAt, timeZone)}</p>
+                      <Link href={`/cycles/${c.id}`} className="mono font-medium text-steam-700 hover:underline">
+                        {c.cycleNumber}
+                      </Link>
+                      <p className="text-xs text-ink-muted">
+                        {c.sterilizerName} · {formatDateTime(c.startedAt, timeZone)}
+                      </p>
                     </div>
                     <VerdictBadge verdict={c.verdict} />
                   </li>

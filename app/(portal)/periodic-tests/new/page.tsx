@@ -27,7 +27,15 @@ export default async function RecordTestPage({ searchParams }: { searchParams: P
   const tabHref = (k: string) => `/periodic-tests/new?kind=${k}${props.sterilizerId ? `&sterilizer=${props.sterilizerId}` : ""}`;
   return (
     <>
-      <PageHeader title="Record a periodic test" subtitle="The result, its limit and basis are shown before you save. Every record goes into the audit ledger." actions={<Link href="/periodic-tests" className="btn-secondary">Schedule and history</Link>} />
+      <PageHeader
+        title="Record a periodic test"
+        subtitle="The result, its limit and basis are shown before you save. Every record goes into the audit ledger."
+        actions={
+          <Link href="/periodic-tests" className="btn-secondary">
+            Schedule and history
+          </Link>
+        }
+      />
       <nav aria-label="Test" className="mb-4 flex flex-wrap gap-2">
         {RECORDABLE_KINDS.map((k) => (
           <Link key={k} href={tabHref(k)} aria-current={k === kind ? "page" : undefined} className={k === kind ? "btn-primary" : "btn-secondary"}>

@@ -27,7 +27,15 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
   ];
   return (
     <>
-      <PageHeader title={p.name} subtitle={p.active ? "Acceptance profile in use" : "Retired version: kept for the cycles analysed with it"} actions={<Link href="/profiles" className="btn-secondary">All profiles</Link>} />
+      <PageHeader
+        title={p.name}
+        subtitle={p.active ? "Acceptance profile in use" : "Retired version: kept for the cycles analysed with it"}
+        actions={
+          <Link href="/profiles" className="btn-secondary">
+            All profiles
+          </Link>
+        }
+      />
       <div className={`grid gap-gutter ${(manage && p.active) || p.replacedBy ? "xl:grid-cols-[1fr_26rem]" : ""}`}>
         <Panel title={<>Limits {!p.active && <Badge>Retired</Badge>}</>}>
           <dl className="grid grid-cols-[14rem_1fr] gap-x-3 gap-y-2 text-sm">
@@ -43,7 +51,10 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
           <Panel title="Replaced">
             <p className="text-sm">
               This version was retired when its limits were changed. The current version is{" "}
-              <Link href={`/profiles/${p.replacedBy.id}`} className="font-medium text-steam-700 underline">{p.replacedBy.name}</Link>.
+              <Link href={`/profiles/${p.replacedBy.id}`} className="font-medium text-steam-700 underline">
+                {p.replacedBy.name}
+              </Link>
+              .
             </p>
           </Panel>
         )}

@@ -24,9 +24,7 @@ const CHECK_WORDS: Record<string, string> = {
 export default async function SterilizerPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
   const actor = await requirePageActor("equipment:read");
-  const { sterilizer: s, sizeClass, profile, recentCycles, trends, schedule, timeZone, trendDays, profiles, mayManage: manage, mayRecord: record } = await orNotFound(
-    getSterilizerPage({ actor, id }),
-  );
+  const { sterilizer: s, sizeClass, profile, recentCycles, trends, schedule, timeZone, trendDays, profiles, mayManage: manage, mayRecord: record } = await orNotFound(getSterilizerPage({ actor, id }));
   const passPct = trends.passRate === null ? null : Math.round(trends.passRate * 100);
   return (
     <>
@@ -35,13 +33,24 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
         subtitle={
           <>
             <span className="mono">{s.serialNumber}</span> · {s.chamberVolumeL} l · {sizeClass.label}
-            {!s.active && <> · <Badge>Retired</Badge></>}
+            {!s.active && (
+              <>
+                {" "}
+                · <Badge>Retired</Badge>
+              </>
+            )}
           </>
         }
         actions={
           <>
-            <Link href="/sterilizers" className="btn-secondary">All sterilizers</Link>
-            {record && s.active && <Link href={`/periodic-tests/new?sterilizer=${s.id}`} className="btn-primary">Record a periodic test</Link>}
+            <Link href="/sterilizers" className="btn-secondary">
+              All sterilizers
+            </Link>
+            {record && s.active && (
+              <Link href={`/periodic-tests/new?sterilizer=${s.id}`} className="btn-primary">
+                Record a periodic test
+              </Link>
+            )}
           </>
         }
       />
@@ -50,7 +59,9 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
           <Panel title={`Trends over the last ${trendDays} days`}>
             <div className="mb-4 flex flex-wrap items-end gap-6">
               <div>
-                <p className="text-2xl font-semibold tabular-nums" data-testid="pass-rate">{passPct === null ? "—" : `${passPct} %`}</p>
+                <p className="text-2xl font-semibold tabular-nums" data-testid="pass-rate">
+                  {passPct === null ? "—" : `${passPct} %`}
+                </p>
                 <p className="text-sm text-ink-muted">
                   pass rate: {trends.passed} of {trends.analysed} analysed cycle{trends.analysed === 1 ? "" : "s"} passed
                 </p>
@@ -60,7 +71,11 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                   <p className="text-xs font-semibold uppercase tracking-wide text-ink-muted">Failed checks</p>
                   <ul className="mt-1 flex flex-wrap gap-1.5">
                     {Object.entries(trends.failuresByCheck).map(([check, n]) => (
-                      <li key={check}><Badge tone="fail">✕ {CHECK_WORDS[check] ?? check}: {n}</Badge></li>
+                      <li key={check}>
+                        <Badge tone="fail">
+                          ✕ {CHECK_WORDS[check] ?? check}: {n}
+                        </Badge>
+                      </li>
                     ))}
                   </ul>
                 </div>
@@ -85,7 +100,13 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
               <div className="overflow-x-auto">
                 <table className="data-table">
                   <thead>
-                    <tr><th>Test</th><th>Interval</th><th>Last pass</th><th>Next due</th><th>State</th></tr>
+                    <tr>
+                      <th>Test</th>
+                      <th>Interval</th>
+                      <th>Last pass</th>
+                      <th>Next due</th>
+                      <th>State</th>
+                    </tr>
                   </thead>
                   <tbody>
                     {schedule.map((r) => (
@@ -96,7 +117,11 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                         <td>{r.status.dueOn ? formatDate(r.status.dueOn) : "Now"}</td>
                         <td>
                           <ScheduleBadge status={r.status} />
-                          {r.awaitingSignOff > 0 && <p className="mt-1 text-xs text-ink-muted">{r.awaitingSignOff} passing cycle{r.awaitingSignOff === 1 ? "" : "s"} awaiting sign-off</p>}
+                          {r.awaitingSignOff > 0 && (
+                            <p className="mt-1 text-xs text-ink-muted">
+                              {r.awaitingSignOff} passing cycle{r.awaitingSignOff === 1 ? "" : "s"} awaiting sign-off
+                            </p>
+                          )}
                         </td>
                       </tr>
                     ))}
@@ -107,21 +132,44 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
             <p className="mt-2 text-xs text-ink-muted">A test is done when it passes; the next one falls due one interval after that date. Thermometric tests count once their cycle is approved.</p>
           </Panel>
 
-          <Panel title="Recent cycles" action={<Link className="text-sm text-steam-700" href={`/cycles?sterilizer=${s.id}`}>All cycles of this sterilizer</Link>}>
+          <Panel
+            title="Recent cycles"
+            action={
+              <Link className="text-sm text-steam-700" href={`/cycles?sterilizer=${s.id}`}>
+                All cycles of this sterilizer
+              </Link>
+            }
+          >
             {recentCycles.length === 0 ? (
               <EmptyState title="No cycle recorded yet." />
             ) : (
               <div className="overflow-x-auto">
                 <table className="data-table">
-                  <thead><tr><th>Cycle</th><th>Started</th><th>Profile</th><th>Verdict</th><th>Status</th></tr></thead>
+                  <thead>
+                    <tr>
+                      <th>Cycle</th>
+                      <th>Started</th>
+                      <th>Profile</th>
+                      <th>Verdict</th>
+                      <th>Status</th>
+                    </tr>
+                  </thead>
                   <tbody>
                     {recentCycles.map((c) => (
                       <tr key={c.id}>
-                        <td><Link href={`/cycles/${c.id}`} className="mono font-medium text-steam-700 hover:underline">{c.cycleNumber}</Link></td>
+                        <td>
+                          <Link href={`/cycles/${c.id}`} className="mono font-medium text-steam-700 hover:underline">
+                            {c.cycleNumber}
+                          </Link>
+                        </td>
                         <td className="text-sm">{formatDateTime(c.startedAt, timeZone)}</td>
                         <td className="text-sm">{c.profileName}</td>
-                        <td><VerdictBadge verdict={c.verdict} /></td>
-                        <td><StatusBadge status={c.status} /></td>
+                        <td>
+                          <VerdictBadge verdict={c.verdict} />
+                        </td>
+                        <td>
+                          <StatusBadge status={c.status} />
+                        </td>
                       </tr>
                     ))}
                   </tbody>
@@ -134,23 +182,34 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
         <div className="space-y-gutter">
           <Panel title="Identity">
             <dl className="grid grid-cols-[8rem_1fr] gap-x-3 gap-y-1.5 text-sm">
-              <dt className="text-ink-muted">Serial number</dt><dd className="mono">{s.serialNumber}</dd>
-              <dt className="text-ink-muted">Model</dt><dd>{s.model ?? "—"}</dd>
-              <dt className="text-ink-muted">Location</dt><dd>{s.location ?? "—"}</dd>
-              <dt className="text-ink-muted">Chamber</dt><dd>{s.chamberVolumeL} l</dd>
-              <dt className="text-ink-muted">Size class</dt><dd>{sizeClass.label}</dd>
-              <dt className="text-ink-muted">Equilibration</dt><dd>{sizeClass.note}</dd>
-              <dt className="text-ink-muted">Air detector</dt><dd>{s.airDetectorFitted ? "Fitted" : "Not fitted"}</dd>
+              <dt className="text-ink-muted">Serial number</dt>
+              <dd className="mono">{s.serialNumber}</dd>
+              <dt className="text-ink-muted">Model</dt>
+              <dd>{s.model ?? "—"}</dd>
+              <dt className="text-ink-muted">Location</dt>
+              <dd>{s.location ?? "—"}</dd>
+              <dt className="text-ink-muted">Chamber</dt>
+              <dd>{s.chamberVolumeL} l</dd>
+              <dt className="text-ink-muted">Size class</dt>
+              <dd>{sizeClass.label}</dd>
+              <dt className="text-ink-muted">Equilibration</dt>
+              <dd>{sizeClass.note}</dd>
+              <dt className="text-ink-muted">Air detector</dt>
+              <dd>{s.airDetectorFitted ? "Fitted" : "Not fitted"}</dd>
               <dt className="text-ink-muted">Default profile</dt>
               <dd>
                 {profile ? (
                   <>
-                    <Link href={`/profiles/${profile.id}`} className="text-steam-700 hover:underline">{profile.name}</Link>
+                    <Link href={`/profiles/${profile.id}`} className="text-steam-700 hover:underline">
+                      {profile.name}
+                    </Link>
                     <p className="text-xs text-ink-muted">
                       {profile.sterilizationTempC}–{profile.sterilizationTempC + profile.bandK} °C · hold ≥ {formatDuration(profile.holdingTimeS)} · equilibration ≤ {profile.maxEquilibrationS} s
                     </p>
                     {sizeClass.maxEquilibrationS !== null && profile.maxEquilibrationS > sizeClass.maxEquilibrationS && (
-                      <p className="mt-1 text-xs text-caution-700">▲ The profile allows {profile.maxEquilibrationS} s, more than the {sizeClass.maxEquilibrationS} s EN 285 sets for this chamber size.</p>
+                      <p className="mt-1 text-xs text-caution-700">
+                        ▲ The profile allows {profile.maxEquilibrationS} s, more than the {sizeClass.maxEquilibrationS} s EN 285 sets for this chamber size.
+                      </p>
                     )}
                   </>
                 ) : (
