@@ -213,3 +213,18 @@ export function checkBasisWording(check: { id: string; basis: string; limit: num
   }
   return `${own}. Basis: ${basisNoteFor(check.id, profile.basis, profile.basisReason, profile.sterilizationTempC)}`;
 }
+
+/** One line of what a basis requires, for the profile form: "121 °C ≥ 15 min, …; band ≤ 3 K; …". */
+export function summariseBasisMinimums(basis: ProfileBasis): string {
+  if (basis === "local") return "No minimums: the site's protocol sets the limits, and the reason is printed on every record.";
+  const m = BASIS_MINIMUMS[basis];
+  const parts: string[] = [];
+  if (m.holds) parts.push(m.holds.map((r) => `${degrees(r.sterilizationTempC)} ≥ ${holdText(r.minHoldingTimeS)}`).join(", "));
+  if (m.maxBandK !== null) parts.push(`band ≤ ${m.maxBandK} K`);
+  if (m.maxEquilibrationS !== null) parts.push(`equilibration ≤ ${m.maxEquilibrationS} s${basis === "en-285" ? " (15 s up to 800 l)" : ""}`);
+  if (m.maxSpreadK !== null) parts.push(`spread ≤ ${m.maxSpreadK} K`);
+  if (m.maxSaturationLimitK !== null) parts.push(`saturation ± ${m.maxSaturationLimitK} K`);
+  const unknown = [m.maxEquilibrationS === null && "equilibration", m.maxSpreadK === null && "spread", m.maxSaturationLimitK === null && "saturation"].filter(Boolean);
+  const tail = unknown.length ? `; no ${list(unknown as string[])} figure known, so none imposed` : "";
+  return parts.length ? `${PROFILE_BASIS_LABELS[basis]}: ${parts.join("; ")}${tail}.` : `${PROFILE_BASIS_LABELS[basis]} sets no fixed figures Papin knows; none imposed.`;
+}
