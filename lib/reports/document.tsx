@@ -8,7 +8,7 @@ import { downsampleForReport, strideIndexes } from "./downsample";
 import { REPORT_CHART_POINTS, REPORT_PHASE_POINTS, type ReportModel } from "./model";
 import { PhaseChart } from "./phase-chart";
 import { s } from "./styles";
-import { formatDuration, testKindLabel } from "@/lib/domain";
+import { checkBasisWording, describeBasis, formatDuration, testKindLabel } from "@/lib/domain";
 import { bytes, fixed, pdfText, signed } from "./text";
 import { CONTENT_WIDTH, colour, loadChannelStyle, seriesStyle } from "./theme";
 import { bothClocks, instantOf, siteClockAt } from "./time";
@@ -386,6 +386,9 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
     const clock = clockAt(offsetS);
     return clock ? `${formatElapsed(offsetS)} (${clock})` : formatElapsed(offsetS);
   };
+  const plateauText = analysis?.plateau
+    ? `${formatElapsed(analysis.plateau.start)} to ${formatElapsed(analysis.plateau.end)} after the first sample${start ? `; ${clockAt(analysis.plateau.start)} to ${clockAt(analysis.plateau.end)} site time` : ""}`
+    : "not reached";
 
   const first = series.timesS[0] ?? 0;
   const last = series.timesS[series.timesS.length - 1] ?? first + 1;
@@ -519,11 +522,15 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           </Fact>
           <Fact label="Test kind">{testKindLabel(detail.testKind)}</Fact>
           <Fact label="Acceptance profile">{`${detail.profile.name} (${fixed(detail.profile.sterilizationTempC, 1)} °C, ${formatDuration(detail.profile.holdingTimeS)})`}</Fact>
+          <Fact label="Basis of the limits">{describeBasis(detail.profile.basis, detail.profile.basisReason)}</Fact>
           <Fact label="Load" wide>
             {detail.loadDescription || "—"}
           </Fact>
           <Fact label="Started (site)">{started.site}</Fact>
           <Fact label="Started (UTC)">{started.utc}</Fact>
+          <Fact label="Plateau" wide>
+            {plateauText}
+          </Fact>
           <Fact label="Uploaded by">{detail.createdBy.name}</Fact>
           <Fact label="Instrument">{detail.instrument ? `${detail.instrument.name}, serial ${detail.instrument.serialNumber}` : "not recorded"}</Fact>
         </View>
@@ -538,7 +545,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
                 <T style={[s.td, { width: "8%" }, c.passed ? s.pass : s.fail]}>{c.passed ? "PASS" : "FAIL"}</T>
                 <T style={[s.tdNum, { width: "13%" }]}>{measuredText(c)}</T>
                 <T style={[s.tdNum, { width: "18%" }]}>{limitText(c)}</T>
-                <T style={[s.td, { width: "36%", fontSize: 7.2, color: colour.inkSoft }]}>{c.basis}</T>
+                <T style={[s.td, { width: "36%", fontSize: 7.2, color: colour.inkSoft }]}>{checkBasisWording(c, detail.profile)}</T>
               </View>
             ))}
           </View>
@@ -547,7 +554,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
         )}
         {limits ? (
           <T style={s.caption}>
-            {`Limits as configured in the acceptance profile "${detail.profile.name}"${detail.profile.basis ? ` (${detail.profile.basis})` : ""}. Saturation temperature from chamber pressure by IAPWS-IF97. F0 at ${fixed(limits.f0ReferenceC, 1)} °C with z = ${fixed(limits.f0ZK, 0)} K.`}
+            {`Limits as configured in the acceptance profile "${detail.profile.name}", basis ${describeBasis(detail.profile.basis, detail.profile.basisReason)}. Saturation temperature from chamber pressure by IAPWS-IF97. F0 at ${fixed(limits.f0ReferenceC, 1)} °C with z = ${fixed(limits.f0ZK, 0)} K.`}
           </T>
         ) : null}
 

@@ -26,6 +26,15 @@ export const createCycleFieldsSchema = z.object({
     emptyToUndefined,
     z.enum(TEST_KINDS, { message: "Choose the kind of test this cycle was." }).default("thermometric-small-load"),
   ),
+  // Needed only when the file holds elapsed times without a date; a time without a zone is the site's.
+  startedAt: z.preprocess(
+    emptyToUndefined,
+    z
+      .string()
+      .trim()
+      .regex(/^\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}(:\d{2}([.,]\d+)?)?([zZ]|[+-]\d{2}:?\d{2})?$/, "Give the cycle's start as an ISO 8601 date and time, e.g. 2025-03-03T07:30.")
+      .optional(),
+  ),
 });
 
 export type CreateCycleFields = z.infer<typeof createCycleFieldsSchema>;

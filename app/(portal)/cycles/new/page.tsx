@@ -8,7 +8,7 @@ export const metadata = { title: "New test cycle" };
 
 export default async function NewCyclePage() {
   const actor = await requirePageActor("cycle:create");
-  const { sterilizers, profiles, instruments } = await getIntakeOptions({ actor });
+  const { sterilizers, profiles, instruments, timeZone } = await getIntakeOptions({ actor });
   return (
     <>
       <PageHeader
@@ -20,6 +20,7 @@ export default async function NewCyclePage() {
         sterilizers={sterilizers}
         profiles={profiles}
         instruments={instruments}
+        timeZone={timeZone}
       />
     </>
   );
