@@ -225,6 +225,6 @@ export function summariseBasisMinimums(basis: ProfileBasis): string {
   if (m.maxSpreadK !== null) parts.push(`spread ≤ ${m.maxSpreadK} K`);
   if (m.maxSaturationLimitK !== null) parts.push(`saturation ± ${m.maxSaturationLimitK} K`);
   const unknown = [m.maxEquilibrationS === null && "equilibration", m.maxSpreadK === null && "spread", m.maxSaturationLimitK === null && "saturation"].filter(Boolean);
-  const tail = unknown.length ? `; no ${list(unknown as string[])} figure known, so none imposed` : "";
+  const tail = unknown.length ? `; no ${list(unknown as string[])} figure${unknown.length > 1 ? "s" : ""} known, so none imposed` : "";
   return parts.length ? `${PROFILE_BASIS_LABELS[basis]}: ${parts.join("; ")}${tail}.` : `${PROFILE_BASIS_LABELS[basis]} sets no fixed figures Papin knows; none imposed.`;
 }
