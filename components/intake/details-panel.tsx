@@ -3,7 +3,7 @@
 import type { ReactNode } from "react";
 import type { TestKind } from "@/lib/domain";
 import type { CreateCycleField } from "@/lib/validations/intake";
-import { formatDuration, TEST_KINDS, testKindLabel } from "@/lib/domain";
+import { formatDuration, PROFILE_BASIS_LABELS, TEST_KINDS, testKindLabel } from "@/lib/domain";
 import { Panel } from "@/components/ui/panel";
 import type { IntakeInstrument, IntakeProfile, IntakeSterilizer } from "./intake-request";
 import type { CycleFields } from "./use-cycle-fields";
@@ -85,7 +85,7 @@ function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instru
         {errorText("profileId")}
         {profile && (
           <p id={`${ids}-profile-hint`} className="mt-1 text-xs text-ink-muted">
-            {profile.sterilizationTempC} °C to {profile.sterilizationTempC + profile.bandK} °C, holding at least {formatDuration(profile.holdingTimeS)}
+            {profile.sterilizationTempC} °C to {profile.sterilizationTempC + profile.bandK} °C, holding at least {formatDuration(profile.holdingTimeS)} · basis {PROFILE_BASIS_LABELS[profile.basis]}
             {details.sterilizer?.defaultProfileId === profile.id ? " · the sterilizer's default" : ""}
           </p>
         )}

@@ -1,11 +1,11 @@
 import type { InspectResponse, MappingOverrides } from "@/lib/cycles/contracts";
-import type { TestKind } from "@/lib/domain";
+import type { ProfileBasis, TestKind } from "@/lib/domain";
 import { createCycleFieldsSchema, mappingProblems, type CreateCycleField } from "@/lib/validations/intake";
 import { timeFormatHasDate } from "@/lib/cycles/start-time";
 import type { MappedColumn } from "./mapping-table";
 
 export type IntakeSterilizer = { id: string; name: string; serialNumber: string; chamberVolumeL: number; defaultProfileId: string | null };
-export type IntakeProfile = { id: string; name: string; sterilizationTempC: number; holdingTimeS: number; bandK: number };
+export type IntakeProfile = { id: string; name: string; sterilizationTempC: number; holdingTimeS: number; bandK: number; basis: ProfileBasis };
 export type IntakeInstrument = { id: string; name: string; serialNumber: string; kind: string; hasSavedMapping: boolean };
 
 /** The cycle details as the form holds them; startedAt is a datetime-local value, read in the site's time zone. */

@@ -45,7 +45,7 @@ export async function getIntakeOptions({ actor }: { actor: Actor }) {
   return {
     timeZone: site?.timeZone ?? "UTC",
     sterilizers: sterilizers.map((s) => ({ id: s.id, name: s.name, serialNumber: s.serialNumber, chamberVolumeL: s.chamberVolumeL, defaultProfileId: s.defaultProfileId })),
-    profiles: profiles.map((p) => ({ id: p.id, name: p.name, sterilizationTempC: p.sterilizationTempC, holdingTimeS: p.holdingTimeS, bandK: p.bandK })),
+    profiles: profiles.map((p) => ({ id: p.id, name: p.name, sterilizationTempC: p.sterilizationTempC, holdingTimeS: p.holdingTimeS, bandK: p.bandK, basis: p.basis })),
     instruments: instruments.map((i) => ({ id: i.id, name: i.name, serialNumber: i.serialNumber, kind: i.kind, hasSavedMapping: i.hasSavedMapping })),
   };
 }
