@@ -185,7 +185,11 @@ export function describeBasis(basis: ProfileBasis, basisReason?: string | null):
   return reason ? `${label}: ${reason}` : label;
 }
 
-/** What the profile's basis says about one check, in words for the record and the report. */
+/**
+ * What the profile's basis says about one check, printed beside it on the record and the report
+ * in place of any standard the analysis might name: a benchtop judged under EN 13060 is never
+ * described with EN 285 wording. Check ids the basis has no words for get a plain "no figure".
+ */
 export function basisNoteFor(checkId: string, basis: ProfileBasis, basisReason: string | null | undefined, sterilizationTempC: number): string {
   if (basis === "local") return describeBasis(basis, basisReason);
   const name = PROFILE_BASIS_LABELS[basis];
@@ -197,21 +201,6 @@ export function basisNoteFor(checkId: string, basis: ProfileBasis, basisReason: 
   if (checkId === "band" && m.maxBandK !== null && row) return `${name}: band ${+row.sterilizationTempC.toFixed(2)}–${degrees(row.sterilizationTempC + m.maxBandK)}`;
   if (checkId === "plateau-reached" && row) return `${name}: sterilization temperature ${degrees(row.sterilizationTempC)}`;
   return `${name}: no figure of its own for this check; the profile's applies`;
-}
-
-const STANDARD_NAME = /\b(EN ?285|EN ?13060|ISO ?17665|ST ?79|HTM)\b/;
-
-/**
- * The basis text printed beside a check: the analysis's own words for the profile's limit, with
- * any standard it named replaced by what the profile's basis says. A benchtop judged under
- * EN 13060 is never described with EN 285 wording.
- */
-export function checkBasisWording(check: { id: string; basis: string; limit: number | null; comparison: "at-most" | "at-least"; unit: string }, profile: { basis: ProfileBasis; basisReason?: string | null; sterilizationTempC: number }): string {
-  let own = check.basis.replace(/\s*\([^()]*\)/g, (group) => (STANDARD_NAME.test(group) ? "" : group)).trim();
-  if (STANDARD_NAME.test(own) || own === "") {
-    own = check.limit === null ? "acceptance profile" : `acceptance profile: ${check.comparison === "at-most" ? "at most" : "at least"} ${+check.limit.toFixed(3)} ${check.unit}`;
-  }
-  return `${own}. Basis: ${basisNoteFor(check.id, profile.basis, profile.basisReason, profile.sterilizationTempC)}`;
 }
 
 /** One line of what a basis requires, for the profile form: "121 °C ≥ 15 min, …; band ≤ 3 K; …". */

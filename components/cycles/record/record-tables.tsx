@@ -5,7 +5,7 @@ import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { formatBytes, formatDateTime, formatNumber } from "@/lib/format";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
 import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
-import { checkBasisWording, describeBasis, formatDuration } from "@/lib/domain";
+import { basisNoteFor, describeBasis, formatDuration } from "@/lib/domain";
 
 export function ChecksTable({ analysis, profile }: { analysis: AnalysisResult; profile: CycleDetail["profile"] }) {
   return (
@@ -27,7 +27,7 @@ export function ChecksTable({ analysis, profile }: { analysis: AnalysisResult; p
               <td className="font-medium">{c.label}</td>
               <td className="whitespace-nowrap tabular-nums">{formatFigure(c.measured, c.unit)}</td>
               <td className="whitespace-nowrap tabular-nums">{formatLimit(c)}</td>
-              <td className="text-xs text-ink-muted">{checkBasisWording(c, profile)}</td>
+              <td className="text-xs text-ink-muted">{basisNoteFor(c.id, profile.basis, profile.basisReason, profile.sterilizationTempC)}</td>
               <td className="whitespace-nowrap">{c.passed ? <Badge tone="pass">✓ Pass</Badge> : <Badge tone="fail">✕ Fail</Badge>}</td>
             </tr>
           ))}
