@@ -1,5 +1,5 @@
 import { relations, sql } from "drizzle-orm";
-import { blob, index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { blob, check, index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 
 const id = () =>
   text("id")
@@ -10,7 +10,17 @@ const createdAt = () =>
     .notNull()
     .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`);
 
-import { CYCLE_STATUSES, INSTRUMENT_KINDS, MAIL_STATUSES, PERIODIC_TEST_KINDS, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, VERDICTS } from "../lib/domain";
+import {
+  CYCLE_STATUSES,
+  INSTRUMENT_KINDS,
+  MAIL_STATUSES,
+  PERIODIC_TEST_KINDS,
+  PROFILE_BASES,
+  ROLES,
+  SIGNATURE_MEANINGS,
+  TEST_KINDS,
+  VERDICTS,
+} from "../lib/domain";
 
 // The enums live in lib/domain; the database layer may keep taking them from here.
 export { CYCLE_STATUSES, PERIODIC_TEST_KINDS, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, type CycleStatus, type PeriodicTestKind, type Role, type SignatureMeaning, type TestKind } from "../lib/domain";
@@ -50,24 +60,34 @@ export const users = sqliteTable(
 export type User = typeof users.$inferSelect;
 export type NewUser = typeof users.$inferInsert;
 
-export const acceptanceProfiles = sqliteTable("acceptance_profiles", {
-  id: id(),
-  siteId: text("site_id")
-    .notNull()
-    .references(() => sites.id),
-  name: text("name").notNull(),
-  sterilizationTempC: real("sterilization_temp_c").notNull(),
-  bandK: real("band_k").notNull().default(3),
-  holdingTimeS: real("holding_time_s").notNull(),
-  maxEquilibrationS: real("max_equilibration_s").notNull().default(15),
-  maxSpreadK: real("max_spread_k").notNull().default(2),
-  saturationLimitK: real("saturation_limit_k").notNull().default(2),
-  f0ReferenceC: real("f0_reference_c").notNull().default(121.1),
-  f0ZK: real("f0_z_k").notNull().default(10),
-  basis: text("basis").notNull().default(""),
-  active: integer("active", { mode: "boolean" }).notNull().default(true),
-  createdAt: createdAt(),
-});
+export const acceptanceProfiles = sqliteTable(
+  "acceptance_profiles",
+  {
+    id: id(),
+    siteId: text("site_id")
+      .notNull()
+      .references(() => sites.id),
+    name: text("name").notNull(),
+    sterilizationTempC: real("sterilization_temp_c").notNull(),
+    bandK: real("band_k").notNull().default(3),
+    holdingTimeS: real("holding_time_s").notNull(),
+    maxEquilibrationS: real("max_equilibration_s").notNull().default(15),
+    maxSpreadK: real("max_spread_k").notNull().default(2),
+    saturationLimitK: real("saturation_limit_k").notNull().default(2),
+    f0ReferenceC: real("f0_reference_c").notNull().default(121.1),
+    f0ZK: real("f0_z_k").notNull().default(10),
+    // The standard the limits claim, or "local" with basis_reason (lib/domain/profile-basis.ts).
+    basis: text("basis", { enum: PROFILE_BASES }).notNull(),
+    basisReason: text("basis_reason"),
+    active: integer("active", { mode: "boolean" }).notNull().default(true),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    check("acceptance_profiles_basis_known", sql`${t.basis} in (${sql.raw(PROFILE_BASES.map((b) => `'${b}'`).join(", "))})`),
+    // Local practice never stands without its reason.
+    check("acceptance_profiles_local_reason", sql`${t.basis} <> 'local' or length(trim(coalesce(${t.basisReason}, ''))) > 0`),
+  ],
+);
 export type AcceptanceProfile = typeof acceptanceProfiles.$inferSelect;
 export type NewAcceptanceProfile = typeof acceptanceProfiles.$inferInsert;
 

@@ -26,10 +26,12 @@ import { hashPassword } from "@/lib/auth/password";
 import { simulateCycle, toLoggerCsv, type Scenario } from "@/lib/simulator";
 import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
 import { atmosphereAtAltitudeKpa } from "@/lib/steam";
+import { zoneOffsetMs } from "@/lib/domain";
 
 export { DEMO_USERS };
 
 const DAY_MS = 86_400_000;
+const DEMO_TIME_ZONE = "Europe/London";
 
 type DemoSterilizer = {
   key: string;
@@ -38,7 +40,7 @@ type DemoSterilizer = {
   model: string;
   chamberVolumeL: number;
   location: string;
-  profileKey: "p134" | "p121" | "p134large";
+  profileKey: "p134" | "p121" | "p134large" | "p134bench";
   dialect: Parameters<typeof toLoggerCsv>[1];
 };
 
@@ -80,7 +82,7 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
     model: "Type B benchtop sterilizer",
     chamberVolumeL: 23,
     location: "Day-surgery theatre suite",
-    profileKey: "p134",
+    profileKey: "p134bench",
     dialect: { delimiter: ",", decimal: ".", timeFormat: "mdy-ampm", pressureUnit: "mbar" },
   },
 ];
@@ -124,7 +126,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
       .values({
         name: "Marlow Bridge General Hospital — Sterile Services",
         code: "MBG-SSD",
-        timeZone: "Europe/London",
+        timeZone: DEMO_TIME_ZONE,
         altitudeM,
         address: "Unit 4, Riverside Works, Marlow Bridge (fictional)",
       })
@@ -152,7 +154,8 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           bandK: 3,
           holdingTimeS: 180,
           maxEquilibrationS: 15,
-          basis: "EN 285 thermometric test: band 134–137 °C, 3 min hold, equilibration ≤ 15 s for chambers up to 800 l",
+          basis: "en-285",
+          basisReason: "thermometric test: band 134–137 °C, 3 min hold, equilibration ≤ 15 s for chambers up to 800 l",
         },
         {
           siteId: site.id,
@@ -161,7 +164,8 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           bandK: 3,
           holdingTimeS: 180,
           maxEquilibrationS: 30,
-          basis: "EN 285 thermometric test: equilibration ≤ 30 s for chambers over 800 l",
+          basis: "en-285",
+          basisReason: "thermometric test: equilibration ≤ 30 s for chambers over 800 l",
         },
         {
           siteId: site.id,
@@ -170,7 +174,18 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           bandK: 3,
           holdingTimeS: 900,
           maxEquilibrationS: 15,
-          basis: "EN 285 / HTM 01-01 band 121–124 °C, 15 min hold",
+          basis: "en-285",
+          basisReason: "HTM 01-01: band 121–124 °C, 15 min hold",
+        },
+        {
+          siteId: site.id,
+          name: "134 °C / 3 min benchtop",
+          sterilizationTempC: 134,
+          bandK: 3,
+          holdingTimeS: 180,
+          maxEquilibrationS: 15,
+          basis: "en-13060",
+          basisReason: "type B cycle, chamber under 60 l",
         },
       ])
       .returning();
@@ -178,6 +193,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
       p134: profileRows[0],
       p134large: profileRows[1],
       p121: profileRows[2],
+      p134bench: profileRows[3],
     };
 
     const instrumentRows = await tx
@@ -237,7 +253,8 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           sterilizationTempC: profile.sterilizationTempC + 0.6,
           holdingTimeS: profile.holdingTimeS + 30,
           seed: 1000 + ordinal,
-          startedAt,
+          // The loggers' clocks show the site's local time, without a zone, as intake reads them.
+          startedAt: new Date(startedAt.getTime() + zoneOffsetMs(startedAt.getTime(), DEMO_TIME_ZONE)),
           atmosphereKpa,
           sampleIntervalS: 2,
         });

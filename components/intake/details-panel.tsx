@@ -3,7 +3,7 @@
 import type { ReactNode } from "react";
 import type { TestKind } from "@/lib/domain";
 import type { CreateCycleField } from "@/lib/validations/intake";
-import { formatDuration, TEST_KINDS, testKindLabel } from "@/lib/domain";
+import { formatDuration, PROFILE_BASIS_LABELS, TEST_KINDS, testKindLabel } from "@/lib/domain";
 import { Panel } from "@/components/ui/panel";
 import type { IntakeInstrument, IntakeProfile, IntakeSterilizer } from "./intake-request";
 import type { CycleFields } from "./use-cycle-fields";
@@ -17,6 +17,9 @@ type Props = {
   instruments: readonly IntakeInstrument[];
   busy: boolean;
   onInstrumentChange: (id: string) => void;
+  /** the file has no date of its own (elapsed times), so the cycle's start is asked for */
+  askStartTime: boolean;
+  timeZone: string;
 };
 
 type Wiring = ReturnType<typeof fieldWiring>;
@@ -44,6 +47,7 @@ export function DetailsPanel(props: Props) {
     <Panel title={`${props.step} · Cycle details`}>
       <div className="grid gap-4 md:grid-cols-2 xl:grid-cols-3">
         <EquipmentFields {...props} wiring={wiring} />
+        {(props.askStartTime || props.details.fieldErrors.startedAt) && <StartTimeField idPrefix={props.idPrefix} details={props.details} wiring={wiring} timeZone={props.timeZone} />}
         <CycleFacts idPrefix={props.idPrefix} details={props.details} wiring={wiring} />
       </div>
       <SaveMappingBox details={props.details} />
@@ -103,7 +107,7 @@ function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instru
         {errorText("profileId")}
         {profile && (
           <p id={`${ids}-profile-hint`} className="mt-1 text-xs text-ink-muted">
-            {profile.sterilizationTempC} °C to {profile.sterilizationTempC + profile.bandK} °C, holding at least {formatDuration(profile.holdingTimeS)}
+            {profile.sterilizationTempC} °C to {profile.sterilizationTempC + profile.bandK} °C, holding at least {formatDuration(profile.holdingTimeS)} · basis {PROFILE_BASIS_LABELS[profile.basis]}
             {details.sterilizer?.defaultProfileId === profile.id ? " · the sterilizer's default" : ""}
           </p>
         )}
@@ -201,6 +205,32 @@ function CycleFacts({ idPrefix: ids, details, wiring }: { idPrefix: string; deta
         {errorText("load")}
       </div>
     </>
+  );
+}
+
+/** The cycle's start, only for a file without a date: never taken from the upload time. */
+function StartTimeField({ idPrefix: ids, details, wiring, timeZone }: { idPrefix: string; details: CycleFields; wiring: Wiring; timeZone: string }) {
+  const { invalid, describedBy, errorText } = wiring;
+  return (
+    <div>
+      <label className="field-label" htmlFor={`${ids}-started-at`}>Cycle started at</label>
+      <input
+        id={`${ids}-started-at`}
+        name="startedAt"
+        type="datetime-local"
+        step={1}
+        className="field-input"
+        value={details.fields.startedAt}
+        onChange={(e) => details.setField("startedAt", e.target.value)}
+        {...invalid("startedAt")}
+        aria-describedby={describedBy("startedAt") ?? `${ids}-started-at-hint`}
+      />
+      {errorText("startedAt") ?? (
+        <p id={`${ids}-started-at-hint`} className="mt-1 text-xs text-ink-muted">
+          The file holds elapsed times only. Local time at the site ({timeZone}), from the sterilizer&apos;s printout or display.
+        </p>
+      )}
+    </div>
   );
 }
 

@@ -4,7 +4,7 @@ import { useId } from "react";
 import { ColumnsPanel } from "./columns-panel";
 import { DetailsPanel } from "./details-panel";
 import { FilePanel } from "./file-panel";
-import type { IntakeInstrument, IntakeProfile, IntakeSterilizer } from "./intake-request";
+import { needsStartTime, type IntakeInstrument, type IntakeProfile, type IntakeSterilizer } from "./intake-request";
 import { ProgressLine } from "./progress-line";
 import { useIntake } from "./use-intake";
 
@@ -13,10 +13,12 @@ type Props = {
   profiles: IntakeProfile[];
   instruments: IntakeInstrument[];
   limitMb: number;
+  /** the site's IANA time zone: a start time typed here is read in it */
+  timeZone: string;
 };
 
 /** Cycle intake: drop the logger file, confirm its columns, give the cycle's details, analyse. */
-export function IntakeForm({ sterilizers, profiles, instruments, limitMb }: Props) {
+export function IntakeForm({ sterilizers, profiles, instruments, limitMb, timeZone }: Props) {
   const ids = useId();
   const intake = useIntake({ sterilizers, instruments });
   const { busy, logger, details } = intake;
@@ -42,6 +44,8 @@ export function IntakeForm({ sterilizers, profiles, instruments, limitMb }: Prop
         instruments={instruments}
         busy={Boolean(busy)}
         onInstrumentChange={intake.chooseInstrument}
+        askStartTime={needsStartTime(inspect)}
+        timeZone={timeZone}
       />
       {busy && busy.label !== "Reading the file" && <ProgressLine busy={busy} />}
       <div className="flex flex-wrap items-center gap-3">

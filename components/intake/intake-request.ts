@@ -1,17 +1,23 @@
 import type { InspectResponse, MappingOverrides } from "@/lib/cycles/contracts";
-import type { TestKind } from "@/lib/domain";
+import type { ProfileBasis, TestKind } from "@/lib/domain";
 import { createCycleFieldsSchema, mappingProblems, type CreateCycleField } from "@/lib/validations/intake";
+import { timeFormatHasDate } from "@/lib/cycles/start-time";
 import type { MappedColumn } from "./mapping-table";
 
 export type IntakeSterilizer = { id: string; name: string; serialNumber: string; chamberVolumeL: number; defaultProfileId: string | null };
-export type IntakeProfile = { id: string; name: string; sterilizationTempC: number; holdingTimeS: number; bandK: number };
+export type IntakeProfile = { id: string; name: string; sterilizationTempC: number; holdingTimeS: number; bandK: number; basis: ProfileBasis };
 export type IntakeInstrument = { id: string; name: string; serialNumber: string; kind: string; hasSavedMapping: boolean };
 
-/** The cycle details as the form holds them. */
-export type IntakeFields = { sterilizerId: string; profileId: string; instrumentId: string; cycleNumber: string; load: string; testKind: TestKind };
+/** The cycle details as the form holds them; startedAt is a datetime-local value, read in the site's time zone. */
+export type IntakeFields = { sterilizerId: string; profileId: string; instrumentId: string; cycleNumber: string; load: string; testKind: TestKind; startedAt: string };
 export type FieldErrors = Partial<Record<CreateCycleField, string>>;
 
-export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind"];
+export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind", "startedAt"];
+
+/** Whether the inspected file leaves the start time to the user: elapsed times or clock times without a date. */
+export function needsStartTime(inspect: InspectResponse | null): boolean {
+  return inspect !== null && !timeFormatHasDate(inspect.dialect.timeFormat);
+}
 
 export function columnsFrom(inspect: InspectResponse): MappedColumn[] {
   return inspect.columns.map((c) => ({ index: c.index, header: c.header, role: c.role, unit: c.unit, gauge: c.gauge, unsure: c.unsure, edited: false }));
@@ -52,7 +58,8 @@ export type DraftProblems = { fieldErrors: FieldErrors; mappingErrors: string[];
 
 /** What stops the draft from being analysed, field by field; all empty when it may be sent. */
 export function draftProblems(draft: IntakeDraft): DraftProblems {
-  const parsed = createCycleFieldsSchema.safeParse(draft.fields);
+  const askStart = needsStartTime(draft.inspect);
+  const parsed = createCycleFieldsSchema.safeParse({ ...draft.fields, startedAt: askStart ? draft.fields.startedAt : undefined });
   const fieldErrors: FieldErrors = {};
   if (!parsed.success) {
     for (const issue of parsed.error.issues) {
@@ -60,6 +67,7 @@ export function draftProblems(draft: IntakeDraft): DraftProblems {
       fieldErrors[name] ??= issue.message;
     }
   }
+  if (askStart && !draft.fields.startedAt.trim()) fieldErrors.startedAt ??= "This file holds elapsed times without a date: give the date and time the cycle started.";
   const mappingErrors = draft.inspect ? mappingProblems(draft.columns, draft.referenceColumn) : [];
   let fileError: string | null = null;
   if (!draft.files[0] || !draft.inspect) fileError = draft.files[0] ? "The file could not be read; choose another one." : "Add the logger file first.";
@@ -81,6 +89,7 @@ export function cycleForm(draft: IntakeDraft): FormData {
   if (fields.cycleNumber.trim()) form.append("cycleNumber", fields.cycleNumber.trim());
   if (fields.load.trim()) form.append("load", fields.load.trim());
   form.append("testKind", fields.testKind);
+  if (needsStartTime(draft.inspect) && fields.startedAt.trim()) form.append("startedAt", fields.startedAt.trim());
   form.append("mapping", JSON.stringify(toMappingOverrides(draft.columns, draft.referenceColumn)));
   if (draft.saveMapping && fields.instrumentId) form.append("saveMapping", "true");
   return form;

@@ -20,6 +20,7 @@ export function useCycleFields({ sterilizers, instruments, onEdit }: Options) {
     cycleNumber: "",
     load: "",
     testKind: "thermometric-small-load",
+    startedAt: "",
   });
   const [fieldErrors, setFieldErrors] = useState<FieldErrors>({});
   const [saveMapping, setSaveMapping] = useState(false);

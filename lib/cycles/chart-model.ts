@@ -5,6 +5,7 @@
  */
 import type { SeriesResponse } from "./contracts";
 import type { AnalysisResult } from "@/lib/analysis/types";
+import { hasZone } from "@/lib/domain";
 
 // ---------------------------------------------------------------------------------------------
 // Time axis
@@ -38,10 +39,7 @@ export function elapsedTickLabels(ticks: number[], spanS: number, recordLongerTh
   return ticks.map((t) => formatElapsed(t, { tenths, forceHours }));
 }
 
-/** Whether an ISO 8601 date-time names its zone (Z or an offset); logger clocks often do not. */
-export function hasZone(iso: string): boolean {
-  return /(?:[zZ]|[+-]\d{2}:?\d{2})$/.test(iso.trim());
-}
+export { hasZone } from "@/lib/domain";
 
 /**
  * The wall-clock time of a sample in the site's time zone, or null without a start time. A start

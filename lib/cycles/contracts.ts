@@ -4,7 +4,7 @@
  */
 import type { AnalysisResult } from "@/lib/analysis/types";
 import type { ColumnMapping, Dialect, InspectResult, MappingOverrides } from "@/lib/logger-files/types";
-import type { CycleStatus, SignatureMeaning, TestKind } from "@/lib/domain";
+import type { CycleStatus, ProfileBasis, SignatureMeaning, TestKind } from "@/lib/domain";
 
 export type { AnalysisResult, ColumnMapping, Dialect, InspectResult, MappingOverrides };
 
@@ -64,7 +64,9 @@ export type CycleDetail = {
     saturationLimitK: number;
     f0ReferenceC: number;
     f0ZK: number;
-    basis: string;
+    /** the standard the limits claim, or "local" (then basisReason says why) */
+    basis: ProfileBasis;
+    basisReason: string | null;
   };
   instrument: { id: string; name: string; serialNumber: string } | null;
   files: CycleFile[];

@@ -9,3 +9,5 @@ export * from "./test-kinds";
 export * from "./equipment";
 export * from "./units";
 export * from "./format";
+export * from "./profile-basis";
+export * from "./time-zone";

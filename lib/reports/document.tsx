@@ -8,7 +8,7 @@ import { downsampleForReport, strideIndexes } from "./downsample";
 import { REPORT_CHART_POINTS, REPORT_PHASE_POINTS, type ReportModel } from "./model";
 import { PhaseChart } from "./phase-chart";
 import { s } from "./styles";
-import { formatDuration, testKindLabel } from "@/lib/domain";
+import { basisNoteFor, describeBasis, formatDuration, PROFILE_BASIS_LABELS, testKindLabel } from "@/lib/domain";
 import { bytes, fixed, pdfText, signed } from "./text";
 import { CONTENT_WIDTH, colour, loadChannelStyle, seriesStyle } from "./theme";
 import { bothClocks, instantOf, siteClockAt } from "./time";
@@ -384,6 +384,10 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
     const clock = clockAt(offsetS);
     return clock ? `${formatElapsed(offsetS)} (${clock})` : formatElapsed(offsetS);
   };
+  // Plateau start and end as elapsed time, with the site's clock time beneath.
+  const plateauReadout = analysis?.plateau
+    ? { value: `${formatElapsed(analysis.plateau.start)}–${formatElapsed(analysis.plateau.end)}`, note: start ? `${clockAt(analysis.plateau.start)}–${clockAt(analysis.plateau.end)} site time` : "since first sample" }
+    : { value: "none", note: "never reached Ts" };
 
   const first = series.timesS[0] ?? 0;
   const last = series.timesS[series.timesS.length - 1] ?? first + 1;
@@ -486,11 +490,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
         {analysis ? (
           <View style={s.readouts} wrap={false}>
             {[
-              {
-                label: "Plateau start",
-                value: analysis.plateau ? formatElapsed(analysis.plateau.start) : "none",
-                note: analysis.plateau ? (clockAt(analysis.plateau.start) ?? "since first sample") : "never reached Ts",
-              },
+              { label: "Plateau", ...plateauReadout },
               { label: "Equilibration", value: formatDuration(analysis.equilibrationTime), note: `limit ${formatDuration(limits?.maxEquilibrationS)}` },
               { label: "Holding", value: formatDuration(analysis.holdingTime), note: `at least ${formatDuration(limits?.holdingTimeS)}` },
               {
@@ -522,7 +522,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
             <T style={s.mono}>{detail.cycleNumber}</T>
           </Fact>
           <Fact label="Test kind">{testKindLabel(detail.testKind)}</Fact>
-          <Fact label="Acceptance profile">{`${detail.profile.name} (${fixed(detail.profile.sterilizationTempC, 1)} °C, ${formatDuration(detail.profile.holdingTimeS)})`}</Fact>
+          <Fact label="Acceptance profile">{`${detail.profile.name} (${fixed(detail.profile.sterilizationTempC, 1)} °C, ${formatDuration(detail.profile.holdingTimeS)}), basis ${PROFILE_BASIS_LABELS[detail.profile.basis]}`}</Fact>
           <Fact label="Load" wide>
             {detail.loadDescription || "—"}
           </Fact>
@@ -542,7 +542,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
                 <T style={[s.td, { width: "8%" }, c.passed ? s.pass : s.fail]}>{c.passed ? "PASS" : "FAIL"}</T>
                 <T style={[s.tdNum, { width: "13%" }]}>{measuredText(c)}</T>
                 <T style={[s.tdNum, { width: "18%" }]}>{limitText(c)}</T>
-                <T style={[s.td, { width: "36%", fontSize: 7.2, color: colour.inkSoft }]}>{c.basis}</T>
+                <T style={[s.td, { width: "36%", fontSize: 7.2, color: colour.inkSoft }]}>{basisNoteFor(c.id, detail.profile.basis, detail.profile.basisReason, detail.profile.sterilizationTempC)}</T>
               </View>
             ))}
           </View>
@@ -551,7 +551,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
         )}
         {limits ? (
           <T style={s.caption}>
-            {`Limits as configured in the acceptance profile "${detail.profile.name}"${detail.profile.basis ? ` (${detail.profile.basis})` : ""}. Saturation temperature from chamber pressure by IAPWS-IF97. F0 at ${fixed(limits.f0ReferenceC, 1)} °C with z = ${fixed(limits.f0ZK, 0)} K.`}
+            {`Limits as configured in the acceptance profile "${detail.profile.name}", basis ${describeBasis(detail.profile.basis, detail.profile.basisReason)}. Saturation temperature from chamber pressure by IAPWS-IF97. F0 at ${fixed(limits.f0ReferenceC, 1)} °C with z = ${fixed(limits.f0ZK, 0)} K.`}
           </T>
         ) : null}
 

@@ -1,7 +1,7 @@
 /** Instants printed twice: in UTC and on the site's clock, with the zone named. */
+import { instantInZone, isValidTimeZone } from "@/lib/domain";
 
-const HAS_ZONE = /(Z|[+-]\d{2}:?\d{2})$/i;
-const WALL_TIME = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d+))?)?$/;
+export { isValidTimeZone };
 
 type Parts = { year: number; month: number; day: number; hour: number; minute: number; second: number; zoneName: string };
 
@@ -29,40 +29,13 @@ function partsIn(date: Date, timeZone: string): Parts {
   };
 }
 
-export function isValidTimeZone(timeZone: string): boolean {
-  try {
-    new Intl.DateTimeFormat("en-GB", { timeZone });
-    return true;
-  } catch {
-    return false;
-  }
-}
-
 /**
  * The instant an ISO text stands for. A text without an offset is a wall-clock reading from a
- * logger set to the site's time (how logger files write their times), so it is placed in that zone.
+ * logger set to the site's time (how logger files write their times), so it is placed in that zone;
+ * with an unknown zone it is read as UTC.
  */
 export function instantOf(iso: string, siteTimeZone: string): Date | null {
-  const text = iso.trim();
-  if (HAS_ZONE.test(text)) {
-    const date = new Date(text);
-    return Number.isNaN(date.getTime()) ? null : date;
-  }
-  const m = WALL_TIME.exec(text);
-  if (!m) return null;
-  const [year, month, day, hour, minute] = m.slice(1, 6).map(Number);
-  const second = Number(m[6] ?? 0);
-  const ms = m[7] ? Number(`0.${m[7]}`) * 1000 : 0;
-  const wallAsUtc = Date.UTC(year, month - 1, day, hour, minute, second, ms);
-  if (!isValidTimeZone(siteTimeZone)) return new Date(wallAsUtc);
-  // Two passes settle the offset, also next to a daylight-saving change.
-  let guess = wallAsUtc;
-  for (let i = 0; i < 2; i++) {
-    const p = partsIn(new Date(guess), siteTimeZone);
-    const shownAsUtc = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second, new Date(guess).getUTCMilliseconds());
-    guess += wallAsUtc - shownAsUtc;
-  }
-  return new Date(guess);
+  return instantInZone(iso, siteTimeZone) ?? instantInZone(iso, "UTC");
 }
 
 const MONTHS = ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"];

@@ -33,5 +33,8 @@ export async function getCycleSeries({ actor, id, fromS, toS, points = 3000 }: {
   const loaded = await recordingOfAnalysis(cycle.currentAnalysisId);
   if (!loaded) return undefined;
   const maxPoints = Math.min(Math.max(Math.trunc(points), 50), 20000);
-  return buildSeries(loaded.recording, loaded.result, { fromS, toS, points: maxPoints });
+  const series = buildSeries(loaded.recording, loaded.result, { fromS, toS, points: maxPoints });
+  // The cycle's start instant (the file's clock read in the site's zone, or the start the user gave
+  // for an elapsed-only file), so the chart's clock times are the site's.
+  return { ...series, startedAt: cycle.startedAt ?? series.startedAt };
 }

@@ -85,6 +85,7 @@ export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }
       f0ReferenceC: profile.f0ReferenceC,
       f0ZK: profile.f0ZK,
       basis: profile.basis,
+      basisReason: profile.basisReason,
     },
     instrument: instrument ? { id: instrument.id, name: instrument.name, serialNumber: instrument.serialNumber } : null,
     files: files.map((f) => ({ ...f, dialect: (f.dialect ?? null) as CycleDetail["files"][number]["dialect"], mapping: (f.mapping ?? null) as MappingOverrides | null })),

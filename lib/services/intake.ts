@@ -9,6 +9,7 @@ import { AnalysisError } from "@/lib/analysis";
 import type { AnalysisResult } from "@/lib/analysis/types";
 import { inspectLoggerFile, LoggerFileError, type MappingOverrides } from "@/lib/logger-files";
 import { analyzeLoggerBytes, siteAtmosphereKpa, type FileAnalysis } from "@/lib/cycles/analyze-file";
+import { resolveCycleStart, siteClockStamp } from "@/lib/cycles/start-time";
 import { sha256Hex } from "@/lib/integrity";
 import type { CreateCycleResponse, InspectResponse } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
@@ -23,6 +24,8 @@ export type CreateCycleInput = {
   cycleNumber?: string | null;
   load?: string | null;
   testKind?: TestKind;
+  /** ISO 8601; used only when the file holds elapsed times without a date */
+  startedAt?: string | null;
   files: UploadedFile[];
   mapping?: MappingOverrides;
   saveMapping?: boolean;
@@ -30,13 +33,19 @@ export type CreateCycleInput = {
   origin?: string;
 };
 
-/** The choices of the intake form: the site's active sterilizers, profiles and instruments. */
+/** The choices of the intake form: the site's active sterilizers, profiles and instruments, and its time zone. */
 export async function getIntakeOptions({ actor }: { actor: Actor }) {
   assertAllowed(actor, "cycle:create", "register cycles");
-  const [sterilizers, profiles, instruments] = await Promise.all([listSterilizersForSite({ actor }), listProfilesForSite({ actor }), listInstrumentsForSite({ actor })]);
+  const [sterilizers, profiles, instruments, site] = await Promise.all([
+    listSterilizersForSite({ actor }),
+    listProfilesForSite({ actor }),
+    listInstrumentsForSite({ actor }),
+    actor.siteId ? getSiteById({ id: actor.siteId }) : undefined,
+  ]);
   return {
+    timeZone: site?.timeZone ?? "UTC",
     sterilizers: sterilizers.map((s) => ({ id: s.id, name: s.name, serialNumber: s.serialNumber, chamberVolumeL: s.chamberVolumeL, defaultProfileId: s.defaultProfileId })),
-    profiles: profiles.map((p) => ({ id: p.id, name: p.name, sterilizationTempC: p.sterilizationTempC, holdingTimeS: p.holdingTimeS, bandK: p.bandK })),
+    profiles: profiles.map((p) => ({ id: p.id, name: p.name, sterilizationTempC: p.sterilizationTempC, holdingTimeS: p.holdingTimeS, bandK: p.bandK, basis: p.basis })),
     instruments: instruments.map((i) => ({ id: i.id, name: i.name, serialNumber: i.serialNumber, kind: i.kind, hasSavedMapping: i.hasSavedMapping })),
   };
 }
@@ -107,8 +116,9 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
   const mapping: MappingOverrides = input.mapping ?? (instrument?.savedMapping as MappingOverrides | null) ?? {};
   const atmosphereKpa = siteAtmosphereKpa(site);
   const { primaryIndex, analysis } = analyseFirstReadable(input.files, (bytes) => analyzeLoggerBytes(bytes, profile, mapping, atmosphereKpa));
-  const now = new Date().toISOString();
-  const cycleNumber = input.cycleNumber?.trim() || defaultCycleNumber(sterilizer.serialNumber, analysis.startedAt ?? now);
+  const start = resolveCycleStart({ fileStartedAt: analysis.startedAt, givenStartedAt: input.startedAt, timeZone: site.timeZone });
+  if (!start.ok) throw new AppError(start.status, start.message, start.field);
+  const cycleNumber = input.cycleNumber?.trim() || `${sterilizer.serialNumber}-${siteClockStamp(start.startedAt, site.timeZone)}`;
   const files = input.files.map((file, index) => ({ file, primary: index === primaryIndex, sha256: index === primaryIndex ? analysis.sha256 : sha256Hex(file.bytes) }));
   const audited = { actorId: actor.id, actorEmail: actor.email, siteId: site.id };
 
@@ -123,7 +133,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
       loadDescription: input.load?.trim() ?? "",
       status: "draft",
       verdict: analysis.result.verdict,
-      startedAt: analysis.startedAt ? normaliseIso(analysis.startedAt) : now,
+      startedAt: start.startedAt,
       createdBy: actor.id,
       supersedesId: input.supersedesId ?? null,
     },
@@ -238,12 +248,3 @@ async function notifyFailure(tx: Tx, cycleId: string, result: AnalysisResult, or
   await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks, origin });
 }
 
-function defaultCycleNumber(serial: string, startedAt: string) {
-  const stamp = normaliseIso(startedAt).slice(0, 16).replace(/[-:T]/g, "");
-  return `${serial}-${stamp}`;
-}
-
-function normaliseIso(value: string): string {
-  const d = new Date(value);
-  return Number.isNaN(d.getTime()) ? value : d.toISOString();
-}

@@ -6,6 +6,7 @@ import { getProfileForSite } from "@/db/queries/catalog";
 import { countCyclesOfProfile, insertProfile, listProfilesOfSite, replaceProfileVersion, updateProfileInPlace } from "@/db/queries/profiles";
 import { can } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
+import { basisShortfalls } from "@/lib/domain";
 import type { ProfileInput } from "@/lib/validations/equipment";
 import { changedFields } from "./equipment";
 import { auditActor, siteIdOf } from "./site";
@@ -42,11 +43,18 @@ export async function getProfilePage({ actor, id }: { actor: Actor; id: string }
   return { profile: await getProfile({ actor, id }), mayManage: can(actor.role, "equipment:manage") };
 }
 
-const PROFILE_LIMIT_KEYS = ["name", "sterilizationTempC", "bandK", "holdingTimeS", "maxEquilibrationS", "maxSpreadK", "saturationLimitK", "f0ReferenceC", "f0ZK", "basis"] as const;
+const PROFILE_LIMIT_KEYS = ["name", "sterilizationTempC", "bandK", "holdingTimeS", "maxEquilibrationS", "maxSpreadK", "saturationLimitK", "f0ReferenceC", "f0ZK", "basis", "basisReason"] as const;
 const profileValues = (p: AcceptanceProfile) => Object.fromEntries(PROFILE_LIMIT_KEYS.map((k) => [k, p[k]]));
+
+/** Refuses limits weaker than the standard the profile names (the form shows the same sentence beside the field). */
+function assertMeetsBasis(input: ProfileInput) {
+  const [first] = basisShortfalls(input);
+  if (first) throw new AppError(422, first.message, first.field);
+}
 
 export async function createProfile({ actor, input }: { actor: Actor; input: ProfileInput }) {
   const siteId = siteIdOf(actor);
+  assertMeetsBasis(input);
   return insertProfile({ values: { ...input, siteId }, audit: { ...auditActor(actor), action: "profile.create", newValue: input } });
 }
 
@@ -56,6 +64,7 @@ export async function createProfile({ actor, input }: { actor: Actor; input: Pro
  * retired and sterilizers that used it as their default move to the new version.
  */
 export async function updateProfile({ actor, id, input, reason }: { actor: Actor; id: string; input: ProfileInput; reason: string }) {
+  assertMeetsBasis(input);
   const before = await getProfile({ actor, id });
   if (!before.active) throw new AppError(409, "This profile version has been retired; edit its current version instead.");
   const { oldValue, newValue, changed } = changedFields(profileValues(before), input);

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { PERIODIC_TEST_KINDS } from "@/lib/domain";
+import { basisShortfalls, PERIODIC_TEST_KINDS, PROFILE_BASES, type ProfileLimitsInput } from "@/lib/domain";
 
 /** A number typed into a form: decimal comma accepted, an empty field is "missing", not 0. */
 export function numberField(what: string, { min, max, unit = "", integer = false }: { min: number; max: number; unit?: string; integer?: boolean }) {
@@ -100,10 +100,22 @@ const profileFields = {
   saturationLimitK: numberField("the saturation limit", { min: 0.1, max: 10, unit: "K" }),
   f0ReferenceC: numberField("the F0 reference temperature", { min: 100, max: 140, unit: "°C" }),
   f0ZK: numberField("the z-value", { min: 1, max: 50, unit: "K" }),
-  basis: z.string({ error: "Say where these limits come from." }).trim().min(3, "Say where these limits come from (standard, clause, protocol).").max(500),
+  basis: z.enum(PROFILE_BASES, { error: "Choose the basis of these limits: a standard, or local practice with its reason." }),
+  basisReason: z
+    .string()
+    .trim()
+    .max(500, "The reason can have at most 500 characters.")
+    .optional()
+    .transform((s) => (s ? s : null)),
 };
-export const createProfileSchema = z.object(profileFields);
-export const updateProfileSchema = z.object({ ...profileFields, id: z.string().min(1), reason: reasonField });
+
+/** A profile weaker than the standard it names is refused, each shortfall beside its field with the standard's minimum. */
+function meetsItsBasis(p: ProfileLimitsInput, ctx: z.RefinementCtx) {
+  for (const s of basisShortfalls(p)) ctx.addIssue({ code: "custom", path: [s.field], message: s.message });
+}
+
+export const createProfileSchema = z.object(profileFields).superRefine(meetsItsBasis);
+export const updateProfileSchema = z.object({ ...profileFields, id: z.string().min(1), reason: reasonField }).superRefine(meetsItsBasis);
 export type ProfileInput = z.infer<typeof createProfileSchema>;
 
 export const INSTRUMENT_KINDS = ["logger", "pressure-sensor", "temperature-probe", "reference-thermometer"] as const;

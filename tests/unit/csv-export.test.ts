@@ -81,8 +81,8 @@ describe("GET /api/cycles/export", () => {
       ids[role] = u.id;
     }
     const [outsider] = await ctx.db.insert(users).values({ email: "else@export.example", name: "Elsewhere", role: "technician", passwordHash, siteId: other.id }).returning();
-    const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180 }).returning();
-    const [otherProfile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: other.id, name: "121 °C / 15 min", sterilizationTempC: 121, holdingTimeS: 900 }).returning();
+    const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180, basis: "en-285" }).returning();
+    const [otherProfile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: other.id, name: "121 °C / 15 min", sterilizationTempC: 121, holdingTimeS: 900, basis: "en-285" }).returning();
     const [sterilizer] = await ctx.db.insert(sterilizers).values({ siteId: site.id, name: "Porous load 1", serialNumber: "PL-1", chamberVolumeL: 445 }).returning();
     const [otherSterilizer] = await ctx.db.insert(sterilizers).values({ siteId: other.id, name: "Far away", serialNumber: "FA-1", chamberVolumeL: 60 }).returning();
     const base = { siteId: site.id, sterilizerId: sterilizer.id, profileId: profile.id, createdBy: ids.technician };

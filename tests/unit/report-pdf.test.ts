@@ -6,6 +6,8 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { renderCycleReport, type ReportModel } from "@/lib/reports";
 import { buildReportModel, SIGNER } from "@/tests/fixtures/reports/model";
+import { basisNoteFor } from "@/lib/domain";
+import { SAFETY_NOTES } from "@/lib/safety";
 
 // Reports are read back as a person's tools read them: poppler's pdftotext, pdffonts, pdfinfo,
 // pdfimages and pdftoppm (Debian poppler-utils).
@@ -51,6 +53,8 @@ let air: Rendered;
 let airModel: ReportModel;
 let draft: Rendered;
 let draftModel: ReportModel;
+let bench: Rendered;
+let benchModel: ReportModel;
 
 beforeAll(async () => {
   passModel = buildReportModel({ scenario: "pass" });
@@ -59,6 +63,8 @@ beforeAll(async () => {
   air = await render("air", airModel);
   draftModel = buildReportModel({ scenario: "slow-equilibration", draft: true });
   draft = await render("draft", draftModel);
+  benchModel = buildReportModel({ scenario: "pass", benchtop: true });
+  bench = await render("benchtop", benchModel);
 }, 120_000);
 
 afterAll(() => rmSync(work, { recursive: true, force: true }));
@@ -94,12 +100,22 @@ describe("the cycle report of a passing, approved cycle", () => {
   it("lists every check with measured value, limit and the basis of the limit", () => {
     for (const check of passModel.detail.analysis!.checks) {
       expect(pass.text).toContain(squash(check.label));
-      expect(pass.text).toContain(squash(check.basis));
+      expect(pass.text).toContain(squash(basisNoteFor(check.id, "en-285", null, 134)));
     }
+    expect(pass.text).toContain('Limits as configured in the acceptance profile "Porous load 134 °C / 3 min", basis EN 285: porous-load figures.');
     // Holding 180 s at 134 °C is EN 285's minimum for that temperature [DOMAIN.md §2.3]; the limit prints as a duration.
     expect(pass.text).toContain("at least 3 min 00 s");
     expect(pass.text).toContain("at most 15 s");
     expect(pass.text).toContain("within ±2.0 K");
+  });
+
+  it("prints plateau start and end as elapsed time with the site's clock time beside it", () => {
+    const plateau = passModel.detail.analysis!.plateau!;
+    const clock = (s: number) => new Date(Date.parse(passModel.detail.startedAt!) + s * 1000).toISOString().slice(11, 19);
+    // 3 March 2025 is before the UK's change to BST, so the London clock reads UTC (GMT) [common practice].
+    const elapsed = (s: number) => `${String(Math.floor(s / 60)).padStart(2, "0")}:${String(Math.round(s % 60)).padStart(2, "0")}`;
+    expect(pageText(pass, 1)).toContain(`${elapsed(plateau.start)}–${elapsed(plateau.end)}`);
+    expect(pageText(pass, 1)).toContain(`${clock(plateau.start)}–${clock(plateau.end)} site time`);
   });
 
   it("carries the chart legend and the phase diagram with its liquid and vapour sides named", () => {
@@ -194,6 +210,17 @@ describe("the cycle report of a passing, approved cycle", () => {
     expect(info).toMatch(/CreationDate:\s+2025-03-03T10:12:45Z/);
     expect(info).toMatch(/Creator:\s+Papin/);
     expect(info).toMatch(/Producer:\s+Papin/);
+  });
+});
+
+describe("the report of a benchtop judged under EN 13060", () => {
+  it("names EN 13060 as the basis and never describes the cycle with EN 285 wording", () => {
+    expect(bench.text).toContain("basis EN 13060: type B cycle, chamber under 60 l.");
+    expect(bench.text).toMatch(/Acceptance profile .*, basis EN 13060/);
+    for (const check of benchModel.detail.analysis!.checks) expect(bench.text).toContain(squash(basisNoteFor(check.id, "en-13060", null, 134)));
+    // The general safety caution lists the standards by name; the rest of the report must not mention EN 285.
+    const withoutCaution = SAFETY_NOTES.reduce((text, note) => text.replace(squash(note.text), ""), bench.text);
+    expect(withoutCaution).not.toMatch(/EN ?285/);
   });
 });
 

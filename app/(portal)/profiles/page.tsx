@@ -5,7 +5,7 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { ProfileForm } from "@/components/equipment/profile-form";
 import { formatDate } from "@/lib/format";
-import { formatDuration } from "@/lib/domain";
+import { describeBasis, formatDuration } from "@/lib/domain";
 
 export const metadata = { title: "Acceptance profiles" };
 
@@ -65,16 +65,9 @@ function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof getProfilesPag
           {rows.map((p) => (
             <tr key={p.id}>
               <td className="min-w-[15rem]">
-                <Link href={`/profiles/${p.id}`} className="font-medium text-steam-700 hover:underline">
-                  {p.name}
-                </Link>
-                {!p.active && (
-                  <>
-                    {" "}
-                    <Badge>Retired</Badge>
-                  </>
-                )}
-                <p className="max-w-xs text-xs text-ink-muted">{p.basis}</p>
+                <Link href={`/profiles/${p.id}`} className="font-medium text-steam-700 hover:underline">{p.name}</Link>
+                {!p.active && <> <Badge>Retired</Badge></>}
+                <p className="max-w-xs text-xs text-ink-muted" data-testid="profile-basis">{describeBasis(p.basis, p.basisReason)}</p>
                 <p className="text-2xs text-ink-faint">Created {formatDate(p.createdAt)}</p>
               </td>
               <td className="whitespace-nowrap">

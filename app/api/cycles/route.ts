@@ -35,7 +35,7 @@ export const POST = route(async (request) => {
     files.push(...single);
   }
   if (files.length === 0) throw new AppError(400, "Attach at least one logger file in the field named files.", "files");
-  const { sterilizerId, profileId, instrumentId, cycleNumber, load, testKind } = fields.data;
+  const { sterilizerId, profileId, instrumentId, cycleNumber, load, testKind, startedAt } = fields.data;
   const created = await createCycleFromUpload({
     actor,
     sterilizerId,
@@ -44,6 +44,7 @@ export const POST = route(async (request) => {
     cycleNumber,
     load,
     testKind,
+    startedAt,
     files,
     mapping,
     saveMapping: form.get("saveMapping") === "true",

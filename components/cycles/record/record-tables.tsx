@@ -3,11 +3,11 @@ import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { formatBytes, formatDateTime, formatNumber } from "@/lib/format";
-import { elapsedFormatter } from "@/lib/cycles/chart-model";
+import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
 import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
-import { formatDuration } from "@/lib/domain";
+import { basisNoteFor, describeBasis, formatDuration } from "@/lib/domain";
 
-export function ChecksTable({ analysis }: { analysis: AnalysisResult }) {
+export function ChecksTable({ analysis, profile }: { analysis: AnalysisResult; profile: CycleDetail["profile"] }) {
   return (
     <div className="overflow-x-auto">
       <table className="data-table" data-testid="checks-table">
@@ -27,7 +27,7 @@ export function ChecksTable({ analysis }: { analysis: AnalysisResult }) {
               <td className="font-medium">{c.label}</td>
               <td className="whitespace-nowrap tabular-nums">{formatFigure(c.measured, c.unit)}</td>
               <td className="whitespace-nowrap tabular-nums">{formatLimit(c)}</td>
-              <td className="text-xs text-ink-muted">{c.basis}</td>
+              <td className="text-xs text-ink-muted">{basisNoteFor(c.id, profile.basis, profile.basisReason, profile.sterilizationTempC)}</td>
               <td className="whitespace-nowrap">{c.passed ? <Badge tone="pass">✓ Pass</Badge> : <Badge tone="fail">✕ Fail</Badge>}</td>
             </tr>
           ))}
@@ -101,12 +101,23 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
   );
 }
 
-export function KeyFigures({ analysis }: { analysis: AnalysisResult | null }) {
+/** Key figures; plateau start and end as elapsed time with the site's clock time beside it. */
+export function KeyFigures({ analysis, startedAt, timeZone }: { analysis: AnalysisResult | null; startedAt: string | null; timeZone: string }) {
   if (!analysis) return <EmptyState title="No figures without an analysis" />;
   const interval = analysis.record.medianSampleIntervalS;
   const at = elapsedFormatter(analysis.record.durationS);
+  const withClock = (s: number) => {
+    const clock = clockTimeAt(startedAt, s, timeZone);
+    return clock ? `${at(s)} · ${clock}` : at(s);
+  };
+  const plateau: Array<[string, string]> = analysis.plateau
+    ? [
+        ["Plateau start", withClock(analysis.plateau.start)],
+        ["Plateau end", withClock(analysis.plateau.end)],
+      ]
+    : [["Plateau", "not reached"]];
   const rows: Array<[string, string]> = [
-    ["Plateau", analysis.plateau ? `${at(analysis.plateau.start)}–${at(analysis.plateau.end)}` : "not reached"],
+    ...plateau,
     ["Equilibration time", formatDuration(analysis.equilibrationTime)],
     ["Holding time", formatDuration(analysis.holdingTime)],
     [
@@ -120,14 +131,17 @@ export function KeyFigures({ analysis }: { analysis: AnalysisResult | null }) {
     ["Samples", `${analysis.record.samples.toLocaleString("en-GB")}, every ${formatNumber(interval, interval < 10 && !Number.isInteger(interval) ? 1 : 0)} s`],
   ];
   return (
-    <dl className="grid grid-cols-[minmax(0,1fr)_auto] gap-x-3 gap-y-1.5 text-sm" data-testid="key-figures">
-      {rows.map(([k, v]) => (
-        <div key={k} className="contents">
-          <dt className="text-ink-muted">{k}</dt>
-          <dd className="whitespace-nowrap text-right font-medium tabular-nums">{v}</dd>
-        </div>
-      ))}
-    </dl>
+    <>
+      <dl className="grid grid-cols-[minmax(0,1fr)_auto] gap-x-3 gap-y-1.5 text-sm" data-testid="key-figures">
+        {rows.map(([k, v]) => (
+          <div key={k} className="contents">
+            <dt className="text-ink-muted">{k}</dt>
+            <dd className="whitespace-nowrap text-right font-medium tabular-nums">{v}</dd>
+          </div>
+        ))}
+      </dl>
+      {startedAt && analysis.plateau && <p className="mt-2 text-2xs text-ink-faint">Elapsed time since the first sample · clock time at the site ({timeZone}).</p>}
+    </>
   );
 }
 
@@ -151,7 +165,9 @@ export function ProfileLimits({ profile }: { profile: CycleDetail["profile"] }) 
           </div>
         ))}
       </dl>
-      {profile.basis && <p className="mt-2 text-xs text-ink-muted">{profile.basis}</p>}
+      <p className="mt-2 text-xs text-ink-muted" data-testid="profile-basis">
+        Basis: <span className="text-ink-soft">{describeBasis(profile.basis, profile.basisReason)}</span>
+      </p>
     </>
   );
 }

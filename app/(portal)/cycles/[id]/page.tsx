@@ -85,7 +85,7 @@ export default async function CycleRecordPage({ params }: Props) {
           {a && (
             <>
               <Panel title="Checks">
-                <ChecksTable analysis={a} />
+                <ChecksTable analysis={a} profile={profile} />
               </Panel>
 
               <Panel title="Temperatures and pressure over time">
@@ -130,7 +130,7 @@ export default async function CycleRecordPage({ params }: Props) {
 
         <aside className="space-y-gutter" aria-label="Figures and sign-off">
           <Panel title="Key figures">
-            <KeyFigures analysis={a} />
+            <KeyFigures analysis={a} startedAt={detail.startedAt} timeZone={tz} />
           </Panel>
           <SignOffPanel detail={detail} actor={{ id: actor.id, role: actor.role, name: actor.name }} />
           <Panel title="Acceptance profile">

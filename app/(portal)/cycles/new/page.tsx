@@ -8,11 +8,20 @@ export const metadata = { title: "New test cycle" };
 
 export default async function NewCyclePage() {
   const actor = await requirePageActor("cycle:create");
-  const { sterilizers, profiles, instruments } = await getIntakeOptions({ actor });
+  const { sterilizers, profiles, instruments, timeZone } = await getIntakeOptions({ actor });
   return (
     <>
-      <PageHeader title="New test cycle" subtitle="Drop the logger file, confirm what each column holds, say which sterilizer and profile it belongs to, and analyse." />
-      <IntakeForm limitMb={env().PAPIN_UPLOAD_LIMIT_MB} sterilizers={sterilizers} profiles={profiles} instruments={instruments} />
+      <PageHeader
+        title="New test cycle"
+        subtitle="Drop the logger file, confirm what each column holds, say which sterilizer and profile it belongs to, and analyse."
+      />
+      <IntakeForm
+        limitMb={env().PAPIN_UPLOAD_LIMIT_MB}
+        sterilizers={sterilizers}
+        profiles={profiles}
+        instruments={instruments}
+        timeZone={timeZone}
+      />
     </>
   );
 }
