@@ -64,13 +64,83 @@ export function ProfileForm({ profile }: { profile?: ProfileFormValues }) {
       )}
       <TextInput id={`${p}-name`} name="name" label="Name" error={errors.name} value={values.name} onChange={set("name")} />
       <div className="grid grid-cols-2 gap-3">
-        <TextInput id={`${p}-ts`} name="sterilizationTempC" label="Sterilization temperature" suffix="°C" inputMode="decimal" error={errors.sterilizationTempC} value={values.sterilizationTempC} onChange={set("sterilizationTempC")} hint="100–140 °C" />
-        <TextInput id={`${p}-band`} name="bandK" label="Band width" suffix="K" inputMode="decimal" error={errors.bandK} value={values.bandK} onChange={set("bandK")} hint={Number.isFinite(ts + band) ? `Band ${ts}–${+(ts + band).toFixed(2)} °C` : undefined} />
-        <TextInput id={`${p}-hold`} name="holdingTimeS" label="Minimum holding time" suffix="s" inputMode="decimal" error={errors.holdingTimeS} value={values.holdingTimeS} onChange={set("holdingTimeS")} hint={Number(values.holdingTimeS) > 0 ? `${+(Number(values.holdingTimeS) / 60).toFixed(2)} min` : undefined} />
-        <TextInput id={`${p}-eq`} name="maxEquilibrationS" label="Longest equilibration" suffix="s" inputMode="decimal" error={errors.maxEquilibrationS} value={values.maxEquilibrationS} onChange={set("maxEquilibrationS")} hint={values.basis === "en-285" ? "EN 285: 15 s up to 800 l, 30 s above" : undefined} />
-        <TextInput id={`${p}-spread`} name="maxSpreadK" label="Largest spread" suffix="K" inputMode="decimal" error={errors.maxSpreadK} value={values.maxSpreadK} onChange={set("maxSpreadK")} hint="Between channels during holding" />
-        <TextInput id={`${p}-sat`} name="saturationLimitK" label="Saturation limit" suffix="K" inputMode="decimal" error={errors.saturationLimitK} value={values.saturationLimitK} onChange={set("saturationLimitK")} hint="|reference − Tsat(p)|" />
-        <TextInput id={`${p}-f0ref`} name="f0ReferenceC" label="F0 reference" suffix="°C" inputMode="decimal" error={errors.f0ReferenceC} value={values.f0ReferenceC} onChange={set("f0ReferenceC")} hint="121.1 (US/PDA) or 121 (Ph. Eur.)" />
+        <TextInput
+          id={`${p}-ts`}
+          name="sterilizationTempC"
+          label="Sterilization temperature"
+          suffix="°C"
+          inputMode="decimal"
+          error={errors.sterilizationTempC}
+          value={values.sterilizationTempC}
+          onChange={set("sterilizationTempC")}
+          hint="100–140 °C"
+        />
+        <TextInput
+          id={`${p}-band`}
+          name="bandK"
+          label="Band width"
+          suffix="K"
+          inputMode="decimal"
+          error={errors.bandK}
+          value={values.bandK}
+          onChange={set("bandK")}
+          hint={Number.isFinite(ts + band) ? `Band ${ts}–${+(ts + band).toFixed(2)} °C` : undefined}
+        />
+        <TextInput
+          id={`${p}-hold`}
+          name="holdingTimeS"
+          label="Minimum holding time"
+          suffix="s"
+          inputMode="decimal"
+          error={errors.holdingTimeS}
+          value={values.holdingTimeS}
+          onChange={set("holdingTimeS")}
+          hint={Number(values.holdingTimeS) > 0 ? `${+(Number(values.holdingTimeS) / 60).toFixed(2)} min` : undefined}
+        />
+        <TextInput
+          id={`${p}-eq`}
+          name="maxEquilibrationS"
+          label="Longest equilibration"
+          suffix="s"
+          inputMode="decimal"
+          error={errors.maxEquilibrationS}
+          value={values.maxEquilibrationS}
+          onChange={set("maxEquilibrationS")}
+          hint={values.basis === "en-285" ? "EN 285: 15 s up to 800 l, 30 s above" : undefined}
+        />
+        <TextInput
+          id={`${p}-spread`}
+          name="maxSpreadK"
+          label="Largest spread"
+          suffix="K"
+          inputMode="decimal"
+          error={errors.maxSpreadK}
+          value={values.maxSpreadK}
+          onChange={set("maxSpreadK")}
+          hint="Between channels during holding"
+        />
+        <TextInput
+          id={`${p}-sat`}
+          name="saturationLimitK"
+          label="Saturation limit"
+          suffix="K"
+          inputMode="decimal"
+          error={errors.saturationLimitK}
+          value={values.saturationLimitK}
+          onChange={set("saturationLimitK")}
+          hint="|reference − Tsat(p)|"
+        />
+        <TextInput
+          id={`${p}-f0ref`}
+          name="f0ReferenceC"
+          label="F0 reference"
+          suffix="°C"
+          inputMode="decimal"
+          error={errors.f0ReferenceC}
+          value={values.f0ReferenceC}
+          onChange={set("f0ReferenceC")}
+          hint="121.1 (US/PDA) or 121 (Ph. Eur.)"
+        />
         <TextInput id={`${p}-z`} name="f0ZK" label="z-value" suffix="K" inputMode="decimal" error={errors.f0ZK} value={values.f0ZK} onChange={set("f0ZK")} />
       </div>
       <BasisFields idPrefix={p} values={values} errors={errors} set={set} />
@@ -90,7 +160,15 @@ function BasisFields({ idPrefix: p, values, errors, set }: { idPrefix: string; v
   return (
     <>
       <Field id={`${p}-basis`} label="Basis of these limits" error={errors.basis} hint={basis ? summariseBasisMinimums(basis) : undefined}>
-        <select id={`${p}-basis`} name="basis" className="field-input" value={values.basis} onChange={(e) => set("basis")(e.target.value)} aria-invalid={Boolean(errors.basis)} aria-describedby={errors.basis ? `${p}-basis-error` : `${p}-basis-hint`}>
+        <select
+          id={`${p}-basis`}
+          name="basis"
+          className="field-input"
+          value={values.basis}
+          onChange={(e) => set("basis")(e.target.value)}
+          aria-invalid={Boolean(errors.basis)}
+          aria-describedby={errors.basis ? `${p}-basis-error` : `${p}-basis-hint`}
+        >
           {PROFILE_BASES.map((b) => (
             <option key={b} value={b}>
               {PROFILE_BASIS_LABELS[b]} — {PROFILE_BASIS_SCOPES[b]}

@@ -213,7 +213,9 @@ function StartTimeField({ idPrefix: ids, details, wiring, timeZone }: { idPrefix
   const { invalid, describedBy, errorText } = wiring;
   return (
     <div>
-      <label className="field-label" htmlFor={`${ids}-started-at`}>Cycle started at</label>
+      <label className="field-label" htmlFor={`${ids}-started-at`}>
+        Cycle started at
+      </label>
       <input
         id={`${ids}-started-at`}
         name="startedAt"

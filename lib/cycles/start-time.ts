@@ -25,7 +25,12 @@ export function resolveCycleStart({ fileStartedAt, givenStartedAt, timeZone }: {
   }
   const zoneless = !/(?:[zZ]|[+-]\d{2}:?\d{2})$/.test(source);
   if (zoneless && !isValidTimeZone(timeZone)) {
-    return { ok: false, status: 409, field: fileStartedAt ? "files" : "startedAt", message: `The site's time zone "${timeZone}" is not a known IANA zone, so a local time cannot be placed; an administrator corrects it in the site settings.` };
+    return {
+      ok: false,
+      status: 409,
+      field: fileStartedAt ? "files" : "startedAt",
+      message: `The site's time zone "${timeZone}" is not a known IANA zone, so a local time cannot be placed; an administrator corrects it in the site settings.`,
+    };
   }
   const instant = instantInZone(source, timeZone);
   if (!instant) {

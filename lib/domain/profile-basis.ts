@@ -154,14 +154,20 @@ export function basisShortfalls(p: ProfileLimitsInput): BasisShortfall[] {
     const bandTop = (r: HoldRow) => (m.maxBandK === null ? null : r.sterilizationTempC + m.maxBandK);
     const sets = m.holds.map((r) => (bandTop(r) === null ? degrees(r.sterilizationTempC) : `${+r.sterilizationTempC.toFixed(2)}–${degrees(bandTop(r)!)}`));
     if (!row || (bandTop(row) !== null && p.sterilizationTempC > bandTop(row)! + EPS)) {
-      out.push({ field: "sterilizationTempC", message: `${name} sets ${m.maxBandK === null ? "sterilization temperatures of" : "the bands"} ${list(sets)}; ${degrees(p.sterilizationTempC)} is not covered, so choose local practice and give the reason.` });
+      out.push({
+        field: "sterilizationTempC",
+        message: `${name} sets ${m.maxBandK === null ? "sterilization temperatures of" : "the bands"} ${list(sets)}; ${degrees(p.sterilizationTempC)} is not covered, so choose local practice and give the reason.`,
+      });
     } else {
       if (p.holdingTimeS + EPS < row.minHoldingTimeS) {
         out.push({ field: "holdingTimeS", message: `${name} requires a holding time of at least ${holdText(row.minHoldingTimeS)} at ${degrees(row.sterilizationTempC)}.` });
       }
       const top = bandTop(row);
       if (top !== null && p.sterilizationTempC + p.bandK > top + EPS) {
-        out.push({ field: "bandK", message: `${name} allows a band of at most ${m.maxBandK} K above ${degrees(row.sterilizationTempC)} (up to ${degrees(top)}); this band reaches ${degrees(p.sterilizationTempC + p.bandK)}.` });
+        out.push({
+          field: "bandK",
+          message: `${name} allows a band of at most ${m.maxBandK} K above ${degrees(row.sterilizationTempC)} (up to ${degrees(top)}); this band reaches ${degrees(p.sterilizationTempC + p.bandK)}.`,
+        });
       }
     }
   }

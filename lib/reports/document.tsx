@@ -386,7 +386,10 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
   };
   // Plateau start and end as elapsed time, with the site's clock time beneath.
   const plateauReadout = analysis?.plateau
-    ? { value: `${formatElapsed(analysis.plateau.start)}–${formatElapsed(analysis.plateau.end)}`, note: start ? `${clockAt(analysis.plateau.start)}–${clockAt(analysis.plateau.end)} site time` : "since first sample" }
+    ? {
+        value: `${formatElapsed(analysis.plateau.start)}–${formatElapsed(analysis.plateau.end)}`,
+        note: start ? `${clockAt(analysis.plateau.start)}–${clockAt(analysis.plateau.end)} site time` : "since first sample",
+      }
     : { value: "none", note: "never reached Ts" };
 
   const first = series.timesS[0] ?? 0;

@@ -247,4 +247,3 @@ async function notifyFailure(tx: Tx, cycleId: string, result: AnalysisResult, or
   const failedChecks = result.checks.filter((c) => !c.passed).map((c) => c.label);
   await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks, origin });
 }
-

@@ -14,18 +14,9 @@ export const createCycleFieldsSchema = z.object({
   sterilizerId: z.uuid({ message: "Choose the sterilizer that ran this cycle." }),
   profileId: z.uuid({ message: "Choose the acceptance profile to judge the cycle against." }),
   instrumentId: z.preprocess(emptyToUndefined, z.uuid({ message: "Choose an instrument from the list, or none." }).optional()),
-  cycleNumber: z.preprocess(
-    emptyToUndefined,
-    z.string().trim().max(60, "The cycle number can have at most 60 characters.").optional(),
-  ),
-  load: z.preprocess(
-    emptyToUndefined,
-    z.string().trim().max(500, "The load description can have at most 500 characters.").optional(),
-  ),
-  testKind: z.preprocess(
-    emptyToUndefined,
-    z.enum(TEST_KINDS, { message: "Choose the kind of test this cycle was." }).default("thermometric-small-load"),
-  ),
+  cycleNumber: z.preprocess(emptyToUndefined, z.string().trim().max(60, "The cycle number can have at most 60 characters.").optional()),
+  load: z.preprocess(emptyToUndefined, z.string().trim().max(500, "The load description can have at most 500 characters.").optional()),
+  testKind: z.preprocess(emptyToUndefined, z.enum(TEST_KINDS, { message: "Choose the kind of test this cycle was." }).default("thermometric-small-load")),
   // Needed only when the file holds elapsed times without a date; a time without a zone is the site's.
   startedAt: z.preprocess(
     emptyToUndefined,

@@ -62,7 +62,10 @@ beforeAll(async () => {
       people[key][role] = { id: u.id, email, name: u.name, role, siteId: site.id };
     }
     const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180, basis: "en-285" }).returning();
-    const [sterilizer] = await ctx.db.insert(sterilizers).values({ siteId: site.id, name: `${key} sterilizer`, serialNumber: `${key.toUpperCase()}-001`, chamberVolumeL: 400 }).returning();
+    const [sterilizer] = await ctx.db
+      .insert(sterilizers)
+      .values({ siteId: site.id, name: `${key} sterilizer`, serialNumber: `${key.toUpperCase()}-001`, chamberVolumeL: 400 })
+      .returning();
     setup[key] = { sterilizerId: sterilizer.id, profileId: profile.id, approvedId: "", draftId: "", reportId: "", reportPdf: new Uint8Array(), cycleNumber: `${key.toUpperCase()}-APPROVED` };
   }
   for (const key of SITES) {

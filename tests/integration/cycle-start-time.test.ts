@@ -14,11 +14,23 @@ beforeAll(async () => {
   const { hashPassword } = await import("@/lib/auth/password");
   const passwordHash = await hashPassword("a test password");
   // Two sites in zones away from UTC: New York (UTC−4 in July) and Berlin (UTC+2 in July).
-  for (const [key, timeZone] of [["ny", "America/New_York"], ["berlin", "Europe/Berlin"]] as const) {
-    const [site] = await ctx.db.insert(sites).values({ name: `Site ${key}`, code: key.toUpperCase(), timeZone }).returning();
-    const [tech] = await ctx.db.insert(users).values({ email: `tech@${key}.example`, name: `Tech ${key}`, role: "technician", passwordHash, siteId: site.id }).returning();
+  for (const [key, timeZone] of [
+    ["ny", "America/New_York"],
+    ["berlin", "Europe/Berlin"],
+  ] as const) {
+    const [site] = await ctx.db
+      .insert(sites)
+      .values({ name: `Site ${key}`, code: key.toUpperCase(), timeZone })
+      .returning();
+    const [tech] = await ctx.db
+      .insert(users)
+      .values({ email: `tech@${key}.example`, name: `Tech ${key}`, role: "technician", passwordHash, siteId: site.id })
+      .returning();
     const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180, basis: "en-285" }).returning();
-    const [st] = await ctx.db.insert(sterilizers).values({ siteId: site.id, name: "Porous 1", serialNumber: `${key}-S1`, chamberVolumeL: 445, defaultProfileId: profile.id }).returning();
+    const [st] = await ctx.db
+      .insert(sterilizers)
+      .values({ siteId: site.id, name: "Porous 1", serialNumber: `${key}-S1`, chamberVolumeL: 445, defaultProfileId: profile.id })
+      .returning();
     Object.assign(ids, { [`${key}Tech`]: tech.id, [`${key}Profile`]: profile.id, [`${key}Sterilizer`]: st.id });
   }
 });

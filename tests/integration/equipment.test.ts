@@ -37,10 +37,7 @@ beforeAll(async () => {
       .returning();
     ids[role] = u.id;
   }
-  const [profile] = await ctx.db
-    .insert(acceptanceProfiles)
-    .values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180, basis: "en-285" })
-    .returning();
+  const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180, basis: "en-285" }).returning();
   ids.profile = profile.id;
   const [st] = await ctx.db.insert(sterilizers).values({ siteId: site.id, name: "Porous load 1", serialNumber: "S-1", chamberVolumeL: 445, defaultProfileId: profile.id }).returning();
   ids.sterilizer = st.id;
@@ -182,7 +179,18 @@ describe("who may change equipment", () => {
 });
 
 describe("acceptance profiles", () => {
-  const limits = { sterilizationTempC: "134", bandK: "3", holdingTimeS: "210", maxEquilibrationS: "15", maxSpreadK: "2", saturationLimitK: "2", f0ReferenceC: "121.1", f0ZK: "10", basis: "en-285", basisReason: "site protocol rev. B" };
+  const limits = {
+    sterilizationTempC: "134",
+    bandK: "3",
+    holdingTimeS: "210",
+    maxEquilibrationS: "15",
+    maxSpreadK: "2",
+    saturationLimitK: "2",
+    f0ReferenceC: "121.1",
+    f0ZK: "10",
+    basis: "en-285",
+    basisReason: "site protocol rev. B",
+  };
 
   it("refuses a sterilization temperature outside 100–140 °C beside the field", async () => {
     as("engineer");

@@ -50,14 +50,16 @@ beforeAll(async () => {
     passwordHash: "not-a-real-hash",
     ...extra,
   });
-  await ctx.db.insert(users).values([
-    person(ids.tech, "Tomás Brooks", "t.brooks@marlow-bridge.example", "technician"),
-    person(ids.eng1, "Adaeze Okafor", "a.okafor@marlow-bridge.example", "engineer"),
-    person(ids.eng2, "Priya Nair", "P.Nair@marlow-bridge.example", "engineer"),
-    person(ids.engDisabled, "Former Engineer", "former@marlow-bridge.example", "engineer", { disabled: true }),
-    person(ids.engOtherSite, "Elsewhere Engineer", "eng@other.example", "engineer", { siteId: ids.otherSite }),
-    person(ids.auditor, "Ruth Lindqvist", "r.lindqvist@marlow-bridge.example", "auditor"),
-  ]);
+  await ctx.db
+    .insert(users)
+    .values([
+      person(ids.tech, "Tomás Brooks", "t.brooks@marlow-bridge.example", "technician"),
+      person(ids.eng1, "Adaeze Okafor", "a.okafor@marlow-bridge.example", "engineer"),
+      person(ids.eng2, "Priya Nair", "P.Nair@marlow-bridge.example", "engineer"),
+      person(ids.engDisabled, "Former Engineer", "former@marlow-bridge.example", "engineer", { disabled: true }),
+      person(ids.engOtherSite, "Elsewhere Engineer", "eng@other.example", "engineer", { siteId: ids.otherSite }),
+      person(ids.auditor, "Ruth Lindqvist", "r.lindqvist@marlow-bridge.example", "auditor"),
+    ]);
   await ctx.db.insert(acceptanceProfiles).values({ id: ids.profile, siteId: ids.site, name: "134 °C porous load", sterilizationTempC: 134, holdingTimeS: 180, basis: "en-285" });
   await ctx.db.insert(sterilizers).values({ id: ids.sterilizer, siteId: ids.site, name: "Porous load 1", serialNumber: "MB-PL-0417", chamberVolumeL: 445 });
   await ctx.db.insert(cycles).values([

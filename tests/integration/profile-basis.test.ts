@@ -30,7 +30,10 @@ beforeAll(async () => {
   ids.site = site.id;
   const passwordHash = await hashPassword("a test password");
   for (const role of ["technician", "engineer"] as const) {
-    const [u] = await ctx.db.insert(users).values({ email: `${role}@basis.example`, name: role, role, passwordHash, siteId: site.id }).returning();
+    const [u] = await ctx.db
+      .insert(users)
+      .values({ email: `${role}@basis.example`, name: role, role, passwordHash, siteId: site.id })
+      .returning();
     ids[role] = u.id;
   }
 });
@@ -77,7 +80,19 @@ describe("saving a profile against its basis", () => {
   it("the service refuses the same even when called without the form", async () => {
     const { createProfile } = await import("@/lib/services/profiles");
     const actor = { id: ids.engineer, email: "engineer@basis.example", name: "engineer", role: "engineer" as const, siteId: ids.site };
-    const input = { name: "Direct", sterilizationTempC: 134, bandK: 3, holdingTimeS: 60, maxEquilibrationS: 15, maxSpreadK: 2, saturationLimitK: 2, f0ReferenceC: 121.1, f0ZK: 10, basis: "en-285" as const, basisReason: null };
+    const input = {
+      name: "Direct",
+      sterilizationTempC: 134,
+      bandK: 3,
+      holdingTimeS: 60,
+      maxEquilibrationS: 15,
+      maxSpreadK: 2,
+      saturationLimitK: 2,
+      f0ReferenceC: 121.1,
+      f0ZK: 10,
+      basis: "en-285" as const,
+      basisReason: null,
+    };
     await expect(createProfile({ actor, input })).rejects.toMatchObject({ status: 422, field: "holdingTimeS", message: "EN 285 requires a holding time of at least 3 min at 134 °C." });
   });
 
@@ -103,7 +118,10 @@ describe("saving a profile against its basis", () => {
     expect(before).toMatchObject({ basis: "en-285", basisReason: null });
     const weakened = await updateProfileAction(IDLE, form({ ...en285At134, id: before.id, name: "Porous 134", holdingTimeS: "120", reason: "shorter hold" }));
     expect(weakened.fieldErrors?.holdingTimeS).toBe("EN 285 requires a holding time of at least 3 min at 134 °C.");
-    const state = await updateProfileAction(IDLE, form({ ...en285At134, id: before.id, name: "Porous 134", basis: "local", basisReason: "Site protocol SP-12 rev. C", reason: "Protocol SP-12 now governs this cycle" }));
+    const state = await updateProfileAction(
+      IDLE,
+      form({ ...en285At134, id: before.id, name: "Porous 134", basis: "local", basisReason: "Site protocol SP-12 rev. C", reason: "Protocol SP-12 now governs this cycle" }),
+    );
     expect(state.status).toBe("ok");
     const events = await auditOf(before.id);
     const update = events.find((e) => e.action === "profile.update")!;
@@ -115,7 +133,9 @@ describe("saving a profile against its basis", () => {
   it("the database itself refuses an unknown basis and local practice without a reason", async () => {
     const { sql } = await import("drizzle-orm");
     const insert = (basis: string, reason: string | null) =>
-      ctx.db.run(sql`insert into acceptance_profiles (id, site_id, name, sterilization_temp_c, holding_time_s, basis, basis_reason) values (${crypto.randomUUID()}, ${ids.site}, 'raw', 134, 180, ${basis}, ${reason})`);
+      ctx.db.run(
+        sql`insert into acceptance_profiles (id, site_id, name, sterilization_temp_c, holding_time_s, basis, basis_reason) values (${crypto.randomUUID()}, ${ids.site}, 'raw', 134, 180, ${basis}, ${reason})`,
+      );
     expect(await failureOf(insert("EN 285", null))).toMatch(/CHECK constraint failed/);
     expect(await failureOf(insert("local", " "))).toMatch(/CHECK constraint failed/);
   });

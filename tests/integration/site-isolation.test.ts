@@ -37,7 +37,10 @@ async function seedSite(key: "a" | "b", code: string): Promise<SiteFixture> {
       .returning();
     people[role] = { id: u.id, email: u.email, name: u.name, role, siteId: s.id };
   }
-  const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: s.id, name: `134 °C ${code}`, sterilizationTempC: 134, holdingTimeS: 180, basis: "en-285" }).returning();
+  const [profile] = await ctx.db
+    .insert(acceptanceProfiles)
+    .values({ siteId: s.id, name: `134 °C ${code}`, sterilizationTempC: 134, holdingTimeS: 180, basis: "en-285" })
+    .returning();
   const [sterilizer] = await ctx.db
     .insert(sterilizers)
     .values({ siteId: s.id, name: `Sterilizer ${code}`, serialNumber: `SER-${code}`, chamberVolumeL: 300, defaultProfileId: profile.id })
@@ -170,7 +173,19 @@ describe("acceptance profiles", () => {
     expect(idsOf(await listProfileCatalog({ actor: a("technician") }))).toEqual([site.a.profileId]);
     const id = site.b.profileId;
     await expect(getProfile({ actor: a("engineer"), id })).rejects.toMatchObject({ status: 404 });
-    const limits = { name: "Hijacked", sterilizationTempC: 121, bandK: 3, holdingTimeS: 900, maxEquilibrationS: 15, maxSpreadK: 2, saturationLimitK: 2, f0ReferenceC: 121.1, f0ZK: 10, basis: "en-285" as const, basisReason: null };
+    const limits = {
+      name: "Hijacked",
+      sterilizationTempC: 121,
+      bandK: 3,
+      holdingTimeS: 900,
+      maxEquilibrationS: 15,
+      maxSpreadK: 2,
+      saturationLimitK: 2,
+      f0ReferenceC: 121.1,
+      f0ZK: 10,
+      basis: "en-285" as const,
+      basisReason: null,
+    };
     await expect(updateProfile({ actor: a("engineer"), id, input: limits, reason: "x" })).rejects.toMatchObject({ status: 404 });
     const [row] = await ctx.db.select().from(schema.acceptanceProfiles).where(eq(schema.acceptanceProfiles.id, id));
     expect(row).toMatchObject({ name: "134 °C B", active: true });

@@ -65,9 +65,18 @@ function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof getProfilesPag
           {rows.map((p) => (
             <tr key={p.id}>
               <td className="min-w-[15rem]">
-                <Link href={`/profiles/${p.id}`} className="font-medium text-steam-700 hover:underline">{p.name}</Link>
-                {!p.active && <> <Badge>Retired</Badge></>}
-                <p className="max-w-xs text-xs text-ink-muted" data-testid="profile-basis">{describeBasis(p.basis, p.basisReason)}</p>
+                <Link href={`/profiles/${p.id}`} className="font-medium text-steam-700 hover:underline">
+                  {p.name}
+                </Link>
+                {!p.active && (
+                  <>
+                    {" "}
+                    <Badge>Retired</Badge>
+                  </>
+                )}
+                <p className="max-w-xs text-xs text-ink-muted" data-testid="profile-basis">
+                  {describeBasis(p.basis, p.basisReason)}
+                </p>
                 <p className="text-2xs text-ink-faint">Created {formatDate(p.createdAt)}</p>
               </td>
               <td className="whitespace-nowrap">

@@ -11,17 +11,8 @@ export default async function NewCyclePage() {
   const { sterilizers, profiles, instruments, timeZone } = await getIntakeOptions({ actor });
   return (
     <>
-      <PageHeader
-        title="New test cycle"
-        subtitle="Drop the logger file, confirm what each column holds, say which sterilizer and profile it belongs to, and analyse."
-      />
-      <IntakeForm
-        limitMb={env().PAPIN_UPLOAD_LIMIT_MB}
-        sterilizers={sterilizers}
-        profiles={profiles}
-        instruments={instruments}
-        timeZone={timeZone}
-      />
+      <PageHeader title="New test cycle" subtitle="Drop the logger file, confirm what each column holds, say which sterilizer and profile it belongs to, and analyse." />
+      <IntakeForm limitMb={env().PAPIN_UPLOAD_LIMIT_MB} sterilizers={sterilizers} profiles={profiles} instruments={instruments} timeZone={timeZone} />
     </>
   );
 }
