@@ -12,7 +12,10 @@ export function siteAtmosphereKpa(site: { atmosphereKpa: number | null; altitude
 }
 
 export function limitsOf(profile: AcceptanceProfile): AcceptanceLimits {
+  // Profiles gain a maximum sampling interval with a later migration; until then the record's own pace sets the gap limit.
+  const maxSampleIntervalS = (profile as Partial<Record<"maxSampleIntervalS", number | null>>).maxSampleIntervalS;
   return {
+    ...(typeof maxSampleIntervalS === "number" ? { maxSampleIntervalS } : {}),
     sterilizationTempC: profile.sterilizationTempC,
     holdingTimeS: profile.holdingTimeS,
     bandK: profile.bandK,
@@ -38,11 +41,14 @@ export type FileAnalysis = {
 
 /**
  * One logger file in, one analysis out: pure apart from hashing, so the same bytes, mapping and
- * limits always give the same figures and the same input hash.
+ * limits always give the same figures and the same input hash. The mapping is the user's (absolute
+ * or gauge in it counts as confirmed); atmosphereKpa is the site's, used unless the mapping has one.
  */
 export function analyzeLoggerBytes(bytes: Uint8Array, profile: AcceptanceProfile, mapping: MappingOverrides = {}, atmosphereKpa?: number): FileAnalysis {
-  const effectiveMapping: MappingOverrides = atmosphereKpa && mapping.atmosphereKpa === undefined ? { ...mapping, atmosphereKpa } : mapping;
-  const { recording, dialect, columns } = readLoggerFile(bytes, effectiveMapping);
+  const fromSite = atmosphereKpa !== undefined && mapping.atmosphereKpa === undefined;
+  const effectiveMapping: MappingOverrides = fromSite ? { ...mapping, atmosphereKpa } : mapping;
+  const atmosphereSource = fromSite ? "site" : mapping.atmosphereKpa === undefined ? "standard" : "mapping";
+  const { recording, dialect, columns } = readLoggerFile(bytes, effectiveMapping, { overrideSource: "user", atmosphereSource });
   const limits = limitsOf(profile);
   const result = analyzeRecording(recording, limits);
   const sha256 = sha256Hex(bytes);

@@ -5,6 +5,7 @@ export { decodeLoggerBytes, encodeWindows1252, decodeWindows1252 } from "./decod
 export { parseDecimal } from "./numbers";
 export { parseTimeCell, guessTimeFormat } from "./time";
 export type {
+  AtmosphereUsed,
   ColumnMapping,
   ColumnOverride,
   ColumnRole,
@@ -14,8 +15,11 @@ export type {
   InspectResult,
   LineEnding,
   MappingOverrides,
+  PressureReference,
+  ReadContext,
   ReadResult,
   Recording,
+  RecordingSource,
   TemperatureChannel,
   TextEncodingName,
   TimeFormat,

@@ -1,10 +1,7 @@
-import { execFile } from "node:child_process";
 import { mkdtemp, rm, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import path from "node:path";
-
-const ROOT = path.resolve(import.meta.dirname, "../..");
-const LAUNCHER = path.join(ROOT, "lib/cli/launch.mjs");
+import { analyzeCommand } from "@/lib/cli/run-analyze";
 
 export type AnalyzeFlag = { start: number; end: number; kind: "below" | "above"; /** signed, K: negative = below */ worst: number; diagnosis: string };
 export type AnalyzeCheck = { id: string; passed: boolean; measured: number | null; limit: number | null };
@@ -44,24 +41,20 @@ export type AnalyzeRun = {
   json?: AnalyzeJson;
 };
 
-/** Each run starts its own process; several at once on a two-core machine take a while. */
-export const ANALYZE_TIMEOUT_MS = 90_000;
+/** Runs in process, so a case takes milliseconds; the timeout only guards a hang. */
+export const ANALYZE_TIMEOUT_MS = 30_000;
 
 /**
- * Runs the analyze command on a logger file given as text, as `npm run analyze` does. The one
- * place the tests call it from, so it can move to the in-process entry without touching a case.
+ * Runs the analyze command on a logger file given as text, in this process through the function
+ * the command itself runs (`analyzeCommand`: same arguments, same output, same exit code; one test
+ * in cli-analyze.test.ts checks that the spawned command prints the same bytes).
  */
 export async function runAnalyze(fileText: string, args: string[]): Promise<AnalyzeRun> {
   const dir = await mkdtemp(path.join(tmpdir(), "papin-analyze-"));
   try {
     const file = path.join(dir, "logger.csv");
     await writeFile(file, fileText, "utf8");
-    const run = await new Promise<Omit<AnalyzeRun, "json">>((resolve) => {
-      execFile(process.execPath, [LAUNCHER, "analyze", file, ...args], { cwd: ROOT, maxBuffer: 32 * 1024 * 1024 }, (error, stdout, stderr) => {
-        const exitCode = error ? (typeof error.code === "number" ? error.code : 1) : 0;
-        resolve({ exitCode, stdout, stderr });
-      });
-    });
+    const run = analyzeCommand([file, ...args]);
     if (run.exitCode !== 0) return run;
     try {
       return { ...run, json: JSON.parse(run.stdout) };
