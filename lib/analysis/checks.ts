@@ -28,7 +28,7 @@ export function checkBases(limits: AcceptanceLimits): Record<CheckId, string> {
     "equilibration-time": `${profile}: at most ${limits.maxEquilibrationS} s (EN 285 sets 15 s for chambers up to 800 l, 30 s above)`,
     "holding-time": `${profile}: at least ${limits.holdingTimeS} s at or above ${ts} °C (EN 285 minimums: 15 min at 121 °C, 10 min at 126 °C, 3 min at 134 °C)`,
     band: `${profile}: band ${ts} to ${round(bandTopC(limits), 3)} °C, Ts + ${limits.bandK} K (EN 285 band width 3 K)`,
-    "saturation-band": `${profile}: the saturation temperature of the chamber pressure (IAPWS-IF97) within ${ts} to ${round(bandTopC(limits), 3)} °C during holding (EN 285)`,
+    "saturation-band": `${profile}: band ${ts} to ${round(bandTopC(limits), 3)} °C, for Tsat(chamber pressure) as for every probe (EN 285)`,
     spread: `${profile}: at most ${limits.maxSpreadK} K between channels at any instant during holding (EN 285)`,
     saturation: `${profile}: reference within ±${limits.saturationLimitK} K of the saturation temperature at the chamber pressure (IAPWS-IF97) throughout the plateau period, up to the exhaust (EN 285)`,
     "free-space": `${profile}: the free-space sensor at most ${freeSpace.earlyK} K above the reference in the plateau's first ${freeSpace.earlyS} s and ${freeSpace.laterK} K after (EN 285 small-load test)`,
