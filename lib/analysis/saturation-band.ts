@@ -13,16 +13,25 @@ import { fmt, round, seconds } from "./words";
 export function checkSaturationBand(scan: SaturationScan, limits: AcceptanceLimits, words: FlagWords, basis: string): { check: Check; diagnoses: Diagnosis[] } {
   const ts = limits.sterilizationTempC;
   const top = bandTopC(limits);
-  const base = { id: "saturation-band" as const, label: CHECK_LABELS["saturation-band"], unit: "°C" as const, basis };
+  const check = (passed: boolean, measured: number | null, limit: number, comparison: Check["comparison"]): Check => ({
+    id: "saturation-band",
+    label: CHECK_LABELS["saturation-band"],
+    passed,
+    measured,
+    limit,
+    comparison,
+    unit: "°C",
+    basis,
+  });
   const { tsatLow: low, tsatHigh: high } = scan;
-  if (!low || !high) return { check: { ...base, passed: false, measured: null, limit: ts, comparison: "at-least" }, diagnoses: [] };
+  if (!low || !high) {
+    const text = "There was no holding time before the exhaust with a pressure reading, so the saturation temperature during holding cannot be judged.";
+    return { check: check(false, null, ts, "at-least"), diagnoses: [{ checkId: "saturation-band", text }] };
+  }
   const belowK = ts - low.c;
   const aboveK = high.c - top;
-  const judgeLow = belowK >= aboveK;
   const passed = belowK <= EDGE_TOLERANCE_K && aboveK <= EDGE_TOLERANCE_K;
-  const check: Check = judgeLow
-    ? { ...base, passed, measured: round(low.c, 3), limit: ts, comparison: "at-least" }
-    : { ...base, passed, measured: round(high.c, 3), limit: round(top, 3), comparison: "at-most" };
+  const result = belowK >= aboveK ? check(passed, round(low.c, 3), ts, "at-least") : check(passed, round(high.c, 3), round(top, 3), "at-most");
   const diagnoses: Diagnosis[] = [];
   const gauge = words.pressureReference.kind === "gauge" ? `, or gauge readings made absolute with the wrong atmospheric pressure (${describeAtmosphere(words.atmosphere)})` : "";
   if (belowK > EDGE_TOLERANCE_K) {
@@ -43,5 +52,5 @@ export function checkSaturationBand(scan: SaturationScan, limits: AcceptanceLimi
         `and an offset of the pressure transducer or of the temperature probes (check their calibration)${gauge}.`,
     });
   }
-  return { check, diagnoses };
+  return { check: result, diagnoses };
 }

@@ -1,5 +1,6 @@
 export { LoggerFileError } from "./errors";
-export { inspectLoggerFile, readLoggerFile, MIN_DATA_ROWS } from "./read";
+export { inspectLoggerFile, MIN_DATA_ROWS } from "./inspect";
+export { readLoggerFile } from "./read";
 export { unitFromHeader, planColumns } from "./mapping";
 export { decodeLoggerBytes, encodeWindows1252, decodeWindows1252 } from "./decode";
 export { parseDecimal } from "./numbers";

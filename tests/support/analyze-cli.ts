@@ -5,24 +5,24 @@ import { analyzeCommand } from "@/lib/cli/run-analyze";
 
 export type AnalyzeFlag = { start: number; end: number; kind: "below" | "above"; /** signed, K: negative = below */ worst: number; diagnosis: string };
 export type AnalyzeCheck = { id: string; passed: boolean; measured: number | null; limit: number | null };
-export type AnalyzeGap = { start: number; end: number };
+export type AnalyzeGap = { start: number; end: number; durationS: number; channel: string | null };
 
 /**
  * The analyze command's JSON as these tests read it: DESIGN.md "The analyze command" plus issue 9's
  * contract (input.pressureReference, input.samplingInterval, input.gaps, input.warnings, per-channel
- * missing). Fields the contract calls "more fields" (diagnoses, channels, record) are the ones the
- * command prints today.
+ * missing) and the fields README "The analyze command" adds (plateauPeriod, input.atmosphere).
  */
 export type AnalyzeJson = {
   verdict: "pass" | "fail";
   plateau: { start: number; end: number } | null;
+  plateauPeriod: { start: number; end: number } | null;
   equilibrationTime: number | null;
   holdingTime: number | null;
   saturation: { maxDeviation: number | null; flags: AnalyzeFlag[] };
   f0: Record<string, number>;
   checks: AnalyzeCheck[];
   diagnoses: Array<{ checkId: string; text: string }>;
-  channels: Array<{ header: string; missing: number }>;
+  channels: Array<{ header: string; role: "reference" | "load" | "free-space"; missing: number }>;
   record: { samples: number };
   input: {
     pressureReference: { kind: "absolute" | "gauge"; source: "header" | "option" | "user" | "assumed" };
@@ -30,6 +30,7 @@ export type AnalyzeJson = {
     gaps: AnalyzeGap[];
     warnings: string[];
     atmosphereKpa: number;
+    atmosphere: { kpa: number; source: "option" | "mapping" | "site" | "standard" };
   };
 };
 
