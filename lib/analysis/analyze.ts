@@ -144,7 +144,7 @@ function plateauResult(recording: Recording, limits: AcceptanceLimits, span: Pla
   ];
   const checks = steps.map((step) => step.check);
   const { equilibrationTime, holdingTime } = timing;
-  const { verdict, summary } = decideVerdict(checks, limits, { startS: timing.startS, equilibrationTime, holdingTime, largestDeviationK: scan.largest });
+  const { verdict, summary } = decideVerdict(checks, limits, { startS: timing.startS, equilibrationTime, holdingTime, largestDeviationK: scan.largest, freeSpace: freeSpace !== null });
   return {
     engineVersion: ENGINE_VERSION,
     verdict,

@@ -15,7 +15,7 @@ const FAILURE_WORDS: Partial<Record<CheckId, string>> = {
   "free-space": "the free-space sensor read too far above the reference",
 };
 
-export type PassFigures = { startS: number; equilibrationTime: number | null; holdingTime: number | null; largestDeviationK: number };
+export type PassFigures = { startS: number; equilibrationTime: number | null; holdingTime: number | null; largestDeviationK: number; freeSpace?: boolean };
 
 /** Pass only when every check passed; the summary names the figures of a pass or every failure. */
 export function decideVerdict(checks: Check[], limits: AcceptanceLimits, figures: PassFigures): { verdict: "pass" | "fail"; summary: string } {
@@ -26,7 +26,7 @@ export function decideVerdict(checks: Check[], limits: AcceptanceLimits, figures
   }
   const summary =
     `Pass: plateau from ${seconds(round(figures.startS, 1))}, equilibration ${seconds(round(figures.equilibrationTime ?? 0, 1))}, holding ${describeDuration(round(figures.holdingTime ?? 0, 1))}; ` +
-    `every channel stayed within ${limits.sterilizationTempC}–${round(bandTopC(limits), 3)} °C and the reference followed saturated steam within ${fmt(figures.largestDeviationK, 2)} K.`;
+    `every ${figures.freeSpace ? "load " : ""}channel stayed within ${limits.sterilizationTempC}–${round(bandTopC(limits), 3)} °C and the reference followed saturated steam within ${fmt(figures.largestDeviationK, 2)} K.`;
   return { verdict, summary };
 }
 

@@ -14,6 +14,7 @@ export type AnalyzeGap = { start: number; end: number; durationS: number; channe
  */
 export type AnalyzeJson = {
   verdict: "pass" | "fail";
+  summary: string;
   plateau: { start: number; end: number } | null;
   plateauPeriod: { start: number; end: number } | null;
   equilibrationTime: number | null;

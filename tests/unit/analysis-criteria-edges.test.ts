@@ -59,6 +59,8 @@ describe("the free-space sensor's first 60 s", concurrent, () => {
   it("3 K at 59 s into the plateau passes", async () => {
     const run = await runAnalyze(withExcessAt(89), LIMITS_134);
     expect(checkOf(run.json, "free-space").passed).toBe(true);
+    expect(run.json?.verdict).toBe("pass");
+    expect(run.json?.summary).toMatch(/every load channel stayed within 134–137 °C/);
   });
 
   it("3 K at exactly 60 s fails, measured 3 K against 2 K, and says why", async () => {
