@@ -11,11 +11,11 @@ export function siteAtmosphereKpa(site: { atmosphereKpa: number | null; altitude
   return STANDARD_ATMOSPHERE_KPA;
 }
 
+/** Limits a profile may carry once its table has the columns (a later migration); until then the analysis' defaults apply. */
+const OPTIONAL_LIMITS = ["maxSampleIntervalS", "freeSpaceEarlyK", "freeSpaceEarlyS", "freeSpaceK"] as const;
+
 export function limitsOf(profile: AcceptanceProfile): AcceptanceLimits {
-  // Profiles gain a maximum sampling interval with a later migration; until then the record's own pace sets the gap limit.
-  const maxSampleIntervalS = (profile as Partial<Record<"maxSampleIntervalS", number | null>>).maxSampleIntervalS;
-  return {
-    ...(typeof maxSampleIntervalS === "number" ? { maxSampleIntervalS } : {}),
+  const limits: AcceptanceLimits = {
     sterilizationTempC: profile.sterilizationTempC,
     holdingTimeS: profile.holdingTimeS,
     bandK: profile.bandK,
@@ -25,6 +25,12 @@ export function limitsOf(profile: AcceptanceProfile): AcceptanceLimits {
     f0ReferenceC: profile.f0ReferenceC,
     f0ZK: profile.f0ZK,
   };
+  const extra = profile as Partial<Record<(typeof OPTIONAL_LIMITS)[number], number | null>>;
+  for (const key of OPTIONAL_LIMITS) {
+    const value = extra[key];
+    if (typeof value === "number") limits[key] = value;
+  }
+  return limits;
 }
 
 export type FileAnalysis = {
