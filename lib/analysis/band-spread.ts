@@ -1,14 +1,16 @@
 import type { Recording } from "../logger-files/types";
 import { CHECK_LABELS } from "./checks";
 import type { PlateauTiming } from "./equilibration";
-import type { AcceptanceLimits, ChannelSummary, Check, Diagnosis } from "./types";
+import { countMissing } from "./record";
+import { EDGE_TOLERANCE_K, type AcceptanceLimits, type ChannelSummary, type Check, type Diagnosis } from "./types";
 import { fmt, round, seconds } from "./words";
 
-/** Per-channel figures before the hold is measured: F0 and arrival at Ts only. */
+/** Per-channel figures before the hold is measured: missing readings, F0 and arrival at Ts only. */
 export function channelSummaries(recording: Recording, f0Values: number[], arrivals: Array<number | null>, startS: number | null): ChannelSummary[] {
   return recording.temperatures.map((c, k) => ({
     header: c.header,
-    role: k === recording.referenceIndex ? "reference" : "load",
+    role: k === recording.referenceIndex ? "reference" : k === recording.freeSpaceIndex ? "free-space" : "load",
+    missing: countMissing(c.values),
     minDuringHold: null,
     maxDuringHold: null,
     meanDuringHold: null,
@@ -27,7 +29,10 @@ export type HoldExtremes = {
   maxSpreadAt: number;
 };
 
-/** Fills each channel's min, max and mean over the hold; returns the hold's hottest reading and widest spread. */
+/**
+ * Fills each channel's min, max and mean over the hold (its readings only); returns the hold's
+ * hottest reading and widest spread among the load channels (the free-space sensor has its own check).
+ */
 export function measureHold(recording: Recording, timing: PlateauTiming, channels: ChannelSummary[]): HoldExtremes {
   const extremes: HoldExtremes = { maxDuringHold: null, hottest: "", maxSpread: null, maxSpreadAt: 0 };
   const { holdStart, holdEnd } = timing;
@@ -36,25 +41,30 @@ export function measureHold(recording: Recording, timing: PlateauTiming, channel
     let min = Infinity;
     let max = -Infinity;
     let sum = 0;
+    let count = 0;
     for (let i = holdStart; i <= holdEnd; i++) {
       const v = c.values[i];
+      if (v !== v) continue;
       if (v < min) min = v;
       if (v > max) max = v;
       sum += v;
+      count++;
     }
+    if (count === 0) return;
     channels[k].minDuringHold = round(min, 3);
     channels[k].maxDuringHold = round(max, 3);
-    channels[k].meanDuringHold = round(sum / (holdEnd - holdStart + 1), 3);
-    if (extremes.maxDuringHold === null || max > extremes.maxDuringHold) {
+    channels[k].meanDuringHold = round(sum / count, 3);
+    if (timing.load.includes(k) && (extremes.maxDuringHold === null || max > extremes.maxDuringHold)) {
       extremes.maxDuringHold = max;
       extremes.hottest = c.header;
     }
   });
+  const load = timing.load.map((k) => recording.temperatures[k]);
   let maxSpread = 0;
   for (let i = holdStart; i <= holdEnd; i++) {
     let min = Infinity;
     let max = -Infinity;
-    for (const c of recording.temperatures) {
+    for (const c of load) {
       const v = c.values[i];
       if (v < min) min = v;
       if (v > max) max = v;
@@ -70,7 +80,7 @@ export function measureHold(recording: Recording, timing: PlateauTiming, channel
 
 export function checkBand(extremes: HoldExtremes, bandTop: number, basis: string): { check: Check; diagnoses: Diagnosis[] } {
   const { maxDuringHold } = extremes;
-  const passed = maxDuringHold !== null && maxDuringHold <= bandTop + 1e-9;
+  const passed = maxDuringHold !== null && maxDuringHold <= bandTop + EDGE_TOLERANCE_K;
   const diagnoses: Diagnosis[] = [];
   if (maxDuringHold !== null && !passed) {
     diagnoses.push({

@@ -12,7 +12,7 @@ export function checkHolding(recording: Recording, timing: PlateauTiming, limits
     diagnoses.push({
       checkId: "holding-time",
       text:
-        `All channels stayed at or above ${limits.sterilizationTempC} °C for ${describeDuration(round(holdingTime, 1))}, short of the ${describeDuration(limits.holdingTimeS)} required. ${whyTheHoldEnded(recording, timing, limits.sterilizationTempC)} ` +
+        `All channels stayed at or above ${limits.sterilizationTempC} °C for ${describeDuration(round(holdingTime, 1))}, short of the ${describeDuration(limits.holdingTimeS)} required. ${whyTheHoldEnded(recording, timing)} ` +
         "Check the controller's holding time and set point.",
     });
   }
@@ -29,16 +29,22 @@ export function checkHolding(recording: Recording, timing: PlateauTiming, limits
   return { check, diagnoses };
 }
 
-function whyTheHoldEnded(recording: Recording, timing: PlateauTiming, ts: number): string {
+function whyTheHoldEnded(recording: Recording, timing: PlateauTiming): string {
   const { timesS, temperatures } = recording;
-  const next = timing.holdEnd + 1;
-  if (next <= timing.regionEndIndex) {
-    const dipped = temperatures.filter((c) => !(c.values[next] >= ts));
-    const referenceStillUp = dipped.every((c) => c !== temperatures[recording.referenceIndex]);
+  const stop = timing.holdBreak;
+  if (stop?.kind === "dip") {
+    const referenceStillUp = stop.channels.every((k) => k !== recording.referenceIndex);
     return (
-      `The hold ended at ${seconds(timesS[next])} when ${dipped.map((c) => `"${c.header}" fell to ${fmt(c.values[next], 2)} °C`).join(", ")}` +
+      `The hold ended at ${seconds(timesS[stop.index])} when ${stop.channels.map((k) => `"${temperatures[k].header}" fell to ${fmt(temperatures[k].values[stop.index], 2)} °C`).join(", ")}` +
       (referenceStillUp ? " while the reference was still up: a cold spot in the load or a dip in the steam supply." : ".")
     );
+  }
+  if (stop?.kind === "gap") {
+    return `The hold ended at ${seconds(timesS[stop.index - 1])}: the record has no sample until ${seconds(timesS[stop.index])}, and the hold is not counted across a gap.`;
+  }
+  if (stop?.kind === "missing") {
+    const names = stop.channels.map((k) => `"${temperatures[k].header}"`).join(", ");
+    return `The hold ended at ${seconds(timesS[stop.index - 1])}: ${names} had no reading from ${seconds(timesS[stop.index])} for longer than the record's gap limit, and the hold is not counted across a gap.`;
   }
   if (timing.regionEndIndex === timesS.length - 1) return "The record ends while the temperatures are still up: the logger may have stopped too early.";
   return "The cycle moved on to exhaust before the holding time was complete.";

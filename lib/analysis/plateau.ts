@@ -1,6 +1,6 @@
 import type { Recording } from "../logger-files/types";
 import { CHECK_LABELS } from "./checks";
-import { AnalysisError, type Check, type Diagnosis } from "./types";
+import { AnalysisError, EDGE_TOLERANCE_K, type Check, type Diagnosis } from "./types";
 import { fmt, round, seconds } from "./words";
 
 /**
@@ -11,15 +11,16 @@ export const PLATEAU_REARM_K = 10;
 
 export type PlateauSpan = { startIndex: number; regionEndIndex: number };
 
-/** Plateau starts: the reference reaching Ts, each after it had fallen PLATEAU_REARM_K below. */
+/** Plateau starts: the reference reaching Ts, each after it had fallen PLATEAU_REARM_K below; a missing reading (NaN) neither starts nor ends one. */
 export function findPlateaus(reference: ArrayLike<number>, sterilizationTempC: number): PlateauSpan[] {
   const spans: PlateauSpan[] = [];
   const rearmBelow = sterilizationTempC - PLATEAU_REARM_K;
+  const atTs = sterilizationTempC - EDGE_TOLERANCE_K;
   let open: PlateauSpan | null = null;
   for (let i = 0; i < reference.length; i++) {
     const t = reference[i];
     if (open === null) {
-      if (t >= sterilizationTempC) open = { startIndex: i, regionEndIndex: reference.length - 1 };
+      if (t >= atTs) open = { startIndex: i, regionEndIndex: reference.length - 1 };
     } else if (t < rearmBelow) {
       open.regionEndIndex = i - 1;
       spans.push(open);
@@ -28,6 +29,23 @@ export function findPlateaus(reference: ArrayLike<number>, sterilizationTempC: n
   }
   if (open) spans.push(open);
   return spans;
+}
+
+/**
+ * The last sample of the plateau period, the span the saturation check covers. It ends at the
+ * reference's last reading at or above Ts in this plateau (so a hold broken mid-plateau, with the
+ * reference back at Ts afterwards, is judged to the end), or earlier where the exhaust began: the
+ * run of samples up to that reading over which the chamber pressure and the reference both fell
+ * at every sample. In the exhaust the pressure falls faster than the drain can cool, so the drain
+ * reads hotter than saturation without the steam being superheated.
+ */
+export function plateauPeriodEnd(recording: Recording, span: PlateauSpan, sterilizationTempC: number): number {
+  const reference = recording.temperatures[recording.referenceIndex].values;
+  const pressure = recording.pressure.values;
+  let end = span.startIndex;
+  for (let i = span.startIndex; i <= span.regionEndIndex; i++) if (reference[i] >= sterilizationTempC - EDGE_TOLERANCE_K) end = i;
+  while (end > span.startIndex && pressure[end] < pressure[end - 1] && reference[end] < reference[end - 1]) end--;
+  return end;
 }
 
 /** The 0-based plateau asked for; refused when it is not a plateau of this record. */

@@ -2,16 +2,20 @@ import type { Recording } from "../logger-files/types";
 import { SteamRangeError, saturationTemperatureC } from "../steam";
 import { CHECK_LABELS } from "./checks";
 import type { PlateauTiming } from "./equilibration";
-import { AnalysisError, type AcceptanceLimits, type AnalysisResult, type Check, type Diagnosis, type SaturationFlag } from "./types";
-import { fmt, round, seconds } from "./words";
+import { flagDiagnosis, type FlagWords } from "./saturation-words";
+import { AnalysisError, EDGE_TOLERANCE_K, type AcceptanceLimits, type AnalysisResult, type Check, type Diagnosis, type SaturationFlag } from "./types";
+import { round, seconds } from "./words";
 
 export type SaturationScan = {
-  /** largest |reference − Tsat(p)| over the plateau, K */
+  /** largest |reference − Tsat(p)| over the plateau period, K */
   largest: number;
   lowest: number;
   highest: number;
   flags: SaturationFlag[];
   duringHold: AnalysisResult["saturationTemperatureDuringHold"];
+  /** the lowest and highest Tsat(p) during the hold within the plateau period, °C, and when; null without a hold there */
+  tsatLow: { c: number; atS: number } | null;
+  tsatHigh: { c: number; atS: number } | null;
 };
 
 type OpenFlag = { startIndex: number; endIndex: number; kind: "below" | "above"; worst: number };
@@ -28,33 +32,42 @@ function tsatAt(recording: Recording, i: number): number {
   }
 }
 
-/** The reference against the saturation temperature of the chamber pressure, over the plateau. */
-export function scanSaturation(recording: Recording, timing: PlateauTiming, limits: AcceptanceLimits): SaturationScan {
+/**
+ * The reference against the saturation temperature of the chamber pressure over the whole plateau
+ * period (past a broken hold, up to the exhaust); samples missing either reading are passed over.
+ * Also the saturation temperature during the hold, for the saturation-band check.
+ */
+export function scanSaturation(recording: Recording, timing: PlateauTiming, limits: AcceptanceLimits, words: FlagWords): SaturationScan {
   const { timesS } = recording;
-  const reference = recording.temperatures[recording.referenceIndex];
-  const { holdStart, holdEnd } = timing;
-  const scan: SaturationScan = { largest: 0, lowest: Infinity, highest: -Infinity, flags: [], duringHold: null };
-  let satMin = Infinity;
-  let satMax = -Infinity;
+  const reference = recording.temperatures[recording.referenceIndex].values;
+  const pressure = recording.pressure.values;
+  const holdFrom = timing.holdStart;
+  const holdTo = Math.min(timing.holdEnd, timing.periodEndIndex);
+  const scan: SaturationScan = { largest: 0, lowest: Infinity, highest: -Infinity, flags: [], duringHold: null, tsatLow: null, tsatHigh: null };
   let satSum = 0;
+  let satCount = 0;
   let open: OpenFlag | null = null;
+  const limitK = limits.saturationLimitK + EDGE_TOLERANCE_K;
   const closeFlag = () => {
     if (!open) return;
-    scan.flags.push(toFlag(open, timesS, reference.header));
+    scan.flags.push(toFlag(open, timesS, words));
     open = null;
   };
-  for (let i = timing.startIndex; i <= timing.plateauEndIndex; i++) {
+  for (let i = timing.startIndex; i <= timing.periodEndIndex; i++) {
+    if (pressure[i] !== pressure[i]) continue;
     const tsat = tsatAt(recording, i);
-    if (i >= holdStart && i <= holdEnd && holdStart >= 0) {
-      if (tsat < satMin) satMin = tsat;
-      if (tsat > satMax) satMax = tsat;
+    if (holdFrom >= 0 && i >= holdFrom && i <= holdTo) {
+      if (!scan.tsatLow || tsat < scan.tsatLow.c) scan.tsatLow = { c: tsat, atS: timesS[i] };
+      if (!scan.tsatHigh || tsat > scan.tsatHigh.c) scan.tsatHigh = { c: tsat, atS: timesS[i] };
       satSum += tsat;
+      satCount++;
     }
-    const deviation = reference.values[i] - tsat;
+    if (reference[i] !== reference[i]) continue;
+    const deviation = reference[i] - tsat;
     if (Math.abs(deviation) > scan.largest) scan.largest = Math.abs(deviation);
     if (deviation < scan.lowest) scan.lowest = deviation;
     if (deviation > scan.highest) scan.highest = deviation;
-    const kind = deviation < -limits.saturationLimitK ? "below" : deviation > limits.saturationLimitK ? "above" : null;
+    const kind = deviation < -limitK ? "below" : deviation > limitK ? "above" : null;
     if (open && open.kind !== kind) closeFlag();
     if (kind) {
       if (!open) open = { startIndex: i, endIndex: i, kind, worst: deviation };
@@ -63,13 +76,13 @@ export function scanSaturation(recording: Recording, timing: PlateauTiming, limi
     }
   }
   closeFlag();
-  if (holdStart >= 0) {
-    scan.duringHold = { min: round(satMin, 3), max: round(satMax, 3), mean: round(satSum / (holdEnd - holdStart + 1), 3) };
+  if (scan.tsatLow && scan.tsatHigh) {
+    scan.duringHold = { min: round(scan.tsatLow.c, 3), max: round(scan.tsatHigh.c, 3), mean: round(satSum / satCount, 3) };
   }
   return scan;
 }
 
-function toFlag(open: OpenFlag, timesS: Float64Array, referenceHeader: string): SaturationFlag {
+function toFlag(open: OpenFlag, timesS: Float64Array, words: FlagWords): SaturationFlag {
   const start = timesS[open.startIndex];
   const end = timesS[open.endIndex];
   return {
@@ -78,25 +91,8 @@ function toFlag(open: OpenFlag, timesS: Float64Array, referenceHeader: string): 
     durationS: round(end - start, 3),
     kind: open.kind,
     worst: round(open.worst, 3),
-    diagnosis: flagDiagnosis(open.kind, open.worst, start, end, referenceHeader),
+    diagnosis: flagDiagnosis(open.kind, open.worst, start, end, words),
   };
-}
-
-function flagDiagnosis(kind: "below" | "above", worst: number, start: number, end: number, reference: string): string {
-  const span = `From ${seconds(start)} to ${seconds(end)}`;
-  if (kind === "below") {
-    return (
-      `${span} "${reference}" read up to ${fmt(Math.abs(worst))} K colder than saturated steam at the chamber pressure: ` +
-      "part of that pressure was air or another non-condensable gas, which shields the load from steam. " +
-      "Look at air removal (vacuum depth and number of pulses, the vacuum pump), at leaks (door seal, valves, sensor glands: run an air-leakage test) " +
-      "and at non-condensable gases in the steam supply."
-    );
-  }
-  return (
-    `${span} "${reference}" read up to ${fmt(Math.abs(worst))} K hotter than saturated steam at the chamber pressure: the steam was superheated, ` +
-    "and superheated steam sterilizes like hot air, far less well. Look at the jacket (hotter than the chamber), " +
-    "at a large pressure drop across the steam supply's reducing valve, at over-dry supply steam, and at over-dried textiles taking up moisture."
-  );
 }
 
 export function checkSaturation(scan: SaturationScan, limits: AcceptanceLimits, basis: string): { check: Check; diagnoses: Diagnosis[] } {

@@ -12,6 +12,8 @@ export function validateLimits(limits: AcceptanceLimits): void {
     ["f0ReferenceC", Number.isFinite(limits.f0ReferenceC)],
     ["f0ZK", limits.f0ZK > 0],
   ];
+  const optional: Array<keyof AcceptanceLimits> = ["maxSampleIntervalS", "freeSpaceEarlyK", "freeSpaceEarlyS", "freeSpaceK"];
+  for (const name of optional) if (limits[name] !== undefined) entries.push([name, (limits[name] as number) > 0]);
   for (const [name, ok] of entries) {
     if (!ok || !Number.isFinite(limits[name])) throw new AnalysisError(`The acceptance limit ${name} = ${limits[name]} is not a usable value`);
   }
@@ -27,5 +29,9 @@ export function validateRecording(recording: Recording): void {
   if (recording.pressure.values.length !== n) throw new AnalysisError(`The pressure channel has ${recording.pressure.values.length} samples where the time axis has ${n}`);
   if (!(recording.referenceIndex >= 0 && recording.referenceIndex < recording.temperatures.length)) {
     throw new AnalysisError(`Reference index ${recording.referenceIndex} does not name a temperature channel`);
+  }
+  const freeSpace = recording.freeSpaceIndex ?? -1;
+  if (freeSpace !== -1 && !(freeSpace >= 0 && freeSpace < recording.temperatures.length && freeSpace !== recording.referenceIndex)) {
+    throw new AnalysisError(`Free-space index ${freeSpace} does not name a temperature channel other than the reference`);
   }
 }

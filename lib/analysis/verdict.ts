@@ -1,18 +1,21 @@
-import { CHECK_LABELS, bandTopC } from "./checks";
+import { CHECK_LABELS, bandTopC, freeSpaceLimits } from "./checks";
 import type { AcceptanceLimits, Check, CheckId } from "./types";
 import { describeDuration, fmt, round, seconds } from "./words";
 
 // How each failed check reads in the one-line summary (the labels name the passing condition).
 const FAILURE_WORDS: Partial<Record<CheckId, string>> = {
   "plateau-reached": "the reference did not reach the sterilization temperature",
-  "equilibration-time": "equilibration took too long",
+  "record-complete": "the record has gaps during the plateau",
+  "equilibration-time": "equilibration took too long or cannot be shown",
   "holding-time": "the holding time was too short",
   band: "a temperature left the sterilization band during holding",
+  "saturation-band": "the saturation temperature of the chamber pressure left the band during holding",
   spread: "the channels differed too much during holding",
   saturation: "the reference did not follow saturated steam",
+  "free-space": "the free-space sensor read too far above the reference",
 };
 
-export type PassFigures = { startS: number; equilibrationTime: number | null; holdingTime: number | null; largestDeviationK: number };
+export type PassFigures = { startS: number; equilibrationTime: number | null; holdingTime: number | null; largestDeviationK: number; freeSpace?: boolean };
 
 /** Pass only when every check passed; the summary names the figures of a pass or every failure. */
 export function decideVerdict(checks: Check[], limits: AcceptanceLimits, figures: PassFigures): { verdict: "pass" | "fail"; summary: string } {
@@ -23,19 +26,22 @@ export function decideVerdict(checks: Check[], limits: AcceptanceLimits, figures
   }
   const summary =
     `Pass: plateau from ${seconds(round(figures.startS, 1))}, equilibration ${seconds(round(figures.equilibrationTime ?? 0, 1))}, holding ${describeDuration(round(figures.holdingTime ?? 0, 1))}; ` +
-    `every channel stayed within ${limits.sterilizationTempC}–${round(bandTopC(limits), 3)} °C and the reference followed saturated steam within ${fmt(figures.largestDeviationK, 2)} K.`;
+    `every ${figures.freeSpace ? "load " : ""}channel stayed within ${limits.sterilizationTempC}–${round(bandTopC(limits), 3)} °C and the reference followed saturated steam within ${fmt(figures.largestDeviationK, 2)} K.`;
   return { verdict, summary };
 }
 
 /** Without a plateau nothing after it can be measured: each of those checks fails with no figure. */
-export function unmeasuredChecks(limits: AcceptanceLimits, bases: Record<CheckId, string>): Check[] {
-  const unmeasured = [
+export function unmeasuredChecks(limits: AcceptanceLimits, bases: Record<CheckId, string>, gapLimitS: number, freeSpace: boolean): Check[] {
+  const unmeasured: Array<readonly [CheckId, Check["unit"], Check["comparison"], number]> = [
+    ["record-complete", "s", "at-most", gapLimitS],
     ["equilibration-time", "s", "at-most", limits.maxEquilibrationS],
     ["holding-time", "s", "at-least", limits.holdingTimeS],
     ["band", "°C", "at-most", bandTopC(limits)],
+    ["saturation-band", "°C", "at-least", limits.sterilizationTempC],
     ["spread", "K", "at-most", limits.maxSpreadK],
     ["saturation", "K", "at-most", limits.saturationLimitK],
-  ] as const;
+  ];
+  if (freeSpace) unmeasured.push(["free-space", "K", "at-most", freeSpaceLimits(limits).laterK]);
   return unmeasured.map(([id, unit, comparison, limit]) => ({
     id,
     label: CHECK_LABELS[id],

@@ -11,8 +11,11 @@ export function siteAtmosphereKpa(site: { atmosphereKpa: number | null; altitude
   return STANDARD_ATMOSPHERE_KPA;
 }
 
+/** Limits a profile may carry once its table has the columns (a later migration); until then the analysis' defaults apply. */
+const OPTIONAL_LIMITS = ["maxSampleIntervalS", "freeSpaceEarlyK", "freeSpaceEarlyS", "freeSpaceK"] as const;
+
 export function limitsOf(profile: AcceptanceProfile): AcceptanceLimits {
-  return {
+  const limits: AcceptanceLimits = {
     sterilizationTempC: profile.sterilizationTempC,
     holdingTimeS: profile.holdingTimeS,
     bandK: profile.bandK,
@@ -22,6 +25,12 @@ export function limitsOf(profile: AcceptanceProfile): AcceptanceLimits {
     f0ReferenceC: profile.f0ReferenceC,
     f0ZK: profile.f0ZK,
   };
+  const extra = profile as Partial<Record<(typeof OPTIONAL_LIMITS)[number], number | null>>;
+  for (const key of OPTIONAL_LIMITS) {
+    const value = extra[key];
+    if (typeof value === "number") limits[key] = value;
+  }
+  return limits;
 }
 
 export type FileAnalysis = {
@@ -38,11 +47,14 @@ export type FileAnalysis = {
 
 /**
  * One logger file in, one analysis out: pure apart from hashing, so the same bytes, mapping and
- * limits always give the same figures and the same input hash.
+ * limits always give the same figures and the same input hash. The mapping is the user's (absolute
+ * or gauge in it counts as confirmed); atmosphereKpa is the site's, used unless the mapping has one.
  */
 export function analyzeLoggerBytes(bytes: Uint8Array, profile: AcceptanceProfile, mapping: MappingOverrides = {}, atmosphereKpa?: number): FileAnalysis {
-  const effectiveMapping: MappingOverrides = atmosphereKpa && mapping.atmosphereKpa === undefined ? { ...mapping, atmosphereKpa } : mapping;
-  const { recording, dialect, columns } = readLoggerFile(bytes, effectiveMapping);
+  const fromSite = atmosphereKpa !== undefined && mapping.atmosphereKpa === undefined;
+  const effectiveMapping: MappingOverrides = fromSite ? { ...mapping, atmosphereKpa } : mapping;
+  const atmosphereSource = fromSite ? "site" : mapping.atmosphereKpa === undefined ? "standard" : "mapping";
+  const { recording, dialect, columns } = readLoggerFile(bytes, effectiveMapping, { overrideSource: "user", atmosphereSource });
   const limits = limitsOf(profile);
   const result = analyzeRecording(recording, limits);
   const sha256 = sha256Hex(bytes);

@@ -2,11 +2,11 @@
  * Shapes of the cycle API's JSON, shared by the route handlers, the pages and the client
  * components (and stable for scripts and logger gateways: see DESIGN "Public HTTP API").
  */
-import type { AnalysisResult } from "@/lib/analysis/types";
-import type { ColumnMapping, Dialect, InspectResult, MappingOverrides } from "@/lib/logger-files/types";
-import type { CycleStatus, ProfileBasis, SignatureMeaning, TestKind } from "@/lib/domain";
+import type { AnalysisInput, AnalysisResult, RecordGap } from "@/lib/analysis/types";
+import type { AtmosphereUsed, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference } from "@/lib/logger-files/types";
+import type { CycleStatus, SignatureMeaning, TestKind } from "@/db/schema";
 
-export type { AnalysisResult, ColumnMapping, Dialect, InspectResult, MappingOverrides };
+export type { AnalysisInput, AnalysisResult, AtmosphereUsed, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference, RecordGap };
 
 export type CycleListItem = {
   id: string;

@@ -63,21 +63,36 @@ export function toCelsiusChannel(raw: Float64Array, rowCount: number, column: Co
   return { header: column.header, values: out };
 }
 
-/** The pressure column in kPa absolute, converted in place; a negative absolute pressure is refused with its row. */
-export function toAbsoluteKpaChannel(raw: Float64Array, rowCount: number, column: ColumnMapping, atmosphereKpa: number, source: RowSource): Float64Array {
+/**
+ * The pressure column in kPa absolute, converted in place; a negative absolute pressure is refused
+ * with its row. When absolute was only assumed (no marker, nobody said), negative readings are kept
+ * and noted in `assumedNotes`: the analysis then flags the cycle rather than refusing the file.
+ */
+export function toAbsoluteKpaChannel(raw: Float64Array, rowCount: number, column: ColumnMapping, atmosphereKpa: number, source: RowSource, assumedNotes?: string[]): Float64Array {
   const values = raw.length === rowCount ? raw : raw.slice(0, rowCount);
   const scale = kpaPerUnit(column.unit as PressureUnit);
   const offset = column.gauge ? atmosphereKpa : 0;
+  let negative = 0;
+  let firstNegative = -1;
   for (let n = 0; n < rowCount; n++) {
     const kpa = values[n] * scale + offset;
     if (kpa < 0) {
-      const line = source.sourceLine[n];
-      throw rowError(
-        line,
-        `column "${column.header}": "${source.cellAt(line, column.index)}" ${column.unit}${column.gauge ? " gauge" : ""} is a negative absolute pressure; check the unit and the gauge/absolute setting`,
-      );
+      if (!assumedNotes) {
+        const line = source.sourceLine[n];
+        throw rowError(
+          line,
+          `column "${column.header}": "${source.cellAt(line, column.index)}" ${column.unit}${column.gauge ? " gauge" : ""} is a negative absolute pressure; check the unit and the gauge/absolute setting`,
+        );
+      }
+      if (negative++ === 0) firstNegative = source.sourceLine[n];
     }
     values[n] = kpa;
+  }
+  if (assumedNotes && negative > 0) {
+    assumedNotes.push(
+      `${negative} reading${negative === 1 ? "" : "s"} of "${column.header}" (the first on row ${firstNegative + 1}) ${negative === 1 ? "is" : "are"} below zero, ` +
+        "impossible for an absolute pressure: the logger very likely records gauge pressure. Set the pressure reference to gauge and analyse again",
+    );
   }
   return values;
 }

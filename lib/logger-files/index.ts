@@ -1,10 +1,12 @@
 export { LoggerFileError } from "./errors";
-export { inspectLoggerFile, readLoggerFile, MIN_DATA_ROWS } from "./read";
+export { inspectLoggerFile, MIN_DATA_ROWS } from "./inspect";
+export { readLoggerFile } from "./read";
 export { unitFromHeader, planColumns } from "./mapping";
 export { decodeLoggerBytes, encodeWindows1252, decodeWindows1252 } from "./decode";
 export { parseDecimal } from "./numbers";
 export { parseTimeCell, guessTimeFormat } from "./time";
 export type {
+  AtmosphereUsed,
   ColumnMapping,
   ColumnOverride,
   ColumnRole,
@@ -14,8 +16,11 @@ export type {
   InspectResult,
   LineEnding,
   MappingOverrides,
+  PressureReference,
+  ReadContext,
   ReadResult,
   Recording,
+  RecordingSource,
   TemperatureChannel,
   TextEncodingName,
   TimeFormat,

@@ -1,11 +1,11 @@
-import { STANDARD_ATMOSPHERE_KPA } from "../steam";
-import { assignChannelRoles, chooseChamberPressure, chooseReference, settleTemperatureUnits } from "./channel-roles";
+import { STANDARD_ATMOSPHERE_KPA, atmosphereOutOfRange } from "../steam";
+import { assignChannelRoles, chooseChamberPressure, chooseFreeSpace, chooseReference, settleTemperatureUnits } from "./channel-roles";
 import { findHeader } from "./column-samples";
 import { LoggerFileError } from "./errors";
-import { resolvePressureUnit } from "./pressure-unit";
+import { decidePressureReference, resolvePressureUnit } from "./pressure-unit";
 import { findTimeColumn, markTimeColumn, type ColumnEvidence } from "./time-column";
 import type { TimeFormat } from "./time";
-import type { ColumnMapping, ColumnOverride, ColumnRole, DecimalMark, MappingOverrides } from "./types";
+import type { AtmosphereUsed, ColumnMapping, ColumnOverride, ColumnRole, DecimalMark, MappingOverrides, PressureReference, ReadContext } from "./types";
 
 export { unitFromHeader } from "./header-units";
 
@@ -18,8 +18,29 @@ export type ColumnPlan = {
   temperatureIndexes: number[];
   pressureIndex: number;
   referenceIndex: number;
-  atmosphereKpa: number;
+  /** index into the temperature columns of the free-space sensor, −1 when there is none */
+  freeSpaceIndex: number;
+  atmosphere: AtmosphereUsed;
+  /** null when no pressure column was found */
+  pressureReference: PressureReference | null;
 };
+
+const ATMOSPHERE_WORDS: Record<AtmosphereUsed["source"], string> = {
+  option: "The atmospheric pressure given",
+  mapping: "The column mapping's atmospheric pressure",
+  site: "The site's atmospheric pressure (site settings)",
+  standard: "The atmospheric pressure",
+};
+
+/** The atmospheric pressure for gauge readings and its source; refused, with its source, outside ATMOSPHERE_RANGE_KPA. */
+function settleAtmosphere(overrides: MappingOverrides, context: ReadContext): AtmosphereUsed {
+  const given = overrides.atmosphereKpa;
+  const atmosphere: AtmosphereUsed =
+    given === undefined ? { kpa: STANDARD_ATMOSPHERE_KPA, source: "standard" } : { kpa: given, source: context.atmosphereSource ?? "mapping" };
+  const problem = atmosphereOutOfRange(atmosphere.kpa);
+  if (problem) throw new LoggerFileError(`${ATMOSPHERE_WORDS[atmosphere.source]} is refused: ${problem}; give it in kPa, e.g. 101.325`);
+  return atmosphere;
+}
 
 const NO_TEMPERATURE = "No temperature column: no header carries a temperature unit (°C, °F, K) or a channel name; say which columns are temperatures";
 const NO_PRESSURE = "No pressure column: no header carries a pressure unit (kPa, bar, mbar, MPa, psi, mmHg) or the word pressure; say which column is the chamber pressure";
@@ -36,11 +57,9 @@ export function planColumns(
   overrides: MappingOverrides = {},
   /** when given, a missing temperature or pressure column is noted here instead of thrown, so a preview can still be shown */
   problems?: string[],
+  context: ReadContext = {},
 ): ColumnPlan {
-  const atmosphereKpa = overrides.atmosphereKpa ?? STANDARD_ATMOSPHERE_KPA;
-  if (!(atmosphereKpa > 0 && atmosphereKpa < 200)) {
-    throw new LoggerFileError(`An atmospheric pressure of ${atmosphereKpa} kPa is not plausible; give it in kPa, e.g. 101.325`);
-  }
+  const atmosphere = settleAtmosphere(overrides, context);
   const columns: ColumnMapping[] = headers.map((header, index) => ({ index, header, role: "ignored", unit: null, gauge: false, unsure: [] }));
   const overrideFor = new Map<number, ColumnOverride>();
   for (const [name, value] of Object.entries(overrides.columns ?? {})) {
@@ -54,23 +73,26 @@ export function planColumns(
   assignChannelRoles(columns, time.index, forcedPressure, evidence);
   const pressure = chooseChamberPressure(columns, forcedPressure);
   const temperatures = columns.filter((c) => c.role === "temperature");
-  const plan = { columns, timeIndex: time.index, timeFormat: time.format, elapsedScale: time.elapsedScale, atmosphereKpa };
+  const pressureReference = pressure ? decidePressureReference(pressure, overrides, overrideFor.get(pressure.index), context.overrideSource ?? "user") : null;
+  const plan = { columns, timeIndex: time.index, timeFormat: time.format, elapsedScale: time.elapsedScale, atmosphere, pressureReference };
   if (temperatures.length === 0 || !pressure) {
     if (!problems) throw new LoggerFileError(temperatures.length === 0 ? NO_TEMPERATURE : NO_PRESSURE);
     if (temperatures.length === 0) problems.push(NO_TEMPERATURE);
     if (!pressure) problems.push(NO_PRESSURE);
-    if (temperatures.length === 0) return { ...plan, temperatureIndexes: [], pressureIndex: pressure?.index ?? -1, referenceIndex: -1 };
+    if (temperatures.length === 0) return { ...plan, temperatureIndexes: [], pressureIndex: pressure?.index ?? -1, referenceIndex: -1, freeSpaceIndex: -1 };
   }
 
   settleTemperatureUnits(temperatures, evidence, overrides.temperatureUnit);
   const referenceColumn = chooseReference(columns, temperatures, headers, overrides.referenceColumn);
-  if (pressure) resolvePressureUnit(pressure, referenceColumn, sampleRows, decimal, overrides, atmosphereKpa);
+  const freeSpaceColumn = chooseFreeSpace(columns, temperatures, headers, overrides.freeSpaceColumn, referenceColumn);
+  if (pressure) resolvePressureUnit(pressure, referenceColumn, sampleRows, decimal, overrides, atmosphere.kpa);
   for (const c of columns) c.unsure = c.unsure.filter((u) => u !== "unit-unknown" && u !== "gauge-or-absolute");
   return {
     ...plan,
     temperatureIndexes: temperatures.map((c) => c.index),
     pressureIndex: pressure?.index ?? -1,
     referenceIndex: temperatures.indexOf(referenceColumn),
+    freeSpaceIndex: freeSpaceColumn ? temperatures.indexOf(freeSpaceColumn) : -1,
   };
 }
 

@@ -1,56 +1,78 @@
-import { PRESSURE_UNITS, kpaPerUnit, saturationTemperatureC, toCelsius, type PressureUnit, type TemperatureUnit } from "../steam";
+import { PRESSURE_UNITS, kpaPerUnit, parsePressureLabel, saturationTemperatureC, toCelsius, type PressureUnit, type TemperatureUnit } from "../steam";
+import { unitFromHeader } from "./header-units";
 import { DECIMAL_CODES, parseDecimal } from "./numbers";
-import type { ColumnMapping, DecimalMark, MappingOverrides } from "./types";
+import type { ColumnMapping, ColumnOverride, DecimalMark, MappingOverrides, PressureReference, ReadContext } from "./types";
 
-type Reading = { unit: PressureUnit; gauge: boolean; error: number };
+type Reading = { unit: PressureUnit; error: number };
 
-function describeUnit(unit: PressureUnit, gauge: boolean): string {
-  return `${unit} ${gauge ? "gauge" : "absolute"}`;
+/**
+ * Absolute or gauge, from what someone said: the overrides (the command's options or a user's
+ * mapping), else the header's marker, else assumed absolute. Never from which reading fits steam
+ * best: a superheated cycle would pass as gauge. Assuming absolute fails closed, since gauge
+ * readings taken as absolute sit far below saturation and are flagged.
+ */
+export function decidePressureReference(
+  pressure: ColumnMapping,
+  overrides: MappingOverrides,
+  columnOverride: ColumnOverride | undefined,
+  overrideSource: NonNullable<ReadContext["overrideSource"]>,
+): PressureReference {
+  const kind = (gauge: boolean): PressureReference["kind"] => (gauge ? "gauge" : "absolute");
+  let reference: PressureReference;
+  const overrideGauge = columnOverride?.role === "pressure" ? (columnOverride.gauge ?? (columnOverride.unit ? parsePressureLabel(columnOverride.unit)?.gauge : null) ?? null) : null;
+  const headerGauge = headerMarker(pressure.header);
+  if (overrides.pressureGauge !== undefined) reference = { kind: kind(overrides.pressureGauge), source: overrideSource };
+  else if (overrideGauge !== null) reference = { kind: kind(overrideGauge), source: overrideSource };
+  else if (headerGauge !== null) reference = { kind: kind(headerGauge), source: "header" };
+  else reference = { kind: "absolute", source: "assumed" };
+  pressure.gauge = reference.kind === "gauge";
+  pressure.unsure = pressure.unsure.filter((u) => u !== "gauge-or-absolute");
+  if (reference.source === "assumed") pressure.unsure.push("no abs/gauge marker in the header; read as absolute until someone confirms absolute or gauge");
+  return reference;
+}
+
+/** The header's abs/gauge marker: with its unit ("kPa g", "bar(a)", "psig") or as a word ("gauge", "absolute"); null when it has none. */
+function headerMarker(header: string): boolean | null {
+  const unit = unitFromHeader(header);
+  if (unit?.kind === "pressure" && unit.gauge !== null) return unit.gauge;
+  const words = header.toLowerCase();
+  if (/\b(gauge|gage|relative)\b/.test(words)) return true;
+  if (/\b(abs|absolute)\b/.test(words)) return false;
+  return null;
 }
 
 /**
- * Settles a pressure column's unit and gauge/absolute reading. What the header or the overrides
- * say wins; what they leave open is chosen so that hot samples sit closest to saturated steam.
+ * Settles a pressure column's unit once absolute or gauge is decided. What the header or the
+ * overrides say wins; a unit they leave open is the one under which the hot samples sit closest to
+ * saturated steam (units differ by factors of 2 or more, so the fit cannot turn a failing cycle
+ * into a passing one), and the column says it was unsure.
  */
 export function resolvePressureUnit(pressure: ColumnMapping, reference: ColumnMapping, sampleRows: string[][], decimal: DecimalMark, overrides: MappingOverrides, atmosphereKpa: number): void {
   if (overrides.pressureUnit) {
     pressure.unit = overrides.pressureUnit;
     pressure.unsure = pressure.unsure.filter((u) => u !== "unit-unknown");
   }
-  if (overrides.pressureGauge !== undefined) {
-    pressure.gauge = overrides.pressureGauge;
-    pressure.unsure = pressure.unsure.filter((u) => u !== "gauge-or-absolute");
-  }
   const unitOpen = pressure.unit === null || pressure.unsure.includes("unit-unknown");
-  const gaugeOpen = pressure.unsure.includes("gauge-or-absolute");
-  pressure.unsure = pressure.unsure.filter((u) => u !== "unit-unknown" && u !== "gauge-or-absolute");
-  if (!unitOpen && !gaugeOpen) return;
+  pressure.unsure = pressure.unsure.filter((u) => u !== "unit-unknown");
+  if (!unitOpen) return;
 
   const code = DECIMAL_CODES[decimal];
   const cellValue = (row: string[], index: number) => parseDecimal(row[index] ?? "", 0, (row[index] ?? "").length, code);
   const pairs = hotPairs(pressure, reference, sampleRows, cellValue);
+  const reading = `${pressure.gauge ? "gauge" : "absolute"}`;
   if (pairs.length === 0) {
-    const anyNegative = sampleRows.some((row) => cellValue(row, pressure.index) < 0);
-    settleWithoutHotSamples(pressure, unitOpen, gaugeOpen, anyNegative);
+    pressure.unit = "kPa";
+    pressure.unsure.push("no unit in the header and no hot samples to judge by; read as kPa");
     return;
   }
-  const units: PressureUnit[] = unitOpen ? [...PRESSURE_UNITS] : [pressure.unit as PressureUnit];
-  let best = bestReading(pairs, units, gaugeOpen ? [false, true] : [pressure.gauge], atmosphereKpa);
+  const best = bestUnit(pairs, pressure.gauge, atmosphereKpa);
   if (!best) {
     pressure.unit ??= "kPa";
-    pressure.unsure.push("no unit or gauge reading puts these values on the saturated-steam line; check the pressure unit");
+    pressure.unsure.push(`no unit puts these values, read as ${reading}, on the saturated-steam line; check the pressure unit`);
     return;
   }
-  if (gaugeOpen && !unitOpen) {
-    // Absolute unless gauge fits clearly better: a marker-less reading is more often absolute.
-    const absolute = units.length === 1 ? medianError(pairs, units[0], false, atmosphereKpa) : Infinity;
-    if (best.gauge && absolute - best.error < 2) best = { unit: units[0], gauge: false, error: absolute };
-  }
   pressure.unit = best.unit;
-  pressure.gauge = best.gauge;
-  const fit = `hot samples sit ${best.error.toFixed(1)} K (median) from saturated steam when read as ${describeUnit(best.unit, best.gauge)}`;
-  if (unitOpen) pressure.unsure.push(`no unit in the header; ${fit}`);
-  else pressure.unsure.push(`no abs/gauge marker in the header; ${fit}`);
+  pressure.unsure.push(`no unit in the header; hot samples sit ${best.error.toFixed(1)} K (median) from saturated steam when read as ${best.unit} ${reading}`);
 }
 
 /** Pressure and reference temperature (°C) of the samples where the reference is at 105 °C or more. */
@@ -66,27 +88,14 @@ function hotPairs(pressure: ColumnMapping, reference: ColumnMapping, sampleRows:
   return pairs;
 }
 
-function settleWithoutHotSamples(pressure: ColumnMapping, unitOpen: boolean, gaugeOpen: boolean, anyNegative: boolean): void {
-  if (unitOpen) {
-    pressure.unit = "kPa";
-    pressure.unsure.push("no unit in the header and no hot samples to judge by; read as kPa");
-  }
-  if (gaugeOpen) {
-    pressure.gauge = anyNegative;
-    pressure.unsure.push(anyNegative ? "no abs/gauge marker; negative readings, so read as gauge" : "no abs/gauge marker; read as absolute");
-  }
-}
-
-/** The unit and gauge reading under which the hot samples sit closest (median) to the saturation line; null if none is physical. */
-function bestReading(pairs: Array<[number, number]>, units: PressureUnit[], gauges: boolean[], atmosphereKpa: number): Reading | null {
+/** The unit under which the hot samples sit closest (median) to the saturation line; null if none is physical. */
+function bestUnit(pairs: Array<[number, number]>, gauge: boolean, atmosphereKpa: number): Reading | null {
   let best: Reading | null = null;
-  for (const unit of units) {
-    for (const gauge of gauges) {
-      const error = medianError(pairs, unit, gauge, atmosphereKpa);
-      if (error === Infinity) continue;
-      // Ties go to absolute and to the order of PRESSURE_UNITS (kPa before the rarer units).
-      if (!best || error < best.error - 1e-9) best = { unit, gauge, error };
-    }
+  for (const unit of PRESSURE_UNITS) {
+    const error = medianError(pairs, unit, gauge, atmosphereKpa);
+    if (error === Infinity) continue;
+    // Ties go to the order of PRESSURE_UNITS (kPa before the rarer units).
+    if (!best || error < best.error - 1e-9) best = { unit, error };
   }
   return best;
 }

@@ -1,79 +1,13 @@
 import Papa from "papaparse";
 import { rowError, toAbsoluteKpaChannel, toCelsiusChannel, toElapsedSeconds, type RowSource } from "./convert";
 import { LoggerFileError } from "./errors";
-import { planColumns, type ColumnPlan } from "./mapping";
+import { MIN_DATA_ROWS, analyse } from "./inspect";
+import { MissingReadings, isBlankCell } from "./missing";
 import { DECIMAL_CODES, parseDecimal } from "./numbers";
-import { delimiterName, findTable, isBlankLine, isDataRow, lineText, prepareText, splitFields, type PreparedText, type TableLayout } from "./sniff";
+import { delimiterName, isBlankLine, lineText, splitFields, type PreparedText, type TableLayout } from "./sniff";
 import { cellHasOffset, isoFromSeconds, parseTimeCell, type TimeFormat } from "./time";
-import type { Dialect, InspectResult, MappingOverrides, ReadResult, Recording } from "./types";
+import type { MappingOverrides, ReadContext, ReadResult, Recording } from "./types";
 
-const PREVIEW_ROWS = 10;
-const MAPPING_SAMPLE_ROWS = 600;
-export const MIN_DATA_ROWS = 3;
-
-type Analysed = { prepared: PreparedText; layout: TableLayout; plan: ColumnPlan; dialect: Dialect; preview: string[][] };
-
-function dataLineIndexes(prepared: PreparedText, layout: TableLayout, limit: number): number[] {
-  const found: number[] = [];
-  for (let i = layout.firstDataLineIndex; i < prepared.lineCount && found.length < limit; i++) {
-    if (!isBlankLine(lineText(prepared, i), layout.delimiter)) found.push(i);
-  }
-  return found;
-}
-
-function spreadSample(prepared: PreparedText, layout: TableLayout): string[][] {
-  const total = prepared.lineCount - layout.firstDataLineIndex;
-  const step = Math.max(1, Math.floor(total / MAPPING_SAMPLE_ROWS));
-  const rows: string[][] = [];
-  for (let i = layout.firstDataLineIndex; i < prepared.lineCount; i += step) {
-    const line = lineText(prepared, i);
-    if (isBlankLine(line, layout.delimiter)) continue;
-    const fields = splitFields(line, layout.delimiter);
-    if (fields.length === layout.width && isDataRow(fields)) rows.push(fields);
-  }
-  return rows;
-}
-
-function analyse(bytes: Uint8Array, overrides: MappingOverrides = {}, problems?: string[]): Analysed {
-  if (!(bytes instanceof Uint8Array)) throw new LoggerFileError("The logger file must be given as bytes");
-  const prepared = prepareText(bytes);
-  const layout = findTable(prepared);
-  const preview = dataLineIndexes(prepared, layout, PREVIEW_ROWS).map((i) => splitFields(lineText(prepared, i), layout.delimiter));
-  const plan = planColumns(layout.headers, spreadSample(prepared, layout), layout.decimal, overrides, problems);
-  const dialect: Dialect = {
-    encoding: prepared.encoding,
-    delimiter: layout.delimiter,
-    decimal: layout.decimal,
-    lineEnding: prepared.lineEnding,
-    preambleLines: layout.headerLineIndex >= 0 ? layout.headerLineIndex : layout.firstDataLineIndex,
-    headerLine: layout.headerLineIndex >= 0 ? layout.headerLineIndex + 1 : null,
-    timeFormat: plan.timeFormat,
-    quoted: layout.quoted,
-  };
-  return { prepared, layout, plan, dialect, preview };
-}
-
-/** Guesses dialect and mapping from the text without converting the data: cheap enough for every upload. */
-export function inspectLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides): InspectResult {
-  const problems: string[] = [];
-  const { prepared, layout, plan, dialect, preview } = analyse(bytes, overrides, problems);
-  const preambleEnd = dialect.preambleLines;
-  const preamble: string[] = [];
-  for (let i = 0; i < preambleEnd; i++) preamble.push(lineText(prepared, i));
-  let rowCount = 0;
-  for (let i = layout.firstDataLineIndex; i < prepared.lineCount; i++) {
-    if (prepared.lineEnds[i] > prepared.lineStarts[i]) rowCount++;
-  }
-  return {
-    dialect,
-    columns: plan.columns,
-    referenceColumn: plan.referenceIndex >= 0 ? plan.columns[plan.temperatureIndexes[plan.referenceIndex]].header : null,
-    problems,
-    preview: { header: layout.headers, rows: preview },
-    rowCount,
-    preamble,
-  };
-}
 
 const TIME_FORMAT_WORDS: Record<TimeFormat, string> = {
   iso: "year-month-day hour:minute:second",
@@ -91,9 +25,12 @@ type Sink = {
   count: number;
 };
 
-/** Reads the whole file into a recording: times in seconds, temperatures in °C, pressure in kPa absolute. */
-export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides): ReadResult {
-  const { prepared, layout, plan, dialect } = analyse(bytes, overrides);
+/**
+ * Reads the whole file into a recording: times in seconds, temperatures in °C, pressure in kPa
+ * absolute; a blank cell is a missing reading (NaN), a row with every channel blank is skipped.
+ */
+export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, context?: ReadContext): ReadResult {
+  const { prepared, layout, plan, dialect } = analyse(bytes, overrides, undefined, context);
   const { text, lineStarts, lineEnds, lineCount } = prepared;
   const { width, delimiter, headers } = layout;
   const warnings: string[] = [];
@@ -125,6 +62,8 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
   const values = new Float64Array(channelCount + 1);
   const fieldStarts = new Int32Array(width + 1);
   const fieldEnds = new Int32Array(width + 1);
+  const missing = new MissingReadings(channelCount);
+  let rowBlanks = 0;
 
   const failRow = (lineIndex: number, message: string): never => {
     throw rowError(lineIndex, message);
@@ -145,6 +84,7 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
 
   /** Parses the cells at fieldStarts/fieldEnds of one line into values[]; returns false when the line is a footer. */
   const parseFields = (lineIndex: number, source: string): boolean => {
+    rowBlanks = 0;
     for (let slot = 0; slot <= channelCount; slot++) {
       const f = fieldOfSlot[slot];
       const start = fieldStarts[f];
@@ -153,6 +93,11 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
       if (slot === 0 && !elapsed) v = parseTime(source, start, end, timeFormat);
       else v = parseNumber(source, start, end, decimalCode);
       if (v !== v) {
+        if (slot > 0 && isBlankCell(source, start, end)) {
+          values[slot] = NaN;
+          rowBlanks++;
+          continue;
+        }
         if (isFooter(lineIndex)) return false;
         const cell = source.slice(start, end).trim();
         const header = headers[f] || `Column ${f + 1}`;
@@ -166,6 +111,10 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
   };
 
   const store = (lineIndex: number) => {
+    if (rowBlanks > 0) {
+      if (rowBlanks === channelCount) return missing.skipRow(lineIndex);
+      missing.countRow(values, channelCount, lineIndex);
+    }
     const n = sink.count;
     sink.times[n] = values[0];
     for (let k = 1; k <= channelCount; k++) sink.channels[k - 1][n] = values[k];
@@ -245,6 +194,7 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
     for (let j = footerFrom; j < lineCount; j++) if (!isBlankLine(lineText(prepared, j), delimiter)) footerLines++;
     warnings.push(`Ignored ${footerLines} line(s) after the data from line ${footerFrom + 1} ("${lineText(prepared, footerFrom).trim().slice(0, 60)}")`);
   }
+  if (rowCount === 0 && missing.skippedRows > 0) throw new LoggerFileError(`Every data row of the file has only blank cells besides the time`);
   if (rowCount === 0) throw new LoggerFileError(`The file has a header (line ${layout.headerLineIndex + 1}) but no data rows below it`);
   if (rowCount < MIN_DATA_ROWS) {
     throw new LoggerFileError(`The file has only ${rowCount} data row${rowCount === 1 ? "" : "s"}; at least ${MIN_DATA_ROWS} are needed to analyse a cycle`);
@@ -264,10 +214,19 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
     startedAt = isoFromSeconds(rawTimes[0], cellHasOffset(cellOf(prepared, layout, sourceLine[0], plan.timeIndex)));
   }
 
+  warnings.push(...missing.describe((slot) => headers[fieldOfSlot[slot]], rowCount));
+  const pressureColumn = plan.columns[plan.pressureIndex];
+  const pressureReference = plan.pressureReference ?? { kind: "absolute", source: "assumed" };
+  if (pressureReference.source === "assumed") {
+    warnings.push(
+      `The pressure column "${pressureColumn.header}" has no abs/gauge marker, so its readings were taken as absolute pressure. ` +
+        "If the logger records gauge pressure, set the pressure reference to gauge (read as absolute, gauge readings sit far below saturated steam and the cycle fails).",
+    );
+  }
+
   // Units: temperatures to °C, pressure to kPa absolute.
   const temperatures = plan.temperatureIndexes.map((index, k) => toCelsiusChannel(sink.channels[k], rowCount, plan.columns[index], source));
-  const pressureColumn = plan.columns[plan.pressureIndex];
-  const pressureValues = toAbsoluteKpaChannel(sink.channels[pressureSlot - 1], rowCount, pressureColumn, plan.atmosphereKpa, source);
+  const pressureValues = toAbsoluteKpaChannel(sink.channels[pressureSlot - 1], rowCount, pressureColumn, plan.atmosphere.kpa, source, pressureReference.source === "assumed" ? warnings : undefined);
 
   const recording: Recording = {
     startedAt,
@@ -275,6 +234,8 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides):
     temperatures,
     pressure: { header: pressureColumn.header, values: pressureValues },
     referenceIndex: plan.referenceIndex,
+    freeSpaceIndex: plan.freeSpaceIndex,
+    source: { pressureReference, atmosphere: plan.atmosphere, warnings },
   };
   return { recording, dialect, columns: plan.columns, warnings };
 }

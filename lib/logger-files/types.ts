@@ -51,8 +51,27 @@ export type MappingOverrides = {
   columns?: Record<string, ColumnOverride>;
   /** site atmospheric pressure used to make gauge readings absolute; default 101.325 kPa */
   atmosphereKpa?: number;
+  /** the temperature column of the sensor in free space above the pack (EN 285 small-load test) */
+  freeSpaceColumn?: string;
 };
 
+/** Whether the chamber pressure was read as absolute or gauge, and who said so. */
+export type PressureReference = {
+  kind: "absolute" | "gauge";
+  /** header: the column's abs/gauge marker; option: the analyze command; user: a confirmed mapping; assumed: nobody, read as absolute */
+  source: "header" | "option" | "user" | "assumed";
+};
+
+/** The atmospheric pressure added to gauge readings, kPa, and where it came from. */
+export type AtmosphereUsed = { kpa: number; source: "option" | "mapping" | "site" | "standard" };
+
+/** Who gave what the reader was told: overrides come from the command's options or a user's mapping. */
+export type ReadContext = { overrideSource?: "option" | "user"; atmosphereSource?: AtmosphereUsed["source"] };
+
+/** What the reader decided about the pressure and noticed in the file, carried into the analysis. */
+export type RecordingSource = { pressureReference: PressureReference; atmosphere: AtmosphereUsed; warnings: string[] };
+
+/** values: °C, NaN where the cell was blank (a missing reading) */
 export type TemperatureChannel = { header: string; values: Float64Array };
 
 export type Recording = {
@@ -62,16 +81,23 @@ export type Recording = {
   timesS: Float64Array;
   /** °C */
   temperatures: TemperatureChannel[];
-  /** kPa absolute */
+  /** kPa absolute, NaN where the cell was blank */
   pressure: { header: string; values: Float64Array };
   /** index into temperatures of the reference (drain) channel */
   referenceIndex: number;
+  /** index into temperatures of the free-space sensor; absent or −1 when there is none */
+  freeSpaceIndex?: number;
+  /** set by the reader; a recording built in code has absolute pressure by construction */
+  source?: RecordingSource;
 };
 
 export type InspectResult = {
   dialect: Dialect;
   columns: ColumnMapping[];
   referenceColumn: string | null;
+  freeSpaceColumn: string | null;
+  /** null until a pressure column is found; source "assumed" asks the user to confirm absolute or gauge */
+  pressureReference: PressureReference | null;
   preview: { header: string[]; rows: string[][] };
   /** data lines below the header (a cheap count; footer lines included) */
   rowCount: number;

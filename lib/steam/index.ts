@@ -1,5 +1,5 @@
 export { SteamRangeError } from "./errors";
-export { TRIPLE_POINT, CRITICAL_POINT, STANDARD_ATMOSPHERE_KPA, KELVIN_OFFSET, IF97_GAS_CONSTANT } from "./constants";
+export { TRIPLE_POINT, CRITICAL_POINT, STANDARD_ATMOSPHERE_KPA, ATMOSPHERE_RANGE_KPA, KELVIN_OFFSET, IF97_GAS_CONSTANT } from "./constants";
 export {
   saturationPressureKpa,
   saturationTemperatureC,
@@ -29,6 +29,7 @@ export {
   toAbsoluteKpa,
   fromAbsoluteKpa,
   atmosphereAtAltitudeKpa,
+  atmosphereOutOfRange,
   parseTemperatureUnit,
   parsePressureUnit,
   parsePressureLabel,

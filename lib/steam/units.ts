@@ -1,4 +1,4 @@
-import { KELVIN_OFFSET, STANDARD_ATMOSPHERE_KPA } from "./constants";
+import { ATMOSPHERE_RANGE_KPA, KELVIN_OFFSET, STANDARD_ATMOSPHERE_KPA } from "./constants";
 import { SteamRangeError } from "./errors";
 import { TEMPERATURE_UNIT_SYMBOL, type PressureUnit, type TemperatureUnit } from "../domain/units";
 
@@ -84,6 +84,13 @@ export function atmosphereAtAltitudeKpa(altitudeM: number): number {
     throw new SteamRangeError(`Altitude ${altitudeM} m is outside the standard atmosphere's range (−5000 m to 11 000 m)`);
   }
   return STANDARD_ATMOSPHERE_KPA * Math.pow(1 - 2.25577e-5 * altitudeM, 5.2559);
+}
+
+/** Null when kPa is a physical atmospheric pressure (ATMOSPHERE_RANGE_KPA); else what is wrong, in one sentence. */
+export function atmosphereOutOfRange(kpa: number): string | null {
+  const { min, max } = ATMOSPHERE_RANGE_KPA;
+  if (Number.isFinite(kpa) && kpa >= min && kpa <= max) return null;
+  return `an atmospheric pressure of ${kpa} kPa is outside the physical range of ${min}–${max} kPa (sea level is about 101.3 kPa)`;
 }
 
 function normaliseUnitText(s: string): string {

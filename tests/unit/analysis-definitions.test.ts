@@ -201,7 +201,7 @@ describe("several cycles in one file", () => {
 describe("checks and limits", () => {
   it("every check carries its id, measured value, limit and basis", () => {
     const result = analyzeRecording(record(400, { "Drain (°C)": ramp(10, 300), "Pack 1 (°C)": ramp(12, 300) }), limits);
-    expect(result.checks.map((c) => c.id)).toEqual(["plateau-reached", "equilibration-time", "holding-time", "band", "spread", "saturation"]);
+    expect(result.checks.map((c) => c.id)).toEqual(["plateau-reached", "record-complete", "equilibration-time", "holding-time", "band", "saturation-band", "spread", "saturation"]);
     for (const c of result.checks) {
       expect(c.passed).toBe(true);
       expect(typeof c.measured).toBe("number");

@@ -69,7 +69,8 @@ describe("the analyze command on hand-made logger files", () => {
     expect(result.saturation.flags).toHaveLength(1);
     expect(result.saturation.flags[0]).toMatchObject({ start: 400, end: 460, kind: "below" });
     expect(result.saturation.flags[0].worst).toBeCloseTo(-3, 1);
-    expect(result.checks.filter((c: { passed: boolean }) => !c.passed).map((c: { id: string }) => c.id)).toEqual(["saturation"]);
+    // The air's extra pressure also lifts the saturation temperature above the band's top of 124 °C (issue 9 rule 1).
+    expect(result.checks.filter((c: { passed: boolean }) => !c.passed).map((c: { id: string }) => c.id)).toEqual(["saturation-band", "saturation"]);
     expect(result.referenceChannel).toBe("REF drain (°F)");
     expect(result.input.dialect.timeFormat).toBe("mdy-ampm");
   });
@@ -154,18 +155,8 @@ describe("the analyze command on unusable input", () => {
     ["binary bytes", () => file("binary.dat", new Uint8Array([0x41, 0x42, 0x00, 0x01, 0xff, 0x10, 0x00, 0x43])), "The file is not text: byte 0x00 at offset 2"],
     ["a spreadsheet workbook", () => file("book.xlsx", new Uint8Array([0x50, 0x4b, 0x03, 0x04, 0x14, 0x00, 0x06, 0x00])), "The file is a ZIP archive (or an .xlsx workbook), not a text export"],
     ["prose", () => file("notes.txt", "The cycle ran fine today.\nWe changed the door seal on Monday and the test passed.\nNothing else to report.\n"), "The file holds no table"],
-    [
-      "time going backwards",
-      () => file("back.csv", header + row(0) + row(5) + row(3) + row(10)),
-      'Row 4, column "Time": time goes backwards ("2025-03-03 07:30:03" comes after "2025-03-03 07:30:05" on row 3)',
-    ],
-    [
-      "text in a numeric cell",
-      () =>
-        file("text.csv", "Time;Drain (°C);Pack 1 (°C);Chamber (kPa abs)\n" + "03.03.2025 07:30:00;134,1;134,0;304,2\n03.03.2025 07:30:05;134,1;12,a;304,2\n03.03.2025 07:30:10;134,1;134,0;304,2\n"),
-      'Row 3, column "Pack 1 (°C)": "12,a" is not a number',
-    ],
-    ["an empty cell", () => file("gap.csv", header + row(0) + row(5, "") + row(10)), 'Row 3, column "Pack 1 (°C)": the cell is empty'],
+    ["time going backwards", () => file("back.csv", header + row(0) + row(5) + row(3) + row(10)), 'Row 4, column "Time": time goes backwards ("2025-03-03 07:30:03" comes after "2025-03-03 07:30:05" on row 3)'],
+    ["text in a numeric cell", () => file("text.csv", "Time;Drain (°C);Pack 1 (°C);Chamber (kPa abs)\n" + "03.03.2025 07:30:00;134,1;134,0;304,2\n03.03.2025 07:30:05;134,1;12,a;304,2\n03.03.2025 07:30:10;134,1;134,0;304,2\n"), 'Row 3, column "Pack 1 (°C)": "12,a" is not a number'],
     ["a short row", () => file("short.csv", header + row(0) + "2025-03-03 07:30:05,134.1,134.0\n" + row(10)), "Row 3 has 3 comma-separated fields where the header has 4"],
     [
       "a time cell in another format",
@@ -175,6 +166,19 @@ describe("the analyze command on unusable input", () => {
     ["a missing file", () => path.join(dir, "nowhere.csv"), "Cannot open"],
   ])("%s", (_name, make, message) => {
     expectOneLineError(analyze([make(), ...limits]), message);
+  });
+
+  it("an empty cell is a missing reading of that channel, not a broken file (issue 9 rule 4)", () => {
+    const run = analyze([file("gap.csv", header + row(0) + row(5, "") + row(10)), ...limits]);
+    expect(run.stderr).toBe("");
+    expect(run.code).toBe(0);
+    const result = JSON.parse(run.stdout);
+    expect(result.channels.find((c: { header: string }) => c.header === "Pack 1 (°C)").missing).toBe(1);
+    expect(result.input.warnings).toContain('Column "Pack 1 (°C)": 1 blank cell (row 3), read as missing readings');
+  });
+
+  it("an empty time cell is still refused with its row", () => {
+    expectOneLineError(analyze([file("notime-cell.csv", header + row(0) + ",134.1,134.0,304.2\n" + row(10)), ...limits]), 'Row 3, column "Time": the cell is empty');
   });
 
   it("pressure that no unit setting makes physical during the plateau", () => {

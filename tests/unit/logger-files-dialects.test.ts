@@ -123,12 +123,18 @@ describe("units and gauge markers in headers", () => {
     expect(columns[1]).toMatchObject({ role: "temperature", unit: "C", unsure: [] });
   });
 
-  it("a gauge-pressure file without a marker is read as gauge because only that fits saturated steam", () => {
+  it("a gauge-pressure file without a marker is read as absolute, never as whichever fits steam, and says so (issue 9 rule 5)", () => {
     const file = utf8("Time (s),Drain (°C),Pack (°C),Chamber (kPa)\n" + hot(["202.9", "203.8", "204.7"]));
-    const { recording, columns } = readLoggerFile(file);
-    expect(columns[3]).toMatchObject({ unit: "kPa", gauge: true });
+    const { recording, columns, warnings } = readLoggerFile(file);
+    expect(columns[3]).toMatchObject({ unit: "kPa", gauge: false });
     expect(columns[3].unsure[0]).toMatch(/no abs\/gauge marker/);
-    expect(recording.pressure.values[0]).toBeCloseTo(304.225, 6);
+    expect(recording.pressure.values[0]).toBeCloseTo(202.9, 6);
+    expect(recording.source?.pressureReference).toEqual({ kind: "absolute", source: "assumed" });
+    expect(warnings.join(" ")).toMatch(/no abs\/gauge marker, so its readings were taken as absolute/);
+    // Told gauge, by an option or a user's mapping, the same file reads 202.9 + 101.325 kPa.
+    const told = readLoggerFile(file, { pressureGauge: true }, { overrideSource: "user" });
+    expect(told.recording.pressure.values[0]).toBeCloseTo(304.225, 6);
+    expect(told.recording.source?.pressureReference).toEqual({ kind: "gauge", source: "user" });
   });
 
   it("an unmarked absolute file stays absolute", () => {

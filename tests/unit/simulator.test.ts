@@ -19,7 +19,9 @@ describe("simulated cycles fail exactly the way their scenario says", () => {
   ])("at %d °C for %d s", (ts, hold) => {
     expect(analyse("pass", ts, hold).verdict).toBe("pass");
     const air = analyse("air", ts, hold);
-    expect(failedChecks(air)).toEqual(["saturation"]);
+    // Air adds to the chamber pressure, so its saturation temperature also rises above the band
+    // (issue 9 rule 1: the pressure-derived temperature is held to the band, EN 285, from memory).
+    expect(failedChecks(air)).toEqual(["saturation-band", "saturation"]);
     expect(air.saturation.flags.map((f) => f.kind)).toEqual(["below"]);
     const superheat = analyse("superheat", ts, hold);
     expect(failedChecks(superheat)).toEqual(["saturation"]);
@@ -65,6 +67,8 @@ describe("the CSV writer and the reader agree in every dialect", () => {
     const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134, holdingTimeS: 180, seed: 4 });
     const { recording } = readLoggerFile(toLoggerCsv(sim, dialect), dialect.atmosphereKpa ? { atmosphereKpa: dialect.atmosphereKpa } : {});
     expect(recording.timesS.length).toBe(sim.timesS.length);
+    // The writer marks the pressure header abs or gauge, so no simulated file leans on the assumed reading (issue 9 rule 5).
+    expect(recording.source?.pressureReference).toEqual({ kind: dialect.gauge ? "gauge" : "absolute", source: "header" });
     expect(recording.temperatures).toHaveLength(7);
     expect(recording.referenceIndex).toBe(0);
     const i = 900;

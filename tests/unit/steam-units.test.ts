@@ -2,7 +2,9 @@ import { describe, expect, it } from "vitest";
 import {
   STANDARD_ATMOSPHERE_KPA,
   SteamRangeError,
+  ATMOSPHERE_RANGE_KPA,
   atmosphereAtAltitudeKpa,
+  atmosphereOutOfRange,
   convertPressure,
   convertTemperature,
   fromAbsoluteKpa,
@@ -141,6 +143,18 @@ describe("atmosphere at altitude", () => {
 
   it("uses 101.325 kPa as the standard atmosphere", () => {
     expect(STANDARD_ATMOSPHERE_KPA).toBe(101.325);
+  });
+});
+
+describe("the physical range of an atmospheric pressure (issue 9 rule 11)", () => {
+  // 50 kPa: the standard atmosphere near 5500 m; 110 kPa: above any weather at sea level (common practice).
+  it("accepts 50 to 110 kPa, edges included, and the standard atmosphere", () => {
+    expect(ATMOSPHERE_RANGE_KPA).toEqual({ min: 50, max: 110 });
+    for (const kpa of [50, 84.556, STANDARD_ATMOSPHERE_KPA, 110]) expect(atmosphereOutOfRange(kpa)).toBeNull();
+  });
+
+  it("refuses what lies outside, or is not a number, naming the range", () => {
+    for (const kpa of [10, 49.99, 110.01, Number.NaN]) expect(atmosphereOutOfRange(kpa)).toMatch(/outside the physical range of 50–110 kPa/);
   });
 });
 
