@@ -51,10 +51,21 @@ export function timePlateau(recording: Recording, span: PlateauSpan, sterilizati
   });
   const periodEndIndex = plateauPeriodEnd(recording, span, sterilizationTempC);
   const timing: PlateauTiming = {
-    startIndex: s, regionEndIndex: regionEnd, startS: timesS[s], load, arrivalIndex,
+    startIndex: s,
+    regionEndIndex: regionEnd,
+    startS: timesS[s],
+    load,
+    arrivalIndex,
     arrivals: arrivalIndex.map((i) => (i >= 0 ? timesS[i] : null)),
     missing: load.filter((k) => arrivalIndex[k] < 0).map((k) => temperatures[k]),
-    equilibrationTime: null, holdingTime: null, holdStart: -1, holdEnd: -1, holdBreak: null, plateauEndIndex: s, periodEndIndex, pace,
+    equilibrationTime: null,
+    holdingTime: null,
+    holdStart: -1,
+    holdEnd: -1,
+    holdBreak: null,
+    plateauEndIndex: s,
+    periodEndIndex,
+    pace,
   };
   if (timing.missing.length > 0) {
     const reference = temperatures[recording.referenceIndex].values;
@@ -64,7 +75,10 @@ export function timePlateau(recording: Recording, span: PlateauSpan, sterilizati
   const holdStart = Math.max(...load.map((k) => arrivalIndex[k]));
   const { holdEnd, holdBreak } = walkHold(recording, load, holdStart, regionEnd, atTs, pace.maxIntervalS);
   Object.assign(timing, {
-    holdStart, holdEnd, holdBreak, plateauEndIndex: holdEnd,
+    holdStart,
+    holdEnd,
+    holdBreak,
+    plateauEndIndex: holdEnd,
     equilibrationTime: timesS[holdStart] - timing.startS,
     holdingTime: timesS[holdEnd] - timesS[holdStart],
   });
@@ -100,12 +114,7 @@ export function checkEquilibration(recording: Recording, timing: PlateauTiming, 
   const diagnoses: Diagnosis[] = [];
   // A logger slower than the limit cannot show equilibration within it, whatever its samples say (issue 9, rule 3).
   const tooSlow = pace.samplingIntervalS > limits.maxEquilibrationS + TIME_TOLERANCE_S;
-  const text =
-    equilibrationTime === null
-      ? neverEquilibrated(timing, limits)
-      : equilibrationTime > limits.maxEquilibrationS
-        ? slowEquilibration(recording, timing, limits)
-        : null;
+  const text = equilibrationTime === null ? neverEquilibrated(timing, limits) : equilibrationTime > limits.maxEquilibrationS ? slowEquilibration(recording, timing, limits) : null;
   if (text !== null) diagnoses.push({ checkId: "equilibration-time", text });
   if (tooSlow) diagnoses.push({ checkId: "equilibration-time", text: tooSlowToShowEquilibration(pace, limits.maxEquilibrationS, equilibrationTime) });
   const check: Check = {

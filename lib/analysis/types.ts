@@ -49,16 +49,7 @@ export const GAP_FACTOR = 3;
  */
 export const EDGE_TOLERANCE_K = 1e-6;
 
-export type CheckId =
-  | "plateau-reached"
-  | "record-complete"
-  | "equilibration-time"
-  | "holding-time"
-  | "band"
-  | "saturation-band"
-  | "spread"
-  | "saturation"
-  | "free-space";
+export type CheckId = "plateau-reached" | "record-complete" | "equilibration-time" | "holding-time" | "band" | "saturation-band" | "spread" | "saturation" | "free-space";
 
 export type Check = {
   id: CheckId;

@@ -42,9 +42,26 @@ export class UsageError extends Error {
 export type Parsed = { file: string; limits: AcceptanceLimits; overrides: MappingOverrides; context: ReadContext; plateau: number; help: boolean };
 
 const VALUE_FLAGS = new Set([
-  "sterilization-temp", "holding-time", "band", "max-equilibration", "max-spread", "saturation-limit", "f0-reference", "f0-z",
-  "plateau", "reference", "time-column", "pressure-column", "pressure-unit", "temperature-unit", "atmosphere", "altitude", "mapping",
-  "max-interval", "free-space", "pressure-reference",
+  "sterilization-temp",
+  "holding-time",
+  "band",
+  "max-equilibration",
+  "max-spread",
+  "saturation-limit",
+  "f0-reference",
+  "f0-z",
+  "plateau",
+  "reference",
+  "time-column",
+  "pressure-column",
+  "pressure-unit",
+  "temperature-unit",
+  "atmosphere",
+  "altitude",
+  "mapping",
+  "max-interval",
+  "free-space",
+  "pressure-reference",
 ]);
 const SWITCH_FLAGS = new Set(["pressure-gauge", "pressure-absolute", "help"]);
 
@@ -114,7 +131,11 @@ export function parseArguments(argv: string[]): Parsed {
     limits.maxSampleIntervalS = maxIntervalS;
   }
   const positive: Array<["holdingTimeS" | "bandK" | "maxSpreadK" | "saturationLimitK" | "f0ZK", string]> = [
-    ["holdingTimeS", "holding-time"], ["bandK", "band"], ["maxSpreadK", "max-spread"], ["saturationLimitK", "saturation-limit"], ["f0ZK", "f0-z"],
+    ["holdingTimeS", "holding-time"],
+    ["bandK", "band"],
+    ["maxSpreadK", "max-spread"],
+    ["saturationLimitK", "saturation-limit"],
+    ["f0ZK", "f0-z"],
   ];
   for (const [key, flag] of positive) if (!(limits[key] > 0)) throw new UsageError(`--${flag} must be above 0, not ${limits[key]}`);
   if (limits.maxEquilibrationS < 0) throw new UsageError(`--max-equilibration cannot be negative`);

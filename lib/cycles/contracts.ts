@@ -4,7 +4,7 @@
  */
 import type { AnalysisInput, AnalysisResult, RecordGap } from "@/lib/analysis/types";
 import type { AtmosphereUsed, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference } from "@/lib/logger-files/types";
-import type { CycleStatus, SignatureMeaning, TestKind } from "@/db/schema";
+import type { CycleStatus, ProfileBasis, SignatureMeaning, TestKind } from "@/lib/domain";
 
 export type { AnalysisInput, AnalysisResult, AtmosphereUsed, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference, RecordGap };
 

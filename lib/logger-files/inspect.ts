@@ -72,4 +72,3 @@ export function inspectLoggerFile(bytes: Uint8Array, overrides?: MappingOverride
     preamble,
   };
 }
-

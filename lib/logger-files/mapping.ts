@@ -35,8 +35,7 @@ const ATMOSPHERE_WORDS: Record<AtmosphereUsed["source"], string> = {
 /** The atmospheric pressure for gauge readings and its source; refused, with its source, outside ATMOSPHERE_RANGE_KPA. */
 function settleAtmosphere(overrides: MappingOverrides, context: ReadContext): AtmosphereUsed {
   const given = overrides.atmosphereKpa;
-  const atmosphere: AtmosphereUsed =
-    given === undefined ? { kpa: STANDARD_ATMOSPHERE_KPA, source: "standard" } : { kpa: given, source: context.atmosphereSource ?? "mapping" };
+  const atmosphere: AtmosphereUsed = given === undefined ? { kpa: STANDARD_ATMOSPHERE_KPA, source: "standard" } : { kpa: given, source: context.atmosphereSource ?? "mapping" };
   const problem = atmosphereOutOfRange(atmosphere.kpa);
   if (problem) throw new LoggerFileError(`${ATMOSPHERE_WORDS[atmosphere.source]} is refused: ${problem}; give it in kPa, e.g. 101.325`);
   return atmosphere;

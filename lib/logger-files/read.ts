@@ -8,7 +8,6 @@ import { delimiterName, isBlankLine, lineText, splitFields, type PreparedText, t
 import { cellHasOffset, isoFromSeconds, parseTimeCell, type TimeFormat } from "./time";
 import type { MappingOverrides, ReadContext, ReadResult, Recording } from "./types";
 
-
 const TIME_FORMAT_WORDS: Record<TimeFormat, string> = {
   iso: "year-month-day hour:minute:second",
   dmy: "day.month.year hour:minute:second",

@@ -77,7 +77,10 @@ export function checkOf(json: AnalyzeJson | undefined, id: string): AnalyzeCheck
 
 /** The diagnosis text(s) attached to a check, joined. */
 export function diagnosisOf(json: AnalyzeJson | undefined, checkId: string): string {
-  return (json?.diagnoses ?? []).filter((d) => d.checkId === checkId).map((d) => d.text).join("\n");
+  return (json?.diagnoses ?? [])
+    .filter((d) => d.checkId === checkId)
+    .map((d) => d.text)
+    .join("\n");
 }
 
 /** The analysis' summary of the temperature channel with this header. */

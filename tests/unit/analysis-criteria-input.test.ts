@@ -10,7 +10,9 @@ import { LIMITS_134, loggerCsv, saturationKpa, soundCycle, withBlanks, type Logg
 const concurrent = { concurrent: true, timeout: ANALYZE_TIMEOUT_MS };
 
 /** The sound 134 °C cycle (hold 32–330 s, drain 134.6 °C), with the pressure and the file's layout chosen by the case. */
-function cycleFile(options: { marker?: PressureMarker; reads?: "absolute" | "gauge"; atmosphereKpa?: number; kpaAbsAt?: (t: number) => number } & Partial<Pick<LoggerCsvSpec, "channels" | "blankRows">> = {}): string {
+function cycleFile(
+  options: { marker?: PressureMarker; reads?: "absolute" | "gauge"; atmosphereKpa?: number; kpaAbsAt?: (t: number) => number } & Partial<Pick<LoggerCsvSpec, "channels" | "blankRows">> = {},
+): string {
   const base = soundCycle();
   return loggerCsv({
     times: base.times,
@@ -150,8 +152,7 @@ describe("rule 11: an atmospheric pressure outside about 50–110 kPa is refused
   // Gauge readings that never go below zero (the chamber vents to atmosphere, no vacuum), so no
   // atmospheric pressure makes them negative and only the range can refuse it.
   const { drain } = soundCycle();
-  const gaugeFile = (atmosphereKpa: number) =>
-    cycleFile({ marker: "gauge", atmosphereKpa, kpaAbsAt: (t) => Math.max(atmosphereKpa, saturationKpa(drain(t))) });
+  const gaugeFile = (atmosphereKpa: number) => cycleFile({ marker: "gauge", atmosphereKpa, kpaAbsAt: (t) => Math.max(atmosphereKpa, saturationKpa(drain(t))) });
 
   it.each([10, 40, 120])("--atmosphere %d kPa is refused on one stderr line naming 50–110 kPa", async (kpa) => {
     const run = await runAnalyze(gaugeFile(101.325), [...LIMITS_134, "--atmosphere", String(kpa)]);

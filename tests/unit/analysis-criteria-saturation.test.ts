@@ -92,10 +92,16 @@ describe("rule 7: comparisons at Ts and the band edges allow 1e-6 K of unit-conv
   });
 
   it("a probe reading exactly 255.38 °F (124.1 °C, the band's top) stays within the band; 255.39 °F does not", async () => {
-    const atTop = await runAnalyze(fahrenheitFile(254, () => null, between(200, 210, 255.38)), LIMITS_121);
+    const atTop = await runAnalyze(
+      fahrenheitFile(254, () => null, between(200, 210, 255.38)),
+      LIMITS_121,
+    );
     expect(checkOf(atTop.json, "band").passed).toBe(true);
     expect(atTop.json?.verdict).toBe("pass");
-    const above = await runAnalyze(fahrenheitFile(254, () => null, between(200, 210, 255.39)), LIMITS_121);
+    const above = await runAnalyze(
+      fahrenheitFile(254, () => null, between(200, 210, 255.39)),
+      LIMITS_121,
+    );
     expect(checkOf(above.json, "band").passed).toBe(false);
   });
 });

@@ -49,10 +49,7 @@ describe("rule 1: the saturation temperature from the chamber pressure lies with
     const hot = plateauChannel({ tsC: TS_C, reachS: 30, levelC: 136.8, exhaustS: 330 });
     // Tsat 137.406 °C [computed: python3-iapws at psychrolib's p_s(137.4 °C) = 335.744 kPa];
     // band top 134 + 3 = 137 °C (EN 285 band width, DOMAIN.md §2.2, from memory).
-    const run = await runAnalyze(
-      cycleFile({ channels: { Drain: hot, "Pack 1": hot }, kpaAbsAt: (t) => saturationKpa(hot(t) + 0.6) }),
-      LIMITS_134,
-    );
+    const run = await runAnalyze(cycleFile({ channels: { Drain: hot, "Pack 1": hot }, kpaAbsAt: (t) => saturationKpa(hot(t) + 0.6) }), LIMITS_134);
     expect(checkOf(run.json, "band").passed).toBe(true);
     const check = checkOf(run.json, "saturation-band");
     expect(check.passed).toBe(false);

@@ -155,8 +155,17 @@ describe("the analyze command on unusable input", () => {
     ["binary bytes", () => file("binary.dat", new Uint8Array([0x41, 0x42, 0x00, 0x01, 0xff, 0x10, 0x00, 0x43])), "The file is not text: byte 0x00 at offset 2"],
     ["a spreadsheet workbook", () => file("book.xlsx", new Uint8Array([0x50, 0x4b, 0x03, 0x04, 0x14, 0x00, 0x06, 0x00])), "The file is a ZIP archive (or an .xlsx workbook), not a text export"],
     ["prose", () => file("notes.txt", "The cycle ran fine today.\nWe changed the door seal on Monday and the test passed.\nNothing else to report.\n"), "The file holds no table"],
-    ["time going backwards", () => file("back.csv", header + row(0) + row(5) + row(3) + row(10)), 'Row 4, column "Time": time goes backwards ("2025-03-03 07:30:03" comes after "2025-03-03 07:30:05" on row 3)'],
-    ["text in a numeric cell", () => file("text.csv", "Time;Drain (°C);Pack 1 (°C);Chamber (kPa abs)\n" + "03.03.2025 07:30:00;134,1;134,0;304,2\n03.03.2025 07:30:05;134,1;12,a;304,2\n03.03.2025 07:30:10;134,1;134,0;304,2\n"), 'Row 3, column "Pack 1 (°C)": "12,a" is not a number'],
+    [
+      "time going backwards",
+      () => file("back.csv", header + row(0) + row(5) + row(3) + row(10)),
+      'Row 4, column "Time": time goes backwards ("2025-03-03 07:30:03" comes after "2025-03-03 07:30:05" on row 3)',
+    ],
+    [
+      "text in a numeric cell",
+      () =>
+        file("text.csv", "Time;Drain (°C);Pack 1 (°C);Chamber (kPa abs)\n" + "03.03.2025 07:30:00;134,1;134,0;304,2\n03.03.2025 07:30:05;134,1;12,a;304,2\n03.03.2025 07:30:10;134,1;134,0;304,2\n"),
+      'Row 3, column "Pack 1 (°C)": "12,a" is not a number',
+    ],
     ["a short row", () => file("short.csv", header + row(0) + "2025-03-03 07:30:05,134.1,134.0\n" + row(10)), "Row 3 has 3 comma-separated fields where the header has 4"],
     [
       "a time cell in another format",

@@ -2,13 +2,7 @@
 // package, IAPWS97 with enthalpies and volumes), over the sterilizing range, in one python process.
 import { execFileSync } from "node:child_process";
 import { describe, expect, it } from "vitest";
-import {
-  saturatedLiquidEnthalpy,
-  saturatedVapourEnthalpy,
-  saturatedVapourVolume,
-  saturationPressureKpa,
-  saturationTemperatureC,
-} from "@/lib/steam";
+import { saturatedLiquidEnthalpy, saturatedVapourEnthalpy, saturatedVapourVolume, saturationPressureKpa, saturationTemperatureC } from "@/lib/steam";
 
 const TEMPERATURES_C = Array.from({ length: 81 }, (_, i) => 100 + i * 0.5); // 100–140 °C every 0.5 K
 const PRESSURES_KPA = Array.from({ length: 61 }, (_, i) => 100 + i * 5); // 100–400 kPa abs every 5 kPa
