@@ -27,7 +27,6 @@ export type CreateCycleInput = {
   mapping?: MappingOverrides;
   saveMapping?: boolean;
   supersedesId?: string | null;
-  origin?: string;
 };
 
 /** The choices of the intake form: the site's active sterilizers, profiles and instruments. */
@@ -162,7 +161,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
         supersedes: input.supersedesId ?? null,
       },
     }),
-    inside: (tx, cycleId) => notifyFailure(tx, cycleId, analysis.result, input.origin),
+    inside: (tx, cycleId) => notifyFailure(tx, cycleId, analysis.result),
   });
   return { id, status: "draft", analysis: analysis.result, fileAnalysis: analysis };
 }
@@ -232,10 +231,10 @@ function analysisRow(analysis: FileAnalysis, actor: Actor) {
 
 type Tx = Parameters<typeof enqueueAnalysisFailedMail>[0];
 
-async function notifyFailure(tx: Tx, cycleId: string, result: AnalysisResult, origin?: string) {
+async function notifyFailure(tx: Tx, cycleId: string, result: AnalysisResult) {
   if (result.verdict !== "fail") return;
   const failedChecks = result.checks.filter((c) => !c.passed).map((c) => c.label);
-  await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks, origin });
+  await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks });
 }
 
 function defaultCycleNumber(serial: string, startedAt: string) {
