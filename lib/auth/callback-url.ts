@@ -25,7 +25,6 @@ export function safeCallbackPath(value: string | null | undefined): string {
 }
 
 function isPlainPath(path: string): boolean {
-  // eslint-disable-next-line no-control-regex -- control characters are exactly what is refused
   return path.startsWith("/") && !path.startsWith("//") && !/[\\\u0000-\u001f\u007f]/.test(path);
 }
 
