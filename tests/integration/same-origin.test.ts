@@ -77,7 +77,8 @@ describe("route handlers that change something (through route())", () => {
     expect(created.status).toBe(201);
     const { id } = await created.json();
 
-    for (const headers of [{ origin: "https://evil.example" }, { origin: "null" }, { "sec-fetch-site": "cross-site" }]) {
+    const forgeries: Array<Record<string, string>> = [{ origin: "https://evil.example" }, { origin: "null" }, { "sec-fetch-site": "cross-site" }];
+    for (const headers of forgeries) {
       const refused = await submit(id, headers);
       expect(refused.status).toBe(403);
       expect((await refused.json()).error).toBe(FOREIGN_ORIGIN_REFUSAL);
