@@ -26,7 +26,11 @@ function relative(file: string): string {
   const inside = path.relative(process.cwd(), file);
   return inside && !inside.startsWith("..") ? inside : file;
 }
-const utcStamp = () => new Date().toISOString().replace(/[-:]/g, "").replace(/\.\d+Z$/, "Z");
+const utcStamp = () =>
+  new Date()
+    .toISOString()
+    .replace(/[-:]/g, "")
+    .replace(/\.\d+Z$/, "Z");
 
 async function main() {
   const [command, ...args] = process.argv.slice(2);
@@ -40,7 +44,11 @@ async function main() {
     );
   }
   if (command === "backup") await backup(live, optionValue(args, "--to"));
-  else await restore(live, args.find((a) => !a.startsWith("--")));
+  else
+    await restore(
+      live,
+      args.find((a) => !a.startsWith("--")),
+    );
 }
 
 function optionValue(args: string[], name: string): string | undefined {

@@ -66,7 +66,10 @@ test("a server action posted from another site is refused with 403 and a plain s
 });
 
 test("a route handler refuses a foreign Origin with 403 and a JSON error", async ({ request }) => {
-  const refused = await request.post("/api/reports/verify", { headers: { Origin: "https://evil.example" }, multipart: { file: { name: "x.pdf", mimeType: "application/pdf", buffer: Buffer.from("%PDF-1.4") } } });
+  const refused = await request.post("/api/reports/verify", {
+    headers: { Origin: "https://evil.example" },
+    multipart: { file: { name: "x.pdf", mimeType: "application/pdf", buffer: Buffer.from("%PDF-1.4") } },
+  });
   expect(refused.status()).toBe(403);
   expect((await refused.json()).error).toMatch(/came from another site/);
 });

@@ -112,7 +112,8 @@ describe("route handlers that change something (through route())", () => {
 });
 
 describe("server actions and page posts (through proxy.ts)", () => {
-  const action = (origin: string, path = "/sign-in") => new NextRequest(`http://papin.test${path}`, { method: "POST", headers: { origin, "next-action": "7f3a", "content-type": "text/plain;charset=UTF-8" } });
+  const action = (origin: string, path = "/sign-in") =>
+    new NextRequest(`http://papin.test${path}`, { method: "POST", headers: { origin, "next-action": "7f3a", "content-type": "text/plain;charset=UTF-8" } });
 
   it("answer a foreign origin with 403 and a plain sentence; Next would throw (500)", async () => {
     const { proxy } = await import("@/proxy");

@@ -17,7 +17,14 @@ if (command === "site") {
     const [site] = await tx.select().from(sites).limit(1);
     if (site) await tx.update(sites).set({ name }).where(eq(sites.id, site.id));
     else await tx.insert(sites).values({ id: "site-1", name, code: "S1" });
-    await appendAuditEvent(tx, { siteId: "site-1", action: site ? "site.update" : "site.create", entityType: "site", entityId: "site-1", oldValue: site ? { name: site.name } : null, newValue: { name } });
+    await appendAuditEvent(tx, {
+      siteId: "site-1",
+      action: site ? "site.update" : "site.create",
+      entityType: "site",
+      entityId: "site-1",
+      oldValue: site ? { name: site.name } : null,
+      newValue: { name },
+    });
   });
 } else if (command === "hold") {
   await db.select().from(sites).limit(1);

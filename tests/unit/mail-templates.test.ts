@@ -91,7 +91,10 @@ describe("links", () => {
       process.env.PORT = "3205";
       expect(cycleUrl("c1")).toBe("http://localhost:3205/cycles/c1");
     } finally {
-      for (const [name, value] of [["NEXTAUTH_URL", saved.url], ["PORT", saved.port]] as const) {
+      for (const [name, value] of [
+        ["NEXTAUTH_URL", saved.url],
+        ["PORT", saved.port],
+      ] as const) {
         if (value === undefined) delete process.env[name];
         else process.env[name] = value;
       }

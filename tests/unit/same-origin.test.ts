@@ -7,7 +7,11 @@ import { productionStartRefusal, publicBaseUrl, secureCookies } from "@/lib/env"
 
 const saved = { url: process.env.NEXTAUTH_URL, secret: process.env.NEXTAUTH_SECRET, port: process.env.PORT };
 afterEach(() => {
-  for (const [name, value] of [["NEXTAUTH_URL", saved.url], ["NEXTAUTH_SECRET", saved.secret], ["PORT", saved.port]] as const) {
+  for (const [name, value] of [
+    ["NEXTAUTH_URL", saved.url],
+    ["NEXTAUTH_SECRET", saved.secret],
+    ["PORT", saved.port],
+  ] as const) {
     if (value === undefined) delete process.env[name];
     else process.env[name] = value;
   }
