@@ -15,18 +15,19 @@ type Cache = { client?: Client; db?: Database; url?: string };
 const cache = globalThis as unknown as { __papinDb?: Cache };
 cache.__papinDb ??= {};
 
-function filePathOf(url: string): string | null {
+/** The file behind an embedded database's URL; null for a libSQL server. */
+export function filePathOf(url: string): string | null {
   if (!url.startsWith("file:")) return null;
   const rest = url.slice("file:".length);
   if (rest.startsWith("//")) return fileURLToPath(url);
   return path.resolve(rest);
 }
 
-export function openClient(url: string, authToken?: string): Client {
+export function openClient(url: string, authToken?: string, { busyTimeoutMs = 5000 } = {}): Client {
   const file = filePathOf(url);
   if (file) mkdirSync(path.dirname(file), { recursive: true });
   // `timeout` becomes SQLite's busy timeout on every pooled connection.
-  return createClient({ url, authToken, timeout: 5000 });
+  return createClient({ url, authToken, timeout: busyTimeoutMs });
 }
 
 export async function applyFilePragmas(client: Client, url: string) {

@@ -1,7 +1,8 @@
 /**
  * Run before the server starts (npm run dev / npm start): applies migrations, then loads the demo
  * site when the database is empty and PAPIN_DEMO is not 0. `--reset` deletes an embedded database
- * file first; `--no-demo` only migrates.
+ * file first; `--no-demo` only migrates; `--start` (npm start) first refuses to go on without the
+ * production settings, so a server never starts "ready" only to answer 500 to everyone.
  */
 import { existsSync, rmSync } from "node:fs";
 import path from "node:path";
@@ -10,10 +11,15 @@ import { applyFilePragmas, openClient } from "./index";
 import * as schema from "./schema";
 import { migrateDatabase } from "./migrate";
 import { loadDemoSite } from "./seed";
-import { env, demoEnabled } from "@/lib/env";
+import { env, demoEnabled, productionStartRefusal } from "@/lib/env";
 
 async function main() {
   const args = new Set(process.argv.slice(2));
+  const refusal = args.has("--start") ? productionStartRefusal() : null;
+  if (refusal) {
+    console.error(refusal);
+    process.exit(1);
+  }
   const { DATABASE_URL, DATABASE_AUTH_TOKEN, PAPIN_DEMO_PASSWORD } = env();
   if (args.has("--reset")) {
     if (!DATABASE_URL.startsWith("file:")) {

@@ -77,6 +77,31 @@ export function environmentForChildProcess(): NodeJS.ProcessEnv {
 }
 
 /**
+ * The portal's public base URL, for links that leave the request (e-mail): NEXTAUTH_URL, never a request header, so
+ * a forged Host or X-Forwarded-Host cannot choose where a mailed link points. Development without it: this machine.
+ */
+export function publicBaseUrl(): string {
+  const { NEXTAUTH_URL, PORT } = env();
+  return (NEXTAUTH_URL ?? `http://localhost:${PORT}`).replace(/\/+$/, "");
+}
+
+/** Session cookies carry `Secure` (and the `__Secure-` prefix) when the public URL is https. */
+export function secureCookies(): boolean {
+  return env().NEXTAUTH_URL?.startsWith("https://") ?? false;
+}
+
+/** Why `npm start` must not serve anyone yet, in one plain line; null when the production settings are there. */
+export function productionStartRefusal(): string | null {
+  const { NEXTAUTH_SECRET, NEXTAUTH_URL } = env();
+  const missing = [
+    NEXTAUTH_SECRET ? null : "NEXTAUTH_SECRET (a random secret of at least 16 characters)",
+    NEXTAUTH_URL ? null : "NEXTAUTH_URL (the portal's public URL, such as https://papin.example.org)",
+  ].filter((m) => m !== null);
+  if (missing.length === 0) return null;
+  return `Papin will not start: set ${missing.join(" and ")} in the environment; see README, Configuration.`;
+}
+
+/**
  * next-auth builds its own links from the request's Host header only when AUTH_TRUST_HOST is set. A self-hosted
  * portal is reached under whatever host the site gives it, so that is trusted unless NEXTAUTH_URL pins the origin.
  */

@@ -1,7 +1,9 @@
 import "server-only";
 import { NextResponse } from "next/server";
+import { create as contentDisposition } from "content-disposition";
 import { ZodError } from "zod";
 import { AppError } from "./errors";
+import { foreignOriginRefusal } from "./request-origin";
 
 function jsonError(status: number, error: string, extra?: Record<string, unknown>) {
   return NextResponse.json({ error, ...extra }, { status });
@@ -24,13 +26,27 @@ function errorResponse(error: unknown) {
 
 type Handler<C> = (request: Request, context: C) => Promise<Response>;
 
-/** Wraps a route handler so that every failure becomes a JSON error. */
+/**
+ * Wraps a route handler so that every failure becomes a JSON error, and a request that would change something but
+ * comes from another site's page is refused (403) before the handler runs.
+ */
 export function route<C = unknown>(handler: Handler<C>): Handler<C> {
   return async (request, context) => {
     try {
+      const refusal = foreignOriginRefusal(request);
+      if (refusal) return jsonError(403, refusal);
       return await handler(request, context);
     } catch (error) {
       return errorResponse(error);
     }
   };
+}
+
+/**
+ * A download's `Content-Disposition` (RFC 6266): the name as a quoted ASCII fallback plus an RFC 5987 `filename*`
+ * with the exact characters, so a cycle number with "–" or "№" downloads under its own name and a quote in it stays
+ * inside the name.
+ */
+export function downloadDisposition(fileName: string, kind: "attachment" | "inline" = "attachment"): string {
+  return contentDisposition(fileName, { type: kind });
 }

@@ -6,7 +6,8 @@ import { recordAuditEvent } from "@/db/queries/audit";
 import { randomUUID } from "node:crypto";
 import { hashPassword, verifyPassword } from "./password";
 import { sessionSecret } from "./secret";
-import { trustRequestHostUnlessUrlPinned } from "@/lib/env";
+import { secureCookies, trustRequestHostUnlessUrlPinned } from "@/lib/env";
+import { sameOriginRedirect } from "./callback-url";
 
 trustRequestHostUnlessUrlPinned();
 
@@ -26,6 +27,7 @@ export function authOptions(): NextAuthOptions {
   cached = {
     secret: sessionSecret(),
     session: { strategy: "jwt", maxAge: 8 * 60 * 60 },
+    useSecureCookies: secureCookies(),
     pages: { signIn: "/sign-in", error: "/sign-in" },
     providers: [
       CredentialsProvider({
@@ -75,6 +77,9 @@ export function authOptions(): NextAuthOptions {
       }),
     ],
     callbacks: {
+      async redirect(params) {
+        return sameOriginRedirect(params);
+      },
       async jwt({ token, user }) {
         if (user) {
           token.uid = user.id;

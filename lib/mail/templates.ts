@@ -2,7 +2,7 @@
  * Papin's notification e-mails: a subject, an HTML body and a plain-text body, each with a link
  * to the record and the short safety reminder. Pure: values in, strings out.
  */
-import { env } from "@/lib/env";
+import { publicBaseUrl } from "@/lib/env";
 import { SAFETY_SHORT } from "@/lib/safety";
 
 export type MailContent = { subject: string; html: string; text: string };
@@ -25,17 +25,9 @@ function oneLine(value: string | number): string {
   return String(value).replace(/\s+/g, " ").trim();
 }
 
-/**
- * The portal's public origin for links in e-mails: the one passed by the caller (the request's
- * origin), else NEXTAUTH_URL, else the development default.
- */
-export function portalOrigin(origin?: string | null): string {
-  const base = origin || env().NEXTAUTH_URL || "http://localhost:3000";
-  return base.replace(/\/+$/, "");
-}
-
-export function cycleUrl(cycleId: string, origin?: string | null): string {
-  return `${portalOrigin(origin)}/cycles/${encodeURIComponent(cycleId)}`;
+/** The link to a cycle's page: always on the configured public URL, never a request's host. */
+export function cycleUrl(cycleId: string): string {
+  return `${publicBaseUrl()}/cycles/${encodeURIComponent(cycleId)}`;
 }
 
 type Block = { kind: "p"; text: string } | { kind: "quote"; label: string; text: string } | { kind: "list"; label: string; items: string[] };

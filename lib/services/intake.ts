@@ -30,7 +30,6 @@ export type CreateCycleInput = {
   mapping?: MappingOverrides;
   saveMapping?: boolean;
   supersedesId?: string | null;
-  origin?: string;
 };
 
 /** The choices of the intake form: the site's active sterilizers, profiles and instruments, and its time zone. */
@@ -172,7 +171,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
         supersedes: input.supersedesId ?? null,
       },
     }),
-    inside: (tx, cycleId) => notifyFailure(tx, cycleId, analysis.result, input.origin),
+    inside: (tx, cycleId) => notifyFailure(tx, cycleId, analysis.result),
   });
   return { id, status: "draft", analysis: analysis.result, fileAnalysis: analysis };
 }
@@ -242,8 +241,8 @@ function analysisRow(analysis: FileAnalysis, actor: Actor) {
 
 type Tx = Parameters<typeof enqueueAnalysisFailedMail>[0];
 
-async function notifyFailure(tx: Tx, cycleId: string, result: AnalysisResult, origin?: string) {
+async function notifyFailure(tx: Tx, cycleId: string, result: AnalysisResult) {
   if (result.verdict !== "fail") return;
   const failedChecks = result.checks.filter((c) => !c.passed).map((c) => c.label);
-  await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks, origin });
+  await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks });
 }

@@ -74,32 +74,32 @@ async function cycleMailFacts(tx: Executor, cycleId: string) {
 // the cycle's site.
 
 /** Submitted → the site's engineers, except the one who submitted (nobody reviews their own upload). */
-export async function enqueueCycleSubmittedMail(tx: Executor, { cycleId, origin }: { cycleId: string; origin?: string | null }) {
+export async function enqueueCycleSubmittedMail(tx: Executor, { cycleId }: { cycleId: string }) {
   const facts = await cycleMailFacts(tx, cycleId);
   const to = (await engineersOfSite(tx, facts.siteId)).filter((e) => e !== facts.submitterEmail);
-  const content = cycleSubmittedMail({ ...facts, url: cycleUrl(cycleId, origin) });
+  const content = cycleSubmittedMail({ ...facts, url: cycleUrl(cycleId) });
   return enqueueMail(tx, { to, ...content, siteId: facts.siteId, relatedCycleId: cycleId });
 }
 
 /** Rejected → the submitter, with the reason. */
-export async function enqueueCycleRejectedMail(tx: Executor, { cycleId, reason, signerName, origin }: { cycleId: string; reason: string; signerName: string; origin?: string | null }) {
+export async function enqueueCycleRejectedMail(tx: Executor, { cycleId, reason, signerName }: { cycleId: string; reason: string; signerName: string }) {
   const facts = await cycleMailFacts(tx, cycleId);
-  const content = cycleRejectedMail({ ...facts, reason, signerName, url: cycleUrl(cycleId, origin) });
+  const content = cycleRejectedMail({ ...facts, reason, signerName, url: cycleUrl(cycleId) });
   return enqueueMail(tx, { to: facts.submitterEmail ? [facts.submitterEmail] : [], ...content, siteId: facts.siteId, relatedCycleId: cycleId });
 }
 
 /** Approved → the submitter, with the report's number. */
-export async function enqueueCycleApprovedMail(tx: Executor, { cycleId, signerName, reportNumber, origin }: { cycleId: string; signerName: string; reportNumber: string; origin?: string | null }) {
+export async function enqueueCycleApprovedMail(tx: Executor, { cycleId, signerName, reportNumber }: { cycleId: string; signerName: string; reportNumber: string }) {
   const facts = await cycleMailFacts(tx, cycleId);
-  const content = cycleApprovedMail({ ...facts, signerName, reportNumber, url: cycleUrl(cycleId, origin) });
+  const content = cycleApprovedMail({ ...facts, signerName, reportNumber, url: cycleUrl(cycleId) });
   return enqueueMail(tx, { to: facts.submitterEmail ? [facts.submitterEmail] : [], ...content, siteId: facts.siteId, relatedCycleId: cycleId });
 }
 
 /** A failing analysis → every engineer of the site at once. */
-export async function enqueueAnalysisFailedMail(tx: Executor, { cycleId, summary, failedChecks, origin }: { cycleId: string; summary: string; failedChecks: string[]; origin?: string | null }) {
+export async function enqueueAnalysisFailedMail(tx: Executor, { cycleId, summary, failedChecks }: { cycleId: string; summary: string; failedChecks: string[] }) {
   const facts = await cycleMailFacts(tx, cycleId);
   const to = await engineersOfSite(tx, facts.siteId);
-  const content = analysisFailedMail({ ...facts, summary, failedChecks, url: cycleUrl(cycleId, origin) });
+  const content = analysisFailedMail({ ...facts, summary, failedChecks, url: cycleUrl(cycleId) });
   return enqueueMail(tx, { to, ...content, siteId: facts.siteId, relatedCycleId: cycleId });
 }
 

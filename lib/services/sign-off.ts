@@ -18,7 +18,7 @@ import { renderReport, reportNumberFor } from "./reports";
 const MAX_SIGNING_FAILURES = 5;
 const SIGNING_LOCK_MINUTES = 15;
 
-export async function submitCycle({ actor, id, origin }: { actor: Actor; id: string; origin?: string }) {
+export async function submitCycle({ actor, id }: { actor: Actor; id: string }) {
   const cycle = await getCycleRow({ actor, id });
   if (!cycle) throw new AppError(404, "That cycle was not found.");
   assertAllowed(actor, "cycle:submit", "submit cycles");
@@ -41,14 +41,14 @@ export async function submitCycle({ actor, id, origin }: { actor: Actor; id: str
       newValue: { status: "submitted" },
     },
     inside: async (tx) => {
-      await enqueueCycleSubmittedMail(tx, { cycleId: id, origin });
+      await enqueueCycleSubmittedMail(tx, { cycleId: id });
     },
   });
   if (!moved) throw new AppError(409, "The cycle changed while you were submitting it; reload and try again.");
   return { id, status: "submitted" as const };
 }
 
-export type SignInput = { actor: Actor; id: string; password: string; meaning: SignatureMeaning; reason?: string | null; origin?: string };
+export type SignInput = { actor: Actor; id: string; password: string; meaning: SignatureMeaning; reason?: string | null };
 
 /**
  * Re-authentication at the moment of signing, with the lockout: a wrong password is counted and
@@ -108,7 +108,7 @@ async function assertSignable(actor: Actor, cycle: Cycle, meaning: SignatureMean
  * signing; the signature stores printed name, role, meaning, reason, UTC time and the hash of the
  * record bundle it applies to. Approval locks the record and archives its report.
  */
-export async function signCycle({ actor, id, password, meaning, reason, origin }: SignInput) {
+export async function signCycle({ actor, id, password, meaning, reason }: SignInput) {
   const cycle = await getCycleRow({ actor, id });
   if (!cycle) throw new AppError(404, "That cycle was not found.");
   if (!can(actor.role, "cycle:sign")) throw new AppError(403, "Only validation engineers sign cycles.");
@@ -152,8 +152,8 @@ export async function signCycle({ actor, id, password, meaning, reason, origin }
       reason: cleanReason,
     }),
     inside: async (tx) => {
-      if (meaning === "approved") await enqueueCycleApprovedMail(tx, { cycleId: id, signerName: signer.name, reportNumber: archived!.reportNumber, origin });
-      if (meaning === "rejected") await enqueueCycleRejectedMail(tx, { cycleId: id, reason: cleanReason ?? "", signerName: signer.name, origin });
+      if (meaning === "approved") await enqueueCycleApprovedMail(tx, { cycleId: id, signerName: signer.name, reportNumber: archived!.reportNumber });
+      if (meaning === "rejected") await enqueueCycleRejectedMail(tx, { cycleId: id, reason: cleanReason ?? "", signerName: signer.name });
     },
   });
   if (!applied) throw new AppError(409, "Someone else signed this cycle a moment ago; reload to see their decision.");

@@ -161,14 +161,13 @@ describe("each notification reaches the right people through the real SDK", () =
         cycleId: ids.cycleByEngineer,
         summary: "The drain ran 2.4 K below saturation for 54 s during the plateau.",
         failedChecks: ["Saturation: below by up to 2.4 K", "Holding time: 162 s of 180 s"],
-        origin: "http://127.0.0.1:3205/",
       }),
     );
     const [got] = await deliverAndRead();
     expect(got.to.sort()).toEqual(["a.okafor@marlow-bridge.example", "p.nair@marlow-bridge.example"]);
     expect(got.subject).toBe("Cycle P1-20260310-002 on Porous load 1 did not pass its analysis");
     expect(got.text).toContain("- Holding time: 162 s of 180 s");
-    expect(got.text).toContain(`http://127.0.0.1:3205/cycles/${ids.cycleByEngineer}`);
+    expect(got.text).toContain(`https://papin.marlow-bridge.example/cycles/${ids.cycleByEngineer}`);
   });
 
   it("every notification carries the safety reminder in both bodies", async () => {

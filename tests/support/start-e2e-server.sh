@@ -15,7 +15,7 @@ export FAKE_RESEND_MAILBOX="$dir/fake-mailbox.jsonl"
 node node_modules/tsx/dist/cli.mjs lib/mail/fake-resend-server.ts --port "$fake_port" &
 fake_pid=$!
 trap 'kill $fake_pid 2>/dev/null || true' EXIT
-node node_modules/tsx/dist/cli.mjs --tsconfig db/tsconfig.scripts.json db/prepare.ts
+node node_modules/tsx/dist/cli.mjs --tsconfig db/tsconfig.scripts.json db/prepare.ts --start
 node node_modules/next/dist/bin/next start -H 127.0.0.1 -p "$port" &
 next_pid=$!
 trap 'kill $next_pid $fake_pid 2>/dev/null || true' EXIT TERM INT

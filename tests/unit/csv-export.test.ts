@@ -114,7 +114,7 @@ describe("GET /api/cycles/export", () => {
     const { response, rows } = await exportAs("auditor", "?sort=cycleNumber:asc");
     expect(response.status).toBe(200);
     expect(response.headers.get("content-type")).toBe("text/csv; charset=utf-8");
-    expect(response.headers.get("content-disposition")).toMatch(/^attachment; filename="papin-cycles-\d{4}-\d{2}-\d{2}\.csv"$/);
+    expect(response.headers.get("content-disposition")).toMatch(/^attachment; filename=papin-cycles-\d{4}-\d{2}-\d{2}\.csv$/);
     expect(rows[0][0]).toBe("Cycle number");
     const body = rows.slice(1);
     expect(body.map((r) => r[0])).toEqual(['\'=HYPERLINK("http://evil.example","open")', "C-0001", "C-0003"]);

@@ -3,7 +3,7 @@
 // values (& < > " ').
 import { describe, expect, it } from "vitest";
 import { SAFETY_SHORT } from "@/lib/safety";
-import { analysisFailedMail, cycleApprovedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl, escapeHtml, portalOrigin } from "@/lib/mail/templates";
+import { analysisFailedMail, cycleApprovedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl, escapeHtml } from "@/lib/mail/templates";
 
 const base = { cycleNumber: "P1-20260310-001", sterilizerName: "Porous load 1", url: "https://papin.marlow-bridge.example/cycles/cy-1" };
 const all = [
@@ -80,18 +80,24 @@ describe("what each says", () => {
 });
 
 describe("links", () => {
-  it("use the passed origin, else NEXTAUTH_URL, without a doubled slash", () => {
-    const saved = process.env.NEXTAUTH_URL;
+  it("come from NEXTAUTH_URL without a doubled slash, else this machine's development port", () => {
+    const saved = { url: process.env.NEXTAUTH_URL, port: process.env.PORT };
     try {
       process.env.NEXTAUTH_URL = "https://papin.example/";
-      expect(portalOrigin()).toBe("https://papin.example");
       expect(cycleUrl("a b")).toBe("https://papin.example/cycles/a%20b");
-      expect(cycleUrl("c1", "http://127.0.0.1:3205/")).toBe("http://127.0.0.1:3205/cycles/c1");
       delete process.env.NEXTAUTH_URL;
-      expect(portalOrigin()).toBe("http://localhost:3000");
+      delete process.env.PORT;
+      expect(cycleUrl("c1")).toBe("http://localhost:3000/cycles/c1");
+      process.env.PORT = "3205";
+      expect(cycleUrl("c1")).toBe("http://localhost:3205/cycles/c1");
     } finally {
-      if (saved === undefined) delete process.env.NEXTAUTH_URL;
-      else process.env.NEXTAUTH_URL = saved;
+      for (const [name, value] of [
+        ["NEXTAUTH_URL", saved.url],
+        ["PORT", saved.port],
+      ] as const) {
+        if (value === undefined) delete process.env[name];
+        else process.env[name] = value;
+      }
     }
   });
 });

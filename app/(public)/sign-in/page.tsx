@@ -6,13 +6,14 @@ import { currentUser } from "@/lib/auth/guards";
 import { demoSignIn } from "@/lib/services/demo";
 import { ROLE_LABELS } from "@/lib/domain";
 import { SIGN_IN_ERRORS } from "@/lib/auth/messages";
+import { safeCallbackPath } from "@/lib/auth/callback-url";
 
 export const metadata = { title: "Sign in" };
 export const dynamic = "force-dynamic";
 
 export default async function SignInPage({ searchParams }: { searchParams: Promise<{ callbackUrl?: string; error?: string }> }) {
   const { callbackUrl, error } = await searchParams;
-  if (await currentUser()) redirect(safeCallback(callbackUrl));
+  if (await currentUser()) redirect(safeCallbackPath(callbackUrl));
   const demo = demoSignIn();
   const initialError = error ? (SIGN_IN_ERRORS[error as keyof typeof SIGN_IN_ERRORS] ?? "Sign-in failed. Please try again.") : null;
   return (
@@ -46,15 +47,11 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
           </div>
           <div className="panel px-panel py-6">
             <h1 className="text-lg">Sign in</h1>
-            <SignInForm callbackUrl={safeCallback(callbackUrl)} initialError={initialError} />
+            <SignInForm callbackUrl={safeCallbackPath(callbackUrl)} initialError={initialError} />
           </div>
         </div>
       </main>
       <SafetyNotice />
     </div>
   );
-}
-
-function safeCallback(url: string | undefined): string {
-  return url && url.startsWith("/") && !url.startsWith("//") ? url : "/";
 }

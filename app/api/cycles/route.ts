@@ -8,7 +8,6 @@ import { createCycleFieldsSchema } from "@/lib/validations/intake";
 import { listCycles } from "@/lib/services/cycles";
 import { createCycleFromUpload } from "@/lib/services/intake";
 import { kickMailDelivery } from "@/lib/mail/delivery";
-import { originOf } from "@/lib/request-origin";
 
 export const runtime = "nodejs";
 export const dynamic = "force-dynamic";
@@ -48,7 +47,6 @@ export const POST = route(async (request) => {
     files,
     mapping,
     saveMapping: form.get("saveMapping") === "true",
-    origin: originOf(request),
   });
   kickMailDelivery();
   return NextResponse.json({ id: created.id, status: created.status, analysis: created.analysis }, { status: 201 });

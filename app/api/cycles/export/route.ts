@@ -1,6 +1,6 @@
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
-import { route, zodMessage } from "@/lib/http";
+import { downloadDisposition, route, zodMessage } from "@/lib/http";
 import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
 import { exportCyclesCsv } from "@/lib/services/cycles";
 
@@ -17,7 +17,7 @@ export const GET = route(async (request) => {
     status: 200,
     headers: {
       "content-type": "text/csv; charset=utf-8",
-      "content-disposition": `attachment; filename="${fileName}"`,
+      "content-disposition": downloadDisposition(fileName),
       "cache-control": "no-store",
       "x-content-type-options": "nosniff",
     },

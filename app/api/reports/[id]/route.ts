@@ -1,4 +1,4 @@
-import { route } from "@/lib/http";
+import { downloadDisposition, route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { downloadArchivedReport } from "@/lib/services/reports";
 
@@ -12,6 +12,6 @@ export const GET = route<Context>(async (_request, { params }) => {
   const { id } = await params;
   const report = await downloadArchivedReport({ actor, id });
   return new Response(report.bytes as BodyInit, {
-    headers: { "Content-Type": "application/pdf", "Content-Disposition": `attachment; filename="${report.fileName}"`, "Cache-Control": "private, no-store" },
+    headers: { "Content-Type": "application/pdf", "Content-Disposition": downloadDisposition(report.fileName), "Cache-Control": "private, no-store" },
   });
 });

@@ -1,4 +1,4 @@
-import { route } from "@/lib/http";
+import { downloadDisposition, route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { getCycleReport } from "@/lib/services/reports";
 
@@ -14,7 +14,7 @@ export const GET = route<Context>(async (_request, { params }) => {
   return new Response(report.bytes as BodyInit, {
     headers: {
       "Content-Type": "application/pdf",
-      "Content-Disposition": `inline; filename="${report.fileName}"`,
+      "Content-Disposition": downloadDisposition(report.fileName, "inline"),
       "Cache-Control": "private, no-store",
       "X-Papin-Report": report.archived ? "archived" : "draft",
     },

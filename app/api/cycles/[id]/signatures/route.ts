@@ -2,7 +2,6 @@ import { NextResponse } from "next/server";
 import { route, zodMessage } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
-import { originOf } from "@/lib/request-origin";
 import { signatureSchema } from "@/lib/validations/reviews";
 import { signCycle } from "@/lib/services/sign-off";
 import { kickMailDelivery } from "@/lib/mail/delivery";
@@ -22,7 +21,7 @@ export const POST = route<Context>(async (request, { params }) => {
   const parsed = signatureSchema.safeParse(body);
   if (!parsed.success) throw new AppError(400, zodMessage(parsed.error), String(parsed.error.issues[0]?.path[0] ?? ""));
   const { id } = await params;
-  const signature = await signCycle({ actor, id, ...parsed.data, origin: originOf(request) });
+  const signature = await signCycle({ actor, id, ...parsed.data });
   kickMailDelivery();
   return NextResponse.json(signature, { status: 201 });
 });

@@ -1,7 +1,6 @@
 import { NextResponse } from "next/server";
 import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
-import { originOf } from "@/lib/request-origin";
 import { submitCycle } from "@/lib/services/sign-off";
 import { kickMailDelivery } from "@/lib/mail/delivery";
 
@@ -12,7 +11,7 @@ type Context = { params: Promise<{ id: string }> };
 export const POST = route<Context>(async (request, { params }) => {
   const actor = await requireRole("cycle:submit", "submit cycles");
   const { id } = await params;
-  const result = await submitCycle({ actor, id, origin: originOf(request) });
+  const result = await submitCycle({ actor, id });
   kickMailDelivery();
   return NextResponse.json(result);
 });
