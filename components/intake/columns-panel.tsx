@@ -50,6 +50,9 @@ export function ColumnsPanel({ logger, inspect, idPrefix }: { logger: LoggerFile
         idPrefix={idPrefix}
         columns={logger.columns}
         referenceColumn={logger.referenceColumn}
+        freeSpaceColumn={logger.freeSpaceColumn}
+        onRoleChange={logger.chooseRole}
+        pressureReferenceError={logger.pressureReferenceError}
         preview={inspect.preview}
         rowCount={inspect.rowCount}
         guessedReference={inspect.referenceColumn}
