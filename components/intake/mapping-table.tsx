@@ -184,12 +184,7 @@ export function MappingTable({
                       {roleOf(c) === "free-space" && <span className="rounded bg-steam-100 px-1 text-2xs font-medium text-steam-700">free space</span>}
                     </div>
                     <div className="space-y-1 font-normal">
-                      <select
-                        aria-label={`Role of ${c.header}`}
-                        className="field-input px-1.5 py-1 text-xs"
-                        value={roleOf(c)}
-                        onChange={(e) => onRoleChange(c.index, e.target.value as RoleChoice)}
-                      >
+                      <select aria-label={`Role of ${c.header}`} className="field-input px-1.5 py-1 text-xs" value={roleOf(c)} onChange={(e) => onRoleChange(c.index, e.target.value as RoleChoice)}>
                         {(Object.keys(ROLE_LABELS) as RoleChoice[]).map((r) => (
                           <option key={r} value={r}>
                             {ROLE_LABELS[r]}
