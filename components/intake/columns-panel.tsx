@@ -59,9 +59,10 @@ export function ColumnsPanel({ logger, inspect, idPrefix }: { logger: LoggerFile
         onColumnChange={logger.updateColumn}
         onReferenceChange={logger.chooseReference}
       />
-      {mappingErrors.length > 0 && (
+      {(mappingErrors.length > 0 || logger.pressureReferenceError) && (
         <ul className="mt-3 space-y-1" data-testid="mapping-errors">
-          {mappingErrors.map((m) => (
+          {/* Repeated below the table: the pressure column may be scrolled out of view. */}
+          {[...mappingErrors, ...(logger.pressureReferenceError ? [logger.pressureReferenceError] : [])].map((m) => (
             <li key={m} className="field-error text-sm">
               {m}
             </li>
