@@ -50,15 +50,19 @@ export function ColumnsPanel({ logger, inspect, idPrefix }: { logger: LoggerFile
         idPrefix={idPrefix}
         columns={logger.columns}
         referenceColumn={logger.referenceColumn}
+        freeSpaceColumn={logger.freeSpaceColumn}
+        onRoleChange={logger.chooseRole}
+        pressureReferenceError={logger.pressureReferenceError}
         preview={inspect.preview}
         rowCount={inspect.rowCount}
         guessedReference={inspect.referenceColumn}
         onColumnChange={logger.updateColumn}
         onReferenceChange={logger.chooseReference}
       />
-      {mappingErrors.length > 0 && (
+      {(mappingErrors.length > 0 || logger.pressureReferenceError) && (
         <ul className="mt-3 space-y-1" data-testid="mapping-errors">
-          {mappingErrors.map((m) => (
+          {/* Repeated below the table: the pressure column may be scrolled out of view. */}
+          {[...mappingErrors, ...(logger.pressureReferenceError ? [logger.pressureReferenceError] : [])].map((m) => (
             <li key={m} className="field-error text-sm">
               {m}
             </li>

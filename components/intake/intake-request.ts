@@ -1,6 +1,6 @@
 import type { InspectResponse, MappingOverrides } from "@/lib/cycles/contracts";
 import type { ProfileBasis, TestKind } from "@/lib/domain";
-import { createCycleFieldsSchema, mappingProblems, type CreateCycleField } from "@/lib/validations/intake";
+import { createCycleFieldsSchema, mappingProblems, pressureReferenceProblem, type CreateCycleField } from "@/lib/validations/intake";
 import { timeFormatHasDate } from "@/lib/cycles/start-time";
 import type { MappedColumn } from "./mapping-table";
 
@@ -19,19 +19,39 @@ export function needsStartTime(inspect: InspectResponse | null): boolean {
   return inspect !== null && !timeFormatHasDate(inspect.dialect.timeFormat);
 }
 
-export function columnsFrom(inspect: InspectResponse): MappedColumn[] {
-  return inspect.columns.map((c) => ({ index: c.index, header: c.header, role: c.role, unit: c.unit, gauge: c.gauge, unsure: c.unsure, edited: false }));
+/** Where a pressure column's absolute or gauge came from: its header marker, the instrument's saved mapping, or the user here; null while nobody has said. */
+export function gaugeSourceOf(inspect: InspectResponse): MappedColumn["gaugeFrom"] {
+  const source = inspect.pressureReference?.source;
+  if (source === "header") return "header";
+  if (source === "user" || source === "option") return "saved";
+  return null;
 }
 
-/** The confirmed mapping as the server takes it: every column named, nothing left to guess. */
-export function toMappingOverrides(columns: readonly MappedColumn[], referenceColumn: string | null): MappingOverrides {
+export function columnsFrom(inspect: InspectResponse): MappedColumn[] {
+  const gaugeFrom = gaugeSourceOf(inspect);
+  return inspect.columns.map((c) => {
+    const pressure = c.role === "pressure";
+    // An assumed reference is left open: the user must choose, nothing is pre-selected.
+    const gauge = pressure ? (gaugeFrom ? c.gauge : null) : false;
+    return { index: c.index, header: c.header, role: c.role, unit: c.unit, gauge, gaugeFrom: pressure ? gaugeFrom : null, unsure: c.unsure, edited: false };
+  });
+}
+
+/**
+ * The confirmed mapping as the server takes it: every column named, nothing left to guess. Absolute
+ * or gauge is sent only when someone confirmed it (the user, or the saved mapping they kept); a
+ * header marker speaks for itself. The free-space sensor is always named ("" for none), so the
+ * analysis uses exactly what the table shows.
+ */
+export function toMappingOverrides(columns: readonly MappedColumn[], referenceColumn: string | null, freeSpaceColumn: string | null = null): MappingOverrides {
   const time = columns.find((c) => c.role === "time");
   const pressure = columns.find((c) => c.role === "pressure");
+  const confirmed = (c: MappedColumn) => (c.gaugeFrom === "user" || c.gaugeFrom === "saved") && c.gauge !== null;
   const overrides: MappingOverrides = { columns: {} };
   for (const c of columns) {
     if (c.header === "" && c.role === "ignored") continue;
     if (c.role === "temperature") overrides.columns![c.header] = { role: "temperature", unit: c.unit ?? "C" };
-    else if (c.role === "pressure") overrides.columns![c.header] = { role: "pressure", unit: c.unit ?? "kPa", gauge: c.gauge };
+    else if (c.role === "pressure") overrides.columns![c.header] = confirmed(c) ? { role: "pressure", unit: c.unit ?? "kPa", gauge: c.gauge! } : { role: "pressure", unit: c.unit ?? "kPa" };
     else if (c.role === "time") overrides.columns![c.header] = c.unit ? { role: "time", unit: c.unit } : { role: "time" };
     else overrides.columns![c.header] = { role: "ignored" };
   }
@@ -39,9 +59,10 @@ export function toMappingOverrides(columns: readonly MappedColumn[], referenceCo
   if (pressure) {
     overrides.pressureColumn = pressure.header;
     if (pressure.unit) overrides.pressureUnit = pressure.unit as MappingOverrides["pressureUnit"];
-    overrides.pressureGauge = pressure.gauge;
+    if (confirmed(pressure)) overrides.pressureGauge = pressure.gauge!;
   }
   if (referenceColumn) overrides.referenceColumn = referenceColumn;
+  overrides.freeSpaceColumn = freeSpaceColumn && columns.some((c) => c.role === "temperature" && c.header === freeSpaceColumn) ? freeSpaceColumn : "";
   return overrides;
 }
 
@@ -50,11 +71,12 @@ export type IntakeDraft = {
   inspect: InspectResponse | null;
   columns: readonly MappedColumn[];
   referenceColumn: string | null;
+  freeSpaceColumn: string | null;
   fields: IntakeFields;
   saveMapping: boolean;
 };
 
-export type DraftProblems = { fieldErrors: FieldErrors; mappingErrors: string[]; fileError: string | null };
+export type DraftProblems = { fieldErrors: FieldErrors; mappingErrors: string[]; pressureReferenceError: string | null; fileError: string | null };
 
 /** What stops the draft from being analysed, field by field; all empty when it may be sent. */
 export function draftProblems(draft: IntakeDraft): DraftProblems {
@@ -69,13 +91,14 @@ export function draftProblems(draft: IntakeDraft): DraftProblems {
   }
   if (askStart && !draft.fields.startedAt.trim()) fieldErrors.startedAt ??= "This file holds elapsed times without a date: give the date and time the cycle started.";
   const mappingErrors = draft.inspect ? mappingProblems(draft.columns, draft.referenceColumn) : [];
+  const pressureReferenceError = draft.inspect ? pressureReferenceProblem(draft.columns) : null;
   let fileError: string | null = null;
   if (!draft.files[0] || !draft.inspect) fileError = draft.files[0] ? "The file could not be read; choose another one." : "Add the logger file first.";
-  return { fieldErrors, mappingErrors, fileError };
+  return { fieldErrors, mappingErrors, pressureReferenceError, fileError };
 }
 
 export function hasProblems(problems: DraftProblems): boolean {
-  return Object.keys(problems.fieldErrors).length > 0 || problems.mappingErrors.length > 0 || problems.fileError !== null;
+  return Object.keys(problems.fieldErrors).length > 0 || problems.mappingErrors.length > 0 || problems.pressureReferenceError !== null || problems.fileError !== null;
 }
 
 /** The multipart body of POST /api/cycles. */
@@ -90,7 +113,7 @@ export function cycleForm(draft: IntakeDraft): FormData {
   if (fields.load.trim()) form.append("load", fields.load.trim());
   form.append("testKind", fields.testKind);
   if (needsStartTime(draft.inspect) && fields.startedAt.trim()) form.append("startedAt", fields.startedAt.trim());
-  form.append("mapping", JSON.stringify(toMappingOverrides(draft.columns, draft.referenceColumn)));
+  form.append("mapping", JSON.stringify(toMappingOverrides(draft.columns, draft.referenceColumn, draft.freeSpaceColumn)));
   if (draft.saveMapping && fields.instrumentId) form.append("saveMapping", "true");
   return form;
 }

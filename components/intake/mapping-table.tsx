@@ -2,17 +2,24 @@
 
 import { PRESSURE_UNITS, TEMPERATURE_UNIT_SYMBOL, TEMPERATURE_UNITS } from "@/lib/steam/units";
 import type { EditableColumn } from "@/lib/validations/intake";
+import { PressureReferenceChoice, type GaugeSource } from "./pressure-reference";
 
 export type MappedColumn = EditableColumn & {
   /** what the guess was unsure of, as the server said it */
   unsure: string[];
+  /** pressure only: who said absolute or gauge (null while nobody has) */
+  gaugeFrom: GaugeSource;
   /** the user changed this column */
   edited: boolean;
 };
 
-const ROLE_LABELS: Record<EditableColumn["role"], string> = {
+/** The roles offered per column; "free-space" is a temperature column that is also the free-space sensor. */
+export type RoleChoice = EditableColumn["role"] | "free-space";
+
+const ROLE_LABELS: Record<RoleChoice, string> = {
   time: "Time",
   temperature: "Temperature",
+  "free-space": "Free space",
   pressure: "Pressure",
   ignored: "Ignored",
 };
@@ -31,30 +38,36 @@ export function changeColumn(columns: MappedColumn[], index: number, patch: Part
   return columns.map((c) => {
     if (c.index === index) {
       const next: MappedColumn = { ...c, ...patch, edited: true };
+      if (patch.gauge !== undefined) next.gaugeFrom = "user";
       if (patch.role && patch.role !== c.role) {
         if (patch.role === "temperature") next.unit = "C";
-        else if (patch.role === "pressure") {
-          next.unit = "kPa";
-          next.gauge = false;
-        } else if (patch.role === "time") next.unit = "s";
+        else if (patch.role === "pressure") next.unit = "kPa";
+        else if (patch.role === "time") next.unit = "s";
         else next.unit = null;
-        if (patch.role !== "pressure") next.gauge = false;
+        // A column newly marked as pressure waits for the user to say absolute or gauge.
+        next.gauge = patch.role === "pressure" ? null : false;
+        next.gaugeFrom = null;
       }
       return next;
     }
     // A second time or pressure column would be refused by the server: the old one steps aside.
     if (patch.role && (patch.role === "time" || patch.role === "pressure") && c.role === patch.role) {
-      return { ...c, role: "ignored", unit: null, gauge: false, edited: true };
+      return { ...c, role: "ignored", unit: null, gauge: false, gaugeFrom: null, edited: true };
     }
     return c;
   });
 }
 
-/** The reference channel after a change: kept when still a temperature column, else the drain-like or first one. */
-export function settleReference(columns: readonly MappedColumn[], current: string | null): string | null {
-  const temperatures = columns.filter((c) => c.role === "temperature");
+/** The reference channel after a change: kept when still a temperature column, else the drain-like or first one; never the free-space sensor. */
+export function settleReference(columns: readonly MappedColumn[], current: string | null, freeSpace: string | null = null): string | null {
+  const temperatures = columns.filter((c) => c.role === "temperature" && c.header !== freeSpace);
   if (current && temperatures.some((c) => c.header === current)) return current;
   return (temperatures.find((c) => REFERENCE_RE.test(c.header)) ?? temperatures[0])?.header ?? null;
+}
+
+/** The free-space sensor after a change: kept while its column is still a temperature, else none. */
+export function settleFreeSpace(columns: readonly MappedColumn[], current: string | null): string | null {
+  return current && columns.some((c) => c.role === "temperature" && c.header === current) ? current : null;
 }
 
 function UnitSelect({ column, onChange, id }: { column: MappedColumn; onChange: (patch: Partial<EditableColumn>) => void; id: string }) {
@@ -102,11 +115,19 @@ export function MappingTable({
   rowCount,
   onColumnChange,
   onReferenceChange,
+  freeSpaceColumn,
+  onRoleChange,
+  pressureReferenceError,
   idPrefix,
   guessedReference,
 }: {
   columns: MappedColumn[];
   referenceColumn: string | null;
+  /** the temperature column of the free-space sensor, null when there is none */
+  freeSpaceColumn: string | null;
+  onRoleChange: (index: number, role: RoleChoice) => void;
+  /** shown at the pressure column while absolute or gauge is not chosen */
+  pressureReferenceError: string | null;
   preview: { header: string[]; rows: string[][] };
   rowCount: number;
   onColumnChange: (index: number, patch: Partial<EditableColumn>) => void;
@@ -116,6 +137,8 @@ export function MappingTable({
   guessedReference: string | null;
 }) {
   const temperatures = columns.filter((c) => c.role === "temperature");
+  const referenceChoices = temperatures.filter((c) => c.header !== freeSpaceColumn);
+  const roleOf = (c: MappedColumn): RoleChoice => (c.role === "temperature" && c.header === freeSpaceColumn ? "free-space" : c.role);
   const time = columns.find((c) => c.role === "time");
   const pressure = columns.find((c) => c.role === "pressure");
   const referenceSettled = referenceColumn !== guessedReference;
@@ -127,8 +150,8 @@ export function MappingTable({
             Reference channel (chamber drain)
           </label>
           <select id={`${idPrefix}-reference`} className="field-input min-w-56" value={referenceColumn ?? ""} onChange={(e) => onReferenceChange(e.target.value)}>
-            {temperatures.length === 0 && <option value="">no temperature column yet</option>}
-            {temperatures.map((c) => (
+            {referenceChoices.length === 0 && <option value="">no temperature column yet</option>}
+            {referenceChoices.map((c) => (
               <option key={c.index} value={c.header}>
                 {c.header}
               </option>
@@ -142,9 +165,10 @@ export function MappingTable({
       <p className="mb-2 text-sm" data-testid="mapping-summary">
         <span className="text-ink-muted">Time:</span> <span className="mono">{time?.header ?? "none"}</span>
         <span className="text-ink-muted"> · Chamber pressure:</span>{" "}
-        <span className="mono">{pressure ? `${pressure.header} (${pressure.unit ?? "unit?"} ${pressure.gauge ? "gauge" : "abs"})` : "none"}</span>
+        <span className="mono">{pressure ? `${pressure.header} (${pressure.unit ?? "unit?"} ${pressure.gauge === null ? "abs or gauge?" : pressure.gauge ? "gauge" : "abs"})` : "none"}</span>
         <span className="text-ink-muted"> · Temperatures:</span> {temperatures.length}
         <span className="text-ink-muted"> · Reference:</span> <span className="mono">{referenceColumn ?? "none"}</span>
+        <span className="text-ink-muted"> · Free space:</span> <span className="mono">{freeSpaceColumn ?? "none"}</span>
       </p>
       <div className="overflow-x-auto rounded-md border border-ink-line">
         <table className="data-table" data-testid="mapping-table">
@@ -157,15 +181,11 @@ export function MappingTable({
                     <div className="mb-1.5 flex items-center gap-1.5 text-xs font-semibold text-ink">
                       <span className="mono break-all">{c.header || `Column ${c.index + 1}`}</span>
                       {isReference && <span className="rounded bg-steam-100 px-1 text-2xs font-medium text-steam-700">reference</span>}
+                      {roleOf(c) === "free-space" && <span className="rounded bg-steam-100 px-1 text-2xs font-medium text-steam-700">free space</span>}
                     </div>
                     <div className="space-y-1 font-normal">
-                      <select
-                        aria-label={`Role of ${c.header}`}
-                        className="field-input px-1.5 py-1 text-xs"
-                        value={c.role}
-                        onChange={(e) => onColumnChange(c.index, { role: e.target.value as EditableColumn["role"] })}
-                      >
-                        {(Object.keys(ROLE_LABELS) as EditableColumn["role"][]).map((r) => (
+                      <select aria-label={`Role of ${c.header}`} className="field-input px-1.5 py-1 text-xs" value={roleOf(c)} onChange={(e) => onRoleChange(c.index, e.target.value as RoleChoice)}>
+                        {(Object.keys(ROLE_LABELS) as RoleChoice[]).map((r) => (
                           <option key={r} value={r}>
                             {ROLE_LABELS[r]}
                           </option>
@@ -173,16 +193,14 @@ export function MappingTable({
                       </select>
                       <UnitSelect id={`${idPrefix}-unit-${c.index}`} column={c} onChange={(patch) => onColumnChange(c.index, patch)} />
                       {c.role === "pressure" && (
-                        <div className="flex gap-2 text-xs" role="radiogroup" aria-label={`Gauge or absolute: ${c.header}`}>
-                          <label className="flex items-center gap-1">
-                            <input type="radio" name={`${idPrefix}-gauge-${c.index}`} checked={!c.gauge} onChange={() => onColumnChange(c.index, { gauge: false })} />
-                            absolute
-                          </label>
-                          <label className="flex items-center gap-1">
-                            <input type="radio" name={`${idPrefix}-gauge-${c.index}`} checked={c.gauge} onChange={() => onColumnChange(c.index, { gauge: true })} />
-                            gauge
-                          </label>
-                        </div>
+                        <PressureReferenceChoice
+                          header={c.header}
+                          gauge={c.gauge}
+                          from={c.gaugeFrom}
+                          name={`${idPrefix}-gauge-${c.index}`}
+                          error={pressureReferenceError}
+                          onChoose={(gauge) => onColumnChange(c.index, { gauge })}
+                        />
                       )}
                       {c.unsure.length > 0 && (
                         <ul className="space-y-0.5" aria-label={`What the guess was unsure of for ${c.header}`}>

@@ -62,11 +62,12 @@ export function useIntake({ sterilizers, instruments }: { sterilizers: readonly 
   async function analyse(event: FormEvent) {
     event.preventDefault();
     summary.clear();
-    const { files, inspect, columns, referenceColumn } = logger;
-    const draft: IntakeDraft = { files, inspect, columns, referenceColumn, fields: details.fields, saveMapping: details.saveMapping };
+    const { files, inspect, columns, referenceColumn, freeSpaceColumn } = logger;
+    const draft: IntakeDraft = { files, inspect, columns, referenceColumn, freeSpaceColumn, fields: details.fields, saveMapping: details.saveMapping };
     const problems = draftProblems(draft);
     details.setFieldErrors(problems.fieldErrors);
     logger.setMappingErrors(problems.mappingErrors);
+    logger.setPressureReferenceError(problems.pressureReferenceError);
     if (problems.fileError) logger.setFileError(problems.fileError);
     if (hasProblems(problems)) {
       summary.show("Some details need attention before the cycle can be analysed; they are marked below.");

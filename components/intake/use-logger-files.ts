@@ -4,7 +4,7 @@ import { useState } from "react";
 import type { InspectResponse } from "@/lib/cycles/contracts";
 import { RequestError, uploadJson, type UploadProgress } from "@/lib/client/fetch-json";
 import type { EditableColumn } from "@/lib/validations/intake";
-import { changeColumn, settleReference, type MappedColumn } from "./mapping-table";
+import { changeColumn, settleFreeSpace, settleReference, type MappedColumn, type RoleChoice } from "./mapping-table";
 import { columnsFrom, inspectForm, type IntakeInstrument } from "./intake-request";
 
 export const MAX_FILES = 10;
@@ -36,6 +36,8 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
   const [inspect, setInspect] = useState<InspectResponse | null>(null);
   const [columns, setColumns] = useState<MappedColumn[]>([]);
   const [referenceColumn, setReferenceColumn] = useState<string | null>(null);
+  const [freeSpaceColumn, setFreeSpaceColumn] = useState<string | null>(null);
+  const [pressureReferenceError, setPressureReferenceError] = useState<string | null>(null);
   const [mappingNotice, setMappingNotice] = useState<string | null>(null);
   const [fileError, setFileError] = useState<string | null>(null);
   const [mappingErrors, setMappingErrors] = useState<string[]>([]);
@@ -70,8 +72,10 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
       const next = columnsFrom(body);
       setInspect(body);
       setColumns(next);
-      setReferenceColumn(body.referenceColumn ?? settleReference(next, null));
+      setReferenceColumn(body.referenceColumn ?? settleReference(next, null, body.freeSpaceColumn));
+      setFreeSpaceColumn(body.freeSpaceColumn);
       setMappingErrors([]);
+      setPressureReferenceError(null);
       setMappingNotice(notice);
     } catch (error) {
       if (options.keepOnFailure && inspect) setMappingNotice(problemText(error));
@@ -97,6 +101,7 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
     if (index !== 0) return;
     setInspect(null);
     setColumns([]);
+    setFreeSpaceColumn(null);
     setMappingNotice(null);
     setFileError(null);
     if (next[0]) void inspectFile(next[0], instrumentId, { keepOnFailure: false });
@@ -109,15 +114,33 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
 
   function updateColumn(index: number, patch: Partial<EditableColumn>) {
     const next = changeColumn(columns, index, patch);
+    const freeSpace = settleFreeSpace(next, freeSpaceColumn);
     setColumns(next);
-    setReferenceColumn((r) => settleReference(next, r));
+    setFreeSpaceColumn(freeSpace);
+    setReferenceColumn((r) => settleReference(next, r, freeSpace));
     setMappingErrors([]);
+    if (patch.gauge !== undefined) setPressureReferenceError(null);
     onEdit();
   }
 
   function chooseReference(header: string) {
     setReferenceColumn(header);
     setMappingErrors([]);
+  }
+
+  /** A column's role from the table; "free-space" makes it a temperature column and the one free-space sensor. */
+  function chooseRole(index: number, role: RoleChoice) {
+    const column = columns.find((c) => c.index === index);
+    if (!column) return;
+    const next = role === "free-space" ? (column.role === "temperature" ? columns : changeColumn(columns, index, { role: "temperature" })) : changeColumn(columns, index, { role });
+    const wasFreeSpace = column.header === freeSpaceColumn;
+    const freeSpace = role === "free-space" ? column.header : wasFreeSpace ? null : settleFreeSpace(next, freeSpaceColumn);
+    setColumns(next);
+    setFreeSpaceColumn(freeSpace);
+    setReferenceColumn((r) => settleReference(next, r, freeSpace));
+    setMappingErrors([]);
+    setPressureReferenceError(null);
+    onEdit();
   }
 
   return {
@@ -127,6 +150,9 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
     inspect,
     columns,
     referenceColumn,
+    freeSpaceColumn,
+    pressureReferenceError,
+    setPressureReferenceError,
     mappingNotice,
     fileError,
     setFileError,
@@ -137,6 +163,7 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
     applySavedMapping,
     updateColumn,
     chooseReference,
+    chooseRole,
   };
 }
 

@@ -140,8 +140,9 @@ export function chooseReference(columns: ColumnMapping[], temperatures: ColumnMa
 
 const FREE_SPACE_NAME_RE = /free[\s_-]?space/i;
 
-/** The free-space sensor (EN 285 small-load test): the named one, else one whose header says "free space"; never the reference. */
+/** The free-space sensor (EN 285 small-load test): the named one ("" names none), else one whose header says "free space"; never the reference. */
 export function chooseFreeSpace(columns: ColumnMapping[], temperatures: ColumnMapping[], headers: string[], freeSpaceName: string | undefined, reference: ColumnMapping): ColumnMapping | null {
+  if (freeSpaceName === "") return null;
   if (freeSpaceName !== undefined) {
     const index = findHeader(headers, freeSpaceName, "free-space column");
     if (columns[index].role !== "temperature") throw new LoggerFileError(`The free-space column "${headers[index]}" is not a temperature column`);

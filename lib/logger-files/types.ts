@@ -51,7 +51,7 @@ export type MappingOverrides = {
   columns?: Record<string, ColumnOverride>;
   /** site atmospheric pressure used to make gauge readings absolute; default 101.325 kPa */
   atmosphereKpa?: number;
-  /** the temperature column of the sensor in free space above the pack (EN 285 small-load test) */
+  /** the temperature column of the sensor in free space above the pack (EN 285 small-load test); "" says there is none */
   freeSpaceColumn?: string;
 };
 

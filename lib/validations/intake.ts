@@ -43,6 +43,8 @@ export const mappingOverridesSchema = z.object({
   referenceColumn: z.string().min(1).optional(),
   columns: z.record(z.string(), z.object({ role: columnRole, unit: z.string().optional(), gauge: z.boolean().optional() })).optional(),
   atmosphereKpa: z.number().positive().max(200).optional(),
+  // "" says there is no free-space sensor, even when a header reads "free space".
+  freeSpaceColumn: z.string().optional(),
 });
 
 /** A column as the intake form edits it. */
@@ -51,7 +53,8 @@ export type EditableColumn = {
   header: string;
   role: "time" | "temperature" | "pressure" | "ignored";
   unit: string | null;
-  gauge: boolean;
+  /** pressure only: null until the header, a saved mapping or the user says absolute or gauge */
+  gauge: boolean | null;
 };
 
 /**
@@ -79,4 +82,11 @@ export function mappingProblems(columns: readonly EditableColumn[], referenceCol
     problems.push("Choose the reference channel (the chamber drain) among the temperature columns.");
   }
   return problems;
+}
+
+/** The sentence shown at the pressure column while nobody has said whether it reads absolute or gauge; null once settled. */
+export function pressureReferenceProblem(columns: readonly EditableColumn[]): string | null {
+  const pressure = columns.find((c) => c.role === "pressure");
+  if (!pressure || pressure.gauge !== null) return null;
+  return `Choose whether "${pressure.header}" reads absolute or gauge pressure: the file does not say, and the saturation check depends on it.`;
 }

@@ -106,16 +106,34 @@ test("a technician drops a simulated logger file, corrects the mapping, analyses
   await expect(page.getByText(/generic-logger-134\.csv/)).toBeVisible();
   await page.screenshot({ path: `${shots}/intake-guessed.png`, fullPage: true });
 
-  // Corrections: the drain probe is CH7; the chamber transducer reads bar absolute.
+  // The pressure header has no abs/gauge marker: nothing is pre-selected, the screen asks.
+  const pressureCell = table.locator('th[data-column="Chamber pressure"]');
+  await expect(pressureCell.getByTestId("pressure-reference-source")).toHaveText("The header does not say whether this is absolute or gauge pressure: choose one.");
+  await expect(pressureCell.getByRole("radio", { name: "absolute", exact: true })).not.toBeChecked();
+  await expect(pressureCell.getByRole("radio", { name: "gauge", exact: true })).not.toBeChecked();
+
+  // Corrections: the drain probe is CH7; the chamber transducer reads bar.
   await reference.selectOption("CH7 (°C)");
   await page.getByLabel("Unit of Chamber pressure").selectOption("bar");
-  await table.locator('th[data-column="Chamber pressure"]').getByRole("radio", { name: "absolute", exact: true }).check();
   await expect(table.locator('th[data-column="CH7 (°C)"]')).toContainText("reference");
 
-  // Client-side validation first: no sterilizer chosen yet.
+  // A temperature column can be marked as the free-space sensor, and unmarked again.
+  await page.getByLabel("Role of CH6 (°C)").selectOption("free-space");
+  await expect(table.locator('th[data-column="CH6 (°C)"]')).toContainText("free space");
+  await expect(page.getByTestId("mapping-summary")).toContainText("Free space: CH6 (°C)");
+  await page.getByLabel("Role of CH6 (°C)").selectOption("temperature");
+  await expect(page.getByTestId("mapping-summary")).toContainText("Free space: none");
+
+  // Client-side validation first: no sterilizer chosen yet, and absolute or gauge not said.
   await page.getByRole("button", { name: "Analyse" }).click();
   await expect(page.getByTestId("intake-error")).toBeVisible();
   await expect(page.locator('[data-field-error="sterilizerId"]')).toHaveText("Choose the sterilizer that ran this cycle.");
+  await expect(pressureCell.locator('[data-field-error="pressureReference"]')).toContainText('Choose whether "Chamber pressure" reads absolute or gauge pressure');
+  await expect(page.getByTestId("mapping-errors")).toContainText('Choose whether "Chamber pressure" reads absolute or gauge pressure');
+  await page.screenshot({ path: `${shots}/intake-pressure-reference-asked.png`, fullPage: true });
+  await pressureCell.getByRole("radio", { name: "absolute", exact: true }).check();
+  await expect(pressureCell.locator('[data-field-error="pressureReference"]')).toHaveCount(0);
+  await expect(pressureCell.getByTestId("pressure-reference-source")).toHaveText("absolute, chosen by you");
 
   await chooseByText(page, "Sterilizer", "Porous load 1");
   // The sterilizer's default profile is preselected.
@@ -144,6 +162,7 @@ test("a technician drops a simulated logger file, corrects the mapping, analyses
   const detail = await (await page.request.get(`/api/cycles/${id}`)).json();
   expect(detail.analysis.referenceChannel).toBe("CH7 (°C)");
   expect(detail.analysis.verdict).toBe("pass");
+  expect(detail.analysis.input.pressureReference).toEqual({ kind: "absolute", source: "user" });
   expect(detail.files[0].name).toBe("generic-logger-134.csv");
   expect(detail.files[0].size).toBe(readFileSync(file).byteLength);
 });
@@ -160,6 +179,10 @@ test("the instrument's saved mapping is applied to its next file", async ({ page
   await expect(page.getByTestId("mapping-notice")).toContainText("The mapping saved for Thermocouple logger TL-12 (unit A) was applied");
   await expect(page.getByLabel("Reference channel (chamber drain)")).toHaveValue("CH7 (°C)");
   await expect(page.getByLabel("Unit of Chamber pressure")).toHaveValue("bar");
+  // The confirmed absolute came with the saved mapping: pre-filled and still shown.
+  const pressureCell = page.getByTestId("mapping-table").locator('th[data-column="Chamber pressure"]');
+  await expect(pressureCell.getByRole("radio", { name: "absolute", exact: true })).toBeChecked();
+  await expect(pressureCell.getByTestId("pressure-reference-source")).toHaveText("absolute, as confirmed in the instrument's saved mapping");
   await page.screenshot({ path: `${shots}/intake-saved-mapping.png`, fullPage: true });
 });
 
