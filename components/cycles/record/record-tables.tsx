@@ -5,6 +5,7 @@ import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { formatBytes, formatDateTime, formatNumber } from "@/lib/format";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
 import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
+import { channelRoleLabel, missingCell, NOT_RECORDED } from "@/lib/cycles/record-input";
 import { basisNoteFor, describeBasis, formatDuration } from "@/lib/domain";
 
 export function ChecksTable({ analysis, profile }: { analysis: AnalysisResult; profile: CycleDetail["profile"] }) {
@@ -65,13 +66,16 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
               <th scope="col" className="text-right">
                 F0 (min)
               </th>
+              <th scope="col" className="text-right">
+                Missing
+              </th>
             </tr>
           </thead>
           <tbody>
             {analysis.channels.map((ch) => (
               <tr key={ch.header}>
                 <td className="whitespace-nowrap font-medium">{ch.header}</td>
-                <td className="whitespace-nowrap">{ch.role === "reference" ? <Badge tone="steam">Reference (drain)</Badge> : "Load"}</td>
+                <td className="whitespace-nowrap">{ch.role === "reference" ? <Badge tone="steam">{channelRoleLabel(ch.role)}</Badge> : channelRoleLabel(ch.role)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.minDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.maxDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.meanDuringHold, 2)}</td>
@@ -87,14 +91,16 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
                   )}
                 </td>
                 <td className="text-right tabular-nums">{formatNumber(ch.f0, 1)}</td>
+                <td className={`text-right tabular-nums ${ch.missing ? "text-caution-700" : ""}`}>{missingCell(ch)}</td>
               </tr>
             ))}
           </tbody>
         </table>
       </div>
       <p className="mt-2 text-xs text-ink-muted">
-        Min, max and mean over the holding time{analysis.holdingTime === null ? " (none here, so no figures)" : ""}. F0 over the whole record with T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber
-        pressure from {analysis.pressureChannel}, in kPa absolute
+        Min, max and mean over the holding time{analysis.holdingTime === null ? " (none here, so no figures)" : ""}. Missing: blank cells of the channel in the whole record
+        {analysis.channels.some((c) => c.missing === undefined) ? ` (${NOT_RECORDED})` : ""}. F0 over the whole record with T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber pressure from{" "}
+        {analysis.pressureChannel}, in kPa absolute
         {hold ? `; its saturation temperature during holding was ${formatNumber(hold.min, 2)} to ${formatNumber(hold.max, 2)} °C (mean ${formatNumber(hold.mean, 2)} °C).` : "."}
       </p>
     </>

@@ -7,6 +7,7 @@ import { Findings } from "@/components/cycles/record/findings";
 import { TimeChart } from "@/components/cycles/record/time-chart";
 import { PhaseDiagram } from "@/components/cycles/record/phase-diagram";
 import { AnalysisHistory, ChannelTable, ChecksTable, FilesList, KeyFigures, ProfileLimits, RecordHistory } from "@/components/cycles/record/record-tables";
+import { RecordInput } from "@/components/cycles/record/record-input";
 import { SafetyCaution } from "@/components/cycles/record/safety-caution";
 import { formatStartedAt } from "@/components/cycles/record/record-format";
 import { testKindLabel } from "@/lib/domain";
@@ -108,6 +109,10 @@ export default async function CycleRecordPage({ params }: Props) {
                   referenceChannel={a.referenceChannel}
                   pressureChannel={a.pressureChannel}
                 />
+              </Panel>
+
+              <Panel title="The record and how it was read">
+                <RecordInput analysis={a} startedAt={detail.startedAt} timeZone={tz} />
               </Panel>
 
               <Panel title="Channels">
