@@ -1,4 +1,4 @@
-import type { AnalysisResult } from "@/lib/analysis/types";
+import { DEFAULT_FREE_SPACE, type AnalysisResult } from "@/lib/analysis/types";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
@@ -151,7 +151,9 @@ export function KeyFigures({ analysis, startedAt, timeZone }: { analysis: Analys
   );
 }
 
-export function ProfileLimits({ profile }: { profile: CycleDetail["profile"] }) {
+/** The profile's limits; the record and free-space limits as the analysis applied them (analyses before engine 2 had none). */
+export function ProfileLimits({ profile, analysis }: { profile: CycleDetail["profile"]; analysis?: AnalysisResult | null }) {
+  const applied = analysis?.input ? analysis.limits : null;
   const rows: Array<[string, string]> = [
     ["Sterilization temperature", `${profile.sterilizationTempC} °C`],
     ["Band above it", `${profile.bandK} K`],
@@ -160,6 +162,15 @@ export function ProfileLimits({ profile }: { profile: CycleDetail["profile"] }) 
     ["Largest spread", `${profile.maxSpreadK} K`],
     ["Saturation limit", `± ${profile.saturationLimitK} K`],
     ["F0 reference, z", `${profile.f0ReferenceC} °C, ${profile.f0ZK} K`],
+    ...(applied
+      ? ([
+          ["Longest sampling interval", applied.maxSampleIntervalS === undefined ? "3× the median" : `${applied.maxSampleIntervalS} s`],
+          [
+            "Free space above reference",
+            `${applied.freeSpaceEarlyK ?? DEFAULT_FREE_SPACE.freeSpaceEarlyK} K for ${applied.freeSpaceEarlyS ?? DEFAULT_FREE_SPACE.freeSpaceEarlyS} s, then ${applied.freeSpaceK ?? DEFAULT_FREE_SPACE.freeSpaceK} K`,
+          ],
+        ] as Array<[string, string]>)
+      : []),
   ];
   return (
     <>

@@ -139,7 +139,7 @@ export default async function CycleRecordPage({ params }: Props) {
           </Panel>
           <SignOffPanel detail={detail} actor={{ id: actor.id, role: actor.role, name: actor.name }} />
           <Panel title="Acceptance profile">
-            <ProfileLimits profile={profile} />
+            <ProfileLimits profile={profile} analysis={a} />
           </Panel>
           <SafetyCaution />
         </aside>
