@@ -66,6 +66,12 @@ export const acceptanceProfiles = sqliteTable(
     saturationLimitK: real("saturation_limit_k").notNull().default(2),
     f0ReferenceC: real("f0_reference_c").notNull().default(121.1),
     f0ZK: real("f0_z_k").notNull().default(10),
+    // Longest interval between samples allowed inside the plateau; null: 3× the record's median interval.
+    maxSampleIntervalS: real("max_sample_interval_s"),
+    // Free-space sensor (small-load test): excess over the reference allowed early in the plateau and after (DOMAIN §2.3 e, from memory).
+    freeSpaceEarlyK: real("free_space_early_k").notNull().default(5),
+    freeSpaceEarlyS: real("free_space_early_s").notNull().default(60),
+    freeSpaceK: real("free_space_k").notNull().default(2),
     // The standard the limits claim, or "local" with basis_reason (lib/domain/profile-basis.ts).
     basis: text("basis", { enum: PROFILE_BASES }).notNull(),
     basisReason: text("basis_reason"),

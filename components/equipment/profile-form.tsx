@@ -7,7 +7,23 @@ import { ActionMessage } from "@/components/ui/action-message";
 import { PROFILE_BASES, PROFILE_BASIS_LABELS, PROFILE_BASIS_SCOPES, summariseBasisMinimums, type ProfileBasis } from "@/lib/domain";
 
 type Values = Record<(typeof KEYS)[number], string>;
-const KEYS = ["name", "sterilizationTempC", "bandK", "holdingTimeS", "maxEquilibrationS", "maxSpreadK", "saturationLimitK", "f0ReferenceC", "f0ZK", "basis", "basisReason"] as const;
+const KEYS = [
+  "name",
+  "sterilizationTempC",
+  "bandK",
+  "holdingTimeS",
+  "maxEquilibrationS",
+  "maxSpreadK",
+  "saturationLimitK",
+  "f0ReferenceC",
+  "f0ZK",
+  "maxSampleIntervalS",
+  "freeSpaceEarlyK",
+  "freeSpaceEarlyS",
+  "freeSpaceK",
+  "basis",
+  "basisReason",
+] as const;
 
 // DOMAIN.md §2.2 / §2.3 / §2.10: EN 285 and EN 13060 bands and minimum holding times; F0 at 121.1 °C, z = 10 K (US/PDA practice).
 const PRESETS: Array<{ label: string; values: Partial<Values> }> = [
@@ -27,6 +43,10 @@ const DEFAULTS: Values = {
   saturationLimitK: "2",
   f0ReferenceC: "121.1",
   f0ZK: "10",
+  maxSampleIntervalS: "",
+  freeSpaceEarlyK: "5",
+  freeSpaceEarlyS: "60",
+  freeSpaceK: "2",
   basis: "en-285",
   basisReason: "",
 };
@@ -143,6 +163,7 @@ export function ProfileForm({ profile }: { profile?: ProfileFormValues }) {
         />
         <TextInput id={`${p}-z`} name="f0ZK" label="z-value" suffix="K" inputMode="decimal" error={errors.f0ZK} value={values.f0ZK} onChange={set("f0ZK")} />
       </div>
+      <RecordFields idPrefix={p} values={values} errors={errors} set={set} />
       <BasisFields idPrefix={p} values={values} errors={errors} set={set} />
       {editing && <TextInput id={`${p}-reason`} name="reason" label="Reason for the change" error={errors.reason} hint="Written to the audit ledger with the old and new limits." />}
       <ActionMessage state={state} />
@@ -186,5 +207,57 @@ function BasisFields({ idPrefix: p, values, errors, set }: { idPrefix: string; v
         hint={local ? "Required: the protocol or validation these limits come from. Printed with the basis on every record." : "e.g. the clause or the site protocol; printed with the basis."}
       />
     </>
+  );
+}
+
+/** How complete the record must be, and the free-space sensor's allowances (small-load test, DOMAIN.md §2.3 e, from memory). */
+function RecordFields({ idPrefix: p, values, errors, set }: { idPrefix: string; values: Values; errors: Record<string, string>; set: (k: keyof Values) => (v: string) => void }) {
+  return (
+    <div className="grid grid-cols-2 gap-3">
+      <TextInput
+        id={`${p}-interval`}
+        name="maxSampleIntervalS"
+        label="Longest sampling interval (optional)"
+        suffix="s"
+        inputMode="decimal"
+        error={errors.maxSampleIntervalS}
+        value={values.maxSampleIntervalS}
+        onChange={set("maxSampleIntervalS")}
+        hint="Inside the plateau. Empty: 3× the record's usual interval"
+      />
+      <TextInput
+        id={`${p}-fs-early`}
+        name="freeSpaceEarlyK"
+        label="Free space, at the plateau start"
+        suffix="K"
+        inputMode="decimal"
+        error={errors.freeSpaceEarlyK}
+        value={values.freeSpaceEarlyK}
+        onChange={set("freeSpaceEarlyK")}
+        hint="Largest excess over the reference"
+      />
+      <TextInput
+        id={`${p}-fs-early-s`}
+        name="freeSpaceEarlyS"
+        label="Free space, start allowance lasts"
+        suffix="s"
+        inputMode="decimal"
+        error={errors.freeSpaceEarlyS}
+        value={values.freeSpaceEarlyS}
+        onChange={set("freeSpaceEarlyS")}
+        hint="From the plateau start"
+      />
+      <TextInput
+        id={`${p}-fs`}
+        name="freeSpaceK"
+        label="Free space, after that"
+        suffix="K"
+        inputMode="decimal"
+        error={errors.freeSpaceK}
+        value={values.freeSpaceK}
+        onChange={set("freeSpaceK")}
+        hint="Largest excess over the reference"
+      />
+    </div>
   );
 }

@@ -11,9 +11,7 @@ export function siteAtmosphereKpa(site: { atmosphereKpa: number | null; altitude
   return STANDARD_ATMOSPHERE_KPA;
 }
 
-/** Limits a profile may carry once its table has the columns (a later migration); until then the analysis' defaults apply. */
-const OPTIONAL_LIMITS = ["maxSampleIntervalS", "freeSpaceEarlyK", "freeSpaceEarlyS", "freeSpaceK"] as const;
-
+/** The profile's limits as the analysis takes them; without a maximum sampling interval, the analysis uses 3× the median. */
 export function limitsOf(profile: AcceptanceProfile): AcceptanceLimits {
   const limits: AcceptanceLimits = {
     sterilizationTempC: profile.sterilizationTempC,
@@ -24,12 +22,11 @@ export function limitsOf(profile: AcceptanceProfile): AcceptanceLimits {
     saturationLimitK: profile.saturationLimitK,
     f0ReferenceC: profile.f0ReferenceC,
     f0ZK: profile.f0ZK,
+    freeSpaceEarlyK: profile.freeSpaceEarlyK,
+    freeSpaceEarlyS: profile.freeSpaceEarlyS,
+    freeSpaceK: profile.freeSpaceK,
   };
-  const extra = profile as Partial<Record<(typeof OPTIONAL_LIMITS)[number], number | null>>;
-  for (const key of OPTIONAL_LIMITS) {
-    const value = extra[key];
-    if (typeof value === "number") limits[key] = value;
-  }
+  if (profile.maxSampleIntervalS !== null && profile.maxSampleIntervalS !== undefined) limits.maxSampleIntervalS = profile.maxSampleIntervalS;
   return limits;
 }
 

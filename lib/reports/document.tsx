@@ -14,50 +14,8 @@ import { CONTENT_WIDTH, colour, loadChannelStyle, seriesStyle } from "./theme";
 import { bothClocks, instantOf, siteClockAt } from "./time";
 import { TimeChart } from "./time-chart";
 import { DraftWatermark } from "./watermark";
-
-type Style = (typeof s)[keyof typeof s];
-type Styles = Style | Style[] | Record<string, string | number>;
-
-/** Text with the report's glyph rules applied to every string child. */
-function T({ style, children, ...rest }: { style?: Styles | Styles[]; children?: ReactNode; fixed?: boolean; wrap?: boolean; minPresenceAhead?: number }) {
-  const clean = (node: ReactNode): ReactNode => (typeof node === "string" || typeof node === "number" ? pdfText(node) : Array.isArray(node) ? node.map((n) => clean(n)) : node);
-  return (
-    <Text style={style as never} {...rest}>
-      {clean(children)}
-    </Text>
-  );
-}
-
-function Heading({ children }: { children: string }) {
-  return (
-    <T style={s.h2} minPresenceAhead={80}>
-      {children}
-    </T>
-  );
-}
-
-function Fact({ label, children, wide = false }: { label: string; children: ReactNode; wide?: boolean }) {
-  return (
-    <View style={wide ? [s.fact, s.factWide] : s.fact} wrap={false}>
-      <T style={s.factLabel}>{label}</T>
-      <View style={s.factValue}>{typeof children === "string" ? <T>{children}</T> : children}</View>
-    </View>
-  );
-}
-
-type Column = { title: string; width: number; numeric?: boolean };
-
-function TableHead({ columns }: { columns: Column[] }) {
-  return (
-    <View style={s.thead} fixed>
-      {columns.map((c) => (
-        <T key={c.title} style={[s.th, { width: `${c.width}%`, textAlign: c.numeric ? "right" : "left" }]}>
-          {c.title}
-        </T>
-      ))}
-    </View>
-  );
-}
+import { Fact, Heading, T, TableHead, type Column } from "./parts";
+import { ChannelsSection, RecordInputSection } from "./record-sections";
 
 const verdictColours = {
   pass: { border: colour.pass500, background: colour.pass50, ink: colour.pass700, word: "PASS", caption: "VERDICT" },
@@ -200,48 +158,6 @@ function flagSide(flag: SaturationFlag): string {
 }
 
 type AnalysisOf = NonNullable<CycleDetail["analysis"]>;
-
-function ChannelsSection({ analysis, band }: { analysis: AnalysisOf; band: SeriesResponse["band"] }) {
-  const columns: Column[] = [
-    { title: "Channel", width: 24 },
-    { title: "Role", width: 11 },
-    { title: "Min in holding (°C)", width: 13, numeric: true },
-    { title: "Max in holding (°C)", width: 13, numeric: true },
-    { title: "Mean in holding (°C)", width: 13, numeric: true },
-    { title: "F0 (min)", width: 11, numeric: true },
-    { title: "At Ts after plateau start", width: 15, numeric: true },
-  ];
-  const hold = analysis.saturationTemperatureDuringHold;
-  return (
-    // Up to two dozen channels the table stays on one page; longer ones run on with the header repeated.
-    <View wrap={analysis.channels.length > 24}>
-      <Heading>Channels during holding</Heading>
-      <View style={s.table}>
-        <TableHead columns={columns} />
-        {analysis.channels.map((c) => {
-          const low = c.minDuringHold !== null && c.minDuringHold < band.low;
-          const high = c.maxDuringHold !== null && c.maxDuringHold > band.high;
-          return (
-            <View key={c.header} style={s.tr} wrap={false}>
-              <T style={[s.td, { width: "24%" }, c.role === "reference" ? s.strong : {}]}>{c.header}</T>
-              <T style={[s.td, { width: "11%" }]}>{c.role === "reference" ? "reference" : "load"}</T>
-              <T style={[s.tdNum, { width: "13%" }, low ? s.fail : {}]}>{fixed(c.minDuringHold, 2)}</T>
-              <T style={[s.tdNum, { width: "13%" }, high ? s.fail : {}]}>{fixed(c.maxDuringHold, 2)}</T>
-              <T style={[s.tdNum, { width: "13%" }]}>{fixed(c.meanDuringHold, 2)}</T>
-              <T style={[s.tdNum, { width: "11%" }]}>{fixed(c.f0, 2)}</T>
-              <T style={[s.tdNum, { width: "15%" }]}>{c.arrivalAfterPlateauStart === null ? "never" : formatDuration(c.arrivalAfterPlateauStart)}</T>
-            </View>
-          );
-        })}
-      </View>
-      <T style={s.caption}>
-        {`Holding: from the moment every channel has reached ${fixed(band.low, 1)} °C to the end of the plateau. F0 over the whole record. Figures in red lie outside the band.${
-          hold ? ` Saturation temperature from chamber pressure during holding: ${fixed(hold.min, 2)} to ${fixed(hold.max, 2)} °C (mean ${fixed(hold.mean, 2)} °C).` : ""
-        } Reference channel: ${analysis.referenceChannel}; pressure channel: ${analysis.pressureChannel}.`}
-      </T>
-    </View>
-  );
-}
 
 function FlagBlock({ flag, index, at }: { flag: SaturationFlag; index: number; at: (s: number) => string }) {
   return (
@@ -618,6 +534,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
         ) : null}
 
         {analysis ? <ChannelsSection analysis={analysis} band={series.band} /> : null}
+        {analysis ? <RecordInputSection analysis={analysis} at={at} /> : null}
         {analysis ? <FlagsSection analysis={analysis} at={at} /> : null}
         <RecordSection detail={detail} />
         <SignaturesSection signatures={detail.signatures} zone={zone} />

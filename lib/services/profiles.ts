@@ -43,7 +43,23 @@ export async function getProfilePage({ actor, id }: { actor: Actor; id: string }
   return { profile: await getProfile({ actor, id }), mayManage: can(actor.role, "equipment:manage") };
 }
 
-const PROFILE_LIMIT_KEYS = ["name", "sterilizationTempC", "bandK", "holdingTimeS", "maxEquilibrationS", "maxSpreadK", "saturationLimitK", "f0ReferenceC", "f0ZK", "basis", "basisReason"] as const;
+const PROFILE_LIMIT_KEYS = [
+  "name",
+  "sterilizationTempC",
+  "bandK",
+  "holdingTimeS",
+  "maxEquilibrationS",
+  "maxSpreadK",
+  "saturationLimitK",
+  "f0ReferenceC",
+  "f0ZK",
+  "maxSampleIntervalS",
+  "freeSpaceEarlyK",
+  "freeSpaceEarlyS",
+  "freeSpaceK",
+  "basis",
+  "basisReason",
+] as const;
 const profileValues = (p: AcceptanceProfile) => Object.fromEntries(PROFILE_LIMIT_KEYS.map((k) => [k, p[k]]));
 
 /** Refuses limits weaker than the standard the profile names (the form shows the same sentence beside the field). */

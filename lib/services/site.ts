@@ -6,7 +6,7 @@ import { AppError } from "@/lib/errors";
 import { formatNumber } from "@/lib/format";
 import { localDate } from "@/lib/periodic-tests";
 import { STANDARD_ATMOSPHERE_KPA, atmosphereAtAltitudeKpa } from "@/lib/steam";
-import type { SiteSettingsChanges } from "@/lib/validations/site";
+import { altitudeAtmosphereProblem, siteAtmosphereProblem, type SiteSettingsChanges } from "@/lib/validations/site";
 
 /** Every record belongs to a site; an account without one sees and changes nothing. */
 export function siteIdOf(actor: Actor, what = "equipment"): string {
@@ -26,6 +26,9 @@ export async function getSiteContext({ actor, now = new Date() }: { actor: Actor
 function atmosphereInUse(site: { atmosphereKpa: number | null; altitudeM: number | null }) {
   try {
     const kpa = siteAtmosphereKpa(site);
+    // A value stored before rule 11 may lie outside the physical range: say so rather than use it.
+    const problem = siteAtmosphereProblem(kpa);
+    if (problem) return { kpa: null, source: `${problem} Correct it here: analyses refuse it.` };
     const source = site.atmosphereKpa
       ? "From the measured pressure entered here"
       : site.altitudeM !== null
@@ -44,6 +47,14 @@ export async function getSiteSettings({ actor }: { actor: Actor }) {
   return { site, atmosphere: atmosphereInUse(site) };
 }
 
+/** Rule 11: an atmosphere outside 50–110 kPa would make gauge readings absolute wrongly; refused with the range named at its field. */
+function assertPhysicalAtmosphere(changes: SiteSettingsChanges) {
+  const pressureProblem = changes.atmosphereKpa === null ? null : siteAtmosphereProblem(changes.atmosphereKpa);
+  if (pressureProblem) throw new AppError(422, pressureProblem, "atmosphereKpa");
+  const altitudeProblem = changes.altitudeM === null ? null : altitudeAtmosphereProblem(changes.altitudeM);
+  if (altitudeProblem) throw new AppError(422, altitudeProblem, "altitudeM");
+}
+
 const SITE_FIELDS = ["name", "timeZone", "atmosphereKpa", "altitudeM", "address"] as const;
 
 /** Changes the actor's own site; the ledger records only the fields that really changed. */
@@ -51,6 +62,7 @@ export async function updateSiteSettings({ actor, changes, reason }: { actor: Ac
   if (!actor.siteId) throw new AppError(409, "Your account is not attached to a site, so there are no site settings to change.");
   const before = await getSiteById({ id: actor.siteId });
   if (!before) throw new AppError(404, "Your site was not found.");
+  assertPhysicalAtmosphere(changes);
   const oldValue: Record<string, unknown> = {};
   const newValue: Record<string, unknown> = {};
   for (const key of SITE_FIELDS) {

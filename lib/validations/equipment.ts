@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { DEFAULT_FREE_SPACE } from "@/lib/analysis/types";
 import { basisShortfalls, PERIODIC_TEST_KINDS, PROFILE_BASES, type ProfileLimitsInput } from "@/lib/domain";
 
 /** A number typed into a form: decimal comma accepted, an empty field is "missing", not 0. */
@@ -31,6 +32,11 @@ export function optionalNumberField(what: string, limits: { min: number; max: nu
       ctx.addIssue({ code: "custom", message: parsed.error.issues[0]?.message ?? `Check ${what}.` });
       return z.NEVER;
     });
+}
+
+/** A field older clients do not send at all takes the standard's figure; one sent empty is still "missing". */
+function withDefault(value: number, field: ReturnType<typeof numberField>) {
+  return z.preprocess((v) => (v === undefined ? String(value) : v), field);
 }
 
 const capitalise = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
@@ -100,6 +106,11 @@ const profileFields = {
   saturationLimitK: numberField("the saturation limit", { min: 0.1, max: 10, unit: "K" }),
   f0ReferenceC: numberField("the F0 reference temperature", { min: 100, max: 140, unit: "°C" }),
   f0ZK: numberField("the z-value", { min: 1, max: 50, unit: "K" }),
+  // Empty: the analysis takes 3× the record's median sampling interval as the longest allowed.
+  maxSampleIntervalS: optionalNumberField("the longest sampling interval", { min: 0.1, max: 600, unit: "s" }),
+  freeSpaceEarlyK: withDefault(DEFAULT_FREE_SPACE.freeSpaceEarlyK, numberField("the free-space allowance at the plateau start", { min: 0.1, max: 20, unit: "K" })),
+  freeSpaceEarlyS: withDefault(DEFAULT_FREE_SPACE.freeSpaceEarlyS, numberField("how long that allowance lasts", { min: 0, max: 600, unit: "s" })),
+  freeSpaceK: withDefault(DEFAULT_FREE_SPACE.freeSpaceK, numberField("the free-space allowance after that", { min: 0.1, max: 20, unit: "K" })),
   basis: z.enum(PROFILE_BASES, { error: "Choose the basis of these limits: a standard, or local practice with its reason." }),
   basisReason: z
     .string()

@@ -1,5 +1,27 @@
 import { z } from "zod";
+import { ATMOSPHERE_RANGE_KPA, atmosphereAtAltitudeKpa, atmosphereOutOfRange } from "@/lib/steam";
 import { optionalNumberField, reasonField } from "./equipment";
+
+/**
+ * Null when the standard atmosphere at this altitude is a physical atmospheric pressure
+ * (ATMOSPHERE_RANGE_KPA, issue 9 rule 11); else the sentence naming the range.
+ */
+export function altitudeAtmosphereProblem(altitudeM: number): string | null {
+  let kpa: number;
+  try {
+    kpa = atmosphereAtAltitudeKpa(altitudeM);
+  } catch (error) {
+    return error instanceof Error ? `${error.message}.` : `The altitude of ${altitudeM} m cannot be converted to an atmospheric pressure.`;
+  }
+  const problem = atmosphereOutOfRange(kpa);
+  return problem ? `At ${altitudeM} m the standard atmosphere gives ${kpa.toFixed(1)} kPa: ${problem.replace(/^an atmospheric pressure of [^ ]+ kPa is /, "")}.` : null;
+}
+
+/** Null when a site's measured pressure may make gauge readings absolute; else the sentence naming the range. */
+export function siteAtmosphereProblem(atmosphereKpa: number): string | null {
+  const problem = atmosphereOutOfRange(atmosphereKpa);
+  return problem ? `${problem.charAt(0).toUpperCase()}${problem.slice(1)}.` : null;
+}
 
 /** The canonical IANA name when the runtime knows the zone, otherwise null. */
 function knownTimeZone(name: string): string | null {
@@ -22,9 +44,12 @@ export const updateSiteSchema = z.object({
       ctx.addIssue({ code: "custom", message: `"${name}" is not a time zone Papin knows. Use an IANA name such as Europe/London or America/Denver.` });
       return z.NEVER;
     }),
-  // 50–110 kPa covers every inhabited altitude and weather; −400 to 5000 m, the Dead Sea shore to the highest towns.
-  atmosphereKpa: optionalNumberField("the atmospheric pressure", { min: 50, max: 110, unit: "kPa" }),
-  altitudeM: optionalNumberField("the altitude", { min: -400, max: 5000, unit: "m" }),
+  // ATMOSPHERE_RANGE_KPA (50–110 kPa) covers every inhabited altitude and weather; −400 to 5000 m, the Dead Sea shore to the highest towns.
+  atmosphereKpa: optionalNumberField("the atmospheric pressure", { min: ATMOSPHERE_RANGE_KPA.min, max: ATMOSPHERE_RANGE_KPA.max, unit: "kPa" }),
+  altitudeM: optionalNumberField("the altitude", { min: -400, max: 5000, unit: "m" }).superRefine((altitudeM, ctx) => {
+    const problem = typeof altitudeM === "number" ? altitudeAtmosphereProblem(altitudeM) : null;
+    if (problem) ctx.addIssue({ code: "custom", message: problem });
+  }),
   address: z
     .string()
     .trim()

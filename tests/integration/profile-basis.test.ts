@@ -90,6 +90,10 @@ describe("saving a profile against its basis", () => {
       saturationLimitK: 2,
       f0ReferenceC: 121.1,
       f0ZK: 10,
+      maxSampleIntervalS: null,
+      freeSpaceEarlyK: 5,
+      freeSpaceEarlyS: 60,
+      freeSpaceK: 2,
       basis: "en-285" as const,
       basisReason: null,
     };

@@ -140,4 +140,35 @@ describe("updating the site's settings", () => {
     expect(state.message).toMatch(/Nothing to save/);
     expect(await siteEvents()).toHaveLength(eventsBefore);
   });
+
+  it("an atmospheric pressure outside 50–110 kPa is refused beside its field with the range named, and nothing is saved (issue 9 rule 11)", async () => {
+    const before = await siteRow();
+    const eventsBefore = (await siteEvents()).length;
+    as("admin");
+    // 10 kPa: the value issue 9 says turned a superheated cycle into a pass; 50–110 kPa is ATMOSPHERE_RANGE_KPA in lib/steam.
+    const state = await submit({ altitudeM: "1000", atmosphereKpa: "10", reason: "Barometer misread" });
+    expect(state.status).toBe("error");
+    expect(state.fieldErrors?.atmosphereKpa).toMatch(/between 50 and 110 kPa/);
+    expect(await siteRow()).toEqual(before);
+    expect(await siteEvents()).toHaveLength(eventsBefore);
+  });
+
+  it("the service refuses the same on its own: a pressure of 10 kPa, or an altitude whose standard atmosphere is under 50 kPa", async () => {
+    const { updateSiteSettings } = await import("@/lib/services/site");
+    const actor = { id: ids.admin, email: "admin@marlow-bridge.example", name: "admin", role: "admin" as const, siteId };
+    const before = await siteRow();
+    const changes = { name: before.name, timeZone: before.timeZone, address: before.address };
+    await expect(updateSiteSettings({ actor, changes: { ...changes, atmosphereKpa: 10, altitudeM: null }, reason: "test" })).rejects.toMatchObject({
+      status: 422,
+      field: "atmosphereKpa",
+      message: expect.stringMatching(/10 kPa is outside the physical range of 50–110 kPa/),
+    });
+    // Standard atmosphere at 6000 m: 47.2 kPa (ASHRAE Handbook—Fundamentals 2021 ch. 1 Eq. 3, computed).
+    await expect(updateSiteSettings({ actor, changes: { ...changes, atmosphereKpa: null, altitudeM: 6000 }, reason: "test" })).rejects.toMatchObject({
+      status: 422,
+      field: "altitudeM",
+      message: "At 6000 m the standard atmosphere gives 47.2 kPa: outside the physical range of 50–110 kPa (sea level is about 101.3 kPa).",
+    });
+    expect(await siteRow()).toEqual(before);
+  });
 });

@@ -1,10 +1,11 @@
-import type { AnalysisResult } from "@/lib/analysis/types";
+import { DEFAULT_FREE_SPACE, type AnalysisResult } from "@/lib/analysis/types";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { formatBytes, formatDateTime, formatNumber } from "@/lib/format";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
 import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
+import { channelRoleLabel, missingCell, NOT_RECORDED } from "@/lib/cycles/record-input";
 import { basisNoteFor, describeBasis, formatDuration } from "@/lib/domain";
 
 export function ChecksTable({ analysis, profile }: { analysis: AnalysisResult; profile: CycleDetail["profile"] }) {
@@ -65,13 +66,16 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
               <th scope="col" className="text-right">
                 F0 (min)
               </th>
+              <th scope="col" className="text-right">
+                Missing
+              </th>
             </tr>
           </thead>
           <tbody>
             {analysis.channels.map((ch) => (
               <tr key={ch.header}>
                 <td className="whitespace-nowrap font-medium">{ch.header}</td>
-                <td className="whitespace-nowrap">{ch.role === "reference" ? <Badge tone="steam">Reference (drain)</Badge> : "Load"}</td>
+                <td className="whitespace-nowrap">{ch.role === "reference" ? <Badge tone="steam">{channelRoleLabel(ch.role)}</Badge> : channelRoleLabel(ch.role)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.minDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.maxDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.meanDuringHold, 2)}</td>
@@ -87,14 +91,16 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
                   )}
                 </td>
                 <td className="text-right tabular-nums">{formatNumber(ch.f0, 1)}</td>
+                <td className={`text-right tabular-nums ${ch.missing ? "text-caution-700" : ""}`}>{missingCell(ch)}</td>
               </tr>
             ))}
           </tbody>
         </table>
       </div>
       <p className="mt-2 text-xs text-ink-muted">
-        Min, max and mean over the holding time{analysis.holdingTime === null ? " (none here, so no figures)" : ""}. F0 over the whole record with T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber
-        pressure from {analysis.pressureChannel}, in kPa absolute
+        Min, max and mean over the holding time{analysis.holdingTime === null ? " (none here, so no figures)" : ""}. Missing: blank cells of the channel in the whole record
+        {analysis.channels.some((c) => c.missing === undefined) ? ` (${NOT_RECORDED})` : ""}. F0 over the whole record with T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber pressure from{" "}
+        {analysis.pressureChannel}, in kPa absolute
         {hold ? `; its saturation temperature during holding was ${formatNumber(hold.min, 2)} to ${formatNumber(hold.max, 2)} °C (mean ${formatNumber(hold.mean, 2)} °C).` : "."}
       </p>
     </>
@@ -145,7 +151,9 @@ export function KeyFigures({ analysis, startedAt, timeZone }: { analysis: Analys
   );
 }
 
-export function ProfileLimits({ profile }: { profile: CycleDetail["profile"] }) {
+/** The profile's limits; the record and free-space limits as the analysis applied them (analyses before engine 2 had none). */
+export function ProfileLimits({ profile, analysis }: { profile: CycleDetail["profile"]; analysis?: AnalysisResult | null }) {
+  const applied = analysis?.input ? analysis.limits : null;
   const rows: Array<[string, string]> = [
     ["Sterilization temperature", `${profile.sterilizationTempC} °C`],
     ["Band above it", `${profile.bandK} K`],
@@ -154,6 +162,15 @@ export function ProfileLimits({ profile }: { profile: CycleDetail["profile"] }) 
     ["Largest spread", `${profile.maxSpreadK} K`],
     ["Saturation limit", `± ${profile.saturationLimitK} K`],
     ["F0 reference, z", `${profile.f0ReferenceC} °C, ${profile.f0ZK} K`],
+    ...(applied
+      ? ([
+          ["Longest sampling interval", applied.maxSampleIntervalS === undefined ? "3× the median" : `${applied.maxSampleIntervalS} s`],
+          [
+            "Free space above reference",
+            `${applied.freeSpaceEarlyK ?? DEFAULT_FREE_SPACE.freeSpaceEarlyK} K for ${applied.freeSpaceEarlyS ?? DEFAULT_FREE_SPACE.freeSpaceEarlyS} s, then ${applied.freeSpaceK ?? DEFAULT_FREE_SPACE.freeSpaceK} K`,
+          ],
+        ] as Array<[string, string]>)
+      : []),
   ];
   return (
     <>

@@ -7,6 +7,7 @@ import { Findings } from "@/components/cycles/record/findings";
 import { TimeChart } from "@/components/cycles/record/time-chart";
 import { PhaseDiagram } from "@/components/cycles/record/phase-diagram";
 import { AnalysisHistory, ChannelTable, ChecksTable, FilesList, KeyFigures, ProfileLimits, RecordHistory } from "@/components/cycles/record/record-tables";
+import { RecordInput } from "@/components/cycles/record/record-input";
 import { SafetyCaution } from "@/components/cycles/record/safety-caution";
 import { formatStartedAt } from "@/components/cycles/record/record-format";
 import { testKindLabel } from "@/lib/domain";
@@ -110,6 +111,10 @@ export default async function CycleRecordPage({ params }: Props) {
                 />
               </Panel>
 
+              <Panel title="The record and how it was read">
+                <RecordInput analysis={a} startedAt={detail.startedAt} timeZone={tz} />
+              </Panel>
+
               <Panel title="Channels">
                 <ChannelTable analysis={a} />
               </Panel>
@@ -134,7 +139,7 @@ export default async function CycleRecordPage({ params }: Props) {
           </Panel>
           <SignOffPanel detail={detail} actor={{ id: actor.id, role: actor.role, name: actor.name }} />
           <Panel title="Acceptance profile">
-            <ProfileLimits profile={profile} />
+            <ProfileLimits profile={profile} analysis={a} />
           </Panel>
           <SafetyCaution />
         </aside>
