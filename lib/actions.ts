@@ -3,7 +3,7 @@ import { z, type ZodType } from "zod";
 import { requireRole } from "./auth/guards";
 import type { Permission } from "./auth/permissions";
 import type { Actor } from "@/lib/domain";
-import { AppError } from "./errors";
+import { AppError, databaseBusy } from "./errors";
 
 import type { FormState } from "./form-state";
 
@@ -32,6 +32,8 @@ export function formAction<S extends ZodType>(permission: Permission, schema: S,
       if (error instanceof AppError) {
         return { status: "error", message: error.message, fieldErrors: error.field ? { [error.field]: error.message } : undefined };
       }
+      const busy = databaseBusy(error);
+      if (busy) return { status: "error", message: busy.message };
       console.error("[papin] server action failed", error);
       return { status: "error", message: "Something went wrong on the server; nothing was changed." };
     }

@@ -2,7 +2,7 @@ import "server-only";
 import { NextResponse } from "next/server";
 import { create as contentDisposition } from "content-disposition";
 import { ZodError } from "zod";
-import { AppError } from "./errors";
+import { AppError, databaseBusy } from "./errors";
 import { foreignOriginRefusal } from "./request-origin";
 
 function jsonError(status: number, error: string, extra?: Record<string, unknown>) {
@@ -20,6 +20,8 @@ export function zodMessage(error: ZodError): string {
 function errorResponse(error: unknown) {
   if (error instanceof AppError) return jsonError(error.status, error.message, error.field ? { field: error.field } : undefined);
   if (error instanceof ZodError) return jsonError(400, zodMessage(error));
+  const busy = databaseBusy(error);
+  if (busy) return jsonError(busy.status, busy.message);
   console.error("[papin] unexpected error in a route handler", error);
   return jsonError(500, "Something went wrong on the server. Nothing was changed; please try again.");
 }

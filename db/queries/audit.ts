@@ -1,6 +1,7 @@
 import "server-only";
-import { asc, desc, eq, and, gt, gte, lte, like, count } from "drizzle-orm";
+import { asc, desc, eq, and, gt, gte, lte, count } from "drizzle-orm";
 import { getDb } from "@/db";
+import { containsText } from "./search";
 import { auditEvents } from "@/db/schema";
 import { appendAuditEvent, type AuditInput } from "@/db/ledger";
 
@@ -33,7 +34,7 @@ export async function listAuditEventsOfSite({ siteId, filter }: { siteId: string
     filter.action ? eq(auditEvents.action, filter.action) : undefined,
     filter.entityType ? eq(auditEvents.entityType, filter.entityType) : undefined,
     filter.entityId ? eq(auditEvents.entityId, filter.entityId) : undefined,
-    filter.actor ? like(auditEvents.actorEmail, `%${filter.actor}%`) : undefined,
+    filter.actor ? containsText(auditEvents.actorEmail, filter.actor) : undefined,
     filter.from ? gte(auditEvents.at, filter.from) : undefined,
     filter.to ? lte(auditEvents.at, filter.to) : undefined,
   );

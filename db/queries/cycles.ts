@@ -1,7 +1,8 @@
 import "server-only";
-import { and, asc, count, desc, eq, gte, like, lte, or, type SQL } from "drizzle-orm";
+import { and, asc, count, desc, eq, gte, lte, or, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { getDb, type Executor } from "@/db";
+import { containsText } from "./search";
 import {
   acceptanceProfiles,
   analyses,
@@ -54,8 +55,7 @@ function cycleListWhere(actor: Actor, filter: CycleFilter): SQL | undefined {
   if (filter.from) conditions.push(gte(cycles.startedAt, filter.from));
   if (filter.to) conditions.push(lte(cycles.startedAt, filter.to.length === 10 ? `${filter.to}T23:59:59.999Z` : filter.to));
   if (filter.q) {
-    const pattern = `%${filter.q}%`;
-    conditions.push(or(like(cycles.cycleNumber, pattern), like(cycles.loadDescription, pattern), like(sterilizers.name, pattern)));
+    conditions.push(or(containsText(cycles.cycleNumber, filter.q), containsText(cycles.loadDescription, filter.q), containsText(sterilizers.name, filter.q)));
   }
   return and(...conditions);
 }

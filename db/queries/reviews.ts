@@ -1,6 +1,7 @@
 import "server-only";
-import { and, desc, eq, gte, like, lte, ne, or } from "drizzle-orm";
+import { and, desc, eq, gte, lte, ne, or } from "drizzle-orm";
 import { getDb, type Executor } from "@/db";
+import { containsText } from "./search";
 import { cycles, loggerFiles, reports, signatures, sterilizers, users, type CycleStatus, type NewSignature } from "@/db/schema";
 import { appendAuditEvent, type AuditInput } from "@/db/ledger";
 import type { Actor } from "./users";
@@ -121,7 +122,7 @@ export async function findReportBySha256({ actor, sha256 }: { actor: Actor; sha2
 }
 
 export async function listArchivedReports({ actor, q, from, to }: { actor: Actor; q?: string; from?: string; to?: string }) {
-  const needle = q?.trim() ? `%${q.trim()}%` : undefined;
+  const needle = q?.trim() || undefined;
   return getDb()
     .select({
       id: reports.id,
@@ -144,7 +145,9 @@ export async function listArchivedReports({ actor, q, from, to }: { actor: Actor
       and(
         eq(cycles.siteId, actor.siteId ?? ""),
         ne(cycles.status, "draft"),
-        needle ? or(like(reports.reportNumber, needle), like(cycles.cycleNumber, needle), like(sterilizers.name, needle), like(signatures.printedName, needle)) : undefined,
+        needle
+          ? or(containsText(reports.reportNumber, needle), containsText(cycles.cycleNumber, needle), containsText(sterilizers.name, needle), containsText(signatures.printedName, needle))
+          : undefined,
         from ? gte(reports.createdAt, from) : undefined,
         to ? lte(reports.createdAt, `${to}T23:59:59.999Z`) : undefined,
       ),

@@ -88,6 +88,13 @@ describe("POST /api/cycles then GET", () => {
     const failing = await (await GET(new Request("http://papin.test/api/cycles?verdict=fail&q=semicolon"), undefined)).json();
     expect(failing.total).toBe(1);
     expect(failing.items[0].cycleNumber).toBe("T-semicolon-dmy.csv");
+    // Search text is taken as typed: "%" and "_" are characters, not wildcards (no cycle number holds them).
+    for (const q of ["%", "_", "T_semicolon"]) {
+      const literal = await (await GET(new Request(`http://papin.test/api/cycles?q=${encodeURIComponent(q)}`), undefined)).json();
+      expect(literal.total).toBe(0);
+    }
+    const dashed = await (await GET(new Request("http://papin.test/api/cycles?q=T-semicolon"), undefined)).json();
+    expect(dashed.total).toBe(1);
     const page = await (await GET(new Request("http://papin.test/api/cycles?pageSize=5&page=2&sort=cycleNumber:asc"), undefined)).json();
     expect(page.items).toHaveLength(5);
     expect(page.total).toBeGreaterThan(10);
