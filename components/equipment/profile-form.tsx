@@ -4,26 +4,9 @@ import { useState } from "react";
 import { createProfileAction, updateProfileAction } from "@/app/(portal)/profiles/actions";
 import { Field, TextInput, useFormAction } from "./form-bits";
 import { ActionMessage } from "@/components/ui/action-message";
-import { PROFILE_BASES, PROFILE_BASIS_LABELS, PROFILE_BASIS_SCOPES, summariseBasisMinimums, type ProfileBasis } from "@/lib/domain";
+import { PROFILE_BASES, PROFILE_BASIS_LABELS, PROFILE_BASIS_SCOPES, PROFILE_FIELDS, summariseBasisMinimums, type ProfileBasis, type ProfileField } from "@/lib/domain";
 
-type Values = Record<(typeof KEYS)[number], string>;
-const KEYS = [
-  "name",
-  "sterilizationTempC",
-  "bandK",
-  "holdingTimeS",
-  "maxEquilibrationS",
-  "maxSpreadK",
-  "saturationLimitK",
-  "f0ReferenceC",
-  "f0ZK",
-  "maxSampleIntervalS",
-  "freeSpaceEarlyK",
-  "freeSpaceEarlyS",
-  "freeSpaceK",
-  "basis",
-  "basisReason",
-] as const;
+type Values = Record<ProfileField, string>;
 
 // DOMAIN.md §2.2 / §2.3 / §2.10: EN 285 and EN 13060 bands and minimum holding times; F0 at 121.1 °C, z = 10 K (US/PDA practice).
 const PRESETS: Array<{ label: string; values: Partial<Values> }> = [
@@ -51,16 +34,19 @@ const DEFAULTS: Values = {
   basisReason: "",
 };
 
-export type ProfileFormValues = { id: string; cycleCount: number } & { [K in (typeof KEYS)[number]]: string | number | null };
+export type ProfileFormValues = { id: string; cycleCount: number } & { [K in ProfileField]: string | number | null };
 
 export function ProfileForm({ profile }: { profile?: ProfileFormValues }) {
   const editing = !!profile;
   const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(editing ? updateProfileAction : createProfileAction);
-  const [values, setValues] = useState<Values>(() => (profile ? (Object.fromEntries(KEYS.map((k) => [k, String(profile[k] ?? "")])) as Values) : DEFAULTS));
+  const [values, setValues] = useState<Values>(() => (profile ? (Object.fromEntries(PROFILE_FIELDS.map((k) => [k, String(profile[k] ?? "")])) as Values) : DEFAULTS));
   const set = (k: keyof Values) => (v: string) => setValues((old) => ({ ...old, [k]: v }));
   const p = editing ? "edit-profile" : "new-profile";
   const ts = Number(values.sterilizationTempC);
   const band = Number(values.bandK);
+  const limit = (field: ProfileField, label: string, suffix: string, hint?: string) => (
+    <TextInput id={`${p}-${field}`} name={field} label={label} suffix={suffix} inputMode="decimal" error={errors[field]} value={values[field]} onChange={set(field)} hint={hint} />
+  );
   return (
     <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-3" noValidate aria-label={editing ? "Edit acceptance profile" : "New acceptance profile"}>
       {editing && <input type="hidden" name="id" value={profile.id} />}
@@ -84,86 +70,22 @@ export function ProfileForm({ profile }: { profile?: ProfileFormValues }) {
       )}
       <TextInput id={`${p}-name`} name="name" label="Name" error={errors.name} value={values.name} onChange={set("name")} />
       <div className="grid grid-cols-2 gap-3">
-        <TextInput
-          id={`${p}-ts`}
-          name="sterilizationTempC"
-          label="Sterilization temperature"
-          suffix="°C"
-          inputMode="decimal"
-          error={errors.sterilizationTempC}
-          value={values.sterilizationTempC}
-          onChange={set("sterilizationTempC")}
-          hint="100–140 °C"
-        />
-        <TextInput
-          id={`${p}-band`}
-          name="bandK"
-          label="Band width"
-          suffix="K"
-          inputMode="decimal"
-          error={errors.bandK}
-          value={values.bandK}
-          onChange={set("bandK")}
-          hint={Number.isFinite(ts + band) ? `Band ${ts}–${+(ts + band).toFixed(2)} °C` : undefined}
-        />
-        <TextInput
-          id={`${p}-hold`}
-          name="holdingTimeS"
-          label="Minimum holding time"
-          suffix="s"
-          inputMode="decimal"
-          error={errors.holdingTimeS}
-          value={values.holdingTimeS}
-          onChange={set("holdingTimeS")}
-          hint={Number(values.holdingTimeS) > 0 ? `${+(Number(values.holdingTimeS) / 60).toFixed(2)} min` : undefined}
-        />
-        <TextInput
-          id={`${p}-eq`}
-          name="maxEquilibrationS"
-          label="Longest equilibration"
-          suffix="s"
-          inputMode="decimal"
-          error={errors.maxEquilibrationS}
-          value={values.maxEquilibrationS}
-          onChange={set("maxEquilibrationS")}
-          hint={values.basis === "en-285" ? "EN 285: 15 s up to 800 l, 30 s above" : undefined}
-        />
-        <TextInput
-          id={`${p}-spread`}
-          name="maxSpreadK"
-          label="Largest spread"
-          suffix="K"
-          inputMode="decimal"
-          error={errors.maxSpreadK}
-          value={values.maxSpreadK}
-          onChange={set("maxSpreadK")}
-          hint="Between channels during holding"
-        />
-        <TextInput
-          id={`${p}-sat`}
-          name="saturationLimitK"
-          label="Saturation limit"
-          suffix="K"
-          inputMode="decimal"
-          error={errors.saturationLimitK}
-          value={values.saturationLimitK}
-          onChange={set("saturationLimitK")}
-          hint="|reference − Tsat(p)|"
-        />
-        <TextInput
-          id={`${p}-f0ref`}
-          name="f0ReferenceC"
-          label="F0 reference"
-          suffix="°C"
-          inputMode="decimal"
-          error={errors.f0ReferenceC}
-          value={values.f0ReferenceC}
-          onChange={set("f0ReferenceC")}
-          hint="121.1 (US/PDA) or 121 (Ph. Eur.)"
-        />
-        <TextInput id={`${p}-z`} name="f0ZK" label="z-value" suffix="K" inputMode="decimal" error={errors.f0ZK} value={values.f0ZK} onChange={set("f0ZK")} />
+        {limit("sterilizationTempC", "Sterilization temperature", "°C", "100–140 °C")}
+        {limit("bandK", "Band width", "K", Number.isFinite(ts + band) ? `Band ${ts}–${+(ts + band).toFixed(2)} °C` : undefined)}
+        {limit("holdingTimeS", "Minimum holding time", "s", Number(values.holdingTimeS) > 0 ? `${+(Number(values.holdingTimeS) / 60).toFixed(2)} min` : undefined)}
+        {limit("maxEquilibrationS", "Longest equilibration", "s", values.basis === "en-285" ? "EN 285: 15 s up to 800 l, 30 s above" : undefined)}
+        {limit("maxSpreadK", "Largest spread", "K", "Between channels during holding")}
+        {limit("saturationLimitK", "Saturation limit", "K", "|reference − Tsat(p)|")}
+        {limit("f0ReferenceC", "F0 reference", "°C", "121.1 (US/PDA) or 121 (Ph. Eur.)")}
+        {limit("f0ZK", "z-value", "K")}
       </div>
-      <RecordFields idPrefix={p} values={values} errors={errors} set={set} />
+      {/* How complete the record must be, and the free-space sensor's allowances (small-load test, DOMAIN.md §2.3 e, from memory). */}
+      <div className="grid grid-cols-2 gap-3">
+        {limit("maxSampleIntervalS", "Longest sampling interval (optional)", "s", "Inside the plateau. Empty: 3× the record's usual interval")}
+        {limit("freeSpaceEarlyK", "Free space, at the plateau start", "K", "Largest excess over the reference")}
+        {limit("freeSpaceEarlyS", "Free space, start allowance lasts", "s", "From the plateau start")}
+        {limit("freeSpaceK", "Free space, after that", "K", "Largest excess over the reference")}
+      </div>
       <BasisFields idPrefix={p} values={values} errors={errors} set={set} />
       {editing && <TextInput id={`${p}-reason`} name="reason" label="Reason for the change" error={errors.reason} hint="Written to the audit ledger with the old and new limits." />}
       <ActionMessage state={state} />
@@ -207,57 +129,5 @@ function BasisFields({ idPrefix: p, values, errors, set }: { idPrefix: string; v
         hint={local ? "Required: the protocol or validation these limits come from. Printed with the basis on every record." : "e.g. the clause or the site protocol; printed with the basis."}
       />
     </>
-  );
-}
-
-/** How complete the record must be, and the free-space sensor's allowances (small-load test, DOMAIN.md §2.3 e, from memory). */
-function RecordFields({ idPrefix: p, values, errors, set }: { idPrefix: string; values: Values; errors: Record<string, string>; set: (k: keyof Values) => (v: string) => void }) {
-  return (
-    <div className="grid grid-cols-2 gap-3">
-      <TextInput
-        id={`${p}-interval`}
-        name="maxSampleIntervalS"
-        label="Longest sampling interval (optional)"
-        suffix="s"
-        inputMode="decimal"
-        error={errors.maxSampleIntervalS}
-        value={values.maxSampleIntervalS}
-        onChange={set("maxSampleIntervalS")}
-        hint="Inside the plateau. Empty: 3× the record's usual interval"
-      />
-      <TextInput
-        id={`${p}-fs-early`}
-        name="freeSpaceEarlyK"
-        label="Free space, at the plateau start"
-        suffix="K"
-        inputMode="decimal"
-        error={errors.freeSpaceEarlyK}
-        value={values.freeSpaceEarlyK}
-        onChange={set("freeSpaceEarlyK")}
-        hint="Largest excess over the reference"
-      />
-      <TextInput
-        id={`${p}-fs-early-s`}
-        name="freeSpaceEarlyS"
-        label="Free space, start allowance lasts"
-        suffix="s"
-        inputMode="decimal"
-        error={errors.freeSpaceEarlyS}
-        value={values.freeSpaceEarlyS}
-        onChange={set("freeSpaceEarlyS")}
-        hint="From the plateau start"
-      />
-      <TextInput
-        id={`${p}-fs`}
-        name="freeSpaceK"
-        label="Free space, after that"
-        suffix="K"
-        inputMode="decimal"
-        error={errors.freeSpaceK}
-        value={values.freeSpaceK}
-        onChange={set("freeSpaceK")}
-        hint="Largest excess over the reference"
-      />
-    </div>
   );
 }

@@ -10,3 +10,23 @@ export const INSTRUMENT_KIND_LABELS: Record<InstrumentKind, string> = {
 
 export const MAIL_STATUSES = ["pending", "sent", "failed"] as const;
 export type MailStatus = (typeof MAIL_STATUSES)[number];
+
+/** The fields of an acceptance profile that a user sets: the form edits them, the audit trail records them old and new. */
+export const PROFILE_FIELDS = [
+  "name",
+  "sterilizationTempC",
+  "bandK",
+  "holdingTimeS",
+  "maxEquilibrationS",
+  "maxSpreadK",
+  "saturationLimitK",
+  "f0ReferenceC",
+  "f0ZK",
+  "maxSampleIntervalS",
+  "freeSpaceEarlyK",
+  "freeSpaceEarlyS",
+  "freeSpaceK",
+  "basis",
+  "basisReason",
+] as const;
+export type ProfileField = (typeof PROFILE_FIELDS)[number];

@@ -6,7 +6,7 @@ import { getProfileForSite } from "@/db/queries/catalog";
 import { countCyclesOfProfile, insertProfile, listProfilesOfSite, replaceProfileVersion, updateProfileInPlace } from "@/db/queries/profiles";
 import { can } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
-import { basisShortfalls } from "@/lib/domain";
+import { basisShortfalls, PROFILE_FIELDS } from "@/lib/domain";
 import type { ProfileInput } from "@/lib/validations/equipment";
 import { changedFields } from "./equipment";
 import { auditActor, siteIdOf } from "./site";
@@ -43,24 +43,7 @@ export async function getProfilePage({ actor, id }: { actor: Actor; id: string }
   return { profile: await getProfile({ actor, id }), mayManage: can(actor.role, "equipment:manage") };
 }
 
-const PROFILE_LIMIT_KEYS = [
-  "name",
-  "sterilizationTempC",
-  "bandK",
-  "holdingTimeS",
-  "maxEquilibrationS",
-  "maxSpreadK",
-  "saturationLimitK",
-  "f0ReferenceC",
-  "f0ZK",
-  "maxSampleIntervalS",
-  "freeSpaceEarlyK",
-  "freeSpaceEarlyS",
-  "freeSpaceK",
-  "basis",
-  "basisReason",
-] as const;
-const profileValues = (p: AcceptanceProfile) => Object.fromEntries(PROFILE_LIMIT_KEYS.map((k) => [k, p[k]]));
+const profileValues = (p: AcceptanceProfile) => Object.fromEntries(PROFILE_FIELDS.map((k) => [k, p[k]]));
 
 /** Refuses limits weaker than the standard the profile names (the form shows the same sentence beside the field). */
 function assertMeetsBasis(input: ProfileInput) {
