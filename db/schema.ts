@@ -10,7 +10,7 @@ const createdAt = () =>
     .notNull()
     .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`);
 
-import { CYCLE_STATUSES, INSTRUMENT_KINDS, MAIL_STATUSES, PERIODIC_TEST_KINDS, PROFILE_BASES, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, VERDICTS } from "../lib/domain";
+import { CYCLE_STATUSES, INSTRUMENT_KINDS, MAIL_STATUSES, PERIODIC_RECORD_STATUSES, PERIODIC_TEST_KINDS, PROFILE_BASES, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, VERDICTS } from "../lib/domain";
 
 // The enums live in lib/domain; the database layer may keep taking them from here.
 export { CYCLE_STATUSES, PERIODIC_TEST_KINDS, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, type CycleStatus, type PeriodicTestKind, type Role, type SignatureMeaning, type TestKind } from "../lib/domain";
@@ -327,6 +327,7 @@ export const periodicTests = sqliteTable(
       .references(() => users.id),
     measurements: text("measurements", { mode: "json" }),
     result: text("result", { enum: VERDICTS }).notNull(),
+    status: text("status", { enum: PERIODIC_RECORD_STATUSES }).notNull().default("approved"),
     notes: text("notes"),
     cycleId: text("cycle_id").references(() => cycles.id),
     createdAt: createdAt(),

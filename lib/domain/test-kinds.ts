@@ -29,3 +29,10 @@ export function testKindLabel(kind: string): string {
   const words = kind.replace(/[-_]+/g, " ").trim();
   return words.charAt(0).toUpperCase() + words.slice(1);
 }
+
+/**
+ * A periodic-test record's review state: it counts for the schedule and the sterilizer's status only once signed as
+ * approved (a pass) or failure-confirmed (a fail). Records made before reviews existed were migrated as approved.
+ */
+export const PERIODIC_RECORD_STATUSES = ["submitted", "approved", "failure-confirmed", "returned"] as const;
+export type PeriodicRecordStatus = (typeof PERIODIC_RECORD_STATUSES)[number];

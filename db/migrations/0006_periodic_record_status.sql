@@ -1,0 +1,1 @@
+ALTER TABLE `periodic_tests` ADD `status` text DEFAULT 'approved' NOT NULL;
