@@ -1,22 +1,18 @@
 import "server-only";
 import { getCycleRow } from "@/db/queries/cycles";
-import { applySignature, listUploaderIds, markCycleSubmitted, recordSigningFailure } from "@/db/queries/reviews";
-import { getUserById, type Actor } from "@/db/queries/users";
+import { applySignature, listUploaderIds, markCycleSubmitted } from "@/db/queries/reviews";
+import type { Actor } from "@/db/queries/users";
 import { enqueueCycleApprovedMail, enqueueCycleRejectedMail, enqueueCycleSubmittedMail } from "@/lib/services/mail";
-import type { Cycle, SignatureMeaning, User } from "@/db/schema";
+import type { Cycle, SignatureMeaning } from "@/db/schema";
 import { AppError } from "@/lib/errors";
-import { verifyPassword } from "@/lib/auth/password";
 import { can } from "@/lib/auth/permissions";
 import { sha256Hex } from "@/lib/integrity";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { assertAllowed } from "./access";
 import { getCycleDetail } from "./cycles";
+import { reauthenticate } from "./reauthenticate";
 import { buildRecordBundle, signatureHash, type SignedFields } from "./record-bundle";
 import { renderReport, reportNumberFor } from "./reports";
-
-/** After this many wrong passwords in a row signing is locked for SIGNING_LOCK_MINUTES. */
-const MAX_SIGNING_FAILURES = 5;
-const SIGNING_LOCK_MINUTES = 15;
 
 export async function submitCycle({ actor, id }: { actor: Actor; id: string }) {
   const cycle = await getCycleRow({ actor, id });
@@ -50,40 +46,6 @@ export async function submitCycle({ actor, id }: { actor: Actor; id: string }) {
 
 export type SignInput = { actor: Actor; id: string; password: string; meaning: SignatureMeaning; reason?: string | null };
 
-/**
- * Re-authentication at the moment of signing, with the lockout: a wrong password is counted and
- * audited; MAX_SIGNING_FAILURES in a row lock signing for SIGNING_LOCK_MINUTES.
- */
-async function reauthenticate(actor: Actor, cycle: Cycle, password: string, now: Date): Promise<User> {
-  const signer = await getUserById({ id: actor.id });
-  if (!signer || signer.disabled) throw new AppError(401, "Please sign in again.");
-  if (signer.signingLockedUntil && new Date(signer.signingLockedUntil) > now) {
-    throw new AppError(
-      423,
-      `Signing is locked after ${MAX_SIGNING_FAILURES} wrong passwords; try again after ${new Date(signer.signingLockedUntil).toISOString().slice(11, 16)} UTC or ask an administrator to reset your password.`,
-    );
-  }
-  if (await verifyPassword(signer.passwordHash, password)) return signer;
-  const failures = signer.failedSigningAttempts + 1;
-  const lockUntil = failures >= MAX_SIGNING_FAILURES ? new Date(now.getTime() + SIGNING_LOCK_MINUTES * 60_000).toISOString() : null;
-  await recordSigningFailure({
-    userId: signer.id,
-    failures: lockUntil ? 0 : failures,
-    lockedUntil: lockUntil,
-    audit: {
-      actorId: actor.id,
-      actorEmail: actor.email,
-      siteId: cycle.siteId,
-      action: lockUntil ? "signature.locked" : "signature.failed",
-      entityType: "cycle",
-      entityId: cycle.id,
-      reason: lockUntil ? `wrong password ${MAX_SIGNING_FAILURES} times; signing locked for ${SIGNING_LOCK_MINUTES} min` : "wrong password",
-    },
-  });
-  if (lockUntil) throw new AppError(423, `Wrong password. Signing is now locked for ${SIGNING_LOCK_MINUTES} minutes.`, "password");
-  throw new AppError(401, `The password is not correct; the signature was not applied (${MAX_SIGNING_FAILURES - failures} attempts left).`, "password");
-}
-
 /** Whether this signature may be applied to this cycle now: state, verdict and segregation of duties. */
 async function assertSignable(actor: Actor, cycle: Cycle, meaning: SignatureMeaning, reason: string | null) {
   if (meaning === "rejected" && !reason) throw new AppError(400, "Give the reason for rejecting, so the technician knows what to correct.", "reason");
@@ -113,7 +75,7 @@ export async function signCycle({ actor, id, password, meaning, reason }: SignIn
   if (!cycle) throw new AppError(404, "That cycle was not found.");
   if (!can(actor.role, "cycle:sign")) throw new AppError(403, "Only validation engineers sign cycles.");
   const now = new Date();
-  const signer = await reauthenticate(actor, cycle, password, now);
+  const signer = await reauthenticate({ actor, password, now, entity: { type: "cycle", id: cycle.id } });
   const cleanReason = reason?.trim() || null;
   await assertSignable(actor, cycle, meaning, cleanReason);
   const analysisId = cycle.currentAnalysisId!;
