@@ -10,7 +10,20 @@ const createdAt = () =>
     .notNull()
     .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`);
 
-import { CYCLE_STATUSES, INSTRUMENT_KINDS, MAIL_STATUSES, PERIODIC_RECORD_STATUSES, PERIODIC_TEST_KINDS, PROFILE_BASES, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, VERDICTS } from "../lib/domain";
+import {
+  CYCLE_STATUSES,
+  INSTRUMENT_KINDS,
+  MAIL_STATUSES,
+  PERIODIC_RECORD_STATUSES,
+  PERIODIC_TEST_KINDS,
+  PROFILE_BASES,
+  ROLES,
+  SIGNATURE_MEANINGS,
+  STATUS_EVENT_KINDS,
+  STERILIZER_STATUSES,
+  TEST_KINDS,
+  VERDICTS,
+} from "../lib/domain";
 
 // The enums live in lib/domain; the database layer may keep taking them from here.
 export { CYCLE_STATUSES, PERIODIC_TEST_KINDS, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, type CycleStatus, type PeriodicTestKind, type Role, type SignatureMeaning, type TestKind } from "../lib/domain";
@@ -100,9 +113,39 @@ export const sterilizers = sqliteTable("sterilizers", {
   airDetectorFitted: integer("air_detector_fitted", { mode: "boolean" }).notNull().default(true),
   defaultProfileId: text("default_profile_id").references(() => acceptanceProfiles.id),
   active: integer("active", { mode: "boolean" }).notNull().default(true),
+  // The cached result of the status rule (lib/periodic-tests/status.ts); sterilizer_status_events holds its history.
+  status: text("status", { enum: STERILIZER_STATUSES }).notNull().default("in-use"),
+  statusReason: text("status_reason"),
+  statusSince: text("status_since"),
   createdAt: createdAt(),
 });
 export type Sterilizer = typeof sterilizers.$inferSelect;
+
+// Append-only (triggers): each change of a sterilizer's status, found by the rule or decided and signed by an engineer.
+export const sterilizerStatusEvents = sqliteTable(
+  "sterilizer_status_events",
+  {
+    id: id(),
+    sterilizerId: text("sterilizer_id")
+      .notNull()
+      .references(() => sterilizers.id),
+    status: text("status", { enum: STERILIZER_STATUSES }).notNull(),
+    reason: text("reason").notNull(),
+    // when the event was recorded, and when the state it records began (a test falls due at midnight, found later)
+    at: text("at").notNull(),
+    since: text("since").notNull(),
+    kind: text("kind", { enum: STATUS_EVENT_KINDS }).notNull(),
+    cause: text("cause").notNull(),
+    userId: text("user_id").references(() => users.id),
+    printedName: text("printed_name"),
+    role: text("role", { enum: ROLES }),
+    passwordReauthenticated: integer("password_reauthenticated", { mode: "boolean" }).notNull().default(false),
+    // a release: the confirmed failures it acknowledged ("cycle:<id>", "periodic-test:<id>")
+    acknowledged: text("acknowledged", { mode: "json" }).$type<string[]>(),
+  },
+  (t) => [index("sterilizer_status_events_idx").on(t.sterilizerId, t.at)],
+);
+export type SterilizerStatusEvent = typeof sterilizerStatusEvents.$inferSelect;
 export type NewSterilizer = typeof sterilizers.$inferInsert;
 
 export const instruments = sqliteTable("instruments", {
@@ -345,6 +388,8 @@ export const testSchedules = sqliteTable(
       .references(() => sterilizers.id),
     kind: text("kind", { enum: PERIODIC_TEST_KINDS }).notNull(),
     intervalDays: integer("interval_days").notNull(),
+    // Out of use while this test is due or has never passed (lib/periodic-tests/status.ts).
+    requiredBeforeUse: integer("required_before_use", { mode: "boolean" }).notNull().default(false),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex("test_schedules_unique").on(t.sterilizerId, t.kind)],

@@ -27,6 +27,7 @@ import { simulateCycle, toLoggerCsv, type Scenario } from "@/lib/simulator";
 import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
 import { atmosphereAtAltitudeKpa } from "@/lib/steam";
 import { zoneOffsetMs } from "@/lib/domain";
+import { defaultScheduleFor } from "@/lib/periodic-tests/sterilizer-class";
 
 export { DEMO_USERS };
 
@@ -41,6 +42,8 @@ type DemoSterilizer = {
   chamberVolumeL: number;
   location: string;
   profileKey: "p134" | "p121" | "p134large" | "p134bench";
+  /** removes air by vacuum: its daily Bowie-Dick and weekly air leakage tests are required before use */
+  vacuum: boolean;
   dialect: Parameters<typeof toLoggerCsv>[1];
 };
 
@@ -53,6 +56,7 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
     chamberVolumeL: 445,
     location: "Wash room / clean room wall, bay 1",
     profileKey: "p134",
+    vacuum: true,
     dialect: { delimiter: ",", decimal: ".", timeFormat: "iso" },
   },
   {
@@ -63,6 +67,7 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
     chamberVolumeL: 960,
     location: "Wash room / clean room wall, bay 2",
     profileKey: "p134large",
+    vacuum: true,
     dialect: { delimiter: ";", decimal: ",", timeFormat: "dmy", pressureUnit: "bar", gauge: true },
   },
   {
@@ -73,6 +78,7 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
     chamberVolumeL: 320,
     location: "Media preparation room",
     profileKey: "p121",
+    vacuum: false,
     dialect: { delimiter: "\t", decimal: ".", timeFormat: "elapsed-seconds" },
   },
   {
@@ -83,6 +89,7 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
     chamberVolumeL: 23,
     location: "Day-surgery theatre suite",
     profileKey: "p134bench",
+    vacuum: true,
     dialect: { delimiter: ",", decimal: ".", timeFormat: "mdy-ampm", pressureUnit: "mbar" },
   },
 ];
@@ -233,12 +240,13 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           airDetectorFitted: s.key !== "B1",
         })
         .returning();
-      await tx.insert(testSchedules).values([
-        { sterilizerId: sterilizer.id, kind: "bowie-dick", intervalDays: 1 },
-        { sterilizerId: sterilizer.id, kind: "air-leakage", intervalDays: 7 },
-        { sterilizerId: sterilizer.id, kind: "thermometric-small-load", intervalDays: 91 },
-        { sterilizerId: sterilizer.id, kind: "steam-non-condensable-gas", intervalDays: 365 },
-      ]);
+      await tx
+        .insert(testSchedules)
+        .values([
+          ...defaultScheduleFor({ vacuumAirRemoval: s.vacuum }).map((d) => ({ ...d, sterilizerId: sterilizer.id })),
+          { sterilizerId: sterilizer.id, kind: "thermometric-small-load", intervalDays: 91 },
+          { sterilizerId: sterilizer.id, kind: "steam-non-condensable-gas", intervalDays: 365 },
+        ]);
       await seedPeriodicTests(tx, { siteId: site.id, sterilizerId: sterilizer.id, technicianId: userIds.technician, now, index });
 
       const instrument = instrumentRows[index % 2];
@@ -335,10 +343,12 @@ const eqId = (id: string) => eq(cycles.id, id);
 
 async function seedPeriodicTests(tx: Executor, { siteId, sterilizerId, technicianId, now, index }: { siteId: string; sterilizerId: string; technicianId: string; now: Date; index: number }) {
   const rows: (typeof periodicTests.$inferInsert)[] = [];
-  for (let daysAgo = 20; daysAgo >= 1; daysAgo--) {
+  for (let daysAgo = 20; daysAgo >= 0; daysAgo--) {
     if (index === 3 && daysAgo < 3) continue; // the benchtop's daily test is overdue in the demo
     const at = new Date(now.getTime() - daysAgo * DAY_MS);
     at.setUTCHours(6, 30, 0, 0);
+    // Today's test before the first load, or an hour ago when the demo is loaded earlier in the morning.
+    if (daysAgo === 0 && at > now) at.setTime(now.getTime() - 3_600_000);
     rows.push({
       siteId,
       sterilizerId,

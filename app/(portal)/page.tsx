@@ -5,6 +5,7 @@ import { getHomeDashboard } from "@/lib/services/dashboard";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { CycleList } from "@/components/home/cycle-list";
 import { CalibrationsDueList, TestsDueList } from "@/components/home/due-list";
+import { StatusBoard } from "@/components/dashboard/status-board";
 
 export const metadata = { title: "Overview" };
 
@@ -13,6 +14,20 @@ export default async function HomePage() {
   const home = await getHomeDashboard({ actor: user });
   const { timeZone } = home;
   const greeting = `${ROLE_LABELS[user.role]} — ${home.siteName ?? "no site"}`;
+  const board = (
+    <Panel
+      title="Sterilizer status"
+      action={
+        home.kind !== "admin" && (
+          <Link className="text-sm text-steam-700" href="/sterilizers">
+            All sterilizers
+          </Link>
+        )
+      }
+    >
+      <StatusBoard items={home.board} timeZone={timeZone} linked={home.kind !== "admin"} />
+    </Panel>
+  );
 
   if (home.kind === "admin") {
     const { overview } = home;
@@ -24,6 +39,7 @@ export default async function HomePage() {
           <Stat label="Disabled accounts" value={overview.disabled} href="/admin/users" />
           <Stat label="Failed sign-ins, last 7 days" value={overview.failedSignIns} href="/audit?action=auth.sign-in-failed" />
         </div>
+        <div className="mt-gutter">{board}</div>
         <p className="mt-6 text-sm text-ink-muted">{ROLE_DUTIES.admin}</p>
       </>
     );
@@ -33,6 +49,7 @@ export default async function HomePage() {
     return (
       <>
         <PageHeader title={`Welcome, ${user.name}`} subtitle={greeting} />
+        <div className="mb-gutter">{board}</div>
         <div className="grid gap-gutter lg:grid-cols-2">
           <Panel
             title="Recently approved records"
@@ -76,6 +93,7 @@ export default async function HomePage() {
           </Link>
         }
       />
+      <div className="mb-gutter">{board}</div>
       <div className="grid gap-gutter lg:grid-cols-2">
         {review && (
           <Panel

@@ -6,7 +6,19 @@ import { Field, TextInput, useFormAction } from "./form-bits";
 import { ActionMessage } from "@/components/ui/action-message";
 import { testKindLabel } from "@/lib/domain";
 
-type Row = { kind: string; intervalDays: number };
+type Row = { kind: string; intervalDays: number; requiredBeforeUse: boolean };
+
+// Common practice (DOMAIN.md §2.12): a vacuum sterilizer is not used before its daily steam penetration and weekly air leakage tests.
+const SUGGESTED_REQUIRED = new Set(["bowie-dick", "air-leakage"]);
+
+function RequiredBox({ id, defaultChecked, checked, onChange }: { id: string; defaultChecked?: boolean; checked?: boolean; onChange?: (v: boolean) => void }) {
+  return (
+    <label className="flex items-center gap-2 text-sm" htmlFor={id}>
+      <input id={id} type="checkbox" name="requiredBeforeUse" defaultChecked={defaultChecked} checked={checked} onChange={onChange && ((e) => onChange(e.target.checked))} /> Required before use (out
+      of use while due or never passed)
+    </label>
+  );
+}
 
 // Common practice (DOMAIN.md §2.12, HTM 01-01 Part C in outline): offered as starting values only.
 const SUGGESTED_INTERVAL: Record<string, number> = {
@@ -48,6 +60,7 @@ function ScheduleRowForm({ sterilizerId, row }: { sterilizerId: string; row: Row
             {save.pending ? "Saving…" : "Save"}
           </button>
         </div>
+        <RequiredBox id={`${id}-required`} defaultChecked={row.requiredBeforeUse} />
         <TextInput id={`${id}-reason`} name="reason" label="Reason for a change" error={save.errors.reason} />
       </form>
       <div className="mt-2">
@@ -83,6 +96,7 @@ function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: str
   const { state, pending, onSubmit, onChange, errors } = useFormAction(saveScheduleAction);
   const [kind, setKind] = useState(kinds[0]);
   const [interval, setInterval] = useState(String(SUGGESTED_INTERVAL[kinds[0]] ?? 7));
+  const [required, setRequired] = useState(SUGGESTED_REQUIRED.has(kinds[0]));
   return (
     <form onSubmit={onSubmit} onChange={onChange} className="rounded-md border border-dashed border-ink-line p-3" noValidate aria-label="Add a test to the schedule">
       <p className="text-sm font-medium">Add a test to the schedule</p>
@@ -97,6 +111,7 @@ function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: str
             onChange={(e) => {
               setKind(e.target.value);
               setInterval(String(SUGGESTED_INTERVAL[e.target.value] ?? 7));
+              setRequired(SUGGESTED_REQUIRED.has(e.target.value));
             }}
           >
             {kinds.map((k) => (
@@ -112,9 +127,11 @@ function AddSchedule({ sterilizerId, kinds }: { sterilizerId: string; kinds: str
             Add
           </button>
         </div>
+        <RequiredBox id="add-sched-required" checked={required} onChange={setRequired} />
       </div>
       <p className="mt-1 text-xs text-ink-muted">
-        Suggested intervals follow common practice (daily Bowie-Dick, weekly air leakage, quarterly and yearly thermometric and steam quality tests); your written scheme decides.
+        Suggested intervals follow common practice (daily Bowie-Dick and weekly air leakage, both required before use on a vacuum sterilizer; quarterly and yearly thermometric and steam quality
+        tests); your written scheme decides.
       </p>
       <div className="mt-2">
         <ActionMessage state={state} />

@@ -57,6 +57,17 @@ export function SterilizerForm({ profiles, sterilizer }: { profiles: ProfileChoi
       <label className="flex items-center gap-2 text-sm">
         <input type="checkbox" name="airDetectorFitted" defaultChecked={sterilizer?.airDetectorFitted ?? true} /> Air detector fitted
       </label>
+      {!editing && (
+        <div>
+          <label className="flex items-center gap-2 text-sm">
+            <input type="checkbox" name="vacuumAirRemoval" defaultChecked /> Removes air by vacuum (porous-load, type B)
+          </label>
+          <p className="mt-1 text-xs text-ink-muted">
+            Starts its schedule with a daily Bowie-Dick test and a weekly air leakage test, both required before use: until they pass and are approved it shows as out of use. Untick for a fluids or
+            non-vacuum sterilizer.
+          </p>
+        </div>
+      )}
       {editing && (
         <>
           <label className="flex items-center gap-2 text-sm">

@@ -5,6 +5,7 @@ import type { TestKind } from "@/lib/domain";
 import type { CreateCycleField } from "@/lib/validations/intake";
 import { formatDuration, PROFILE_BASIS_LABELS, TEST_KINDS, testKindLabel } from "@/lib/domain";
 import { Panel } from "@/components/ui/panel";
+import { OutOfUseNotice } from "@/components/equipment/sterilizer-status";
 import type { IntakeInstrument, IntakeProfile, IntakeSterilizer } from "./intake-request";
 import type { CycleFields } from "./use-cycle-fields";
 
@@ -55,8 +56,9 @@ export function DetailsPanel(props: Props) {
   );
 }
 
-function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instruments, busy, onInstrumentChange, wiring }: Props & { wiring: Wiring }) {
+function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instruments, busy, onInstrumentChange, wiring, timeZone }: Props & { wiring: Wiring }) {
   const { fields, setField } = details;
+  const chosen = details.sterilizer;
   const { invalid, describedBy, errorText } = wiring;
   const profile = profiles.find((p) => p.id === fields.profileId);
   return (
@@ -82,6 +84,7 @@ function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instru
           ))}
         </select>
         {errorText("sterilizerId")}
+        {chosen?.status === "out-of-use" && <OutOfUseNotice name={chosen.name} reason={chosen.statusReason ?? ""} since={chosen.statusSince ?? ""} timeZone={timeZone} />}
         {sterilizers.length === 0 && <p className="mt-1 text-xs text-ink-muted">No sterilizer is registered on your site yet; an engineer adds them under Sterilizers.</p>}
       </div>
       <div>

@@ -4,7 +4,17 @@ import { createCycleFieldsSchema, mappingProblems, pressureReferenceProblem, typ
 import { timeFormatHasDate } from "@/lib/cycles/start-time";
 import type { MappedColumn } from "./mapping-table";
 
-export type IntakeSterilizer = { id: string; name: string; serialNumber: string; chamberVolumeL: number; defaultProfileId: string | null };
+export type IntakeSterilizer = {
+  id: string;
+  name: string;
+  serialNumber: string;
+  chamberVolumeL: number;
+  defaultProfileId: string | null;
+  /** whether it may be used now; an out-of-use sterilizer still takes test cycles (that is how it is re-qualified) */
+  status?: "in-use" | "out-of-use";
+  statusReason?: string;
+  statusSince?: string;
+};
 export type IntakeProfile = { id: string; name: string; sterilizationTempC: number; holdingTimeS: number; bandK: number; basis: ProfileBasis };
 export type IntakeInstrument = { id: string; name: string; serialNumber: string; kind: string; hasSavedMapping: boolean };
 

@@ -78,9 +78,19 @@ export async function findSterilizersBySerial({ siteId, serialNumber }: { siteId
     .where(and(eq(sterilizers.siteId, siteId), sql`lower(${sterilizers.serialNumber}) = ${serialNumber.toLowerCase()}`));
 }
 
-export async function insertSterilizer({ values, audit }: { values: NewSterilizer; audit: Audit }) {
+/** A new sterilizer with its first scheduled tests and the audit event, in one transaction. */
+export async function insertSterilizer({
+  values,
+  schedule = [],
+  audit,
+}: {
+  values: NewSterilizer;
+  schedule?: Array<{ kind: PeriodicTestKind; intervalDays: number; requiredBeforeUse: boolean }>;
+  audit: Audit;
+}) {
   return getDb().transaction(async (tx) => {
     const [created] = await tx.insert(sterilizers).values(values).returning();
+    if (schedule.length > 0) await tx.insert(testSchedules).values(schedule.map((s) => ({ ...s, sterilizerId: created.id })));
     await appendAuditEvent(tx, { ...audit, entityType: "sterilizer", entityId: created.id });
     return created;
   });
@@ -107,23 +117,25 @@ export async function getSchedule({ sterilizerId, kind }: { sterilizerId: string
   return row;
 }
 
-/** Sets the interval of one test (updating `existingId`, or adding the test) with its audit event. */
+/** Sets the interval of one test and whether it is required before use (updating `existingId`, or adding the test) with its audit event. */
 export async function saveScheduleRow({
   existingId,
   sterilizerId,
   kind,
   intervalDays,
+  requiredBeforeUse,
   audit,
 }: {
   existingId?: string;
   sterilizerId: string;
   kind: PeriodicTestKind;
   intervalDays: number;
+  requiredBeforeUse: boolean;
   audit: Audit;
 }) {
   await getDb().transaction(async (tx) => {
-    if (existingId) await tx.update(testSchedules).set({ intervalDays }).where(eq(testSchedules.id, existingId));
-    else await tx.insert(testSchedules).values({ sterilizerId, kind, intervalDays });
+    if (existingId) await tx.update(testSchedules).set({ intervalDays, requiredBeforeUse }).where(eq(testSchedules.id, existingId));
+    else await tx.insert(testSchedules).values({ sterilizerId, kind, intervalDays, requiredBeforeUse });
     await appendAuditEvent(tx, { ...audit, entityType: "sterilizer", entityId: sterilizerId });
   });
 }
@@ -133,4 +145,9 @@ export async function deleteScheduleRow({ id, sterilizerId, audit }: { id: strin
     await tx.delete(testSchedules).where(eq(testSchedules.id, id));
     await appendAuditEvent(tx, { ...audit, entityType: "sterilizer", entityId: sterilizerId });
   });
+}
+
+/** Which of the sterilizer's scheduled tests are required before use. */
+export async function listRequiredBeforeUse({ sterilizerId }: { sterilizerId: string }) {
+  return getDb().select({ kind: testSchedules.kind, requiredBeforeUse: testSchedules.requiredBeforeUse }).from(testSchedules).where(eq(testSchedules.sterilizerId, sterilizerId));
 }

@@ -149,3 +149,41 @@ export function analysisFailedMail({
   blocks.push({ kind: "p", text: "Consider whether the sterilizer should stay out of use until the cause is found, as your site's procedures require." });
   return { subject: heading, ...layout({ heading, url, action: "See the analysis", blocks }) };
 }
+
+/** To the site's engineers: a sterilizer went out of use or came back into use. */
+export function sterilizerStatusMail({
+  sterilizerName,
+  status,
+  reason,
+  since,
+  byName,
+  url,
+}: {
+  sterilizerName: string;
+  status: "in-use" | "out-of-use";
+  reason: string;
+  /** when the new state began, in words (the site's local time) */
+  since: string;
+  /** the engineer who decided, when it was a signed decision */
+  byName: string | null;
+  url: string;
+}): MailContent {
+  const out = status === "out-of-use";
+  const heading = `${oneLine(sterilizerName)} is ${out ? "out of use" : "back in use"}`;
+  const blocks: Block[] = [
+    { kind: "p", text: `${sterilizerName} is ${out ? "out of use" : "in use"} since ${since}${byName ? `, by the signed decision of ${byName}` : ""}.` },
+    { kind: "quote", label: "Reason", text: reason },
+    {
+      kind: "p",
+      text: out
+        ? "Do not process loads in it until it is back in use. A test cycle may still be recorded to re-qualify it; an engineer can also release it with a signed reason."
+        : "Loads may be processed again, within your site's procedures.",
+    },
+  ];
+  return { subject: heading, ...layout({ heading, url, action: "Open the sterilizer", blocks }) };
+}
+
+/** The link to a sterilizer's page, on the configured public URL. */
+export function sterilizerUrl(sterilizerId: string): string {
+  return `${publicBaseUrl()}/sterilizers/${encodeURIComponent(sterilizerId)}`;
+}

@@ -6,3 +6,4 @@ export * from "./schedule";
 export * from "./calibration";
 export * from "./sterilizer-class";
 export * from "./trends";
+export * from "./status";

@@ -2,7 +2,7 @@
 
 const DAY_MS = 86_400_000;
 
-function addDays(date: string, days: number): string {
+export function addDays(date: string, days: number): string {
   const t = Date.parse(`${date}T00:00:00Z`);
   return new Date(t + days * DAY_MS).toISOString().slice(0, 10);
 }

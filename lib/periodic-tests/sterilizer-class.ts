@@ -25,3 +25,19 @@ export function sizeClassOf(chamberVolumeL: number): SizeClass {
     note: `EN 285 / HTM 2010: equilibration time ≤ ${maxEquilibrationS} s for a chamber ${chamberVolumeL <= LARGE_CHAMBER_LIMIT_L ? "up to" : "over"} ${LARGE_CHAMBER_LIMIT_L} l.`,
   };
 }
+
+export type DefaultScheduledTest = { kind: "bowie-dick" | "air-leakage"; intervalDays: number; requiredBeforeUse: boolean };
+
+/**
+ * The schedule a new sterilizer starts with. One that removes air by vacuum (porous-load, type B) needs a steam
+ * penetration (Bowie-Dick) test each day and an air leakage test each week before it is used (DOMAIN.md §2.5, §2.12;
+ * HTM 01-01 Part C, common practice). A fluids or non-vacuum (type N) sterilizer gets neither; the engineer adds what
+ * the site's written scheme asks for.
+ */
+export function defaultScheduleFor({ vacuumAirRemoval }: { vacuumAirRemoval: boolean }): DefaultScheduledTest[] {
+  if (!vacuumAirRemoval) return [];
+  return [
+    { kind: "bowie-dick", intervalDays: 1, requiredBeforeUse: true },
+    { kind: "air-leakage", intervalDays: 7, requiredBeforeUse: true },
+  ];
+}

@@ -4,6 +4,7 @@ import { getAdminOverview, listCalibrationsDue, listCyclesAwaitingReview, listMy
 import { can } from "@/lib/auth/permissions";
 import { getScheduleOverview } from "./periodic-tests";
 import { getSiteContext } from "./site";
+import { getStatusBoard } from "./sterilizer-status";
 
 /**
  * What waits for the actor on the home page, by role, from the actor's own site only. An
@@ -13,14 +14,16 @@ export async function getHomeDashboard({ actor }: { actor: Actor }) {
   const { site, timeZone } = await getSiteContext({ actor });
   const siteName = site?.name ?? null;
   const siteId = actor.siteId;
+  // Every role sees at a glance which sterilizers may be used.
+  const board = await getStatusBoard({ actor });
   if (actor.role === "admin") {
     const overview = siteId ? await getAdminOverview({ siteId }) : { users: 0, disabled: 0, failedSignIns: 0 };
-    return { kind: "admin" as const, siteName, timeZone, overview };
+    return { kind: "admin" as const, siteName, timeZone, board, overview };
   }
   if (actor.role === "auditor") {
-    return { kind: "auditor" as const, siteName, timeZone, approved: siteId ? await listRecentlyApproved({ siteId }) : [] };
+    return { kind: "auditor" as const, siteName, timeZone, board, approved: siteId ? await listRecentlyApproved({ siteId }) : [] };
   }
-  if (!siteId) return { kind: "worker" as const, siteName, timeZone, review: null, mine: [], failures: [], testsDue: [], calibrations: [] };
+  if (!siteId) return { kind: "worker" as const, siteName, timeZone, board, review: null, mine: [], failures: [], testsDue: [], calibrations: [] };
   const [review, mine, failures, testsDue, calibrations] = await Promise.all([
     can(actor.role, "review:queue") ? listCyclesAwaitingReview({ siteId }) : Promise.resolve(null),
     listMyOpenCycles({ siteId, userId: actor.id }),
@@ -28,5 +31,5 @@ export async function getHomeDashboard({ actor }: { actor: Actor }) {
     getScheduleOverview({ actor }).then((o) => o.rows.filter((r) => r.needsAction)),
     listCalibrationsDue({ siteId }),
   ]);
-  return { kind: "worker" as const, siteName, timeZone, review, mine, failures, testsDue, calibrations };
+  return { kind: "worker" as const, siteName, timeZone, board, review, mine, failures, testsDue, calibrations };
 }

@@ -11,6 +11,7 @@ import {
   listAnalysedCyclesOfSterilizer,
   listLatestCycleOfEachSterilizer,
   listRecentCyclesOfSterilizer,
+  listRequiredBeforeUse,
   listSterilizersOfSite,
   saveScheduleRow,
   updateSterilizerOnSite,
@@ -18,10 +19,11 @@ import {
 import type { AnalysisResult } from "@/lib/analysis/types";
 import { can } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
-import { sizeClassOf, trendsFromAnalyses } from "@/lib/periodic-tests";
+import { defaultScheduleFor, sizeClassOf, trendsFromAnalyses } from "@/lib/periodic-tests";
 import type { SterilizerInput } from "@/lib/validations/equipment";
 import { getScheduleOverview } from "./periodic-tests";
 import { auditActor, getSiteContext, siteIdOf } from "./site";
+import { currentSterilizerStatuses, listSterilizerStatusHistory, refreshSterilizerStatus } from "./sterilizer-status";
 
 const DAY_MS = 86_400_000;
 
@@ -42,12 +44,20 @@ export function changedFields<T extends Record<string, unknown>>(before: T, afte
 
 export async function listSterilizers({ actor }: { actor: Actor }) {
   const siteId = siteIdOf(actor);
-  const [rows, lastCycles, overview] = await Promise.all([listSterilizersOfSite({ siteId }), listLatestCycleOfEachSterilizer({ siteId }), getScheduleOverview({ actor })]);
+  const [rows, lastCycles, overview, statuses] = await Promise.all([
+    listSterilizersOfSite({ siteId }),
+    listLatestCycleOfEachSterilizer({ siteId }),
+    getScheduleOverview({ actor }),
+    currentSterilizerStatuses({ siteId }),
+  ]);
   const lastBySterilizer = new Map(lastCycles.map((c) => [c.sterilizerId, c]));
   return rows.map(({ sterilizer, profileName, profileActive }) => {
     const schedule = overview.rows.filter((r) => r.sterilizerId === sterilizer.id);
+    // A retired sterilizer is not judged any more; it keeps its last stored status.
+    const now = statuses.get(sterilizer.id);
     return {
       ...sterilizer,
+      ...(now ? { status: now.status, statusReason: now.statusReason, statusSince: now.statusSince } : {}),
       sizeClass: sizeClassOf(sterilizer.chamberVolumeL),
       defaultProfile: sterilizer.defaultProfileId ? { id: sterilizer.defaultProfileId, name: profileName ?? "—", active: !!profileActive } : null,
       lastCycle: lastBySterilizer.get(sterilizer.id) ?? null,
@@ -69,14 +79,29 @@ async function getSterilizerDetail({ actor, id, trendDays = 90 }: { actor: Actor
   const sterilizer = await getSterilizer({ actor, id });
   const siteId = sterilizer.siteId;
   const since = new Date(Date.now() - trendDays * DAY_MS).toISOString();
-  const [profile, recentCycles, analysed, overview] = await Promise.all([
+  const [profile, recentCycles, analysed, overview, statuses, statusHistory, required] = await Promise.all([
     sterilizer.defaultProfileId ? getProfileForSite({ actor, id: sterilizer.defaultProfileId }).then((p) => p ?? null) : Promise.resolve(null),
     listRecentCyclesOfSterilizer({ siteId, sterilizerId: id, limit: 15 }),
     listAnalysedCyclesOfSterilizer({ siteId, sterilizerId: id, since, limit: 500 }),
     getScheduleOverview({ actor, sterilizerId: id }),
+    currentSterilizerStatuses({ siteId }),
+    listSterilizerStatusHistory({ actor, sterilizerId: id }),
+    listRequiredBeforeUse({ sterilizerId: id }),
   ]);
+  const requiredKinds = new Set(required.filter((r) => r.requiredBeforeUse).map((r) => r.kind));
+  const status = statuses.get(id) ?? { status: sterilizer.status, statusReason: sterilizer.statusReason, statusSince: sterilizer.statusSince };
   const trends = trendsFromAnalyses(analysed.map((a) => ({ ...a, result: a.result as AnalysisResult })));
-  return { sterilizer, sizeClass: sizeClassOf(sterilizer.chamberVolumeL), profile, recentCycles, trends, trendDays, schedule: overview.rows, timeZone: overview.timeZone };
+  return {
+    sterilizer: { ...sterilizer, status: status.status, statusReason: status.statusReason, statusSince: status.statusSince },
+    sizeClass: sizeClassOf(sterilizer.chamberVolumeL),
+    profile,
+    recentCycles,
+    trends,
+    trendDays,
+    schedule: overview.rows.map((r) => ({ ...r, requiredBeforeUse: requiredKinds.has(r.kind) })),
+    statusHistory,
+    timeZone: overview.timeZone,
+  };
 }
 
 /** The sterilizers page: the list, the site's time zone, and the profiles to choose from when the actor may manage. */
@@ -108,11 +133,15 @@ async function checkSerialFree(siteId: string, serialNumber: string, exceptId?: 
   if (clash) throw new AppError(409, `The serial number ${serialNumber} already belongs to “${clash.name}”.`, "serialNumber");
 }
 
-export async function createSterilizer({ actor, input }: { actor: Actor; input: SterilizerInput }) {
+/** A new sterilizer; one that removes air by vacuum starts with its daily and weekly tests required before use. */
+export async function createSterilizer({ actor, input: { vacuumAirRemoval = false, ...input } }: { actor: Actor; input: SterilizerInput & { vacuumAirRemoval?: boolean } }) {
   const siteId = siteIdOf(actor);
   await checkProfileOnSite(actor, input.defaultProfileId);
   await checkSerialFree(siteId, input.serialNumber);
-  return insertSterilizer({ values: { ...input, siteId }, audit: { ...auditActor(actor), action: "sterilizer.create", newValue: input } });
+  const schedule = defaultScheduleFor({ vacuumAirRemoval });
+  const created = await insertSterilizer({ values: { ...input, siteId }, schedule, audit: { ...auditActor(actor), action: "sterilizer.create", newValue: { ...input, vacuumAirRemoval, schedule } } });
+  await refreshSterilizerStatus({ sterilizerId: created.id, actor, cause: "sterilizer added" });
+  return created;
 }
 
 export async function updateSterilizer({ actor, id, input, active, reason }: { actor: Actor; id: string; input: SterilizerInput; active: boolean; reason: string }) {
@@ -127,24 +156,30 @@ export async function updateSterilizer({ actor, id, input, active, reason }: { a
 
 // ——— Test schedules ———
 
-export async function saveSchedule({ actor, sterilizerId, kind, intervalDays, reason }: { actor: Actor; sterilizerId: string; kind: PeriodicTestKind; intervalDays: number; reason: string | null }) {
+type ScheduleInput = { actor: Actor; sterilizerId: string; kind: PeriodicTestKind; intervalDays: number; requiredBeforeUse?: boolean; reason: string | null };
+
+/** Adds a test to the schedule or changes its interval or whether it is required before use; the status follows. */
+export async function saveSchedule({ actor, sterilizerId, kind, intervalDays, reason, ...input }: ScheduleInput) {
   await getSterilizer({ actor, id: sterilizerId });
   const existing = await getSchedule({ sterilizerId, kind });
-  if (existing && existing.intervalDays === intervalDays) return { changed: false };
-  if (existing && !reason) throw new AppError(422, "Give a reason for changing the interval; it goes into the audit ledger.", "reason");
+  const requiredBeforeUse = input.requiredBeforeUse ?? existing?.requiredBeforeUse ?? false;
+  if (existing && existing.intervalDays === intervalDays && existing.requiredBeforeUse === requiredBeforeUse) return { changed: false };
+  if (existing && !reason) throw new AppError(422, "Give a reason for changing this test's schedule; it goes into the audit ledger.", "reason");
   await saveScheduleRow({
     existingId: existing?.id,
     sterilizerId,
     kind,
     intervalDays,
+    requiredBeforeUse,
     audit: {
       ...auditActor(actor),
       action: existing ? "schedule.update" : "schedule.create",
-      oldValue: existing ? { kind, intervalDays: existing.intervalDays } : null,
-      newValue: { kind, intervalDays },
+      oldValue: existing ? { kind, intervalDays: existing.intervalDays, requiredBeforeUse: existing.requiredBeforeUse } : null,
+      newValue: { kind, intervalDays, requiredBeforeUse },
       reason,
     },
   });
+  await refreshSterilizerStatus({ sterilizerId, actor, cause: "test schedule changed" });
   return { changed: true };
 }
 
@@ -155,6 +190,7 @@ export async function removeSchedule({ actor, sterilizerId, kind, reason }: { ac
   await deleteScheduleRow({
     id: existing.id,
     sterilizerId,
-    audit: { ...auditActor(actor), action: "schedule.remove", oldValue: { kind, intervalDays: existing.intervalDays }, newValue: null, reason },
+    audit: { ...auditActor(actor), action: "schedule.remove", oldValue: { kind, intervalDays: existing.intervalDays, requiredBeforeUse: existing.requiredBeforeUse }, newValue: null, reason },
   });
+  await refreshSterilizerStatus({ sterilizerId, actor, cause: "test taken off the schedule" });
 }

@@ -1,6 +1,6 @@
 import "server-only";
 import { getAnalysedFile, getCycleRow, insertCorrection, insertCycleRecord } from "@/db/queries/cycles";
-import { getInstrumentForSite, getProfileForSite, getSterilizerForSite, listInstrumentsForSite, listProfilesForSite, listSterilizersForSite } from "@/db/queries/catalog";
+import { getInstrumentForSite, getProfileForSite, getSterilizerForSite, listInstrumentsForSite, listProfilesForSite } from "@/db/queries/catalog";
 import { getSiteById } from "@/db/queries/sites";
 import { enqueueAnalysisFailedMail } from "@/lib/services/mail";
 import type { TestKind } from "@/db/schema";
@@ -13,6 +13,7 @@ import { resolveCycleStart, siteClockStamp } from "@/lib/cycles/start-time";
 import { sha256Hex } from "@/lib/integrity";
 import type { CreateCycleResponse, InspectResponse } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
+import { listSterilizerCatalog } from "./catalog";
 
 export type UploadedFile = { name: string; bytes: Uint8Array; contentType: string };
 
@@ -36,14 +37,23 @@ export type CreateCycleInput = {
 export async function getIntakeOptions({ actor }: { actor: Actor }) {
   assertAllowed(actor, "cycle:create", "register cycles");
   const [sterilizers, profiles, instruments, site] = await Promise.all([
-    listSterilizersForSite({ actor }),
+    listSterilizerCatalog({ actor }),
     listProfilesForSite({ actor }),
     listInstrumentsForSite({ actor }),
     actor.siteId ? getSiteById({ id: actor.siteId }) : undefined,
   ]);
   return {
     timeZone: site?.timeZone ?? "UTC",
-    sterilizers: sterilizers.map((s) => ({ id: s.id, name: s.name, serialNumber: s.serialNumber, chamberVolumeL: s.chamberVolumeL, defaultProfileId: s.defaultProfileId })),
+    sterilizers: sterilizers.map((s) => ({
+      id: s.id,
+      name: s.name,
+      serialNumber: s.serialNumber,
+      chamberVolumeL: s.chamberVolumeL,
+      defaultProfileId: s.defaultProfileId,
+      status: s.status,
+      statusReason: s.statusReason,
+      statusSince: s.statusSince,
+    })),
     profiles: profiles.map((p) => ({ id: p.id, name: p.name, sterilizationTempC: p.sterilizationTempC, holdingTimeS: p.holdingTimeS, bandK: p.bandK, basis: p.basis })),
     instruments: instruments.map((i) => ({ id: i.id, name: i.name, serialNumber: i.serialNumber, kind: i.kind, hasSavedMapping: i.hasSavedMapping })),
   };

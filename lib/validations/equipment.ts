@@ -55,6 +55,13 @@ const checkbox = z
   .optional()
   .transform((v) => v === "on" || v === "true");
 
+/** Taking a sterilizer out of use or releasing it: a signed decision with its reason. */
+export const sterilizerStatusSchema = z.object({
+  status: z.enum(["in-use", "out-of-use"], { error: "Choose whether the sterilizer is to be in use or out of use." }),
+  reason: z.string({ error: "Give the reason for this decision." }).trim().min(3, "Give the reason for this decision; it is signed and goes into the audit ledger.").max(500),
+  password: z.string({ error: "Enter your password to sign." }).min(1, "Enter your password to sign."),
+});
+
 export const reasonField = z.string({ error: "Give a reason for the change; it goes into the audit ledger." }).trim().min(3, "Give a reason for the change; it goes into the audit ledger.").max(500);
 
 const sterilizerFields = {
@@ -70,19 +77,21 @@ const sterilizerFields = {
     .transform((s) => (s ? s : null)),
 };
 
-export const createSterilizerSchema = z.object(sterilizerFields);
+// Ticked by default on the form: a vacuum sterilizer starts with its daily and weekly tests required before use.
+export const createSterilizerSchema = z.object({ ...sterilizerFields, vacuumAirRemoval: checkbox });
 export const updateSterilizerSchema = z.object({
   ...sterilizerFields,
   id: z.string().min(1),
   active: checkbox,
   reason: reasonField,
 });
-export type SterilizerInput = z.infer<typeof createSterilizerSchema>;
+export type SterilizerInput = Omit<z.infer<typeof createSterilizerSchema>, "vacuumAirRemoval">;
 
 export const saveScheduleSchema = z.object({
   sterilizerId: z.string().min(1),
   kind: z.enum(PERIODIC_TEST_KINDS, { error: "Choose a test." }),
   intervalDays: numberField("the interval", { min: 1, max: 1100, unit: "days", integer: true }),
+  requiredBeforeUse: checkbox,
   reason: z
     .string()
     .trim()

@@ -4,6 +4,7 @@ import { getSterilizersPage } from "@/lib/services/equipment";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { SterilizerForm } from "@/components/equipment/sterilizer-form";
+import { SterilizerStatusLine } from "@/components/equipment/sterilizer-status";
 import { formatDateTime } from "@/lib/format";
 import { testKindLabel } from "@/lib/domain";
 
@@ -16,7 +17,7 @@ export default async function SterilizersPage() {
     <>
       <PageHeader
         title="Sterilizers"
-        subtitle="Each chamber with its size class, default acceptance profile, latest cycle and the periodic tests that need doing."
+        subtitle="Each chamber with its status, size class, default acceptance profile, latest cycle and the periodic tests that need doing."
         actions={
           <>
             <Link href="/profiles" className="btn-secondary">
@@ -38,6 +39,7 @@ export default async function SterilizersPage() {
                 <thead>
                   <tr>
                     <th>Sterilizer</th>
+                    <th>Status</th>
                     <th>Chamber</th>
                     <th>Default profile</th>
                     <th>Latest cycle</th>
@@ -53,6 +55,13 @@ export default async function SterilizersPage() {
                         </Link>
                         <p className="mono text-ink-muted">{s.serialNumber}</p>
                         {!s.active && <Badge>Retired</Badge>}
+                      </td>
+                      <td className="min-w-[14rem] max-w-[22rem]">
+                        {s.active ? (
+                          <SterilizerStatusLine status={s.status} reason={s.statusReason} since={s.statusSince} timeZone={timeZone} />
+                        ) : (
+                          <span className="text-sm text-ink-muted">Retired</span>
+                        )}
                       </td>
                       <td>
                         <p className="tabular-nums">{s.chamberVolumeL} l</p>

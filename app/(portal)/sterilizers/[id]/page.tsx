@@ -7,6 +7,9 @@ import { SterilizerForm } from "@/components/equipment/sterilizer-form";
 import { ScheduleEditor } from "@/components/equipment/schedule-editor";
 import { TrendChart } from "@/components/equipment/trend-chart";
 import { intervalWords, ScheduleBadge } from "@/components/equipment/state-badges";
+import { SterilizerStatusBadge, SterilizerStatusLine } from "@/components/equipment/sterilizer-status";
+import { StatusDecisionForm } from "@/components/equipment/status-form";
+import { StatusHistory } from "@/components/equipment/status-history";
 import { formatDate, formatDateTime } from "@/lib/format";
 import { formatDuration, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
 
@@ -24,7 +27,20 @@ const CHECK_WORDS: Record<string, string> = {
 export default async function SterilizerPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
   const actor = await requirePageActor("equipment:read");
-  const { sterilizer: s, sizeClass, profile, recentCycles, trends, schedule, timeZone, trendDays, profiles, mayManage: manage, mayRecord: record } = await orNotFound(getSterilizerPage({ actor, id }));
+  const {
+    sterilizer: s,
+    sizeClass,
+    profile,
+    recentCycles,
+    trends,
+    schedule,
+    statusHistory,
+    timeZone,
+    trendDays,
+    profiles,
+    mayManage: manage,
+    mayRecord: record,
+  } = await orNotFound(getSterilizerPage({ actor, id }));
   const passPct = trends.passRate === null ? null : Math.round(trends.passRate * 100);
   return (
     <>
@@ -33,6 +49,12 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
         subtitle={
           <>
             <span className="mono">{s.serialNumber}</span> · {s.chamberVolumeL} l · {sizeClass.label}
+            {s.active && (
+              <>
+                {" "}
+                · <SterilizerStatusBadge status={s.status} />
+              </>
+            )}
             {!s.active && (
               <>
                 {" "}
@@ -103,6 +125,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                     <tr>
                       <th>Test</th>
                       <th>Interval</th>
+                      <th>Before use</th>
                       <th>Last pass</th>
                       <th>Next due</th>
                       <th>State</th>
@@ -113,6 +136,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                       <tr key={r.kind}>
                         <td className="font-medium">{testKindLabel(r.kind)}</td>
                         <td>{intervalWords(r.intervalDays)}</td>
+                        <td className="text-sm">{r.requiredBeforeUse ? "Required" : "—"}</td>
                         <td>{r.status.lastPassOn ? formatDate(r.status.lastPassOn) : "—"}</td>
                         <td>{r.status.dueOn ? formatDate(r.status.dueOn) : "Now"}</td>
                         <td>
@@ -129,7 +153,10 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                 </table>
               </div>
             )}
-            <p className="mt-2 text-xs text-ink-muted">A test is done when it passes; the next one falls due one interval after that date. Thermometric tests count once their cycle is approved.</p>
+            <p className="mt-2 text-xs text-ink-muted">
+              A test is done when it passes; the next one falls due one interval after that date. Thermometric tests count once their cycle is approved. A test required before use puts the sterilizer
+              out of use from the day it falls due until a passing test is approved.
+            </p>
           </Panel>
 
           <Panel
@@ -180,6 +207,20 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
         </div>
 
         <div className="space-y-gutter">
+          <Panel title="Status">
+            {s.active ? (
+              <SterilizerStatusLine status={s.status} reason={s.statusReason} since={s.statusSince} timeZone={timeZone} />
+            ) : (
+              <p className="text-sm text-ink-muted">Retired: not judged any more.</p>
+            )}
+            {manage && s.active && (
+              <div className="mt-4 border-t border-ink-line pt-4">
+                <StatusDecisionForm sterilizerId={s.id} status={s.status} />
+              </div>
+            )}
+            <h3 className="mb-1 mt-4 text-xs font-semibold uppercase tracking-wide text-ink-muted">History</h3>
+            <StatusHistory events={statusHistory} timeZone={timeZone} />
+          </Panel>
           <Panel title="Identity">
             <dl className="grid grid-cols-[8rem_1fr] gap-x-3 gap-y-1.5 text-sm">
               <dt className="text-ink-muted">Serial number</dt>
@@ -224,7 +265,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                 <SterilizerForm profiles={profiles} sterilizer={s} />
               </Panel>
               <Panel title="Test schedule">
-                <ScheduleEditor sterilizerId={s.id} rows={schedule.map((r) => ({ kind: r.kind, intervalDays: r.intervalDays }))} kinds={PERIODIC_TEST_KINDS} />
+                <ScheduleEditor sterilizerId={s.id} rows={schedule.map((r) => ({ kind: r.kind, intervalDays: r.intervalDays, requiredBeforeUse: r.requiredBeforeUse }))} kinds={PERIODIC_TEST_KINDS} />
               </Panel>
             </>
           )}
