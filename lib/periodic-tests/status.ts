@@ -12,7 +12,7 @@ export type StatusSchedule = { kind: string; intervalDays: number; requiredBefor
 /** An engineer's signed decision; a release lists the failures it acknowledged (source keys). */
 export type ManualStatusEvent = { status: SterilizerStatus; at: string; reason: string; byName: string; acknowledged: string[] };
 
-export type StatusCause = { kind: "manual" | "failure" | "overdue" | "never-passed"; testKind: string | null; since: string; sentence: string };
+export type StatusCause = { kind: "manual" | "failure" | "repeat-needed" | "overdue" | "never-passed"; testKind: string | null; since: string; sentence: string };
 export type StatusFinding = { status: SterilizerStatus; reason: string; since: string; causes: StatusCause[] };
 
 export type StatusInput = {
@@ -50,11 +50,15 @@ export function failuresToAcknowledge(outcomes: ConfirmedOutcome[]): string[] {
   return [...latestByKind(outcomes).values()].flatMap((e) => (e.fail ? [sourceKey(e.fail.source)] : []));
 }
 
-function failureCauses(outcomes: ConfirmedOutcome[], acknowledged: Set<string>, timeZone: string): StatusCause[] {
+/** The kind's latest failure when no pass came after it (a pass at the same instant does not: fail closed). */
+const failedLast = ({ pass, fail }: { pass: ConfirmedOutcome | null; fail: ConfirmedOutcome | null }): ConfirmedOutcome | null => (fail && (!pass || fail.at >= pass.at) ? fail : null);
+
+/** Failures of the kinds not required before use: a release acknowledges them. */
+function failureCauses(outcomes: ConfirmedOutcome[], required: Set<string>, acknowledged: Set<string>, timeZone: string): StatusCause[] {
   const causes: StatusCause[] = [];
-  for (const [kind, { pass, fail }] of latestByKind(outcomes)) {
-    // A pass and a failure at the same instant: the failure stands (fail closed).
-    if (!fail || (pass && pass.at > fail.at) || acknowledged.has(sourceKey(fail.source))) continue;
+  for (const [kind, latest] of latestByKind(outcomes)) {
+    const fail = failedLast(latest);
+    if (required.has(kind) || !fail || acknowledged.has(sourceKey(fail.source))) continue;
     const label = testKindLabel(kind);
     causes.push({ kind: "failure", testKind: kind, since: fail.at, sentence: `${label} of ${localDate(fail.at, timeZone)} failed (confirmed).` });
   }
@@ -66,7 +70,15 @@ function overdueCauses(schedules: StatusSchedule[], outcomes: ConfirmedOutcome[]
   const passes = latestByKind(outcomes);
   const causes: StatusCause[] = [];
   for (const s of schedules.filter((x) => x.requiredBeforeUse)) {
-    const pass = passes.get(s.kind)?.pass;
+    const latest = passes.get(s.kind) ?? { pass: null, fail: null };
+    const pass = latest.pass;
+    // A required test whose latest outcome is a failure is not current, whatever a release says: it must pass again.
+    const fail = failedLast(latest);
+    if (fail) {
+      const failedOn = localDate(fail.at, timeZone);
+      causes.push({ kind: "repeat-needed", testKind: s.kind, since: fail.at, sentence: `The ${lower(s.kind)} of ${failedOn} failed (confirmed); it must pass again before use.` });
+      continue;
+    }
     if (!pass) {
       causes.push({ kind: "never-passed", testKind: s.kind, since: s.since, sentence: `No signed passing ${lower(s.kind)} is on record; it is required before use.` });
       continue;
@@ -84,7 +96,8 @@ function overdueCauses(schedules: StatusSchedule[], outcomes: ConfirmedOutcome[]
 
 /**
  * Out of use while any cause holds: an engineer's hold not yet released, a confirmed failure that is the latest
- * outcome of its kind and not acknowledged by a release, a required-before-use test due or never passed. Each cause
+ * outcome of its kind and not acknowledged by a release, a required-before-use test due, failed or never passed (a
+ * release cannot clear these: only a passing, approved test can). Each cause
  * has held without a break since its start, so the sterilizer has been out of use since the earliest of them.
  */
 export function sterilizerStatusOf({ schedules, outcomes, manual, now, timeZone, previous }: StatusInput): StatusFinding {
@@ -94,7 +107,8 @@ export function sterilizerStatusOf({ schedules, outcomes, manual, now, timeZone,
   if (lastManual?.status === "out-of-use") {
     causes.push({ kind: "manual", testKind: null, since: lastManual.at, sentence: `Taken out of use by ${lastManual.byName}: ${lastManual.reason.replace(/[.\s]+$/, "")}.` });
   }
-  causes.push(...failureCauses(outcomes, new Set(lastRelease?.acknowledged ?? []), timeZone));
+  const required = new Set(schedules.filter((s) => s.requiredBeforeUse).map((s) => s.kind));
+  causes.push(...failureCauses(outcomes, required, new Set(lastRelease?.acknowledged ?? []), timeZone));
   causes.push(...overdueCauses(schedules, outcomes, now, timeZone));
   causes.sort((a, b) => a.since.localeCompare(b.since));
   if (causes.length > 0) return { status: "out-of-use", reason: causes.map((c) => c.sentence).join(" "), since: causes[0].since, causes };

@@ -3,7 +3,7 @@
 // values (& < > " ').
 import { describe, expect, it } from "vitest";
 import { SAFETY_SHORT } from "@/lib/safety";
-import { analysisFailedMail, cycleApprovedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl, escapeHtml } from "@/lib/mail/templates";
+import { analysisFailedMail, cycleApprovedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl, escapeHtml, sterilizerStatusMail } from "@/lib/mail/templates";
 
 const base = { cycleNumber: "P1-20260310-001", sterilizerName: "Porous load 1", url: "https://papin.marlow-bridge.example/cycles/cy-1" };
 const all = [
@@ -99,5 +99,32 @@ describe("links", () => {
         else process.env[name] = value;
       }
     }
+  });
+});
+
+describe("sterilizer status mail", () => {
+  const url = "https://papin.marlow-bridge.example/sterilizers/st-1";
+  it("says out of use, since when, the reason and that a test cycle may re-qualify it; escapes the name", () => {
+    const m = sterilizerStatusMail({
+      sterilizerName: "Porous <load>\n1",
+      status: "out-of-use",
+      reason: "Bowie-Dick test of 2026-03-10 failed (confirmed).",
+      since: "10 Mar 2026, 07:00",
+      byName: null,
+      url,
+    });
+    expect(m.subject).toBe("Porous <load> 1 is out of use");
+    expect(m.html).toContain("Porous &lt;load&gt;");
+    expect(m.text).toContain("is out of use since 10 Mar 2026, 07:00.");
+    expect(m.text).toContain("> Bowie-Dick test of 2026-03-10 failed (confirmed).");
+    expect(m.text).toContain("A test cycle may still be recorded to re-qualify it");
+    expect(m.text).toContain(url);
+    expect(m.text).toContain(SAFETY_SHORT);
+  });
+
+  it("names the engineer of a signed release", () => {
+    const m = sterilizerStatusMail({ sterilizerName: "Fluids", status: "in-use", reason: "Released by Priya Nair: seal replaced.", since: "11 Mar 2026, 09:00", byName: "Priya Nair", url });
+    expect(m.subject).toBe("Fluids is back in use");
+    expect(m.text).toContain("Fluids is in use since 11 Mar 2026, 09:00, by the signed decision of Priya Nair.");
   });
 });

@@ -50,6 +50,18 @@ describe("a test required before use", () => {
     expect(late.reason).toBe("The air leakage test has been due since 2025-03-10 and is required before use (last passed 2025-03-03).");
   });
 
+  it("a required test that failed after its last pass must pass again: a release acknowledges nothing there", () => {
+    const schedules = [BOWIE_DICK_DAILY];
+    const morning = outcome("bowie-dick", "2025-03-05T06:30:00.000Z", "pass");
+    const failed = outcome("bowie-dick", "2025-03-05T07:00:00.000Z", "fail");
+    const released = [release("2025-03-05T08:00:00.000Z", failuresToAcknowledge([morning, failed]))];
+    const r = statusAt("2025-03-05T08:30:00Z", { schedules, outcomes: [morning, failed], manual: released });
+    expect(r).toMatchObject({ status: "out-of-use", since: "2025-03-05T07:00:00.000Z" });
+    expect(r.reason).toBe("The Bowie-Dick test of 2025-03-05 failed (confirmed); it must pass again before use.");
+    const retest = outcome("bowie-dick", "2025-03-05T09:00:00.000Z", "pass");
+    expect(statusAt("2025-03-05T09:30:00Z", { schedules, outcomes: [morning, failed, retest], manual: released }).status).toBe("in-use");
+  });
+
   it("a test not required before use may be overdue without taking the sterilizer out of use", () => {
     const r = statusAt("2025-09-01T08:00:00Z", { schedules: [THERMOMETRIC_QUARTERLY], outcomes: [outcome("thermometric-small-load", "2025-03-03T07:00:00.000Z", "pass")] });
     expect(r.status).toBe("in-use");
