@@ -41,7 +41,14 @@ export async function getStatusFacts({ siteId, sterilizerId }: { siteId: string;
   const ofSite = and(eq(sterilizers.siteId, siteId), eq(sterilizers.active, true), sterilizerId ? eq(sterilizers.id, sterilizerId) : undefined);
   const [rows, schedules, manual] = await Promise.all([
     db
-      .select({ id: sterilizers.id, name: sterilizers.name, status: sterilizers.status, statusReason: sterilizers.statusReason, statusSince: sterilizers.statusSince })
+      .select({
+        id: sterilizers.id,
+        name: sterilizers.name,
+        status: sterilizers.status,
+        statusReason: sterilizers.statusReason,
+        statusSince: sterilizers.statusSince,
+        createdAt: sterilizers.createdAt,
+      })
       .from(sterilizers)
       .where(ofSite)
       .orderBy(asc(sterilizers.name)),

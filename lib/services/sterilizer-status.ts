@@ -38,7 +38,8 @@ async function evaluate({ siteId, sterilizerId, now }: { siteId: string; sterili
       .filter((m) => m.sterilizerId === row.id)
       .map((m) => ({ status: m.status, at: m.at, reason: m.reason, byName: m.byName ?? "an engineer", acknowledged: m.acknowledged ?? [] }));
     const schedules = facts.schedules.filter((s) => s.sterilizerId === row.id);
-    const input: StatusInput = { schedules, outcomes, manual, now, timeZone, previous: { status: row.status, since: row.statusSince } };
+    // Never judged before (the column's default): in use, if it is, since it was registered.
+    const input: StatusInput = { schedules, outcomes, manual, now, timeZone, previous: { status: row.status, since: row.statusSince ?? row.createdAt } };
     return { row, finding: sterilizerStatusOf(input), input };
   });
   return { evaluated, timeZone };
