@@ -13,6 +13,7 @@ import { resolveCycleStart, siteClockStamp } from "@/lib/cycles/start-time";
 import { sha256Hex } from "@/lib/integrity";
 import type { CreateCycleResponse, InspectResponse } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
+import { settleBowieDickVerdict, verdictOfNewCycle } from "./bowie-dick";
 
 export type UploadedFile = { name: string; bytes: Uint8Array; contentType: string };
 
@@ -131,7 +132,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
       testKind: input.testKind ?? "thermometric-small-load",
       loadDescription: input.load?.trim() ?? "",
       status: "draft",
-      verdict: analysis.result.verdict,
+      verdict: verdictOfNewCycle(input.testKind ?? "thermometric-small-load", analysis.result.verdict),
       startedAt: start.startedAt,
       createdBy: actor.id,
       supersedesId: input.supersedesId ?? null,
@@ -225,6 +226,7 @@ export async function reanalyseCycle({ actor, id, file, mapping }: { actor: Acto
     }),
     inside: (tx) => notifyFailure(tx, id, analysis.result),
   });
+  await settleBowieDickVerdict({ cycleId: id, testKind: cycle.testKind });
   return { id, analysis: analysis.result };
 }
 
