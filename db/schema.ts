@@ -368,7 +368,9 @@ export const attachments = sqliteTable(
     uploadedBy: text("uploaded_by")
       .notNull()
       .references(() => users.id),
-    uploadedAt: createdAt(),
+    uploadedAt: text("uploaded_at")
+      .notNull()
+      .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`),
   },
   (t) => [index("attachments_owner_idx").on(t.ownerKind, t.ownerId)],
 );
@@ -391,7 +393,9 @@ export const indicatorSheets = sqliteTable(
     recordedBy: text("recorded_by")
       .notNull()
       .references(() => users.id),
-    recordedAt: createdAt(),
+    recordedAt: text("recorded_at")
+      .notNull()
+      .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`),
   },
   (t) => [index("indicator_sheets_cycle_idx").on(t.cycleId, t.recordedAt)],
 );
