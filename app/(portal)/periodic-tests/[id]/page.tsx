@@ -77,7 +77,9 @@ export default async function PeriodicTestRecordPage({ params }: { params: Promi
 
           <Panel title={`Signatures (${record.signatures.length})`}>
             {record.signatures.length === 0 ? (
-              <p className="text-sm text-ink-muted">Not signed yet.</p>
+              <p className="text-sm text-ink-muted">
+                {record.status === "submitted" ? "Not signed yet." : "No signature: recorded before periodic-test records were signed, and carried over as approved."}
+              </p>
             ) : (
               <ol className="space-y-3 text-sm" data-testid="periodic-signatures">
                 {record.signatures.map((s) => (
