@@ -11,10 +11,13 @@ const createdAt = () =>
     .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`);
 
 import {
+  ATTACHMENT_OWNER_KINDS,
   CYCLE_STATUSES,
+  INDICATOR_SHEET_RESULTS,
   INSTRUMENT_KINDS,
   MAIL_STATUSES,
   PERIODIC_RECORD_STATUSES,
+  PERIODIC_SIGNATURE_MEANINGS,
   PERIODIC_TEST_KINDS,
   PROFILE_BASES,
   ROLES,
@@ -378,6 +381,79 @@ export const periodicTests = sqliteTable(
   (t) => [index("periodic_tests_sterilizer_idx").on(t.sterilizerId, t.kind, t.performedAt)],
 );
 export type PeriodicTest = typeof periodicTests.$inferSelect;
+
+// Evidence files that are not logger files (a photo of an indicator sheet), kept with their SHA-256. Append-only (triggers).
+export const attachments = sqliteTable(
+  "attachments",
+  {
+    id: id(),
+    siteId: text("site_id")
+      .notNull()
+      .references(() => sites.id),
+    ownerKind: text("owner_kind", { enum: ATTACHMENT_OWNER_KINDS }).notNull(),
+    ownerId: text("owner_id").notNull(),
+    name: text("name").notNull(),
+    contentType: text("content_type").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    sha256: text("sha256").notNull(),
+    bytes: blob("bytes", { mode: "buffer" }).notNull(),
+    uploadedBy: text("uploaded_by")
+      .notNull()
+      .references(() => users.id),
+    uploadedAt: text("uploaded_at")
+      .notNull()
+      .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`),
+  },
+  (t) => [index("attachments_owner_idx").on(t.ownerKind, t.ownerId)],
+);
+export type Attachment = typeof attachments.$inferSelect;
+
+// The indicator-sheet reading of a Bowie-Dick cycle; a correction adds a row, the latest counts. Append-only (triggers).
+export const indicatorSheets = sqliteTable(
+  "indicator_sheets",
+  {
+    id: id(),
+    cycleId: text("cycle_id")
+      .notNull()
+      .references(() => cycles.id),
+    result: text("result", { enum: INDICATOR_SHEET_RESULTS }).notNull(),
+    indicatorLot: text("indicator_lot"),
+    attachmentId: text("attachment_id")
+      .notNull()
+      .references(() => attachments.id),
+    reason: text("reason"),
+    recordedBy: text("recorded_by")
+      .notNull()
+      .references(() => users.id),
+    recordedAt: text("recorded_at")
+      .notNull()
+      .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`),
+  },
+  (t) => [index("indicator_sheets_cycle_idx").on(t.cycleId, t.recordedAt)],
+);
+export type IndicatorSheet = typeof indicatorSheets.$inferSelect;
+
+// Electronic signatures on periodic-test records (21 CFR 11.50/11.70), bound to the record's content hash. Append-only (triggers).
+export const periodicTestSignatures = sqliteTable(
+  "periodic_test_signatures",
+  {
+    id: id(),
+    periodicTestId: text("periodic_test_id")
+      .notNull()
+      .references(() => periodicTests.id),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id),
+    printedName: text("printed_name").notNull(),
+    role: text("role", { enum: ROLES }).notNull(),
+    meaning: text("meaning", { enum: PERIODIC_SIGNATURE_MEANINGS }).notNull(),
+    reason: text("reason"),
+    signedAt: text("signed_at").notNull(),
+    recordHash: text("record_hash").notNull(),
+  },
+  (t) => [index("periodic_test_signatures_test_idx").on(t.periodicTestId)],
+);
+export type PeriodicTestSignature = typeof periodicTestSignatures.$inferSelect;
 
 export const testSchedules = sqliteTable(
   "test_schedules",

@@ -7,6 +7,7 @@ import { FilePanel } from "./file-panel";
 import { needsStartTime, type IntakeInstrument, type IntakeProfile, type IntakeSterilizer } from "./intake-request";
 import { ProgressLine } from "./progress-line";
 import { useIntake } from "./use-intake";
+import { IntakeSheetPanel } from "@/components/bowie-dick/intake-sheet";
 
 type Props = {
   sterilizers: IntakeSterilizer[];
@@ -47,6 +48,7 @@ export function IntakeForm({ sterilizers, profiles, instruments, limitMb, timeZo
         askStartTime={needsStartTime(inspect)}
         timeZone={timeZone}
       />
+      {details.fields.testKind === "bowie-dick" && <IntakeSheetPanel step={inspect ? 4 : 3} errors={intake.sheetErrors} busy={Boolean(busy)} />}
       {busy && busy.label !== "Reading the file" && <ProgressLine busy={busy} />}
       <div className="flex flex-wrap items-center gap-3">
         <button type="submit" className="btn-primary px-5" disabled={Boolean(busy)}>

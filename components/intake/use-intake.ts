@@ -7,6 +7,7 @@ import { RequestError, uploadJson } from "@/lib/client/fetch-json";
 import { FIELD_NAMES, cycleForm, draftProblems, hasProblems, type IntakeDraft, type IntakeInstrument, type IntakeSterilizer } from "./intake-request";
 import { useCycleFields } from "./use-cycle-fields";
 import { problemText, useLoggerFiles, type Busy } from "./use-logger-files";
+import { intakeSheetProblems, sendIntakeSheet } from "@/components/bowie-dick/intake-sheet";
 
 /** The message above the form; it takes the keyboard focus when it appears, so it is read out. */
 function useErrorSummary() {
@@ -37,6 +38,7 @@ export function useIntake({ sterilizers, instruments }: { sterilizers: readonly 
   const ready = useHydrated();
   const [busy, setBusy] = useState<Busy>(null);
   const summary = useErrorSummary();
+  const [sheetErrors, setSheetErrors] = useState<Record<string, string>>({});
   const logger = useLoggerFiles({ instruments, setBusy, onEdit: summary.clear });
   const details = useCycleFields({ sterilizers, instruments, onEdit: summary.clear });
   const instrumentId = details.fields.instrumentId;
@@ -59,9 +61,13 @@ export function useIntake({ sterilizers, instruments }: { sterilizers: readonly 
     }
   }
 
-  async function analyse(event: FormEvent) {
+  async function analyse(event: FormEvent<HTMLFormElement>) {
     event.preventDefault();
     summary.clear();
+    const formElement = event.currentTarget;
+    const bowieDick = details.fields.testKind === "bowie-dick";
+    const sheetProblems = bowieDick ? intakeSheetProblems(formElement) : {};
+    setSheetErrors(sheetProblems);
     const { files, inspect, columns, referenceColumn, freeSpaceColumn } = logger;
     const draft: IntakeDraft = { files, inspect, columns, referenceColumn, freeSpaceColumn, fields: details.fields, saveMapping: details.saveMapping };
     const problems = draftProblems(draft);
@@ -69,7 +75,7 @@ export function useIntake({ sterilizers, instruments }: { sterilizers: readonly 
     logger.setMappingErrors(problems.mappingErrors);
     logger.setPressureReferenceError(problems.pressureReferenceError);
     if (problems.fileError) logger.setFileError(problems.fileError);
-    if (hasProblems(problems)) {
+    if (hasProblems(problems) || Object.keys(sheetProblems).length > 0) {
       summary.show("Some details need attention before the cycle can be analysed; they are marked below.");
       return;
     }
@@ -80,6 +86,8 @@ export function useIntake({ sterilizers, instruments }: { sterilizers: readonly 
         signal: controller.signal,
         onProgress: (progress) => setBusy({ label: "Analysing", progress, cancel: () => controller.abort() }),
       });
+      // A refused sheet still opens the record: the cycle is saved and its page asks for the sheet again.
+      if (bowieDick) await sendIntakeSheet(created.id, formElement);
       setBusy({ label: "Opening the record", progress: { stage: "processing" }, cancel: () => {} });
       router.push(`/cycles/${created.id}`);
     } catch (error) {
@@ -94,6 +102,7 @@ export function useIntake({ sterilizers, instruments }: { sterilizers: readonly 
     summary,
     logger,
     details,
+    sheetErrors,
     chooseInstrument,
     addFiles: (added: File[]) => logger.addFiles(added, instrumentId),
     removeFile: (index: number) => logger.removeFile(index, instrumentId),

@@ -10,6 +10,9 @@ import { evaluateAirLeakage } from "@/lib/periodic-tests/air-leakage";
 import { evaluateBowieDick } from "@/lib/periodic-tests/bowie-dick";
 import { evaluateDryness, evaluateNonCondensableGas, evaluateSuperheat } from "@/lib/periodic-tests/steam-quality";
 import { AIR_LEAKAGE, DRYNESS, NON_CONDENSABLE_GAS, SUPERHEAT } from "@/lib/periodic-tests/limits";
+import type { IndicatorSheetResult } from "@/lib/domain";
+import { IndicatorPhotoField } from "@/components/bowie-dick/photo-field";
+import { IndicatorSheetFields } from "@/components/bowie-dick/sheet-fields";
 
 export type SterilizerChoice = { id: string; name: string; serialNumber: string; active: boolean };
 export type SiteAtmosphere = { atmosphereKpa: number | null; altitudeM: number | null };
@@ -204,35 +207,23 @@ export function AirLeakageForm({ sterilizers, sterilizerId }: { sterilizers: Ste
 
 export function BowieDickForm({ sterilizers, sterilizerId }: { sterilizers: SterilizerChoice[]; sterilizerId?: string }) {
   const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(recordBowieDickAction);
-  const [outcome, setOutcome] = useState<"" | "uniform" | "non-uniform">("");
-  useClearOnSuccess(state, () => setOutcome(""));
+  const [outcome, setOutcome] = useState<"" | IndicatorSheetResult>("");
+  const [savedCount, setSavedCount] = useState(0);
+  useClearOnSuccess(state, () => {
+    setOutcome("");
+    setSavedCount((n) => n + 1);
+  });
   const r = outcome ? evaluateBowieDick(outcome) : null;
   return (
-    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record a Bowie-Dick test">
-      <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors}>
-        <TextInput id="bd-lot" name="indicatorLot" label="Indicator lot (optional)" error={errors.indicatorLot} />
-      </CommonFields>
-      <fieldset>
-        <legend className="field-label">How did the indicator sheet change?</legend>
-        <div className="flex flex-col gap-2 sm:flex-row">
-          {(
-            [
-              ["uniform", "Uniform change over the whole sheet"],
-              ["non-uniform", "Non-uniform: a paler or uneven area"],
-            ] as const
-          ).map(([v, label]) => (
-            <label key={v} className={`flex flex-1 cursor-pointer items-center gap-2 rounded-md border px-3 py-2 text-sm ${outcome === v ? "border-steam-500 bg-steam-50" : "border-ink-line"}`}>
-              <input type="radio" name="outcome" value={v} checked={outcome === v} onChange={() => setOutcome(v)} /> {label}
-            </label>
-          ))}
-        </div>
-        {errors.outcome && <p className="field-error">{errors.outcome}</p>}
-      </fieldset>
+    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record a Bowie-Dick test" encType="multipart/form-data">
+      <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors} />
+      <IndicatorSheetFields key={savedCount} idPrefix="bd" errors={errors} onChange={(v) => setOutcome(v.outcome)} />
+      <IndicatorPhotoField id="bd-photo" error={errors.photo} resetKey={savedCount} />
       <ResultPreview
         preview={r ? { passed: r.passed, headline: r.meaning, limit: "a uniform colour change over the whole sheet", basis: r.basis } : null}
         waiting="Choose how the indicator changed."
       />
-      <p className="text-xs text-ink-muted">A photo of the sheet cannot be attached yet: keep the sheet itself with the day&apos;s records and describe anything unusual in the notes.</p>
+      <p className="text-xs text-ink-muted">The record waits for an engineer&apos;s signature; it counts for the schedule once approved (pass) or confirmed as a failure (fail).</p>
       <Notes error={errors.notes} />
       <SaveBar state={state} pending={pending} />
     </form>

@@ -1,8 +1,13 @@
 import "server-only";
 import { and, count, desc, eq, gte, inArray, lte, max, ne, sql, type SQL } from "drizzle-orm";
-import { getDb } from "@/db";
-import { cycles, periodicTests, sterilizers, testSchedules, users, type PeriodicTestKind, type TestKind } from "@/db/schema";
+import { getDb, type Executor } from "@/db";
+import { cycles, periodicTests, periodicTestSignatures, sterilizers, testSchedules, users, type PeriodicTestKind, type TestKind } from "@/db/schema";
 import { appendAuditEvent, type AuditInput } from "@/db/ledger";
+import type { PeriodicRecordStatus } from "@/lib/domain";
+import { insertAttachment, type NewAttachment } from "./attachments";
+
+/** Only a signed result is evidence: approved (a pass) or failure-confirmed (a fail). Submitted and returned records do not count. */
+const SIGNED_RESULT_STATUSES = ["approved", "failure-confirmed"] as const satisfies readonly PeriodicRecordStatus[];
 
 const startedOrCreated = sql<string>`coalesce(${cycles.startedAt}, ${cycles.createdAt})`;
 
@@ -10,7 +15,7 @@ const startedOrCreated = sql<string>`coalesce(${cycles.startedAt}, ${cycles.crea
  * What the schedule of the site's sterilizers (or one of them) is judged from: each scheduled
  * test, the latest pass and the latest attempt of each recorded kind, and for the kinds
  * evidenced by a logged cycle the latest approved pass, the latest approved failure and the
- * passing cycles still waiting for sign-off.
+ * passing cycles still waiting for sign-off. Only signed periodic-test records count.
  */
 export async function getScheduleFacts({
   siteId,
@@ -24,7 +29,8 @@ export async function getScheduleFacts({
   const db = getDb();
   const ofSterilizer = sterilizerId ? eq(periodicTests.sterilizerId, sterilizerId) : undefined;
   const byCycle = inArray(cycles.testKind, [...cycleEvidencedKinds]);
-  const [schedules, passes, attempts, cyclePasses, cycleFailures, awaitingSignOff] = await Promise.all([
+  const signed = inArray(periodicTests.status, SIGNED_RESULT_STATUSES);
+  const [schedules, passes, attempts, cyclePasses, cycleFailures, awaitingSignOff, recordsAwaitingSignOff] = await Promise.all([
     db
       .select({ sterilizerId: testSchedules.sterilizerId, kind: testSchedules.kind, intervalDays: testSchedules.intervalDays, sterilizerName: sterilizers.name, sterilizerActive: sterilizers.active })
       .from(testSchedules)
@@ -33,9 +39,9 @@ export async function getScheduleFacts({
     db
       .select({ sterilizerId: periodicTests.sterilizerId, kind: periodicTests.kind, at: max(periodicTests.performedAt) })
       .from(periodicTests)
-      .where(and(eq(periodicTests.siteId, siteId), eq(periodicTests.result, "pass"), ofSterilizer))
+      .where(and(eq(periodicTests.siteId, siteId), eq(periodicTests.result, "pass"), signed, ofSterilizer))
       .groupBy(periodicTests.sterilizerId, periodicTests.kind),
-    // The latest attempt of each kind, whatever its result.
+    // The latest signed attempt of each kind, whatever its result.
     db
       .select({ sterilizerId: periodicTests.sterilizerId, kind: periodicTests.kind, at: periodicTests.performedAt, result: periodicTests.result })
       .from(periodicTests)
@@ -43,7 +49,8 @@ export async function getScheduleFacts({
         and(
           eq(periodicTests.siteId, siteId),
           ofSterilizer,
-          sql`${periodicTests.performedAt} = (select max(p2.performed_at) from periodic_tests p2 where p2.sterilizer_id = ${periodicTests.sterilizerId} and p2.kind = ${periodicTests.kind})`,
+          signed,
+          sql`${periodicTests.performedAt} = (select max(p2.performed_at) from periodic_tests p2 where p2.sterilizer_id = ${periodicTests.sterilizerId} and p2.kind = ${periodicTests.kind} and p2.status in ('approved', 'failure-confirmed'))`,
         ),
       ),
     db
@@ -61,11 +68,16 @@ export async function getScheduleFacts({
       .from(cycles)
       .where(and(eq(cycles.siteId, siteId), ne(cycles.status, "approved"), ne(cycles.status, "rejected"), eq(cycles.verdict, "pass"), byCycle))
       .groupBy(cycles.sterilizerId, cycles.testKind),
+    db
+      .select({ sterilizerId: periodicTests.sterilizerId, kind: periodicTests.kind, n: count() })
+      .from(periodicTests)
+      .where(and(eq(periodicTests.siteId, siteId), eq(periodicTests.status, "submitted"), ofSterilizer))
+      .groupBy(periodicTests.sterilizerId, periodicTests.kind),
   ]);
-  return { schedules, passes, attempts, cyclePasses, cycleFailures, awaitingSignOff };
+  return { schedules, passes, attempts, cyclePasses, cycleFailures, awaitingSignOff, recordsAwaitingSignOff };
 }
 
-export type PeriodicTestFilter = { sterilizer?: string; kind?: string; result?: "pass" | "fail"; from?: string; to?: string };
+export type PeriodicTestFilter = { sterilizer?: string; kind?: string; result?: "pass" | "fail"; status?: PeriodicRecordStatus; from?: string; to?: string };
 
 /** One page of the site's recorded tests, newest first. */
 export async function listPeriodicTestsOfSite({ siteId, filter, page, pageSize }: { siteId: string; filter: PeriodicTestFilter; page: number; pageSize: number }) {
@@ -74,6 +86,7 @@ export async function listPeriodicTestsOfSite({ siteId, filter, page, pageSize }
   if (filter.sterilizer) conditions.push(eq(periodicTests.sterilizerId, filter.sterilizer));
   if (filter.kind) conditions.push(eq(periodicTests.kind, filter.kind as PeriodicTestKind));
   if (filter.result) conditions.push(eq(periodicTests.result, filter.result));
+  if (filter.status) conditions.push(eq(periodicTests.status, filter.status));
   if (filter.from) conditions.push(gte(periodicTests.performedAt, filter.from));
   if (filter.to) conditions.push(lte(periodicTests.performedAt, `${filter.to}T23:59:59.999Z`));
   const where = and(...conditions);
@@ -84,6 +97,7 @@ export async function listPeriodicTestsOfSite({ siteId, filter, page, pageSize }
         kind: periodicTests.kind,
         performedAt: periodicTests.performedAt,
         result: periodicTests.result,
+        status: periodicTests.status,
         measurements: periodicTests.measurements,
         notes: periodicTests.notes,
         sterilizerId: periodicTests.sterilizerId,
@@ -110,10 +124,80 @@ export async function listSterilizerChoicesOfSite({ siteId }: { siteId: string }
     .orderBy(desc(sterilizers.active), sterilizers.name);
 }
 
-export async function insertPeriodicTest({ values, audit }: { values: typeof periodicTests.$inferInsert; audit: Omit<AuditInput, "entityType" | "entityId"> }) {
+/** A new record with its audit event and, for a Bowie-Dick test, the photo of its indicator sheet, in one transaction. */
+export async function insertPeriodicTest({ values, photo, audit }: { values: typeof periodicTests.$inferInsert; photo?: NewAttachment; audit: Omit<AuditInput, "entityType" | "entityId"> }) {
   return getDb().transaction(async (tx) => {
     const [created] = await tx.insert(periodicTests).values(values).returning();
-    await appendAuditEvent(tx, { ...audit, entityType: "periodic-test", entityId: created.id });
+    const attachment = photo ? await insertAttachment(tx, { ownerId: created.id, values: photo }) : undefined;
+    const newValue = attachment ? { ...(audit.newValue as object), photo: { attachment: attachment.id, name: photo!.name, sha256: attachment.sha256 } } : audit.newValue;
+    await appendAuditEvent(tx, { ...audit, newValue, entityType: "periodic-test", entityId: created.id });
     return created;
   });
+}
+
+/** One record of the site with its sterilizer and who recorded it; undefined off the site. */
+export async function getPeriodicTestOfSite({ siteId, id, tx }: { siteId: string; id: string; tx?: Executor }) {
+  const [row] = await (tx ?? getDb())
+    .select({ test: periodicTests, sterilizerName: sterilizers.name, sterilizerSerial: sterilizers.serialNumber, performedByName: users.name })
+    .from(periodicTests)
+    .innerJoin(sterilizers, eq(periodicTests.sterilizerId, sterilizers.id))
+    .innerJoin(users, eq(periodicTests.performedBy, users.id))
+    .where(and(eq(periodicTests.id, id), eq(periodicTests.siteId, siteId)))
+    .limit(1);
+  return row;
+}
+
+export async function listPeriodicTestSignatures({ periodicTestId }: { periodicTestId: string }) {
+  return getDb().select().from(periodicTestSignatures).where(eq(periodicTestSignatures.periodicTestId, periodicTestId)).orderBy(periodicTestSignatures.signedAt);
+}
+
+/**
+ * Applies a signature to a submitted record in one transaction: the status, the signature, the
+ * signer's cleared failure count and the audit event. `before` runs first and may refuse (the
+ * record changed since it was hashed). False when the record was no longer submitted.
+ */
+export async function applyPeriodicTestSignature({
+  signature,
+  nextStatus,
+  audit,
+  before,
+}: {
+  signature: typeof periodicTestSignatures.$inferInsert & { id: string };
+  nextStatus: PeriodicRecordStatus;
+  audit: AuditInput;
+  before: (tx: Executor) => Promise<void>;
+}): Promise<boolean> {
+  return getDb().transaction(async (tx) => {
+    await before(tx);
+    const moved = await tx
+      .update(periodicTests)
+      .set({ status: nextStatus })
+      .where(and(eq(periodicTests.id, signature.periodicTestId), eq(periodicTests.status, "submitted")))
+      .returning({ id: periodicTests.id });
+    if (moved.length === 0) return false;
+    await tx.insert(periodicTestSignatures).values(signature);
+    await tx.update(users).set({ failedSigningAttempts: 0, signingLockedUntil: null }).where(eq(users.id, signature.userId));
+    await appendAuditEvent(tx, audit);
+    return true;
+  });
+}
+
+/** The site's records waiting for an engineer's signature, the longest-waiting first. */
+export async function listPeriodicTestsAwaitingReview({ siteId }: { siteId: string }) {
+  return getDb()
+    .select({
+      id: periodicTests.id,
+      kind: periodicTests.kind,
+      performedAt: periodicTests.performedAt,
+      result: periodicTests.result,
+      sterilizerName: sterilizers.name,
+      performedBy: periodicTests.performedBy,
+      performedByName: users.name,
+      createdAt: periodicTests.createdAt,
+    })
+    .from(periodicTests)
+    .innerJoin(sterilizers, eq(periodicTests.sterilizerId, sterilizers.id))
+    .innerJoin(users, eq(periodicTests.performedBy, users.id))
+    .where(and(eq(periodicTests.siteId, siteId), eq(periodicTests.status, "submitted")))
+    .orderBy(periodicTests.createdAt);
 }

@@ -13,6 +13,7 @@ export const PERMISSIONS = {
   "equipment:read": ["technician", "engineer", "auditor"],
   "equipment:manage": ["engineer"],
   "periodic-test:record": ["technician", "engineer"],
+  "periodic-test:sign": ["engineer"],
   "archive:read": ["engineer", "auditor"],
   "report:read": ["technician", "engineer", "auditor"],
   "report:verify": ["technician", "engineer", "auditor", "admin"],

@@ -36,3 +36,33 @@ export function testKindLabel(kind: string): string {
  */
 export const PERIODIC_RECORD_STATUSES = ["submitted", "approved", "failure-confirmed", "returned"] as const;
 export type PeriodicRecordStatus = (typeof PERIODIC_RECORD_STATUSES)[number];
+
+export const PERIODIC_RECORD_STATUS_LABELS: Record<PeriodicRecordStatus, string> = {
+  submitted: "Awaiting review",
+  approved: "Approved",
+  "failure-confirmed": "Failure confirmed",
+  returned: "Returned",
+};
+
+/** What an engineer's signature on a periodic-test record means; the record's status follows it. */
+export const PERIODIC_SIGNATURE_MEANINGS = ["approved", "failure-confirmed", "returned"] as const;
+export type PeriodicSignatureMeaning = (typeof PERIODIC_SIGNATURE_MEANINGS)[number];
+
+export const PERIODIC_SIGNATURE_MEANING_LABELS: Record<PeriodicSignatureMeaning, string> = {
+  approved: "Approved: the test passed and is accepted as evidence",
+  "failure-confirmed": "Failure confirmed: the test failed and closes as a signed failure",
+  returned: "Returned: a data or entry problem; the test is recorded again",
+};
+
+/** The reading of a steam-penetration (Bowie-Dick) indicator sheet: only a uniform colour change passes (DOMAIN.md §2.7). */
+export const INDICATOR_SHEET_RESULTS = ["uniform", "non-uniform"] as const;
+export type IndicatorSheetResult = (typeof INDICATOR_SHEET_RESULTS)[number];
+
+export const INDICATOR_SHEET_RESULT_LABELS: Record<IndicatorSheetResult, string> = {
+  uniform: "Uniform colour change",
+  "non-uniform": "Not uniform (paler or uneven area)",
+};
+
+/** Where an attachment (a photo of an indicator sheet) belongs. */
+export const ATTACHMENT_OWNER_KINDS = ["cycle", "periodic-test"] as const;
+export type AttachmentOwnerKind = (typeof ATTACHMENT_OWNER_KINDS)[number];

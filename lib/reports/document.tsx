@@ -16,6 +16,7 @@ import { TimeChart } from "./time-chart";
 import { DraftWatermark } from "./watermark";
 import { Fact, Heading, T, TableHead, type Column } from "./parts";
 import { ChannelsSection, RecordInputSection } from "./record-sections";
+import { BowieDickSection } from "./bowie-dick-section";
 
 const verdictColours = {
   pass: { border: colour.pass500, background: colour.pass50, ink: colour.pass700, word: "PASS", caption: "VERDICT" },
@@ -286,7 +287,8 @@ function SignaturesSection({ signatures, zone }: { signatures: SignatureView[]; 
 
 export function CycleReportDocument({ model }: { model: ReportModel }) {
   const { detail, series, reportNumber, generatedAt, verifyHint, draft } = model;
-  const analysis = detail.analysis;
+  // A Bowie-Dick cycle is judged by its indicator sheet (its own section); the thermometric findings are not its verdict.
+  const analysis = model.bowieDick === undefined ? detail.analysis : null;
   const zone = detail.site.timeZone;
   const startIso = detail.startedAt ?? series.startedAt ?? analysis?.record.startedAt ?? null;
   const start = startIso ? instantOf(startIso, zone) : null;
@@ -379,20 +381,24 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           <T style={s.titleMeta}>{`Started ${started.site}  ·  Status: ${STATUS_TEXT[detail.status]}`}</T>
         </View>
 
-        <View style={[s.verdict, { borderColor: v.border, backgroundColor: v.background }]} wrap={false}>
-          <View style={s.verdictWordBox}>
-            <T style={[s.verdictCaption, { color: v.ink }]}>{v.caption}</T>
-            <T style={[s.verdictWord, { color: v.ink }, verdictKey === "none" ? { fontSize: 18 } : {}]}>{v.word}</T>
+        {model.bowieDick !== undefined ? (
+          <BowieDickSection sheet={model.bowieDick} zone={zone} />
+        ) : (
+          <View style={[s.verdict, { borderColor: v.border, backgroundColor: v.background }]} wrap={false}>
+            <View style={s.verdictWordBox}>
+              <T style={[s.verdictCaption, { color: v.ink }]}>{v.caption}</T>
+              <T style={[s.verdictWord, { color: v.ink }, verdictKey === "none" ? { fontSize: 18 } : {}]}>{v.word}</T>
+            </View>
+            <View style={[s.verdictBody, { borderLeftColor: v.border }]}>
+              <T style={s.verdictSummary}>{analysis ? analysis.summary : "This cycle has no analysis yet, so it has no verdict."}</T>
+              {analysis ? (
+                <T style={[s.small, { marginTop: 3 }]}>
+                  {`${analysis.checks.filter((c) => c.passed).length} of ${analysis.checks.length} checks passed against the acceptance profile "${detail.profile.name}".`}
+                </T>
+              ) : null}
+            </View>
           </View>
-          <View style={[s.verdictBody, { borderLeftColor: v.border }]}>
-            <T style={s.verdictSummary}>{analysis ? analysis.summary : "This cycle has no analysis yet, so it has no verdict."}</T>
-            {analysis ? (
-              <T style={[s.small, { marginTop: 3 }]}>
-                {`${analysis.checks.filter((c) => c.passed).length} of ${analysis.checks.length} checks passed against the acceptance profile "${detail.profile.name}".`}
-              </T>
-            ) : null}
-          </View>
-        </View>
+        )}
 
         {failures.length > 0 ? (
           <View style={{ marginBottom: 5 }}>
@@ -451,8 +457,8 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           <Fact label="Instrument">{detail.instrument ? `${detail.instrument.name}, serial ${detail.instrument.serialNumber}` : "not recorded"}</Fact>
         </View>
 
-        <Heading>Checks against the acceptance limits</Heading>
-        {analysis ? (
+        {model.bowieDick !== undefined ? null : <Heading>Checks against the acceptance limits</Heading>}
+        {model.bowieDick !== undefined ? null : analysis ? (
           <View style={s.table}>
             <TableHead columns={checkColumns} />
             {analysis.checks.map((c) => (

@@ -14,6 +14,7 @@ import { sha256Hex } from "@/lib/integrity";
 import type { CreateCycleResponse, InspectResponse } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
 import { listSterilizerCatalog } from "./catalog";
+import { settleBowieDickVerdict, verdictOfNewCycle } from "./bowie-dick";
 
 export type UploadedFile = { name: string; bytes: Uint8Array; contentType: string };
 
@@ -141,7 +142,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
       testKind: input.testKind ?? "thermometric-small-load",
       loadDescription: input.load?.trim() ?? "",
       status: "draft",
-      verdict: analysis.result.verdict,
+      verdict: verdictOfNewCycle(input.testKind ?? "thermometric-small-load", analysis.result.verdict),
       startedAt: start.startedAt,
       createdBy: actor.id,
       supersedesId: input.supersedesId ?? null,
@@ -235,6 +236,7 @@ export async function reanalyseCycle({ actor, id, file, mapping }: { actor: Acto
     }),
     inside: (tx) => notifyFailure(tx, id, analysis.result),
   });
+  await settleBowieDickVerdict({ cycleId: id, testKind: cycle.testKind });
   return { id, analysis: analysis.result };
 }
 

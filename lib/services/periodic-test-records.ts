@@ -9,6 +9,8 @@ import { evaluateAirLeakage, evaluateBowieDick, evaluateDryness, evaluateNonCond
 import { SteamRangeError } from "@/lib/steam";
 import type { airLeakageSchema, bowieDickSchema, drynessSchema, nonCondensableGasSchema, superheatSchema } from "@/lib/validations/periodic-tests";
 import { auditActor, siteIdOf } from "./site";
+import { photoAttachment, readIndicatorPhoto } from "./bowie-dick";
+import type { UploadedBlob } from "@/lib/validations/periodic-tests";
 
 /** The server recomputes every result from the raw readings; the preview in the form is only a preview. */
 function compute<T>(field: string | ((message: string) => string), fn: () => T): T {
@@ -23,21 +25,31 @@ function compute<T>(field: string | ((message: string) => string), fn: () => T):
 }
 
 type Common = { sterilizerId: string; performedAt: string; notes: string | null };
-export type RecordedTest = { sterilizerName: string; passed: boolean };
+export type RecordedTest = { id: string; sterilizerName: string; passed: boolean };
 
-/** Records one test on an in-use sterilizer of the actor's site, audited. */
-async function record(actor: Actor, input: Common, kind: PeriodicTestKind, passed: boolean, measurements: Record<string, unknown>): Promise<RecordedTest> {
+/**
+ * Records one test on an in-use sterilizer of the actor's site, audited. It waits for an
+ * engineer's signature ("submitted"): only a signed result counts for the schedule and status.
+ */
+async function record(actor: Actor, input: Common, kind: PeriodicTestKind, passed: boolean, measurements: Record<string, unknown>, photoUpload?: UploadedBlob): Promise<RecordedTest> {
   const siteId = siteIdOf(actor);
   const sterilizer = await getSterilizerForSite({ actor, id: input.sterilizerId });
   if (!sterilizer) throw new AppError(404, "That sterilizer was not found on your site.", "sterilizerId");
   if (!sterilizer.active) throw new AppError(409, `${sterilizer.name} is retired; tests cannot be recorded for it.`, "sterilizerId");
+  const photo = photoUpload ? await readIndicatorPhoto(photoUpload) : undefined;
   const { sterilizerId, performedAt, notes } = input;
   const result = passed ? "pass" : "fail";
-  await insertPeriodicTest({
-    values: { siteId, sterilizerId, kind, performedAt, performedBy: actor.id, result, measurements, notes },
-    audit: { ...auditActor(actor), siteId, action: "periodic-test.record", newValue: { sterilizer: sterilizer.name, sterilizerId, kind, performedAt, result, measurements, notes } },
+  const created = await insertPeriodicTest({
+    values: { siteId, sterilizerId, kind, performedAt, performedBy: actor.id, result, status: "submitted", measurements, notes },
+    photo: photo ? photoAttachment(actor, siteId, "periodic-test", photo) : undefined,
+    audit: {
+      ...auditActor(actor),
+      siteId,
+      action: "periodic-test.record",
+      newValue: { sterilizer: sterilizer.name, sterilizerId, kind, performedAt, result, status: "submitted", measurements, notes },
+    },
   });
-  return { sterilizerName: sterilizer.name, passed };
+  return { id: created.id, sterilizerName: sterilizer.name, passed };
 }
 
 export async function recordAirLeakage({ actor, input }: { actor: Actor; input: z.infer<typeof airLeakageSchema> }) {
@@ -62,9 +74,11 @@ export async function recordAirLeakage({ actor, input }: { actor: Actor; input: 
   });
 }
 
+/** A Bowie-Dick test judged by its indicator sheet; the photo of the sheet is kept with its SHA-256. */
 export async function recordBowieDick({ actor, input }: { actor: Actor; input: z.infer<typeof bowieDickSchema> }) {
   const r = evaluateBowieDick(input.outcome);
-  return record(actor, input, "bowie-dick", r.passed, { indicator: input.outcome === "uniform" ? "uniform change" : "non-uniform change", indicatorLot: input.indicatorLot, basis: r.basis });
+  const measurements = { indicator: input.outcome === "uniform" ? "uniform change" : "non-uniform change", indicatorLot: input.indicatorLot, basis: r.basis };
+  return record(actor, input, "bowie-dick", r.passed, measurements, input.photo);
 }
 
 export async function recordNonCondensableGas({ actor, input }: { actor: Actor; input: z.infer<typeof nonCondensableGasSchema> }) {

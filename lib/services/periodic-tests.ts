@@ -20,6 +20,8 @@ type ScheduleRow = {
   lastAttempt: { at: string; result: "pass" | "fail" } | null;
   /** passing cycles of this kind that still wait for sign-off (thermometric tests only) */
   awaitingSignOff: number;
+  /** recorded tests of this kind waiting for an engineer's signature; they do not count until signed */
+  recordsAwaitingSignOff: number;
   status: ScheduleStatus;
   needsAction: boolean;
 };
@@ -40,6 +42,7 @@ export async function getScheduleOverview({ actor, sterilizerId, now = new Date(
   const cyclePassBy = new Map(facts.cyclePasses.map((c) => [key(c.sterilizerId, c.kind), c.at]));
   const cycleFailBy = new Map(facts.cycleFailures.map((c) => [key(c.sterilizerId, c.kind), c.at]));
   const pendingBy = new Map(facts.awaitingSignOff.map((p) => [key(p.sterilizerId, p.kind), p.n]));
+  const pendingRecordsBy = new Map(facts.recordsAwaitingSignOff.map((p) => [key(p.sterilizerId, p.kind), p.n]));
 
   const rows: ScheduleRow[] = facts.schedules.map((s) => {
     const k = key(s.sterilizerId, s.kind);
@@ -52,7 +55,15 @@ export async function getScheduleOverview({ actor, sterilizerId, now = new Date(
       if (lastPassAt && (!lastAttempt || lastPassAt > lastAttempt.at)) lastAttempt = { at: lastPassAt, result: "pass" };
     }
     const status = scheduleStatus({ intervalDays: s.intervalDays, lastPassAt, lastAttempt, today, timeZone });
-    return { ...s, lastPassAt, lastAttempt, awaitingSignOff: pendingBy.get(k) ?? 0, status, needsAction: s.sterilizerActive && needsAction(status.state) };
+    return {
+      ...s,
+      lastPassAt,
+      lastAttempt,
+      awaitingSignOff: pendingBy.get(k) ?? 0,
+      recordsAwaitingSignOff: pendingRecordsBy.get(k) ?? 0,
+      status,
+      needsAction: s.sterilizerActive && needsAction(status.state),
+    };
   });
   rows.sort(
     (a, b) => SCHEDULE_URGENCY[a.status.state] - SCHEDULE_URGENCY[b.status.state] || (a.status.dueOn ?? "").localeCompare(b.status.dueOn ?? "") || a.sterilizerName.localeCompare(b.sterilizerName),

@@ -2,6 +2,7 @@ import "server-only";
 import type { Signature } from "@/db/schema";
 import { getRecordBundleRows, type RecordBundleRows } from "@/db/queries/signature-bundle";
 import { canonicalJson, sha256Hex } from "@/lib/integrity";
+import { indicatorSheetBundle } from "./bowie-dick";
 
 type Executor = Parameters<typeof getRecordBundleRows>[0]["tx"];
 
@@ -35,11 +36,14 @@ function bundleOf({ cycle, analysis, files }: RecordBundleRows) {
   };
 }
 
-export type RecordBundle = ReturnType<typeof bundleOf>;
+export type RecordBundle = ReturnType<typeof bundleOf> & { indicatorSheet?: Awaited<ReturnType<typeof indicatorSheetBundle>> };
 
 export async function buildRecordBundle({ cycleId, analysisId, tx }: { cycleId: string; analysisId: string; tx?: Executor }): Promise<RecordBundle | null> {
   const rows = await getRecordBundleRows({ cycleId, analysisId, tx });
-  return rows ? bundleOf(rows) : null;
+  if (!rows) return null;
+  // A Bowie-Dick cycle's verdict is its indicator sheet: the signature binds the reading and its photo (absent on other cycles, so their hashes stay as they were).
+  const indicatorSheet = rows.cycle.testKind === "bowie-dick" ? await indicatorSheetBundle({ cycleId, tx }) : undefined;
+  return indicatorSheet ? { ...bundleOf(rows), indicatorSheet } : bundleOf(rows);
 }
 
 export type SignedFields = Pick<Signature, "cycleId" | "analysisId" | "userId" | "printedName" | "role" | "meaning" | "reason" | "signedAt">;

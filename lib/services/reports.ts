@@ -9,6 +9,7 @@ import type { CycleDetail } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
 import { getCycleDetail } from "./cycles";
 import { getCycleSeries } from "./cycle-series";
+import { getIndicatorSheetForReport } from "./bowie-dick";
 
 const REPORT_VERIFY_HINT =
   "To check this report, sign in to Papin and drop the PDF on Signed archive → Check a report, or POST it to /api/reports/verify. A byte-for-byte match names the archived record.";
@@ -21,7 +22,8 @@ export function reportNumberFor(detail: CycleDetail, at: string) {
 export async function renderReport(actor: Actor, detail: CycleDetail, reportNumber: string, generatedAt: string, draft: boolean) {
   const series = await getCycleSeries({ actor, id: detail.id, points: 1200 });
   if (!series) throw new AppError(409, "This cycle has no chart data to print.");
-  return renderCycleReport({ detail, series, reportNumber, generatedAt, verifyHint: REPORT_VERIFY_HINT, draft });
+  const bowieDick = await getIndicatorSheetForReport({ cycleId: detail.id, testKind: detail.testKind });
+  return renderCycleReport({ detail, series, reportNumber, generatedAt, verifyHint: REPORT_VERIFY_HINT, draft, bowieDick });
 }
 
 /**

@@ -11,6 +11,7 @@ import type { CycleDetail } from "@/lib/cycles/contracts";
 import { assertAllowed } from "./access";
 import { getCycleDetail } from "./cycles";
 import { reauthenticate } from "./reauthenticate";
+import { assertBowieDickSignable } from "./bowie-dick";
 import { buildRecordBundle, signatureHash, type SignedFields } from "./record-bundle";
 import { renderReport, reportNumberFor } from "./reports";
 
@@ -77,6 +78,7 @@ export async function signCycle({ actor, id, password, meaning, reason }: SignIn
   const now = new Date();
   const signer = await reauthenticate({ actor, password, now, entity: { type: "cycle", id: cycle.id } });
   const cleanReason = reason?.trim() || null;
+  await assertBowieDickSignable({ actor, cycle, meaning });
   await assertSignable(actor, cycle, meaning, cleanReason);
   const analysisId = cycle.currentAnalysisId!;
 

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { PRESSURE_UNITS, VERDICTS } from "@/lib/domain";
+import { INDICATOR_SHEET_RESULTS, PERIODIC_RECORD_STATUSES, PERIODIC_SIGNATURE_MEANINGS, PRESSURE_UNITS, VERDICTS } from "@/lib/domain";
 import { numberField, optionalNumberField } from "./equipment";
 
 const common = {
@@ -31,14 +31,39 @@ export const airLeakageSchema = z.object({
   p3: numberField("p3", { min: 0, max: 1e6 }),
 });
 
-export const bowieDickSchema = z.object({
-  ...common,
-  outcome: z.enum(["uniform", "non-uniform"], { error: "Say whether the indicator changed uniformly." }),
-  indicatorLot: z
+/** A file field of a form: a browser sends an empty, nameless file when none was chosen. */
+export type UploadedBlob = { name: string; size: number; arrayBuffer(): Promise<ArrayBuffer> };
+const isChosenFile = (v: unknown): v is UploadedBlob => typeof v === "object" && v !== null && "arrayBuffer" in v && "size" in v && ((v as UploadedBlob).size > 0 || !!(v as UploadedBlob).name);
+
+/** The indicator sheet of a Bowie-Dick test: its reading, its lot and a photo of it (checked for type and size by the service). */
+export const indicatorSheetFields = {
+  outcome: z.enum(INDICATOR_SHEET_RESULTS, { error: "Say whether the indicator sheet changed colour uniformly." }),
+  indicatorLot: z.string({ error: "Enter the indicator's lot number." }).trim().min(1, "Enter the indicator's lot number.").max(80, "Keep the lot number under 80 characters."),
+  photo: z.custom<UploadedBlob>(isChosenFile, "Attach a photo of the indicator sheet (JPEG or PNG, up to 10 MB)."),
+};
+
+export const bowieDickSchema = z.object({ ...common, ...indicatorSheetFields });
+
+/** The sheet of a Bowie-Dick cycle; a second reading replaces the first only with a reason. */
+export const cycleIndicatorSheetSchema = z.object({
+  ...indicatorSheetFields,
+  reason: z
     .string()
     .trim()
-    .max(80)
+    .max(500, "Keep the reason under 500 characters.")
     .optional()
+    .transform((s) => (s ? s : null)),
+});
+
+export const periodicSignatureSchema = z.object({
+  password: z.string({ error: "Enter your password to sign." }).min(1, "Enter your password to sign."),
+  meaning: z.enum(PERIODIC_SIGNATURE_MEANINGS, { error: "Choose what your signature means: approved, failure confirmed or returned." }),
+  reason: z
+    .string()
+    .trim()
+    .max(1000, "Keep the reason under 1000 characters.")
+    .optional()
+    .nullable()
     .transform((s) => (s ? s : null)),
 });
 
@@ -75,6 +100,7 @@ export const periodicTestFiltersSchema = z.object({
   sterilizer: z.string().optional().catch(undefined),
   kind: z.string().optional().catch(undefined),
   result: z.enum(VERDICTS).optional().catch(undefined),
+  status: z.enum(PERIODIC_RECORD_STATUSES).optional().catch(undefined),
   from: z
     .string()
     .regex(/^\d{4}-\d{2}-\d{2}$/)

@@ -227,7 +227,9 @@ describe("periodic tests", () => {
 
   it("a test cannot be recorded for another site's sterilizer", async () => {
     const { recordBowieDick } = await import("@/lib/services/periodic-test-records");
-    const input = { sterilizerId: site.b.sterilizerId, performedAt: today.toISOString(), notes: null, outcome: "uniform" as const, indicatorLot: null };
+    const { indicatorSheetPng, photoFile } = await import("../support/indicator-photo");
+    const photo = photoFile(indicatorSheetPng(), "sheet.png");
+    const input = { sterilizerId: site.b.sterilizerId, performedAt: today.toISOString(), notes: null, outcome: "uniform" as const, indicatorLot: "L-1", photo };
     await expect(recordBowieDick({ actor: a("technician"), input })).rejects.toMatchObject({ status: 404 });
     expect(await ctx.db.select().from(schema.periodicTests).where(eq(schema.periodicTests.sterilizerId, site.b.sterilizerId))).toHaveLength(1);
   });

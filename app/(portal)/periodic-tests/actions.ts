@@ -8,9 +8,10 @@ import { testKindLabel, type RecordableKind } from "@/lib/domain";
 
 function saved(kind: RecordableKind, sterilizerId: string, { sterilizerName, passed }: RecordedTest) {
   revalidatePath("/periodic-tests");
+  revalidatePath("/review");
   revalidatePath(`/sterilizers/${sterilizerId}`);
   revalidatePath("/");
-  return `${testKindLabel(kind)} for ${sterilizerName} recorded: ${passed ? "PASS" : "FAIL"}.${passed ? "" : " Take the sterilizer out of use until the cause is found and a repeat test passes."}`;
+  return `${testKindLabel(kind)} for ${sterilizerName} recorded: ${passed ? "PASS" : "FAIL"}. It counts once an engineer has signed it.${passed ? "" : " Take the sterilizer out of use until the cause is found and a repeat test passes."}`;
 }
 
 export const recordAirLeakageAction = formAction("periodic-test:record", airLeakageSchema, async (input, actor) => saved("air-leakage", input.sterilizerId, await recordAirLeakage({ actor, input })));

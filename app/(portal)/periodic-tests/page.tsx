@@ -6,7 +6,8 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { intervalWords, ResultBadge, ScheduleBadge } from "@/components/equipment/state-badges";
 import { keyFigure, measurementRows } from "@/components/periodic-tests/summary";
 import { formatDate, formatDateTime } from "@/lib/format";
-import { isRecordable, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
+import { isRecordable, PERIODIC_RECORD_STATUS_LABELS, PERIODIC_RECORD_STATUSES, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
+import { PeriodicStatusBadge } from "@/components/periodic-tests/status-badge";
 
 export const metadata = { title: "Periodic tests" };
 
@@ -16,7 +17,15 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
   const actor = await requirePageActor("equipment:read");
   const raw = await searchParams;
   const first = (k: string) => (Array.isArray(raw[k]) ? raw[k]![0] : (raw[k] as string | undefined)) || undefined;
-  const filter = periodicTestFiltersSchema.parse({ sterilizer: first("sterilizer"), kind: first("kind"), result: first("result"), from: first("from"), to: first("to"), page: first("page") });
+  const filter = periodicTestFiltersSchema.parse({
+    sterilizer: first("sterilizer"),
+    kind: first("kind"),
+    result: first("result"),
+    status: first("status"),
+    from: first("from"),
+    to: first("to"),
+    page: first("page"),
+  });
   const { overview, history, choices, mayRecord } = await getPeriodicTestsPage({ actor, filter });
   const { rows, timeZone } = overview;
   const actionNeeded = rows.filter((r) => r.needsAction).length;
@@ -87,6 +96,13 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                               {r.awaitingSignOff} passing cycle{r.awaitingSignOff === 1 ? "" : "s"} awaiting sign-off
                             </p>
                           )}
+                          {r.recordsAwaitingSignOff > 0 && (
+                            <p className="mt-1 text-xs text-ink-muted">
+                              <Link href={`/periodic-tests?sterilizer=${r.sterilizerId}&kind=${r.kind}&status=submitted#history`} className="underline">
+                                {r.recordsAwaitingSignOff} record{r.recordsAwaitingSignOff === 1 ? "" : "s"} awaiting signature
+                              </Link>
+                            </p>
+                          )}
                         </td>
                         <td>
                           {mayRecord && r.sterilizerActive && isRecordable(r.kind) ? (
@@ -108,12 +124,12 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
           )}
           <p className="mt-2 text-xs text-ink-muted">
             Dates in {timeZone}. The next test is due one interval after the last pass; a failure after it needs a repeat before the sterilizer is used. Thermometric tests are logged cycles and count
-            once approved.
+            once approved; a recorded test counts once an engineer has signed it (approved or failure confirmed).
           </p>
         </Panel>
 
         <Panel title={`History · ${history.total} record${history.total === 1 ? "" : "s"}`}>
-          <form method="get" action="/periodic-tests#history" className="mb-4 grid gap-3 sm:grid-cols-3 lg:grid-cols-6 lg:items-end" id="history" aria-label="Filter the history">
+          <form method="get" action="/periodic-tests#history" className="mb-4 grid gap-3 sm:grid-cols-3 lg:grid-cols-7 lg:items-end" id="history" aria-label="Filter the history">
             <div>
               <label className="field-label" htmlFor="f-sterilizer">
                 Sterilizer
@@ -151,6 +167,19 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
               </select>
             </div>
             <div>
+              <label className="field-label" htmlFor="f-status">
+                Review
+              </label>
+              <select id="f-status" name="status" defaultValue={filter.status ?? ""} className="field-input">
+                <option value="">Any</option>
+                {PERIODIC_RECORD_STATUSES.map((st) => (
+                  <option key={st} value={st}>
+                    {PERIODIC_RECORD_STATUS_LABELS[st]}
+                  </option>
+                ))}
+              </select>
+            </div>
+            <div>
               <label className="field-label" htmlFor="f-from">
                 From
               </label>
@@ -180,6 +209,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                     <th>Sterilizer</th>
                     <th>Test</th>
                     <th>Result</th>
+                    <th>Review</th>
                     <th>Measured</th>
                     <th>By</th>
                   </tr>
@@ -187,11 +217,18 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                 <tbody>
                   {history.items.map((t) => (
                     <tr key={t.id}>
-                      <td className="whitespace-nowrap text-sm">{formatDateTime(t.performedAt, timeZone)}</td>
+                      <td className="whitespace-nowrap text-sm">
+                        <Link href={`/periodic-tests/${t.id}`} className="text-steam-700 hover:underline">
+                          {formatDateTime(t.performedAt, timeZone)}
+                        </Link>
+                      </td>
                       <td className="text-sm">{t.sterilizerName}</td>
                       <td className="text-sm">{testKindLabel(t.kind)}</td>
                       <td>
                         <ResultBadge result={t.result} />
+                      </td>
+                      <td>
+                        <PeriodicStatusBadge status={t.status} />
                       </td>
                       <td className="text-sm">
                         {keyFigure(t.kind, t.measurements)}

@@ -15,6 +15,8 @@ import { describeTimeChart } from "@/lib/cycles/chart-model";
 import { formatDateTime } from "@/lib/format";
 import { orNotFound } from "@/lib/auth/page-guard";
 import { getCycleRecord } from "@/lib/services/cycles";
+import { getCycleIndicatorSheets } from "@/lib/services/bowie-dick";
+import { CycleSheetPanel } from "@/components/bowie-dick/cycle-sheet-panel";
 import { guardCycleRecord } from "./record";
 
 type Props = { params: Promise<{ id: string }> };
@@ -25,6 +27,7 @@ export default async function CycleRecordPage({ params }: Props) {
   const { id } = await params;
   const actor = await guardCycleRecord(id);
   const { detail, history } = await orNotFound(getCycleRecord({ actor, id }));
+  const sheets = detail.testKind === "bowie-dick" ? await getCycleIndicatorSheets({ actor, cycleId: id }) : null;
 
   const tz = detail.site.timeZone;
   const a = detail.analysis;
@@ -79,7 +82,12 @@ export default async function CycleRecordPage({ params }: Props) {
 
       <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_20rem]">
         <div className="min-w-0 space-y-gutter">
-          <Panel title="What the analysis found">
+          {sheets && (
+            <Panel title="Indicator sheet: the verdict of this test">
+              <CycleSheetPanel cycleId={detail.id} readings={sheets.readings} mayRecord={sheets.mayRecord} timeZone={tz} />
+            </Panel>
+          )}
+          <Panel title={sheets ? "The logged cycle (information only)" : "What the analysis found"}>
             <Findings detail={detail} />
           </Panel>
 
