@@ -37,7 +37,7 @@ export default async function PortalLayout({ children }: { children: React.React
             </p>
             <p className="mt-2 flex gap-3">
               <Link href="/account/password" className="text-xs font-medium text-steam-700 underline underline-offset-2">
-                Password
+                Change password
               </Link>
               <SignOutButton />
             </p>
