@@ -58,6 +58,10 @@ export const users = sqliteTable(
     failedSigningAttempts: integer("failed_signing_attempts").notNull().default(0),
     signingLockedUntil: text("signing_locked_until"),
     lastSignInAt: text("last_sign_in_at"),
+    // Sessions carry the version they were issued under; bumping it ends every older session.
+    sessionVersion: integer("session_version").notNull().default(0),
+    // A one-time password set by an administrator: the person must choose their own before anything else.
+    mustChangePassword: integer("must_change_password", { mode: "boolean" }).notNull().default(false),
     createdAt: createdAt(),
     updatedAt: text("updated_at"),
   },
@@ -65,6 +69,32 @@ export const users = sqliteTable(
 );
 export type User = typeof users.$inferSelect;
 export type NewUser = typeof users.$inferInsert;
+
+/**
+ * Sign-in failures per bucket ("account:<e-mail>" or "address:<client address>"); a row goes away when its
+ * failures are old and it is not locked, so an unknown e-mail costs one short-lived row and nothing else.
+ */
+export const signInThrottle = sqliteTable("sign_in_throttle", {
+  key: text("key").primaryKey(),
+  failures: integer("failures").notNull().default(0),
+  lockedUntil: text("locked_until"),
+  lastFailureAt: text("last_failure_at").notNull(),
+});
+export type SignInThrottleRow = typeof signInThrottle.$inferSelect;
+
+/** Hashes of a user's earlier passwords (argon2id), so a new password cannot repeat one of the last few. */
+export const passwordHistory = sqliteTable(
+  "password_history",
+  {
+    id: id(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id),
+    passwordHash: text("password_hash").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("password_history_user_idx").on(t.userId, t.createdAt)],
+);
 
 export const acceptanceProfiles = sqliteTable(
   "acceptance_profiles",

@@ -21,6 +21,26 @@ const schema = z.object({
   /** Port of `npm run dev` (and of `npm start`, which reads it in package.json's script). */
   PORT: port(3000),
 
+  // Accounts: sign-in throttling and session lifetime.
+  /** Trust the last X-Forwarded-For address as the client's (only behind a proxy that sets it); else one "direct" bucket. */
+  PAPIN_TRUST_PROXY: z.enum(["true", "false"]).default("false"),
+  PAPIN_SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).max(100).default(5),
+  PAPIN_SIGNIN_LOCK_MINUTES: z.coerce
+    .number()
+    .positive()
+    .max(24 * 60)
+    .default(15),
+  PAPIN_SESSION_IDLE_MINUTES: z.coerce
+    .number()
+    .positive()
+    .max(24 * 60)
+    .default(30),
+  PAPIN_SESSION_MAX_HOURS: z.coerce
+    .number()
+    .positive()
+    .max(24 * 30)
+    .default(12),
+
   PAPIN_DEMO: z.enum(["0", "1"]).default("1"),
   PAPIN_DEMO_PASSWORD: z.string().min(8).default("papin-demo"),
   PAPIN_UPLOAD_LIMIT_MB: z.coerce.number().positive().max(500).default(50),

@@ -4,7 +4,7 @@ import "next-auth/jwt";
 
 declare module "next-auth" {
   interface Session {
-    user: { id: string; email: string; name: string; role: Role; siteId: string | null };
+    user: { id: string; email: string; name: string; role: Role; siteId: string | null; sessionVersion?: number };
   }
   interface User {
     id: string;
@@ -12,6 +12,7 @@ declare module "next-auth" {
     name: string;
     role: Role;
     siteId: string | null;
+    sessionVersion: number;
   }
 }
 
@@ -20,5 +21,10 @@ declare module "next-auth/jwt" {
     uid?: string;
     role?: Role;
     siteId?: string | null;
+    /** the user's session version when the session began; a bumped version ends the session */
+    sv?: number;
+    /** sign-in time and last activity, epoch milliseconds (absolute lifetime and idle timeout) */
+    authAt?: number;
+    seenAt?: number;
   }
 }

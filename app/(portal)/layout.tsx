@@ -5,6 +5,7 @@ import { ROLE_LABELS } from "@/lib/domain";
 import { NAV_ITEMS } from "@/components/shell/navigation";
 import { NavLinks } from "@/components/shell/nav-links";
 import { SignOutButton } from "@/components/shell/sign-out-button";
+import { SessionActivity } from "@/components/shell/session-activity";
 import { SafetyNotice } from "@/components/shell/safety-notice";
 import { PapinMark } from "@/components/ui/papin-mark";
 import { demoEnabled } from "@/lib/env";
@@ -16,6 +17,7 @@ export default async function PortalLayout({ children }: { children: React.React
   const items = NAV_ITEMS.filter((i) => !i.permission || can(user.role, i.permission)).map(({ href, label }) => ({ href, label }));
   return (
     <div className="flex min-h-screen flex-col">
+      <SessionActivity />
       <a href="#content" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-paper-raised focus:px-3 focus:py-2">
         Skip to content
       </a>
@@ -33,7 +35,10 @@ export default async function PortalLayout({ children }: { children: React.React
             <p className="text-xs text-ink-muted" data-testid="signed-in-role">
               {ROLE_LABELS[user.role]}
             </p>
-            <p className="mt-2">
+            <p className="mt-2 flex gap-3">
+              <Link href="/account/password" className="text-xs font-medium text-steam-700 underline underline-offset-2">
+                Change password
+              </Link>
               <SignOutButton />
             </p>
           </div>

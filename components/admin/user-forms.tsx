@@ -1,7 +1,7 @@
 "use client";
 
 import { useActionState, useState } from "react";
-import { createUserAction, resetPasswordAction, updateUserAction } from "@/app/(portal)/admin/users/actions";
+import { createUserAction, resetPasswordAction, unlockUserAction, updateUserAction } from "@/app/(portal)/admin/users/actions";
 import { ActionMessage } from "@/components/ui/action-message";
 import { IDLE_FORM_STATE } from "@/lib/form-state";
 import { ROLE_LABELS, ROLES, type Role } from "@/lib/domain";
@@ -38,13 +38,7 @@ export function CreateUserForm() {
         </select>
         {err.role && <p className="field-error">{err.role}</p>}
       </div>
-      <div>
-        <label className="field-label" htmlFor="new-password">
-          Initial password
-        </label>
-        <input id="new-password" name="password" type="password" autoComplete="new-password" className="field-input" aria-invalid={!!err.password} />
-        {err.password && <p className="field-error">{err.password}</p>}
-      </div>
+      <p className="text-xs text-ink-muted">Papin makes a one-time password and shows it once; the person chooses their own at first sign-in.</p>
       <ActionMessage state={state} />
       <button className="btn-primary w-full" disabled={pending}>
         {pending ? "Adding…" : "Add user"}
@@ -53,9 +47,12 @@ export function CreateUserForm() {
   );
 }
 
-export function UserRowActions({ user, self }: { user: { id: string; name: string; role: Role; disabled: boolean }; self: boolean }) {
+type RowUser = { id: string; name: string; role: Role; disabled: boolean; locked: boolean };
+
+export function UserRowActions({ user, self }: { user: RowUser; self: boolean }) {
   const [state, action, pending] = useActionState(updateUserAction, IDLE_FORM_STATE);
   const [pwState, pwAction, pwPending] = useActionState(resetPasswordAction, IDLE_FORM_STATE);
+  const [unlockState, unlockAction, unlockPending] = useActionState(unlockUserAction, IDLE_FORM_STATE);
   const [showReset, setShowReset] = useState(false);
   return (
     <div className="flex min-w-[16rem] flex-col gap-1.5">
@@ -90,19 +87,29 @@ export function UserRowActions({ user, self }: { user: { id: string; name: strin
         </button>
       </div>
       {showReset && (
-        <form action={pwAction} className="flex gap-1.5">
+        <form action={pwAction} className="flex items-center gap-1.5">
           <input type="hidden" name="id" value={user.id} />
-          <label className="sr-only" htmlFor={`pw-${user.id}`}>
-            New password for {user.name}
-          </label>
-          <input id={`pw-${user.id}`} name="password" type="password" autoComplete="new-password" placeholder="New password" className="field-input py-1 text-xs" />
+          <span className="text-xs text-ink-muted">A one-time password replaces {user.name}&rsquo;s and ends their sessions.</span>
           <button className="btn-primary px-2 py-1 text-xs" disabled={pwPending}>
-            Set
+            Make one
+          </button>
+        </form>
+      )}
+      {user.locked && (
+        <form action={unlockAction} className="flex gap-1.5">
+          <input type="hidden" name="id" value={user.id} />
+          <label className="sr-only" htmlFor={`unlock-${user.id}`}>
+            Why unlock {user.name}
+          </label>
+          <input id={`unlock-${user.id}`} name="reason" placeholder="Why unlock (for the ledger)" className="field-input py-1 text-xs" aria-invalid={!!unlockState.fieldErrors?.reason} />
+          <button className="btn-secondary px-2 py-1 text-xs" disabled={unlockPending}>
+            Unlock
           </button>
         </form>
       )}
       <ActionMessage state={state} />
       <ActionMessage state={pwState} />
+      <ActionMessage state={unlockState} />
     </div>
   );
 }

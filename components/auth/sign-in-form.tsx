@@ -3,7 +3,7 @@
 import { signIn } from "next-auth/react";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import { SIGN_IN_ERRORS } from "@/lib/auth/messages";
+import { signInErrorMessage } from "@/lib/auth/messages";
 
 export function SignInForm({ callbackUrl, initialError }: { callbackUrl: string; initialError: string | null }) {
   const router = useRouter();
@@ -24,7 +24,7 @@ export function SignInForm({ callbackUrl, initialError }: { callbackUrl: string;
     const result = await signIn("credentials", { email, password, redirect: false });
     setPending(false);
     if (!result || result.error) {
-      setError(SIGN_IN_ERRORS[(result?.error ?? "CredentialsSignin") as keyof typeof SIGN_IN_ERRORS] ?? SIGN_IN_ERRORS.CredentialsSignin);
+      setError(signInErrorMessage(result?.error ?? "CredentialsSignin"));
       return;
     }
     router.replace(callbackUrl);

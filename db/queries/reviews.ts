@@ -46,14 +46,6 @@ export async function markCycleSubmitted({
   });
 }
 
-/** A wrong signing password: the signer's running count (or lock) and its audit event. */
-export async function recordSigningFailure({ userId, failures, lockedUntil, audit }: { userId: string; failures: number; lockedUntil: string | null; audit: AuditInput }) {
-  await getDb().transaction(async (tx) => {
-    await tx.update(users).set({ failedSigningAttempts: failures, signingLockedUntil: lockedUntil }).where(eq(users.id, userId));
-    await appendAuditEvent(tx, audit);
-  });
-}
-
 export type SignatureWrite = {
   signature: NewSignature & { id: string };
   nextStatus: CycleStatus;

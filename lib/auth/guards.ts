@@ -2,31 +2,46 @@ import "server-only";
 import { getServerSession } from "next-auth";
 import { authOptions } from "./options";
 import { can, type Permission } from "./permissions";
+import { CHOOSE_OWN_PASSWORD_FIRST } from "./messages";
 import { getUserById } from "@/db/queries/users";
 import type { Actor } from "@/lib/domain";
 import { AppError } from "@/lib/errors";
 
+/** The signed-in account, and whether it still has to replace an administrator's one-time password. */
+export type Account = { actor: Actor; mustChangePassword: boolean };
+
 /**
- * The signed-in user, re-read from the database on every call so that a disabled account or a
- * changed role takes effect at once, whatever the session cookie still says.
+ * The signed-in account, re-read from the database on every call so that a disabled account, a changed role or an
+ * ended session (its session version bumped by sign-out, a password change or an administrator) takes effect at
+ * once, whatever the session cookie still says.
  */
-export async function currentUser(): Promise<Actor | null> {
+export async function currentAccount(): Promise<Account | null> {
   const session = await getServerSession(authOptions());
   const id = session?.user?.id;
   if (!id) return null;
   const user = await getUserById({ id });
   if (!user || user.disabled) return null;
-  return { id: user.id, email: user.email, name: user.name, role: user.role, siteId: user.siteId };
+  // The session callback always copies the token's version; a session built without one counts as the first.
+  if ((session.user.sessionVersion ?? 0) !== user.sessionVersion) return null;
+  return { actor: { id: user.id, email: user.email, name: user.name, role: user.role, siteId: user.siteId }, mustChangePassword: user.mustChangePassword };
 }
 
-export async function requireUser(): Promise<Actor> {
-  const user = await currentUser();
-  if (!user) throw new AppError(401, "Please sign in first.");
-  return user;
+export async function currentUser(): Promise<Actor | null> {
+  return (await currentAccount())?.actor ?? null;
+}
+
+/** Permissions an account on a one-time password still holds: choosing its own password. */
+const BEFORE_OWN_PASSWORD: readonly Permission[] = ["account:own-password"];
+
+export async function requireUser(permission?: Permission): Promise<Actor> {
+  const account = await currentAccount();
+  if (!account) throw new AppError(401, "Please sign in first.");
+  if (account.mustChangePassword && !(permission && BEFORE_OWN_PASSWORD.includes(permission))) throw new AppError(403, CHOOSE_OWN_PASSWORD_FIRST);
+  return account.actor;
 }
 
 export async function requireRole(permission: Permission, what?: string): Promise<Actor> {
-  const user = await requireUser();
+  const user = await requireUser(permission);
   if (!can(user.role, permission)) {
     throw new AppError(403, `Your role does not allow you to ${what ?? describe(permission)}.`);
   }

@@ -1,13 +1,12 @@
 import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import { z } from "zod";
-import { getUserByEmail, markSignedIn } from "@/db/queries/users";
-import { recordAuditEvent } from "@/db/queries/audit";
-import { randomUUID } from "node:crypto";
-import { hashPassword, verifyPassword } from "./password";
+import { signInWithPassword } from "@/lib/services/sign-in";
+import { endSessions } from "@/lib/services/users";
 import { sessionSecret } from "./secret";
-import { secureCookies, trustRequestHostUnlessUrlPinned } from "@/lib/env";
+import { env, secureCookies, trustRequestHostUnlessUrlPinned } from "@/lib/env";
 import { sameOriginRedirect } from "./callback-url";
+import { continueSessionToken, startSessionToken, type SessionLimits } from "./session-policy";
 
 trustRequestHostUnlessUrlPinned();
 
@@ -16,9 +15,10 @@ const credentialsSchema = z.object({
   password: z.string().min(1),
 });
 
-// Checking a password that belongs to no account still costs one hash, so timing tells nothing.
-let dummyHash: Promise<string> | undefined;
-const timingDecoy = () => (dummyHash ??= hashPassword(randomUUID()));
+function sessionLimits(): SessionLimits {
+  const { PAPIN_SESSION_IDLE_MINUTES, PAPIN_SESSION_MAX_HOURS } = env();
+  return { idleMs: PAPIN_SESSION_IDLE_MINUTES * 60_000, maxMs: PAPIN_SESSION_MAX_HOURS * 3_600_000 };
+}
 
 let cached: NextAuthOptions | undefined;
 
@@ -26,53 +26,25 @@ export function authOptions(): NextAuthOptions {
   if (cached) return cached;
   cached = {
     secret: sessionSecret(),
-    session: { strategy: "jwt", maxAge: 8 * 60 * 60 },
+    // The cookie lives no longer than the absolute lifetime; the jwt callback enforces both limits itself.
+    session: { strategy: "jwt", maxAge: Math.ceil(sessionLimits().maxMs / 1000) },
     useSecureCookies: secureCookies(),
     pages: { signIn: "/sign-in", error: "/sign-in" },
     providers: [
       CredentialsProvider({
         name: "Papin account",
         credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
-        async authorize(raw) {
+        async authorize(raw, request) {
           const parsed = credentialsSchema.safeParse(raw);
           if (!parsed.success) return null;
-          const { email, password } = parsed.data;
-          const user = await getUserByEmail({ email });
-          const ok = await verifyPassword(user?.passwordHash ?? (await timingDecoy()), password);
-          if (!user || !ok) {
-            await recordAuditEvent({
-              actorId: user?.id ?? null,
-              actorEmail: email.toLowerCase(),
-              siteId: user?.siteId ?? null,
-              action: "auth.sign-in-failed",
-              entityType: "user",
-              entityId: user?.id ?? null,
-              reason: user ? "wrong password" : "unknown e-mail",
-            });
-            return null;
+          const result = await signInWithPassword({ ...parsed.data, headers: request?.headers });
+          // next-auth passes a thrown message on to the form as its error code (lib/auth/messages.ts).
+          if (!result.ok) {
+            if (result.code === "CredentialsSignin") return null;
+            throw new Error(result.code);
           }
-          if (user.disabled) {
-            await recordAuditEvent({
-              actorId: user.id,
-              actorEmail: user.email,
-              siteId: user.siteId,
-              action: "auth.sign-in-refused",
-              entityType: "user",
-              entityId: user.id,
-              reason: "account disabled",
-            });
-            throw new Error("AccountDisabled");
-          }
-          await markSignedIn({ id: user.id });
-          await recordAuditEvent({
-            actorId: user.id,
-            actorEmail: user.email,
-            siteId: user.siteId,
-            action: "auth.sign-in",
-            entityType: "user",
-            entityId: user.id,
-          });
-          return { id: user.id, email: user.email, name: user.name, role: user.role, siteId: user.siteId };
+          const { user } = result;
+          return { id: user.id, email: user.email, name: user.name, role: user.role, siteId: user.siteId, sessionVersion: user.sessionVersion };
         },
       }),
     ],
@@ -81,12 +53,8 @@ export function authOptions(): NextAuthOptions {
         return sameOriginRedirect(params);
       },
       async jwt({ token, user }) {
-        if (user) {
-          token.uid = user.id;
-          token.role = user.role;
-          token.siteId = user.siteId;
-        }
-        return token;
+        if (user) return startSessionToken(token, { id: user.id, role: user.role, siteId: user.siteId, sessionVersion: user.sessionVersion }, Date.now());
+        return continueSessionToken(token, Date.now(), sessionLimits());
       },
       async session({ session, token }) {
         session.user = {
@@ -95,8 +63,15 @@ export function authOptions(): NextAuthOptions {
           name: token.name ?? "",
           role: token.role ?? "technician",
           siteId: token.siteId ?? null,
+          sessionVersion: token.sv,
         };
         return session;
+      },
+    },
+    events: {
+      // Signing out ends every session of the account, not only this browser's cookie.
+      async signOut({ token }) {
+        if (token?.uid && typeof token.sv === "number") await endSessions({ userId: token.uid, sessionVersion: token.sv });
       },
     },
   };

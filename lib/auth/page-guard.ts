@@ -1,20 +1,29 @@
 import "server-only";
 import { forbidden, notFound, redirect } from "next/navigation";
-import { currentUser } from "./guards";
+import { currentAccount, type Account } from "./guards";
 import { can, type Permission } from "./permissions";
 import { AppError } from "@/lib/errors";
 import type { Actor } from "@/lib/domain";
 
+export const OWN_PASSWORD_PAGE = "/account/password";
+
 /**
  * The one guard of every server page: the signed-in actor holding the permission, else the
  * sign-in page (no session) or a real HTTP 403 (`forbidden()`), never a 200 with an error body.
+ * An account still on an administrator's one-time password is sent to choose its own first.
  * Call it before anything streams (no `loading.tsx` above the call), or the status is already 200.
  */
 export async function requirePageActor(permission?: Permission): Promise<Actor> {
-  const actor = await currentUser();
-  if (!actor) redirect("/sign-in");
-  if (permission && !can(actor.role, permission)) forbidden();
-  return actor;
+  return (await requirePageAccount(permission)).actor;
+}
+
+/** requirePageActor, with whether the account is still on a one-time password (for the page that replaces it). */
+export async function requirePageAccount(permission?: Permission): Promise<Account> {
+  const account = await currentAccount();
+  if (!account) redirect("/sign-in");
+  if (account.mustChangePassword && permission !== "account:own-password") redirect(OWN_PASSWORD_PAGE);
+  if (permission && !can(account.actor.role, permission)) forbidden();
+  return account;
 }
 
 /**

@@ -1,3 +1,4 @@
+import { randomInt } from "node:crypto";
 import { hash, verify } from "@node-rs/argon2";
 
 // argon2id with the OWASP-recommended minimum (19 MiB, 2 passes, 1 lane).
@@ -15,7 +16,9 @@ export async function verifyPassword(passwordHash: string, password: string): Pr
   }
 }
 
-const PASSWORD_RULE = "at least 10 characters";
-export function passwordProblem(password: string): string | null {
-  return password.length >= 10 ? null : `The password must have ${PASSWORD_RULE}.`;
+/** A one-time password an administrator hands over: 4 groups of 5 letters and digits (about 99 bits), shown once. */
+export function oneTimePassword(): string {
+  const alphabet = "abcdefghjkmnpqrstuvwxyz23456789";
+  const chars = Array.from({ length: 20 }, () => alphabet[randomInt(alphabet.length)]);
+  return [0, 5, 10, 15].map((i) => chars.slice(i, i + 5).join("")).join("-");
 }

@@ -22,6 +22,7 @@ export const PERMISSIONS = {
   "users:manage": ["admin"],
   "settings:manage": ["admin"],
   "mail:read-outbox": ["admin"],
+  "account:own-password": ["technician", "engineer", "auditor", "admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

@@ -1,13 +1,10 @@
 import { z } from "zod";
 import { ROLES } from "@/lib/domain";
 
-const password = z.string().min(10, "The password must have at least 10 characters.").max(200);
-
 export const createUserSchema = z.object({
   email: z.string().trim().toLowerCase().email("Enter a valid e-mail address."),
   name: z.string().trim().min(2, "Enter the person's full name, as it should appear on signatures.").max(120),
   role: z.enum(ROLES, { message: "Choose a role." }),
-  password,
 });
 
 export const updateUserSchema = z.object({
@@ -22,5 +19,18 @@ export const updateUserSchema = z.object({
 
 export const resetPasswordSchema = z.object({
   id: z.string().uuid(),
-  password,
 });
+
+export const unlockUserSchema = z.object({
+  id: z.string().uuid(),
+  reason: z.string().trim().min(3, "Say why the account is unlocked (it goes into the audit ledger).").max(500),
+});
+
+/** The rules themselves (length, common passwords, history) are checked by the service with lib/auth/password-rules. */
+export const ownPasswordSchema = z
+  .object({
+    currentPassword: z.string().min(1, "Enter your current password.").max(200),
+    newPassword: z.string().min(1, "Enter the new password.").max(200, "The password must have at most 200 characters."),
+    confirmPassword: z.string(),
+  })
+  .refine((v) => v.newPassword === v.confirmPassword, { message: "The two new passwords differ.", path: ["confirmPassword"] });

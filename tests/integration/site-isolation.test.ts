@@ -91,18 +91,19 @@ describe("users", () => {
   });
 
   it("cannot change, disable or reset the password of another site's account: 404, nothing changed, nothing audited", async () => {
-    const { updateUser } = await import("@/lib/services/users");
+    const { resetPassword, unlockUser, updateUser } = await import("@/lib/services/users");
     const target = site.b.people.engineer;
     const before = await ctx.db.select().from(schema.users).where(eq(schema.users.id, target.id));
     await expect(updateUser({ actor: a("admin"), id: target.id, changes: { role: "auditor", disabled: true }, reason: "x" })).rejects.toMatchObject({ status: 404 });
-    await expect(updateUser({ actor: a("admin"), id: target.id, changes: { password: "a new password" } })).rejects.toMatchObject({ status: 404 });
+    await expect(resetPassword({ actor: a("admin"), id: target.id })).rejects.toMatchObject({ status: 404 });
+    await expect(unlockUser({ actor: a("admin"), id: target.id, reason: "x" })).rejects.toMatchObject({ status: 404 });
     expect(await ctx.db.select().from(schema.users).where(eq(schema.users.id, target.id))).toEqual(before);
     expect(await ctx.db.select().from(schema.auditEvents).where(eq(schema.auditEvents.entityId, target.id))).toHaveLength(0);
   });
 
   it("a new account joins the administrator's own site", async () => {
     const { createUser } = await import("@/lib/services/users");
-    const created = await createUser({ actor: a("admin"), input: { email: "new@a.example", name: "New Person", role: "technician", password: "long enough password" } });
+    const created = await createUser({ actor: a("admin"), input: { email: "new@a.example", name: "New Person", role: "technician" } });
     const [row] = await ctx.db.select().from(schema.users).where(eq(schema.users.id, created.id));
     expect(row.siteId).toBe(site.a.siteId);
   });

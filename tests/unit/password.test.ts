@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { hashPassword, passwordProblem, verifyPassword } from "@/lib/auth/password";
+import { hashPassword, oneTimePassword, verifyPassword } from "@/lib/auth/password";
 
 describe("password hashing", () => {
   it("stores an argon2id hash that verifies the right password only", async () => {
@@ -18,8 +18,9 @@ describe("password hashing", () => {
     expect(await verifyPassword("not-a-hash", "anything")).toBe(false);
   });
 
-  it("asks for at least 10 characters", () => {
-    expect(passwordProblem("short")).toMatch(/10 characters/);
-    expect(passwordProblem("long enough pw")).toBeNull();
+  it("makes one-time passwords of 4 × 5 unambiguous characters, different each time", () => {
+    const made = new Set(Array.from({ length: 50 }, () => oneTimePassword()));
+    expect(made.size).toBe(50);
+    for (const p of made) expect(p).toMatch(/^[a-hjkmnp-z2-9]{5}(-[a-hjkmnp-z2-9]{5}){3}$/);
   });
 });

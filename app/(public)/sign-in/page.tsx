@@ -5,7 +5,7 @@ import { SafetyNotice } from "@/components/shell/safety-notice";
 import { currentUser } from "@/lib/auth/guards";
 import { demoSignIn } from "@/lib/services/demo";
 import { ROLE_LABELS } from "@/lib/domain";
-import { SIGN_IN_ERRORS } from "@/lib/auth/messages";
+import { signInErrorMessage } from "@/lib/auth/messages";
 import { safeCallbackPath } from "@/lib/auth/callback-url";
 
 export const metadata = { title: "Sign in" };
@@ -15,7 +15,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
   const { callbackUrl, error } = await searchParams;
   if (await currentUser()) redirect(safeCallbackPath(callbackUrl));
   const demo = demoSignIn();
-  const initialError = error ? (SIGN_IN_ERRORS[error as keyof typeof SIGN_IN_ERRORS] ?? "Sign-in failed. Please try again.") : null;
+  const initialError = error ? signInErrorMessage(error) : null;
   return (
     <div className="flex min-h-screen flex-col">
       <main className="flex flex-1 items-center justify-center px-gutter py-12">

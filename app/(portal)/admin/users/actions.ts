@@ -2,13 +2,13 @@
 
 import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/actions";
-import { createUserSchema, resetPasswordSchema, updateUserSchema } from "@/lib/validations/users";
-import { createUser, updateUser } from "@/lib/services/users";
+import { createUserSchema, resetPasswordSchema, unlockUserSchema, updateUserSchema } from "@/lib/validations/users";
+import { createUser, resetPassword, unlockUser, updateUser } from "@/lib/services/users";
 
 export const createUserAction = formAction("users:manage", createUserSchema, async (input, actor) => {
-  await createUser({ actor, input });
+  const { oneTimePassword } = await createUser({ actor, input });
   revalidatePath("/admin/users");
-  return `${input.name} can now sign in as ${input.email}.`;
+  return `${input.name} can sign in as ${input.email} with the one-time password ${oneTimePassword} and will then choose their own. It is shown only now: hand it over through a separate channel.`;
 });
 
 export const updateUserAction = formAction("users:manage", updateUserSchema, async ({ id, role, disabled, reason }, actor) => {
@@ -17,8 +17,14 @@ export const updateUserAction = formAction("users:manage", updateUserSchema, asy
   return "The account was updated.";
 });
 
-export const resetPasswordAction = formAction("users:manage", resetPasswordSchema, async ({ id, password }, actor) => {
-  await updateUser({ actor, id, changes: { password } });
+export const resetPasswordAction = formAction("users:manage", resetPasswordSchema, async ({ id }, actor) => {
+  const { oneTimePassword } = await resetPassword({ actor, id });
   revalidatePath("/admin/users");
-  return "The password was reset. Tell the person through a separate channel.";
+  return `New one-time password: ${oneTimePassword}. It is shown only now: hand it over through a separate channel. The person's sessions have ended.`;
+});
+
+export const unlockUserAction = formAction("users:manage", unlockUserSchema, async ({ id, reason }, actor) => {
+  await unlockUser({ actor, id, reason });
+  revalidatePath("/admin/users");
+  return "The account is unlocked.";
 });

@@ -1,6 +1,6 @@
 import { requirePageActor } from "@/lib/auth/page-guard";
 import { ROLE_LABELS } from "@/lib/domain";
-import { listUsers } from "@/lib/services/users";
+import { getUsersPage } from "@/lib/services/users";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { CreateUserForm, UserRowActions } from "@/components/admin/user-forms";
@@ -10,10 +10,10 @@ export const metadata = { title: "Users" };
 
 export default async function UsersPage() {
   const user = await requirePageActor("users:manage");
-  const rows = await listUsers({ actor: user });
+  const { rows, timeZone } = await getUsersPage({ actor: user });
   return (
     <>
-      <PageHeader title="Users" subtitle="Accounts, roles and access. Every change is written to the audit ledger." />
+      <PageHeader title="Users" subtitle="Accounts, roles and access. New accounts and password resets get a one-time password, shown once. Every change is written to the audit ledger." />
       <div className="grid gap-gutter xl:grid-cols-[1fr_22rem]">
         <Panel title={`${rows.length} accounts`}>
           <div className="overflow-x-auto">
@@ -36,10 +36,17 @@ export default async function UsersPage() {
                     <td className="font-medium">{u.name}</td>
                     <td className="mono">{u.email}</td>
                     <td>{ROLE_LABELS[u.role]}</td>
-                    <td>{u.disabled ? <Badge tone="fail">Disabled</Badge> : <Badge tone="pass">Active</Badge>}</td>
-                    <td className="text-xs text-ink-muted">{formatDateTime(u.lastSignInAt)}</td>
                     <td>
-                      <UserRowActions user={{ id: u.id, name: u.name, role: u.role, disabled: u.disabled }} self={u.id === user.id} />
+                      <div className="flex flex-wrap gap-1">
+                        {u.disabled ? <Badge tone="fail">Disabled</Badge> : <Badge tone="pass">Active</Badge>}
+                        {u.signInLockedUntil && <Badge tone="fail">Sign-in locked until {formatDateTime(u.signInLockedUntil, timeZone)}</Badge>}
+                        {u.signingLockedUntil && <Badge tone="caution">Signing locked until {formatDateTime(u.signingLockedUntil, timeZone)}</Badge>}
+                        {u.mustChangePassword && <Badge tone="caution">One-time password</Badge>}
+                      </div>
+                    </td>
+                    <td className="text-xs text-ink-muted">{formatDateTime(u.lastSignInAt, timeZone)}</td>
+                    <td>
+                      <UserRowActions user={{ id: u.id, name: u.name, role: u.role, disabled: u.disabled, locked: Boolean(u.signInLockedUntil || u.signingLockedUntil) }} self={u.id === user.id} />
                     </td>
                   </tr>
                 ))}
