@@ -10,7 +10,19 @@ const createdAt = () =>
     .notNull()
     .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`);
 
-import { CYCLE_STATUSES, INSTRUMENT_KINDS, MAIL_STATUSES, PERIODIC_RECORD_STATUSES, PERIODIC_TEST_KINDS, PROFILE_BASES, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, VERDICTS } from "../lib/domain";
+import {
+  API_TOKEN_SCOPES,
+  CYCLE_STATUSES,
+  INSTRUMENT_KINDS,
+  MAIL_STATUSES,
+  PERIODIC_RECORD_STATUSES,
+  PERIODIC_TEST_KINDS,
+  PROFILE_BASES,
+  ROLES,
+  SIGNATURE_MEANINGS,
+  TEST_KINDS,
+  VERDICTS,
+} from "../lib/domain";
 
 // The enums live in lib/domain; the database layer may keep taking them from here.
 export { CYCLE_STATUSES, PERIODIC_TEST_KINDS, ROLES, SIGNATURE_MEANINGS, TEST_KINDS, type CycleStatus, type PeriodicTestKind, type Role, type SignatureMeaning, type TestKind } from "../lib/domain";
@@ -351,19 +363,33 @@ export const testSchedules = sqliteTable(
 );
 export type TestSchedule = typeof testSchedules.$inferSelect;
 
-export const apiTokens = sqliteTable("api_tokens", {
-  id: id(),
-  userId: text("user_id")
-    .notNull()
-    .references(() => users.id),
-  name: text("name").notNull(),
-  prefix: text("prefix").notNull(),
-  tokenHash: text("token_hash").notNull().unique(),
-  lastUsedAt: text("last_used_at"),
-  revokedAt: text("revoked_at"),
-  createdAt: createdAt(),
-});
+// Logger-gateway tokens (lib/domain/api-tokens.ts): only the SHA-256 of a token is kept, with the first characters to recognise it.
+export const apiTokens = sqliteTable(
+  "api_tokens",
+  {
+    id: id(),
+    siteId: text("site_id")
+      .notNull()
+      .references(() => sites.id),
+    name: text("name").notNull(),
+    prefix: text("prefix").notNull(),
+    tokenHash: text("token_hash").notNull().unique(),
+    scope: text("scope", { enum: API_TOKEN_SCOPES }).notNull().default("gateway"),
+    // The sterilizers the token may upload for; null: every sterilizer of its site.
+    sterilizerIds: text("sterilizer_ids", { mode: "json" }).$type<string[] | null>(),
+    expiresAt: text("expires_at").notNull(),
+    createdBy: text("created_by")
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+    lastUsedAt: text("last_used_at"),
+    revokedAt: text("revoked_at"),
+    revokedBy: text("revoked_by").references(() => users.id),
+  },
+  (t) => [index("api_tokens_site_idx").on(t.siteId), check("api_tokens_scope_known", sql`${t.scope} in (${sql.raw(API_TOKEN_SCOPES.map((s) => `'${s}'`).join(", "))})`)],
+);
 export type ApiToken = typeof apiTokens.$inferSelect;
+export type NewApiToken = typeof apiTokens.$inferInsert;
 
 export const sitesRelations = relations(sites, ({ many }) => ({
   users: many(users),

@@ -21,6 +21,7 @@ export const PERMISSIONS = {
   "users:manage": ["admin"],
   "settings:manage": ["admin"],
   "mail:read-outbox": ["admin"],
+  "api-token:manage": ["engineer", "admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;
