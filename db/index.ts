@@ -1,12 +1,11 @@
 import { createClient, type Client } from "@libsql/client";
-import LibsqlDatabase from "libsql";
 import { drizzle, type LibSQLDatabase } from "drizzle-orm/libsql";
 import { mkdirSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import * as schema from "./schema";
 import { env } from "@/lib/env";
-import { databaseBusy } from "@/lib/errors";
+import { closeConnectionsThatMeetBusy, retryingWhenBusy } from "./busy-retry";
 
 export type Database = LibSQLDatabase<typeof schema>;
 export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
@@ -37,71 +36,6 @@ export async function applyFilePragmas(client: Client, url: string) {
   if (!filePathOf(url)) return;
   await client.execute("PRAGMA journal_mode = WAL");
   await client.execute("PRAGMA foreign_keys = ON");
-}
-
-export type BusyRetryOptions = { attempts?: number; baseDelayMs?: number; sleep?: (ms: number) => Promise<void>; random?: () => number };
-
-const pause = (ms: number) => new Promise<void>((resolve) => setTimeout(resolve, ms));
-
-/**
- * Runs a database operation again when SQLite answers SQLITE_BUSY / SQLITE_LOCKED (another writer held the file past
- * the busy timeout): up to `attempts` tries in all, with a short random back-off doubling each time (full jitter, so
- * racing writers do not retry in step). Only a whole statement or a whole transaction is retried, after SQLite rolled
- * it back, so nothing is written twice. The last failure is thrown as it came; route() and formAction() answer 503.
- */
-export async function withBusyRetry<T>(operation: () => Promise<T>, { attempts = 4, baseDelayMs = 20, sleep = pause, random = Math.random }: BusyRetryOptions = {}): Promise<T> {
-  for (let attempt = 1; ; attempt++) {
-    try {
-      return await operation();
-    } catch (error) {
-      if (attempt >= attempts || !databaseBusy(error)) throw error;
-      await sleep(Math.round(random() * baseDelayMs * 2 ** (attempt - 1)));
-    }
-  }
-}
-
-type Connection = InstanceType<typeof LibsqlDatabase>;
-type StatementMethods = Record<"run" | "get" | "all", (...args: unknown[]) => unknown>;
-const guarded = LibsqlDatabase.prototype as Connection & { papinBusyGuard?: true };
-
-/**
- * The embedded driver (`libsql` 0.5) leaves a statement that failed with SQLITE_BUSY in progress instead of resetting
- * it, so its connection keeps an open transaction: the pool hands the connection out again, and what is written
- * through it next is never committed and holds the write lock until the garbage collector finalizes the statement
- * (tursodatabase/libsql-client-ts#352, fix pending in libsql-js#237/#238). Closing such a connection at once makes
- * the pool drop it (it discards closed connections) — a retry then runs on a sound one.
- */
-function closeConnectionsThatMeetBusy() {
-  if (guarded.papinBusyGuard) return;
-  guarded.papinBusyGuard = true;
-  const prepare = guarded.prepare;
-  guarded.prepare = function (this: Connection, ...args: Parameters<Connection["prepare"]>) {
-    const statement = prepare.apply(this, args);
-    const methods = statement as unknown as StatementMethods;
-    for (const name of ["run", "get", "all"] as const) {
-      const method = methods[name];
-      methods[name] = (...callArgs) => {
-        try {
-          return method.apply(statement, callArgs);
-        } catch (error) {
-          if (databaseBusy(error) && this.open) this.close();
-          throw error;
-        }
-      };
-    }
-    return statement;
-  } as Connection["prepare"];
-}
-
-/** The one place writes get their retry: every autocommit statement, batch and transaction of Papin's database. */
-function retryingWhenBusy(client: Client, db: Database): Database {
-  const execute = client.execute.bind(client);
-  const batch = client.batch.bind(client);
-  client.execute = ((...args: Parameters<typeof execute>) => withBusyRetry(() => execute(...args))) as Client["execute"];
-  client.batch = ((...args: Parameters<typeof batch>) => withBusyRetry(() => batch(...args))) as Client["batch"];
-  const transaction = db.transaction.bind(db);
-  db.transaction = ((...args: Parameters<typeof transaction>) => withBusyRetry(() => transaction(...args))) as Database["transaction"];
-  return db;
 }
 
 export function getDb(): Database {

@@ -3,7 +3,8 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { createClient } from "@libsql/client";
-import { getDb, openClient, withBusyRetry } from "@/db";
+import { getDb, openClient } from "@/db";
+import { withBusyRetry } from "@/db/busy-retry";
 import { databaseBusy } from "@/lib/errors";
 
 const dir = mkdtempSync(path.join(tmpdir(), "papin-retry-"));
