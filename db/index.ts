@@ -5,6 +5,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import * as schema from "./schema";
 import { env } from "@/lib/env";
+import { closeConnectionsThatMeetBusy, retryingWhenBusy } from "./busy-retry";
 
 export type Database = LibSQLDatabase<typeof schema>;
 export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
@@ -26,6 +27,7 @@ export function filePathOf(url: string): string | null {
 export function openClient(url: string, authToken?: string, { busyTimeoutMs = 5000 } = {}): Client {
   const file = filePathOf(url);
   if (file) mkdirSync(path.dirname(file), { recursive: true });
+  closeConnectionsThatMeetBusy();
   // `timeout` becomes SQLite's busy timeout on every pooled connection.
   return createClient({ url, authToken, timeout: busyTimeoutMs });
 }
@@ -41,7 +43,7 @@ export function getDb(): Database {
   const c = cache.__papinDb!;
   if (!c.db || c.url !== DATABASE_URL) {
     c.client = openClient(DATABASE_URL, DATABASE_AUTH_TOKEN);
-    c.db = drizzle(c.client, { schema });
+    c.db = retryingWhenBusy(c.client, drizzle(c.client, { schema }));
     c.url = DATABASE_URL;
   }
   return c.db;

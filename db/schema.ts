@@ -11,6 +11,7 @@ const createdAt = () =>
     .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`);
 
 import {
+  API_TOKEN_SCOPES,
   ATTACHMENT_OWNER_KINDS,
   CYCLE_STATUSES,
   INDICATOR_SHEET_RESULTS,
@@ -502,19 +503,33 @@ export const testSchedules = sqliteTable(
 );
 export type TestSchedule = typeof testSchedules.$inferSelect;
 
-export const apiTokens = sqliteTable("api_tokens", {
-  id: id(),
-  userId: text("user_id")
-    .notNull()
-    .references(() => users.id),
-  name: text("name").notNull(),
-  prefix: text("prefix").notNull(),
-  tokenHash: text("token_hash").notNull().unique(),
-  lastUsedAt: text("last_used_at"),
-  revokedAt: text("revoked_at"),
-  createdAt: createdAt(),
-});
+// Logger-gateway tokens (lib/domain/api-tokens.ts): only the SHA-256 of a token is kept, with the first characters to recognise it.
+export const apiTokens = sqliteTable(
+  "api_tokens",
+  {
+    id: id(),
+    siteId: text("site_id")
+      .notNull()
+      .references(() => sites.id),
+    name: text("name").notNull(),
+    prefix: text("prefix").notNull(),
+    tokenHash: text("token_hash").notNull().unique(),
+    scope: text("scope", { enum: API_TOKEN_SCOPES }).notNull().default("gateway"),
+    // The sterilizers the token may upload for; null: every sterilizer of its site.
+    sterilizerIds: text("sterilizer_ids", { mode: "json" }).$type<string[] | null>(),
+    expiresAt: text("expires_at").notNull(),
+    createdBy: text("created_by")
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+    lastUsedAt: text("last_used_at"),
+    revokedAt: text("revoked_at"),
+    revokedBy: text("revoked_by").references(() => users.id),
+  },
+  (t) => [index("api_tokens_site_idx").on(t.siteId), check("api_tokens_scope_known", sql`${t.scope} in (${sql.raw(API_TOKEN_SCOPES.map((s) => `'${s}'`).join(", "))})`)],
+);
 export type ApiToken = typeof apiTokens.$inferSelect;
+export type NewApiToken = typeof apiTokens.$inferInsert;
 
 export const sitesRelations = relations(sites, ({ many }) => ({
   users: many(users),

@@ -4,6 +4,7 @@ import { create as contentDisposition } from "content-disposition";
 import { ZodError } from "zod";
 import { AppError, databaseBusy } from "./errors";
 import { foreignOriginRefusal } from "./request-origin";
+import { bearerRefusal } from "./auth/bearer";
 
 function jsonError(status: number, error: string, extra?: Record<string, unknown>) {
   return NextResponse.json({ error, ...extra }, { status });
@@ -30,13 +31,16 @@ type Handler<C> = (request: Request, context: C) => Promise<Response>;
 
 /**
  * Wraps a route handler so that every failure becomes a JSON error, and a request that would change something but
- * comes from another site's page is refused (403) before the handler runs.
+ * comes from another site's page is refused (403) before the handler runs, as is an API token on a route that does not
+ * accept one (401).
  */
 export function route<C = unknown>(handler: Handler<C>): Handler<C> {
   return async (request, context) => {
     try {
       const refusal = foreignOriginRefusal(request);
       if (refusal) return jsonError(403, refusal);
+      const bearer = bearerRefusal(request);
+      if (bearer) return jsonError(401, bearer);
       return await handler(request, context);
     } catch (error) {
       return errorResponse(error);

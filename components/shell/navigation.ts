@@ -14,6 +14,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/archive", label: "Signed archive", permission: "archive:read" },
   { href: "/audit", label: "Audit ledger", permission: "audit:read" },
   { href: "/steam", label: "Steam calculator", permission: "steam:calculate" },
+  { href: "/tokens", label: "API tokens", permission: "api-token:manage" },
   { href: "/admin/users", label: "Users", permission: "users:manage" },
   { href: "/admin/site", label: "Site settings", permission: "settings:manage" },
   { href: "/admin/mail", label: "Mail", permission: "mail:read-outbox" },

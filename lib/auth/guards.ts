@@ -4,8 +4,10 @@ import { authOptions } from "./options";
 import { can, type Permission } from "./permissions";
 import { CHOOSE_OWN_PASSWORD_FIRST } from "./messages";
 import { getUserById } from "@/db/queries/users";
-import type { Actor } from "@/lib/domain";
+import { API_TOKEN_ROUTES_ONLY, type Actor, type ApiTokenRoute } from "@/lib/domain";
 import { AppError } from "@/lib/errors";
+import { actorForApiToken } from "@/lib/services/api-tokens";
+import { bearerTokenOf, routeKeyOfRequest } from "./bearer";
 
 /** The signed-in account, and whether it still has to replace an administrator's one-time password. */
 export type Account = { actor: Actor; mustChangePassword: boolean };
@@ -51,4 +53,15 @@ export async function requireRole(permission: Permission, what?: string): Promis
 function describe(permission: Permission): string {
   const [noun, verb] = permission.split(":");
   return `${verb.replace(/-/g, " ")} ${noun.replace(/-/g, " ")}s`;
+}
+
+/**
+ * For the few routes a logger gateway calls (API_TOKEN_ROUTES): an `Authorization: Bearer` token acts as its site's
+ * gateway (lib/services/api-tokens.ts); without one, the signed-in user with the permission, as `requireRole`.
+ */
+export async function requireActorOrToken(request: Request, permission: Permission, { tokenRoute, what }: { tokenRoute: ApiTokenRoute; what?: string }): Promise<Actor> {
+  const token = bearerTokenOf(request);
+  if (token === null) return requireRole(permission, what);
+  if (routeKeyOfRequest(request) !== tokenRoute) throw new AppError(401, API_TOKEN_ROUTES_ONLY);
+  return actorForApiToken({ token, route: tokenRoute, permission, what: what ?? describe(permission) });
 }

@@ -23,6 +23,7 @@ export const PERMISSIONS = {
   "settings:manage": ["admin"],
   "mail:read-outbox": ["admin"],
   "account:own-password": ["technician", "engineer", "auditor", "admin"],
+  "api-token:manage": ["engineer", "admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

@@ -12,3 +12,4 @@ export * from "./format";
 export * from "./profile-basis";
 export * from "./time-zone";
 export * from "./sterilizer-status";
+export * from "./api-tokens";

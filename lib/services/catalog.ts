@@ -2,6 +2,7 @@ import "server-only";
 import type { Actor } from "@/db/queries/users";
 import { listInstrumentsForSite, listProfilesForSite, listSterilizersForSite } from "@/db/queries/catalog";
 import { currentSterilizerStatuses, type SterilizerStatusView } from "./sterilizer-status";
+import { onlyTokenSterilizers } from "./api-tokens";
 
 // What a cycle can be registered against: the in-use sterilizers, profiles and instruments of
 // the actor's own site (an account without a site gets none).
@@ -12,7 +13,7 @@ export async function listSterilizerCatalog({ actor }: { actor: Actor }) {
     listSterilizersForSite({ actor }),
     actor.siteId ? currentSterilizerStatuses({ siteId: actor.siteId }) : Promise.resolve(new Map<string, SterilizerStatusView>()),
   ]);
-  return rows.map((row) => {
+  return onlyTokenSterilizers(actor, rows).map((row) => {
     // A sterilizer added between the two reads has not been judged yet: not shown as usable (fail closed).
     const s: Omit<SterilizerStatusView, "id" | "name"> = statuses.get(row.id) ?? {
       status: "out-of-use",

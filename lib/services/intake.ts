@@ -15,6 +15,7 @@ import type { CreateCycleResponse, InspectResponse } from "@/lib/cycles/contract
 import { assertAllowed, type Actor } from "./access";
 import { listSterilizerCatalog } from "./catalog";
 import { settleBowieDickVerdict, verdictOfNewCycle } from "./bowie-dick";
+import { assertTokenCoversSterilizer, viaApiToken } from "./api-tokens";
 
 export type UploadedFile = { name: string; bytes: Uint8Array; contentType: string };
 
@@ -117,6 +118,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
   if (!site) throw new AppError(403, "Your account is not attached to a site, so it cannot register cycles.");
   const sterilizer = await getSterilizerForSite({ actor, id: input.sterilizerId });
   if (!sterilizer) throw new AppError(404, "That sterilizer was not found on your site.", "sterilizerId");
+  assertTokenCoversSterilizer(actor, sterilizer.id);
   const profile = await getProfileForSite({ actor, id: input.profileId });
   if (!profile) throw new AppError(404, "That acceptance profile was not found on your site.", "profileId");
   const instrument = input.instrumentId ? await getInstrumentForSite({ actor, id: input.instrumentId }) : undefined;
@@ -180,6 +182,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
         verdict: analysis.result.verdict,
         inputHash: analysis.inputHash,
         supersedes: input.supersedesId ?? null,
+        ...viaApiToken(actor),
       },
     }),
     inside: (tx, cycleId) => notifyFailure(tx, cycleId, analysis.result),

@@ -1,6 +1,6 @@
 import { NextResponse } from "next/server";
 import { route, zodMessage } from "@/lib/http";
-import { requireRole } from "@/lib/auth/guards";
+import { requireActorOrToken, requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
 import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
@@ -20,7 +20,7 @@ export const GET = route(async (request) => {
 });
 
 export const POST = route(async (request) => {
-  const actor = await requireRole("cycle:create", "register cycles");
+  const actor = await requireActorOrToken(request, "cycle:create", { tokenRoute: "POST /api/cycles", what: "register cycles" });
   const form = await readMultipart(request);
   const fields = createCycleFieldsSchema.safeParse(Object.fromEntries([...form.entries()].filter(([, v]) => typeof v === "string")));
   if (!fields.success) {
