@@ -21,7 +21,7 @@ export const GET = route(async (request) => {
 
 export const POST = route(async (request) => {
   const actor = await requireRole("cycle:create", "register cycles");
-  const form = await readMultipart(request);
+  const form = await readMultipart(request, { fileFields: ["files", "file"] });
   const fields = createCycleFieldsSchema.safeParse(Object.fromEntries([...form.entries()].filter(([, v]) => typeof v === "string")));
   if (!fields.success) {
     const issue = fields.error.issues[0];
