@@ -15,6 +15,36 @@ export type PreparedText = {
   lineCount: number;
 };
 
+/** Longest line read, in characters: a logger row is a few hundred; a longer line is not a table row (issue 11). */
+export const MAX_LINE_CHARS = 1024 * 1024;
+/** Most fields in one row; counted before any line is split, so a huge row never becomes a huge array. */
+export const MAX_FIELDS_PER_ROW = 10_000;
+
+const SEPARATOR_CODES: Array<[number, Delimiter]> = [
+  [44, ","],
+  [59, ";"],
+  [9, "\t"],
+];
+
+/** Refuses a line over MAX_LINE_CHARS or with more than MAX_FIELDS_PER_ROW fields by any separator (quoted ones counted too). */
+function checkLineLimits(text: string, start: number, end: number, lineIndex: number): void {
+  const length = end - start;
+  if (length > MAX_LINE_CHARS) {
+    throw new LoggerFileError(`Line ${lineIndex + 1} is ${length.toLocaleString("en")} characters long; Papin reads lines of at most ${MAX_LINE_CHARS.toLocaleString("en")} characters (1 MB)`);
+  }
+  // Fewer characters than the limit cannot hold more fields than the limit.
+  if (length < MAX_FIELDS_PER_ROW) return;
+  for (const [code, delimiter] of SEPARATOR_CODES) {
+    let separators = 0;
+    for (let i = start; i < end; i++) if (text.charCodeAt(i) === code) separators++;
+    if (separators >= MAX_FIELDS_PER_ROW) {
+      throw new LoggerFileError(
+        `Line ${lineIndex + 1} has ${(separators + 1).toLocaleString("en")} ${delimiterName(delimiter)}-separated fields; Papin reads at most ${MAX_FIELDS_PER_ROW.toLocaleString("en")} fields per row`,
+      );
+    }
+  }
+}
+
 export function prepareText(bytes: Uint8Array): PreparedText {
   const { text, encoding } = decodeLoggerBytes(bytes);
   if (text.trim() === "") throw new LoggerFileError("The file is empty: it holds only blank space");
@@ -41,6 +71,7 @@ export function prepareText(bytes: Uint8Array): PreparedText {
       grownEnds.set(ends);
       ends = grownEnds;
     }
+    checkLineLimits(text, position, end, count);
     starts[count] = position;
     ends[count] = end;
     count++;
