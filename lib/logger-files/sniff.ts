@@ -45,7 +45,35 @@ function checkLineLimits(text: string, start: number, end: number, lineIndex: nu
   }
 }
 
+/**
+ * Before decoding: a stretch of bytes without a line break that is longer than any lawful line in any encoding Papin
+ * reads (at most 3 UTF-8 bytes per character) is refused at once, so a huge single line is not decoded first.
+ */
+function refuseHugeLineBytes(bytes: Uint8Array): void {
+  if (bytes[0] === 0xff && bytes[1] === 0xfe) return; // UTF-16: a 0x0A byte may sit inside a character
+  const limitBytes = 3 * MAX_LINE_CHARS;
+  if (bytes.length <= limitBytes) return;
+  // Lines break at LF, or at CR in a file without any LF (as prepareText splits them); look no further than needed.
+  const window = bytes.subarray(0, limitBytes + 1);
+  const breakByte = window.indexOf(0x0a) < 0 && window.indexOf(0x0d) >= 0 && bytes.indexOf(0x0a) < 0 ? 0x0d : 0x0a;
+  // Stride from break to break at most limitBytes apart; only a refusal counts the lines before it.
+  for (let start = 0; bytes.length - start > limitBytes;) {
+    const lastBreak = bytes.lastIndexOf(breakByte, start + limitBytes);
+    if (lastBreak >= start) {
+      start = lastBreak + 1;
+      continue;
+    }
+    const before = bytes.subarray(0, start);
+    let lineIndex = 0;
+    for (let at = before.indexOf(breakByte); at >= 0; at = before.indexOf(breakByte, at + 1)) lineIndex++;
+    const end = bytes.indexOf(breakByte, start);
+    const lengthBytes = (end < 0 ? bytes.length : end) - start;
+    throw new LoggerFileError(`Line ${lineIndex + 1} is ${lengthBytes.toLocaleString("en")} bytes long; Papin reads lines of at most ${MAX_LINE_CHARS.toLocaleString("en")} characters (1 MB)`);
+  }
+}
+
 export function prepareText(bytes: Uint8Array): PreparedText {
+  refuseHugeLineBytes(bytes);
   const { text, encoding } = decodeLoggerBytes(bytes);
   if (text.trim() === "") throw new LoggerFileError("The file is empty: it holds only blank space");
   const firstLf = text.indexOf("\n");

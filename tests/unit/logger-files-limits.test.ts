@@ -23,7 +23,8 @@ describe("the reader refuses a line or a row over its limits before splitting it
     const bytes = utf8("1,".repeat(3_000_000));
     const started = performance.now();
     const message = refusal(bytes);
-    expect(message).toBe("Line 1 is 6,000,000 characters long; Papin reads lines of at most 1,048,576 characters (1 MB)");
+    // Over 3 bytes per allowed character, it is refused from its bytes, before they are decoded into text.
+    expect(message).toBe("Line 1 is 6,000,000 bytes long; Papin reads lines of at most 1,048,576 characters (1 MB)");
     // Splitting 3 million fields took seconds and hundreds of MB before; counting characters takes milliseconds.
     expect(performance.now() - started).toBeLessThan(2000);
   });
@@ -31,6 +32,10 @@ describe("the reader refuses a line or a row over its limits before splitting it
   it("a line just over 1 MiB further down names its line", () => {
     const long = "x".repeat(1024 * 1024 + 1);
     expect(refusal(utf8(header + rows + long + "\n"))).toBe("Line 5 is 1,048,577 characters long; Papin reads lines of at most 1,048,576 characters (1 MB)");
+  });
+
+  it("a 4 MiB line in a file broken by CR only is counted as CR lines are", () => {
+    expect(refusal(utf8("Time (s),Drain (°C)\r0,134\r" + "7".repeat(4 * 1024 * 1024) + "\r1,134\r"))).toBe("Line 3 is 4,194,304 bytes long; Papin reads lines of at most 1,048,576 characters (1 MB)");
   });
 
   it("a row of 10,001 semicolon-separated fields is refused, one of 10,000 is not refused for its width", () => {
