@@ -88,7 +88,7 @@ export async function readMultipart(request: Request, options: MultipartOptions)
     for (const file of spooled.files) {
       // A file input left empty still sends a part with no name and no bytes.
       if (!file.named && file.sizeBytes === 0) continue;
-      files.push({ field: file.field, name: file.name, contentType: file.contentType, bytes: new Uint8Array(await readFile(file.path)) });
+      files.push({ field: file.field, name: file.name, contentType: file.contentType, bytes: await readFile(file.path) });
     }
     return new UploadForm(spooled.fields, files);
   } finally {

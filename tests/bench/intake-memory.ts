@@ -15,7 +15,8 @@ globalThis.gc?.();
 const baselineRssKb = Math.round(process.memoryUsage().rss / 1024);
 const baselineHeap = process.memoryUsage().heapUsed;
 const started = performance.now();
-const bytes = new Uint8Array(readFileSync(file));
+// A Buffer is a Uint8Array: the upload's bytes held once, as lib/uploads.ts holds them.
+const bytes: Uint8Array = readFileSync(file);
 let outcome = "accepted";
 let message: string | undefined;
 try {
