@@ -1,5 +1,5 @@
 import { relations, sql } from "drizzle-orm";
-import { blob, check, index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { blob, check, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 
 const id = () =>
   text("id")
@@ -530,6 +530,25 @@ export const apiTokens = sqliteTable(
 );
 export type ApiToken = typeof apiTokens.$inferSelect;
 export type NewApiToken = typeof apiTokens.$inferInsert;
+
+/** POST /api/cycles answers kept per (user, Idempotency-Key) for a day, so a retried upload replays instead of creating twice. */
+export const idempotencyKeys = sqliteTable(
+  "idempotency_keys",
+  {
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id),
+    key: text("key").notNull(),
+    requestHash: text("request_hash").notNull(),
+    // Both null while the first request is still running.
+    responseStatus: integer("response_status"),
+    responseBody: text("response_body"),
+    createdAt: createdAt(),
+    expiresAt: text("expires_at").notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.userId, t.key] }), index("idempotency_keys_expires_idx").on(t.expiresAt)],
+);
+export type IdempotencyKey = typeof idempotencyKeys.$inferSelect;
 
 export const sitesRelations = relations(sites, ({ many }) => ({
   users: many(users),

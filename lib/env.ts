@@ -44,6 +44,8 @@ const schema = z.object({
   PAPIN_DEMO: z.enum(["0", "1"]).default("1"),
   PAPIN_DEMO_PASSWORD: z.string().min(8).default("papin-demo"),
   PAPIN_UPLOAD_LIMIT_MB: z.coerce.number().positive().max(500).default(50),
+  /** Files one upload may carry; a request with more is refused with 413 while it streams. */
+  PAPIN_UPLOAD_MAX_FILES: z.coerce.number().int().min(1).max(100).default(10),
 
   // Outgoing mail through the Resend SDK; with neither a key nor a base URL, mail waits in the outbox.
   RESEND_API_KEY: z.string().optional(),

@@ -5,6 +5,8 @@ import type { Dialect, InspectResult, MappingOverrides, ReadContext } from "./ty
 
 const PREVIEW_ROWS = 10;
 const MAPPING_SAMPLE_ROWS = 600;
+/** A very wide table is sampled on fewer rows, so the sample stays a few hundred thousand cells. */
+const MAPPING_SAMPLE_CELLS = 300_000;
 export const MIN_DATA_ROWS = 3;
 
 export type Analysed = { prepared: PreparedText; layout: TableLayout; plan: ColumnPlan; dialect: Dialect; preview: string[][] };
@@ -19,7 +21,8 @@ function dataLineIndexes(prepared: PreparedText, layout: TableLayout, limit: num
 
 function spreadSample(prepared: PreparedText, layout: TableLayout): string[][] {
   const total = prepared.lineCount - layout.firstDataLineIndex;
-  const step = Math.max(1, Math.floor(total / MAPPING_SAMPLE_ROWS));
+  const sampleRows = Math.max(20, Math.min(MAPPING_SAMPLE_ROWS, Math.floor(MAPPING_SAMPLE_CELLS / layout.width)));
+  const step = Math.max(1, Math.floor(total / sampleRows));
   const rows: string[][] = [];
   for (let i = layout.firstDataLineIndex; i < prepared.lineCount; i += step) {
     const line = lineText(prepared, i);

@@ -4,7 +4,7 @@ import { LoggerFileError } from "./errors";
 import { MIN_DATA_ROWS, analyse } from "./inspect";
 import { MissingReadings, isBlankCell } from "./missing";
 import { DECIMAL_CODES, parseDecimal } from "./numbers";
-import { delimiterName, isBlankLine, lineText, splitFields, type PreparedText, type TableLayout } from "./sniff";
+import { MAX_FIELDS_PER_ROW, delimiterName, isBlankLine, lineText, splitFields, type PreparedText, type TableLayout } from "./sniff";
 import { cellHasOffset, isoFromSeconds, parseTimeCell, type TimeFormat } from "./time";
 import type { MappingOverrides, ReadContext, ReadResult, Recording } from "./types";
 
@@ -155,20 +155,12 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, 
       store(i);
     }
   } else {
-    const body = text.slice(lineStarts[layout.firstDataLineIndex]);
-    const parsed = Papa.parse<string[]>(body, { delimiter, skipEmptyLines: false, header: false });
-    // Papa counts rows, not lines; map back through the line breaks it consumed.
-    let lineIndex = layout.firstDataLineIndex;
-    for (const row of parsed.data) {
-      const i = lineIndex;
-      let breaks = 1;
-      for (const cell of row) for (let c = cell.indexOf("\n"); c >= 0; c = cell.indexOf("\n", c + 1)) breaks++;
-      lineIndex += breaks;
-      if (row.every((cell) => cell.trim() === "")) continue;
+    readQuotedRows(text.slice(lineStarts[layout.firstDataLineIndex]), layout.firstDataLineIndex, delimiter, (i, row, parser) => {
+      if (row.every((cell) => cell.trim() === "")) return;
       if (row.length !== width) {
         if (isFooter(i)) {
           footerFrom = i;
-          break;
+          return parser.abort();
         }
         failRow(i, `has ${row.length} ${delimiterName(delimiter)}-separated fields where the header has ${width}`);
       }
@@ -181,10 +173,10 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, 
       }
       if (!parseFields(i, joined)) {
         footerFrom = i;
-        break;
+        return parser.abort();
       }
       store(i);
-    }
+    });
   }
 
   const rowCount = sink.count;
@@ -237,6 +229,31 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, 
     source: { pressureReference, atmosphere: plan.atmosphere, warnings },
   };
   return { recording, dialect, columns: plan.columns, warnings };
+}
+
+/**
+ * Quote-aware rows, one at a time (Papa's step mode), so the whole table never exists as arrays of strings. A row
+ * whose quotes carry it over many lines is refused once it passes MAX_FIELDS_PER_ROW.
+ */
+function readQuotedRows(body: string, firstLineIndex: number, delimiter: string, onRow: (lineIndex: number, row: string[], parser: Papa.Parser) => void): void {
+  // Papa counts rows, not lines; map back through the line breaks each row consumed.
+  let lineIndex = firstLineIndex;
+  Papa.parse<string[]>(body, {
+    delimiter,
+    skipEmptyLines: false,
+    header: false,
+    step: (results, parser) => {
+      const row = results.data;
+      const i = lineIndex;
+      let breaks = 1;
+      for (const cell of row) for (let c = cell.indexOf("\n"); c >= 0; c = cell.indexOf("\n", c + 1)) breaks++;
+      lineIndex += breaks;
+      if (row.length > MAX_FIELDS_PER_ROW) {
+        throw rowError(i, `has ${row.length.toLocaleString("en")} fields; Papin reads at most ${MAX_FIELDS_PER_ROW.toLocaleString("en")} fields per row`);
+      }
+      onRow(i, row, parser);
+    },
+  });
 }
 
 function cellOf(prepared: PreparedText, layout: TableLayout, lineIndex: number, field: number): string {

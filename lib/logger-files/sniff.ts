@@ -15,7 +15,65 @@ export type PreparedText = {
   lineCount: number;
 };
 
+/** Longest line read, in characters: a logger row is a few hundred; a longer line is not a table row (issue 11). */
+export const MAX_LINE_CHARS = 1024 * 1024;
+/** Most fields in one row; counted before any line is split, so a huge row never becomes a huge array. */
+export const MAX_FIELDS_PER_ROW = 10_000;
+
+const SEPARATOR_CODES: Array<[number, Delimiter]> = [
+  [44, ","],
+  [59, ";"],
+  [9, "\t"],
+];
+
+/** Refuses a line over MAX_LINE_CHARS or with more than MAX_FIELDS_PER_ROW fields by any separator (quoted ones counted too). */
+function checkLineLimits(text: string, start: number, end: number, lineIndex: number): void {
+  const length = end - start;
+  if (length > MAX_LINE_CHARS) {
+    throw new LoggerFileError(`Line ${lineIndex + 1} is ${length.toLocaleString("en")} characters long; Papin reads lines of at most ${MAX_LINE_CHARS.toLocaleString("en")} characters (1 MB)`);
+  }
+  // Fewer characters than the limit cannot hold more fields than the limit.
+  if (length < MAX_FIELDS_PER_ROW) return;
+  for (const [code, delimiter] of SEPARATOR_CODES) {
+    let separators = 0;
+    for (let i = start; i < end; i++) if (text.charCodeAt(i) === code) separators++;
+    if (separators >= MAX_FIELDS_PER_ROW) {
+      throw new LoggerFileError(
+        `Line ${lineIndex + 1} has ${(separators + 1).toLocaleString("en")} ${delimiterName(delimiter)}-separated fields; Papin reads at most ${MAX_FIELDS_PER_ROW.toLocaleString("en")} fields per row`,
+      );
+    }
+  }
+}
+
+/**
+ * Before decoding: a stretch of bytes without a line break that is longer than any lawful line in any encoding Papin
+ * reads (at most 3 UTF-8 bytes per character) is refused at once, so a huge single line is not decoded first.
+ */
+function refuseHugeLineBytes(bytes: Uint8Array): void {
+  if (bytes[0] === 0xff && bytes[1] === 0xfe) return; // UTF-16: a 0x0A byte may sit inside a character
+  const limitBytes = 3 * MAX_LINE_CHARS;
+  if (bytes.length <= limitBytes) return;
+  // Lines break at LF, or at CR in a file without any LF (as prepareText splits them); look no further than needed.
+  const window = bytes.subarray(0, limitBytes + 1);
+  const breakByte = window.indexOf(0x0a) < 0 && window.indexOf(0x0d) >= 0 && bytes.indexOf(0x0a) < 0 ? 0x0d : 0x0a;
+  // Stride from break to break at most limitBytes apart; only a refusal counts the lines before it.
+  for (let start = 0; bytes.length - start > limitBytes;) {
+    const lastBreak = bytes.lastIndexOf(breakByte, start + limitBytes);
+    if (lastBreak >= start) {
+      start = lastBreak + 1;
+      continue;
+    }
+    const before = bytes.subarray(0, start);
+    let lineIndex = 0;
+    for (let at = before.indexOf(breakByte); at >= 0; at = before.indexOf(breakByte, at + 1)) lineIndex++;
+    const end = bytes.indexOf(breakByte, start);
+    const lengthBytes = (end < 0 ? bytes.length : end) - start;
+    throw new LoggerFileError(`Line ${lineIndex + 1} is ${lengthBytes.toLocaleString("en")} bytes long; Papin reads lines of at most ${MAX_LINE_CHARS.toLocaleString("en")} characters (1 MB)`);
+  }
+}
+
 export function prepareText(bytes: Uint8Array): PreparedText {
+  refuseHugeLineBytes(bytes);
   const { text, encoding } = decodeLoggerBytes(bytes);
   if (text.trim() === "") throw new LoggerFileError("The file is empty: it holds only blank space");
   const firstLf = text.indexOf("\n");
@@ -41,6 +99,7 @@ export function prepareText(bytes: Uint8Array): PreparedText {
       grownEnds.set(ends);
       ends = grownEnds;
     }
+    checkLineLimits(text, position, end, count);
     starts[count] = position;
     ends[count] = end;
     count++;

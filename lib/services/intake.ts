@@ -16,6 +16,7 @@ import { assertAllowed, type Actor } from "./access";
 import { listSterilizerCatalog } from "./catalog";
 import { settleBowieDickVerdict, verdictOfNewCycle } from "./bowie-dick";
 import { assertTokenCoversSterilizer, viaApiToken } from "./api-tokens";
+import { answerOnce, type IdempotentAnswer, type RecordAnswer } from "./idempotency";
 
 export type UploadedFile = { name: string; bytes: Uint8Array; contentType: string };
 
@@ -33,6 +34,8 @@ export type CreateCycleInput = {
   mapping?: MappingOverrides;
   saveMapping?: boolean;
   supersedesId?: string | null;
+  /** stores the answer of an Idempotency-Key request in the transaction that makes the cycle */
+  recordAnswer?: RecordAnswer;
 };
 
 /** The choices of the intake form: the site's active sterilizers, profiles and instruments, and its time zone. */
@@ -185,9 +188,24 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
         ...viaApiToken(actor),
       },
     }),
-    inside: (tx, cycleId) => notifyFailure(tx, cycleId, analysis.result),
+    inside: async (tx, cycleId) => {
+      await notifyFailure(tx, cycleId, analysis.result);
+      await input.recordAnswer?.(tx, { status: 201, body: { id: cycleId, status: "draft", analysis: analysis.result } satisfies CreateCycleResponse });
+    },
   });
   return { id, status: "draft", analysis: analysis.result, fileAnalysis: analysis };
+}
+
+/**
+ * POST /api/cycles. With an Idempotency-Key (and the hash of what was sent), a retry after a lost answer gets the
+ * first answer back and creates nothing; see answerOnce.
+ */
+export async function registerUploadedCycle(input: CreateCycleInput, idempotency: { key: string | null; requestHash: string }): Promise<IdempotentAnswer> {
+  assertAllowed(input.actor, "cycle:create", "register cycles");
+  return answerOnce({ actor: input.actor, ...idempotency }, async (recordAnswer) => {
+    const created = await createCycleFromUpload({ ...input, recordAnswer });
+    return { status: 201, body: { id: created.id, status: created.status, analysis: created.analysis } satisfies CreateCycleResponse };
+  });
 }
 
 /**

@@ -29,6 +29,9 @@ export const createCycleFieldsSchema = z.object({
 });
 
 export type CreateCycleFields = z.infer<typeof createCycleFieldsSchema>;
+
+/** The optional `Idempotency-Key` header of POST /api/cycles: 1–200 printable ASCII characters. */
+export const idempotencyKeySchema = z.string().regex(/^[\x20-\x7e]{1,200}$/, "The Idempotency-Key header must be 1 to 200 printable ASCII characters.");
 export type CreateCycleField = keyof CreateCycleFields;
 
 const columnRole = z.enum(["time", "temperature", "pressure", "ignored"]);

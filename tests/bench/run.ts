@@ -4,6 +4,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { simulateDay, toLoggerCsv } from "../../lib/simulator";
 import { saturationTemperatureC } from "../../lib/steam";
+import { env } from "../../lib/env";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const LAUNCHER = path.join(ROOT, "lib/cli/launch.mjs");
@@ -96,8 +97,9 @@ async function main(): Promise<number> {
     const peakMb = Math.max(...rssKb) / 1024;
     const tsatPerSecond = tsatEvaluationsPerSecond();
     const intake = await intakePath(bytes);
+    const bounded = boundedIntake(dir, bytes.length / sim.timesS.length);
 
-    const rows: Array<[string, string, string, string, string]> = [
+    const rows: Row[] = [
       ["baseline: node read + split + parseFloat", `${baseline.toFixed(3)} s`, "", "", ""],
       ["analyze command (node lib/cli/launch.mjs analyze)", `${analyze.toFixed(3)} s`, "", "", ""],
       ["  the same through npm run --silent analyze", `${npmRun.seconds.toFixed(3)} s`, "", "", "(npm's own start-up included)"],
@@ -108,6 +110,7 @@ async function main(): Promise<number> {
       ["chart series payload", `${(intake.seriesBytes / 1024).toFixed(0)} KiB`, "", "< 1 MB", intake.seriesBytes < 1e6 ? "within limit" : "FAILED"],
       ["report PDF rendered (first render)", `${intake.reportS.toFixed(3)} s`, "< 3 s", "", intake.reportS < 3 ? "goal met" : "above goal"],
       ["server part of drop → record", `${(intake.analyseS + intake.seriesS).toFixed(3)} s`, "", "< 10 s", intake.analyseS + intake.seriesS < 10 ? "within limit" : "FAILED"],
+      ...bounded.rows,
       ["IF97 Tsat(p) evaluations per second", `${(tsatPerSecond / 1e6).toFixed(1)} million`, "≥ 20 million", "", tsatPerSecond >= 20e6 ? "goal met" : "below goal"],
     ];
     const widths = [0, 1, 2, 3, 4].map((k) => Math.max(...rows.map((r) => r[k].length), ["measure", "value", "goal", "must", "status"][k].length));
@@ -119,12 +122,62 @@ async function main(): Promise<number> {
     console.log(line(["measure", "value", "goal", "must", "status"]));
     console.log(line(widths.map((w) => "-".repeat(w))));
     for (const row of rows) console.log(line(row));
-    const failed = ratio > 5 || peakMb > 300 || intake.seriesBytes >= 1e6 || intake.analyseS + intake.seriesS >= 10;
+    const failed = ratio > 5 || peakMb > 300 || intake.seriesBytes >= 1e6 || intake.analyseS + intake.seriesS >= 10 || bounded.failed;
     if (failed) console.log("A must limit was missed.");
     return failed ? 1 : 0;
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
+}
+
+type Row = [string, string, string, string, string];
+type IntakeMemory = { outcome: string; message?: string; seconds: number; fileBytes: number; baselineRssKb: number; peakRssKb: number };
+
+/** One upload's reading and analysis in a fresh process (tests/bench/intake-memory.ts): time and peak memory growth. */
+function intakeMemory(file: string): IntakeMemory {
+  const result = timeProcess(path.join(ROOT, "node_modules/.bin/tsx"), [path.join(ROOT, "tests/bench/intake-memory.ts"), file]);
+  if (result.status !== 0) throw new Error(`intake-memory failed on ${path.basename(file)}: ${result.stderr.trim()}`);
+  return JSON.parse(result.stdout) as IntakeMemory;
+}
+
+/**
+ * Bounded intake (issue 11): the largest file PAPIN_UPLOAD_LIMIT_MB allows, of realistic rows, is accepted within a
+ * small multiple of its size in memory; a single line of the same size is refused fast, before it is split.
+ */
+function boundedIntake(dir: string, bytesPerRow: number): { rows: Row[]; failed: boolean } {
+  const limitBytes = env().PAPIN_UPLOAD_LIMIT_MB * 1024 * 1024;
+  const largest = path.join(dir, "largest.csv");
+  const rowsForLimit = Math.floor((limitBytes / bytesPerRow) * 0.99);
+  const largestBytes = toLoggerCsv(simulateDay({ temperatureChannels: 16, samples: rowsForLimit, sterilizationTempC: 134, holdingTimeS: 180 }));
+  if (largestBytes.length > limitBytes) throw new Error("the generated file came out over the upload limit");
+  writeFileSync(largest, largestBytes);
+  const oneLine = path.join(dir, "one-line.csv");
+  writeFileSync(oneLine, "1,".repeat(Math.floor(limitBytes / 2) - 1));
+  const accepted = intakeMemory(largest);
+  const refused = intakeMemory(oneLine);
+  const growth = (m: IntakeMemory) => (m.peakRssKb * 1024 - m.baselineRssKb * 1024) / m.fileBytes;
+  const mb = (n: number) => `${(n / 1e6).toFixed(1)} MB`;
+  const acceptedGrowth = growth(accepted);
+  const refusedGrowth = growth(refused);
+  const rows: Row[] = [
+    [
+      `largest allowed file (${mb(accepted.fileBytes)}, ${rowsForLimit.toLocaleString("en")} rows): read + analyse`,
+      `${accepted.seconds.toFixed(2)} s`,
+      "< 5 s",
+      "",
+      accepted.outcome !== "accepted" ? "FAILED" : accepted.seconds < 5 ? "goal met" : "above goal",
+    ],
+    ["  peak memory growth / file size", `${acceptedGrowth.toFixed(1)}×`, "≤ 4×", "≤ 6×", acceptedGrowth <= 4 ? "goal met" : acceptedGrowth <= 6 ? "within limit" : "FAILED"],
+    [
+      `single-line file (${mb(refused.fileBytes)}): refused`,
+      `${refused.seconds.toFixed(2)} s`,
+      "< 1 s",
+      "refused",
+      refused.outcome !== "refused" ? "FAILED" : refused.seconds < 1 ? "goal met" : "above goal",
+    ],
+    ["  peak memory growth / file size", `${refusedGrowth.toFixed(1)}×`, "≤ 2×", "≤ 6×", refusedGrowth <= 2 ? "goal met" : refusedGrowth <= 6 ? "within limit" : "FAILED"],
+  ];
+  return { rows, failed: accepted.outcome !== "accepted" || refused.outcome !== "refused" || acceptedGrowth > 6 || refusedGrowth > 6 };
 }
 
 /** The server's work for one upload of the day-long file, timed in this process. */

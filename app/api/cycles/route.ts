@@ -4,9 +4,9 @@ import { requireActorOrToken, requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
 import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
-import { createCycleFieldsSchema } from "@/lib/validations/intake";
+import { createCycleFieldsSchema, idempotencyKeySchema } from "@/lib/validations/intake";
 import { listCycles } from "@/lib/services/cycles";
-import { createCycleFromUpload } from "@/lib/services/intake";
+import { registerUploadedCycle } from "@/lib/services/intake";
 import { kickMailDelivery } from "@/lib/mail/delivery";
 
 export const runtime = "nodejs";
@@ -21,7 +21,10 @@ export const GET = route(async (request) => {
 
 export const POST = route(async (request) => {
   const actor = await requireActorOrToken(request, "cycle:create", { tokenRoute: "POST /api/cycles", what: "register cycles" });
-  const form = await readMultipart(request);
+  const keyHeader = request.headers.get("idempotency-key");
+  const idempotencyKey = keyHeader === null ? null : idempotencyKeySchema.safeParse(keyHeader);
+  if (idempotencyKey && !idempotencyKey.success) throw new AppError(400, zodMessage(idempotencyKey.error), "Idempotency-Key");
+  const form = await readMultipart(request, { fileFields: ["files", "file"] });
   const fields = createCycleFieldsSchema.safeParse(Object.fromEntries([...form.entries()].filter(([, v]) => typeof v === "string")));
   if (!fields.success) {
     const issue = fields.error.issues[0];
@@ -35,19 +38,22 @@ export const POST = route(async (request) => {
   }
   if (files.length === 0) throw new AppError(400, "Attach at least one logger file in the field named files.", "files");
   const { sterilizerId, profileId, instrumentId, cycleNumber, load, testKind, startedAt } = fields.data;
-  const created = await createCycleFromUpload({
-    actor,
-    sterilizerId,
-    profileId,
-    instrumentId: instrumentId || null,
-    cycleNumber,
-    load,
-    testKind,
-    startedAt,
-    files,
-    mapping,
-    saveMapping: form.get("saveMapping") === "true",
-  });
+  const answer = await registerUploadedCycle(
+    {
+      actor,
+      sterilizerId,
+      profileId,
+      instrumentId: instrumentId || null,
+      cycleNumber,
+      load,
+      testKind,
+      startedAt,
+      files,
+      mapping,
+      saveMapping: form.get("saveMapping") === "true",
+    },
+    { key: idempotencyKey?.data ?? null, requestHash: idempotencyKey ? form.digest() : "" },
+  );
   kickMailDelivery();
-  return NextResponse.json({ id: created.id, status: created.status, analysis: created.analysis }, { status: 201 });
+  return NextResponse.json(answer.body, { status: answer.status, headers: answer.replayed ? { "Idempotent-Replayed": "true" } : undefined });
 });

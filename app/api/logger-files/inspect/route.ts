@@ -9,7 +9,7 @@ export const runtime = "nodejs";
 
 export const POST = route(async (request) => {
   const actor = await requireRole("cycle:create", "upload logger files");
-  const form = await readMultipart(request);
+  const form = await readMultipart(request, { fileFields: ["file"], maxFiles: 1 });
   const [file] = await filesOf(form, "file");
   if (!file) throw new AppError(400, "Attach the logger file in the field named file.", "file");
   const instrumentId = String(form.get("instrumentId") ?? "") || undefined;

@@ -9,7 +9,7 @@ export const runtime = "nodejs";
 
 export const POST = route(async (request) => {
   const actor = await requireRole("report:verify", "check reports");
-  const form = await readMultipart(request);
+  const form = await readMultipart(request, { fileFields: ["file"], maxFiles: 1 });
   const [file] = await filesOf(form, "file");
   if (!file) throw new AppError(400, "Attach the PDF in the field named file.", "file");
   return NextResponse.json(await verifyReportBytes({ actor, bytes: file.bytes }));

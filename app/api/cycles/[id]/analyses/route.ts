@@ -12,7 +12,7 @@ type Context = { params: Promise<{ id: string }> };
 /** A correction: a new logger file and/or mapping for a draft or returned cycle; earlier analyses are kept. */
 export const POST = route<Context>(async (request, { params }) => {
   const actor = await requireRole("cycle:create", "correct cycles");
-  const form = await readMultipart(request);
+  const form = await readMultipart(request, { fileFields: ["file"], maxFiles: 1 });
   const [file] = await filesOf(form, "file");
   const mapping = mappingFromForm(form);
   if (!file && !mapping) throw new AppError(400, "Attach a corrected logger file or send a corrected mapping.");
