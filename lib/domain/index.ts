@@ -11,3 +11,4 @@ export * from "./units";
 export * from "./format";
 export * from "./profile-basis";
 export * from "./time-zone";
+export * from "./air-leakage";

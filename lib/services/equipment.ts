@@ -15,7 +15,7 @@ import {
   saveScheduleRow,
   updateSterilizerOnSite,
 } from "@/db/queries/sterilizers";
-import type { AnalysisResult } from "@/lib/analysis/types";
+import { thermometricOf, type CycleAnalysis } from "@/lib/analysis/types";
 import { can } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
 import { sizeClassOf, trendsFromAnalyses } from "@/lib/periodic-tests";
@@ -75,7 +75,8 @@ async function getSterilizerDetail({ actor, id, trendDays = 90 }: { actor: Actor
     listAnalysedCyclesOfSterilizer({ siteId, sterilizerId: id, since, limit: 500 }),
     getScheduleOverview({ actor, sterilizerId: id }),
   ]);
-  const trends = trendsFromAnalyses(analysed.map((a) => ({ ...a, result: a.result as AnalysisResult })));
+  // Trends follow the thermometric figures; air leakage tests have none of them.
+  const trends = trendsFromAnalyses(analysed.flatMap((a) => (thermometricOf(a.result as CycleAnalysis) ? [{ ...a, result: thermometricOf(a.result as CycleAnalysis)! }] : [])));
   return { sterilizer, sizeClass: sizeClassOf(sterilizer.chamberVolumeL), profile, recentCycles, trends, trendDays, schedule: overview.rows, timeZone: overview.timeZone };
 }
 

@@ -6,7 +6,7 @@ import { enqueueAnalysisFailedMail } from "@/lib/services/mail";
 import type { TestKind } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 import { AnalysisError } from "@/lib/analysis";
-import type { AnalysisResult } from "@/lib/analysis/types";
+import type { CycleAnalysis } from "@/lib/analysis/types";
 import { inspectLoggerFile, LoggerFileError, type MappingOverrides } from "@/lib/logger-files";
 import { analyzeLoggerBytes, siteAtmosphereKpa, type FileAnalysis } from "@/lib/cycles/analyze-file";
 import { resolveCycleStart, siteClockStamp } from "@/lib/cycles/start-time";
@@ -241,7 +241,7 @@ function analysisRow(analysis: FileAnalysis, actor: Actor) {
 
 type Tx = Parameters<typeof enqueueAnalysisFailedMail>[0];
 
-async function notifyFailure(tx: Tx, cycleId: string, result: AnalysisResult) {
+async function notifyFailure(tx: Tx, cycleId: string, result: CycleAnalysis) {
   if (result.verdict !== "fail") return;
   const failedChecks = result.checks.filter((c) => !c.passed).map((c) => c.label);
   await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks });
