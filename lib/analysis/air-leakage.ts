@@ -5,7 +5,7 @@ import type { AirLeakageCheck, AirLeakageDiagnosis, AirLeakageLimits, AirLeakage
 import { condensateWarning, coverageDiagnosis, LEAK_CHECK_LABELS, leakCheckBases, leakDiagnosis, leakSummary, PRESSURE_FELL, timesFinding, vacuumDiagnosis } from "./air-leakage-words";
 import { countMissing, findGaps, medianIntervalS, TIME_TOLERANCE_S, type GapScan } from "./record";
 import { AnalysisError, GAP_FACTOR } from "./types";
-import { describeDuration, round } from "./words";
+import { describeDuration, round, seconds } from "./words";
 
 export type AirLeakageOptions = { marks?: AirLeakageMarks | null; engineVersion: string; source: RecordingSource };
 
@@ -44,8 +44,26 @@ export function analyzeAirLeakage(recording: Recording, limits: AirLeakageLimits
   const bases = leakCheckBases(limits);
   const vacuumPassed = vacuum.kpa <= limits.vacuumSetPointKpaAbs + 1e-9;
   const checks: AirLeakageCheck[] = [
-    { id: "vacuum-reached", label: LEAK_CHECK_LABELS["vacuum-reached"], passed: vacuumPassed, measured: round(vacuum.kpa, 3), limit: limits.vacuumSetPointKpaAbs, comparison: "at-most", unit: "kPa", basis: bases["vacuum-reached"] },
-    { id: "record-covers-test", label: LEAK_CHECK_LABELS["record-covers-test"], passed: covered, measured: round(endS - times.t1, 3), limit: round(times.t3 - times.t1, 3), comparison: "at-least", unit: "s", basis: bases["record-covers-test"] },
+    {
+      id: "vacuum-reached",
+      label: LEAK_CHECK_LABELS["vacuum-reached"],
+      passed: vacuumPassed,
+      measured: round(vacuum.kpa, 3),
+      limit: limits.vacuumSetPointKpaAbs,
+      comparison: "at-most",
+      unit: "kPa",
+      basis: bases["vacuum-reached"],
+    },
+    {
+      id: "record-covers-test",
+      label: LEAK_CHECK_LABELS["record-covers-test"],
+      passed: covered,
+      measured: round(endS - times.t1, 3),
+      limit: round(times.t3 - times.t1, 3),
+      comparison: "at-least",
+      unit: "s",
+      basis: bases["record-covers-test"],
+    },
     {
       id: "leak-rate",
       label: LEAK_CHECK_LABELS["leak-rate"],
@@ -123,11 +141,11 @@ function validateMarks(marks: AirLeakageMarks, endS: number): void {
   if (marks.t1S > endS) throw new AnalysisError(`The marked t1 (${describeDuration(marks.t1S)}) lies after the record's end (${describeDuration(round(endS, 1))})`);
   const offTiming = (from: number, to: number | undefined, nominalS: number) => to !== undefined && !(Math.abs(to - from - nominalS) <= timingToleranceS + TIME_TOLERANCE_S);
   if (offTiming(marks.t1S, marks.t2S, waitS)) {
-    throw new AnalysisError(`The marked t2 is ${describeDuration(round((marks.t2S ?? 0) - marks.t1S, 1))} after t1; the wait is ${waitS} ± ${timingToleranceS} s (DOMAIN §2.5)`);
+    throw new AnalysisError(`The marked t2 is ${seconds(round((marks.t2S ?? 0) - marks.t1S, 1))} after t1; the wait is ${waitS} ± ${timingToleranceS} s (DOMAIN §2.5)`);
   }
   const t2 = marks.t2S ?? marks.t1S + waitS;
   if (offTiming(t2, marks.t3S, testS)) {
-    throw new AnalysisError(`The marked t3 is ${describeDuration(round((marks.t3S ?? 0) - t2, 1))} after t2; the test period is ${testS} ± ${timingToleranceS} s (DOMAIN §2.5)`);
+    throw new AnalysisError(`The marked t3 is ${seconds(round((marks.t3S ?? 0) - t2, 1))} after t2; the test period is ${testS} ± ${timingToleranceS} s (DOMAIN §2.5)`);
   }
 }
 

@@ -30,11 +30,14 @@ export function leakChartGeometry(series: SeriesResponse, analysis: AirLeakageRe
   const plot = { x: 40, y: 10, w: size.width - 52, h: size.height - 38 };
   const values: number[] = [analysis.limits.vacuumSetPointKpaAbs];
   for (const p of [analysis.p1, analysis.p2, analysis.p3]) if (p !== null) values.push(p);
+  // The scale fits the hold (deepest vacuum to t3), where the leak shows; the evacuation above it leaves the plot.
+  const holdFrom = Math.min(analysis.vacuum.atS, analysis.t1);
   times.forEach((t, i) => {
     const v = pressure?.values[i];
-    if (t >= window.from && t <= window.to && v !== null && v !== undefined) values.push(v);
+    if (t >= holdFrom && t <= analysis.t3 && v !== null && v !== undefined) values.push(v);
   });
-  const ticks = niceTicks(Math.min(...values), Math.max(...values), 5);
+  const [low, high] = [Math.min(...values), Math.max(...values)];
+  const ticks = niceTicks(low - (high - low) * 0.05, high + (high - low) * 0.05, 5);
   const x = scaleLinear([window.from, Math.max(window.to, window.from + 1)], [plot.x, plot.x + plot.w]);
   const y = scaleLinear([ticks.min, ticks.max], [plot.y + plot.h, plot.y]);
   const inWindow = times.map((t) => (t >= window.from && t <= window.to ? t : NaN));

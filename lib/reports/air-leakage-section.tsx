@@ -1,5 +1,5 @@
 /** The report's section for a logged air leakage test (DOMAIN.md §2.5): it replaces the thermometric sections. */
-import { Circle, G, Line, Path, Svg, View } from "@react-pdf/renderer";
+import { Circle, ClipPath, Defs, G, Line, Path, Rect, Svg, View } from "@react-pdf/renderer";
 import type { AirLeakageResult, CycleDetail, SeriesResponse } from "@/lib/cycles/contracts";
 import { leakChartGeometry, leakChartWindow } from "@/lib/cycles/air-leakage-chart";
 import { formatElapsed } from "@/lib/cycles/chart-model";
@@ -125,7 +125,14 @@ function LeakChart({ analysis, series }: { analysis: AirLeakageResult; series: S
         time since the first sample (min:s)
       </SvgLabel>
       {g.setPoint ? <Line x1={g.plot.x} x2={g.plot.x + g.plot.w} y1={g.setPoint.y} y2={g.setPoint.y} stroke={colour.pass500} strokeWidth={0.7} strokeDasharray="4 2" /> : null}
-      <Path d={g.path} stroke={colour.brass600} strokeWidth={1} fill="none" />
+      <Defs>
+        <ClipPath id="leak-plot">
+          <Rect x={g.plot.x} y={g.plot.y} width={g.plot.w} height={g.plot.h} />
+        </ClipPath>
+      </Defs>
+      <G clipPath="url(#leak-plot)">
+        <Path d={g.path} stroke={colour.brass600} strokeWidth={1} fill="none" />
+      </G>
       {g.marks.map((m) => (
         <G key={m.label}>
           <Line x1={m.x} x2={m.x} y1={g.plot.y} y2={g.plot.y + g.plot.h} stroke={colour.steam600} strokeWidth={0.7} strokeDasharray={m.source === "marked" ? "2 2" : undefined} />

@@ -15,6 +15,7 @@ const H = 300;
 export function AirLeakageChart({ cycleId, cycleNumber, analysis }: { cycleId: string; cycleNumber: string; analysis: AirLeakageResult }) {
   const titleId = useId();
   const descId = useId();
+  const clipId = useId();
   const window = leakChartWindow(analysis, analysis.record.durationS);
   const { data, error, isLoading } = useSeries(cycleId, window, WINDOW_POINTS);
   if (error) return <p className="text-sm text-fail-700">The chart data could not be loaded: {error.message}</p>;
@@ -55,7 +56,10 @@ export function AirLeakageChart({ cycleId, cycleNumber, analysis }: { cycleId: s
             </text>
           </g>
         )}
-        <path d={g.path} fill="none" stroke={CHART.pressure} strokeWidth={1.6} />
+        <clipPath id={clipId}>
+          <rect x={g.plot.x} y={g.plot.y} width={g.plot.w} height={g.plot.h} />
+        </clipPath>
+        <path d={g.path} fill="none" stroke={CHART.pressure} strokeWidth={1.6} clipPath={`url(#${clipId})`} />
         {g.marks.map((m) => (
           <g key={m.label} data-testid={`leak-mark-${m.label}`}>
             <line x1={m.x} x2={m.x} y1={g.plot.y} y2={g.plot.y + g.plot.h} stroke={CHART.plateau} strokeDasharray={m.source === "marked" ? "2 2" : undefined} />
