@@ -41,40 +41,16 @@ export function analyzeAirLeakage(recording: Recording, limits: AirLeakageLimits
   const judged = covered ? judgeLeakRate({ p1Kpa: p1!, p2Kpa: p2!, p3Kpa: p3!, limitKpaPerMin: limits.maxLeakRateKpaPerMin }) : null;
   const riseKpa = p1 !== null && p2 !== null ? p2 - p1 : null;
 
-  const bases = leakCheckBases(limits);
   const vacuumPassed = vacuum.kpa <= limits.vacuumSetPointKpaAbs + 1e-9;
-  const checks: AirLeakageCheck[] = [
-    {
-      id: "vacuum-reached",
-      label: LEAK_CHECK_LABELS["vacuum-reached"],
-      passed: vacuumPassed,
-      measured: round(vacuum.kpa, 3),
-      limit: limits.vacuumSetPointKpaAbs,
-      comparison: "at-most",
-      unit: "kPa",
-      basis: bases["vacuum-reached"],
-    },
-    {
-      id: "record-covers-test",
-      label: LEAK_CHECK_LABELS["record-covers-test"],
-      passed: covered,
-      measured: round(endS - times.t1, 3),
-      limit: round(times.t3 - times.t1, 3),
-      comparison: "at-least",
-      unit: "s",
-      basis: bases["record-covers-test"],
-    },
-    {
-      id: "leak-rate",
-      label: LEAK_CHECK_LABELS["leak-rate"],
-      passed: judged?.passed ?? false,
-      measured: judged ? round(judged.leakRateKpaPerMin, 4) : null,
-      limit: limits.maxLeakRateKpaPerMin,
-      comparison: "at-most",
-      unit: "kPa/min",
-      basis: bases["leak-rate"],
-    },
-  ];
+  const checks = leakChecks(limits, {
+    vacuumKpa: vacuum.kpa,
+    vacuumPassed,
+    covered,
+    coveredS: endS - times.t1,
+    neededS: times.t3 - times.t1,
+    leakRate: judged?.leakRateKpaPerMin ?? null,
+    leakPassed: judged?.passed ?? false,
+  });
   const diagnoses: AirLeakageDiagnosis[] = [];
   if (!vacuumPassed) diagnoses.push({ checkId: "vacuum-reached", text: vacuumDiagnosis(vacuum.kpa, timesS[vacuum.index], limits) });
   if (!covered) diagnoses.push({ checkId: "record-covers-test", text: coverageDiagnosis(times.t1, times.t3, endS, scan.gaps) });
@@ -123,6 +99,19 @@ export function analyzeAirLeakage(recording: Recording, limits: AirLeakageLimits
 }
 
 const roundOrNull = (v: number | null) => (v === null ? null : round(v, 3));
+
+type Measured = { vacuumKpa: number; vacuumPassed: boolean; covered: boolean; coveredS: number; neededS: number; leakRate: number | null; leakPassed: boolean };
+
+/** The three checks of the test, each "at most" or "at least" its limit, with the limit's source (DOMAIN.md §2.5). */
+function leakChecks(limits: AirLeakageLimits, m: Measured): AirLeakageCheck[] {
+  const bases = leakCheckBases(limits);
+  const check = (id: AirLeakageCheck["id"], rest: Omit<AirLeakageCheck, "id" | "label" | "basis">): AirLeakageCheck => ({ id, label: LEAK_CHECK_LABELS[id], ...rest, basis: bases[id] });
+  return [
+    check("vacuum-reached", { passed: m.vacuumPassed, measured: round(m.vacuumKpa, 3), limit: limits.vacuumSetPointKpaAbs, comparison: "at-most", unit: "kPa" }),
+    check("record-covers-test", { passed: m.covered, measured: round(m.coveredS, 3), limit: round(m.neededS, 3), comparison: "at-least", unit: "s" }),
+    check("leak-rate", { passed: m.leakPassed, measured: m.leakRate === null ? null : round(m.leakRate, 4), limit: limits.maxLeakRateKpaPerMin, comparison: "at-most", unit: "kPa/min" }),
+  ];
+}
 
 function validateLeakInput(recording: Recording, limits: AirLeakageLimits): void {
   const usable = (v: number | undefined) => v === undefined || (Number.isFinite(v) && v > 0);

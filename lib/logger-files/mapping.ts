@@ -41,7 +41,8 @@ function settleAtmosphere(overrides: MappingOverrides, context: ReadContext): At
   return atmosphere;
 }
 
-const NO_TEMPERATURE = "No temperature column: no header carries a temperature unit (°C, °F, K) or a channel name; say which columns are temperatures";
+const NO_TEMPERATURE =
+  "No temperature column: no header carries a temperature unit (°C, °F, K) or a channel name; say which columns are temperatures (an air leakage test needs none: register it as that kind)";
 const NO_PRESSURE = "No pressure column: no header carries a pressure unit (kPa, bar, mbar, MPa, psi, mmHg) or the word pressure; say which column is the chamber pressure";
 
 /**
