@@ -4,7 +4,17 @@ import { useState } from "react";
 import { createProfileAction, updateProfileAction } from "@/app/(portal)/profiles/actions";
 import { Field, TextInput, useFormAction } from "./form-bits";
 import { ActionMessage } from "@/components/ui/action-message";
-import { AIR_LEAKAGE_TEST, LEAK_LIMIT_PRESETS, PROFILE_BASES, PROFILE_BASIS_LABELS, PROFILE_BASIS_SCOPES, PROFILE_FIELDS, summariseBasisMinimums, type ProfileBasis, type ProfileField } from "@/lib/domain";
+import {
+  AIR_LEAKAGE_TEST,
+  LEAK_LIMIT_PRESETS,
+  PROFILE_BASES,
+  PROFILE_BASIS_LABELS,
+  PROFILE_BASIS_SCOPES,
+  PROFILE_FIELDS,
+  summariseBasisMinimums,
+  type ProfileBasis,
+  type ProfileField,
+} from "@/lib/domain";
 
 type Values = Record<ProfileField, string>;
 

@@ -73,7 +73,10 @@ export function analyzeLoggerBytes(bytes: Uint8Array, profile: AcceptanceProfile
   const result = analyzeCycleRecording(recording, request);
   const sha256 = sha256Hex(bytes);
   // A thermometric input hash keeps the shape it had before air leakage tests, so earlier hashes still compare.
-  const hashed = kind === "air-leakage" ? { file: sha256, mapping: effectiveMapping, limits: request.limits, engine: ENGINE_VERSION, kind, marks: choice.marks ?? null } : { file: sha256, mapping: effectiveMapping, limits: request.limits, engine: ENGINE_VERSION };
+  const hashed =
+    kind === "air-leakage"
+      ? { file: sha256, mapping: effectiveMapping, limits: request.limits, engine: ENGINE_VERSION, kind, marks: choice.marks ?? null }
+      : { file: sha256, mapping: effectiveMapping, limits: request.limits, engine: ENGINE_VERSION };
   return {
     sha256,
     inputHash: sha256Hex(canonicalJson(hashed)),
