@@ -119,6 +119,9 @@ export const acceptanceProfiles = sqliteTable(
     freeSpaceEarlyK: real("free_space_early_k").notNull().default(5),
     freeSpaceEarlyS: real("free_space_early_s").notNull().default(60),
     freeSpaceK: real("free_space_k").notNull().default(2),
+    // Logged air leakage test (DOMAIN §2.5): leak-rate limit (EN 285 / HTM 2010 0.13 kPa/min) and the vacuum set point (EN 285 below 7 kPa abs, from memory).
+    leakRateLimitKpaPerMin: real("leak_rate_limit_kpa_per_min").notNull().default(0.13),
+    leakVacuumSetPointKpaAbs: real("leak_vacuum_set_point_kpa_abs").notNull().default(7),
     // The standard the limits claim, or "local" with basis_reason (lib/domain/profile-basis.ts).
     basis: text("basis", { enum: PROFILE_BASES }).notNull(),
     basisReason: text("basis_reason"),

@@ -4,7 +4,17 @@ import { useState } from "react";
 import { createProfileAction, updateProfileAction } from "@/app/(portal)/profiles/actions";
 import { Field, TextInput, useFormAction } from "./form-bits";
 import { ActionMessage } from "@/components/ui/action-message";
-import { PROFILE_BASES, PROFILE_BASIS_LABELS, PROFILE_BASIS_SCOPES, PROFILE_FIELDS, summariseBasisMinimums, type ProfileBasis, type ProfileField } from "@/lib/domain";
+import {
+  AIR_LEAKAGE_TEST,
+  LEAK_LIMIT_PRESETS,
+  PROFILE_BASES,
+  PROFILE_BASIS_LABELS,
+  PROFILE_BASIS_SCOPES,
+  PROFILE_FIELDS,
+  summariseBasisMinimums,
+  type ProfileBasis,
+  type ProfileField,
+} from "@/lib/domain";
 
 type Values = Record<ProfileField, string>;
 
@@ -30,6 +40,8 @@ const DEFAULTS: Values = {
   freeSpaceEarlyK: "5",
   freeSpaceEarlyS: "60",
   freeSpaceK: "2",
+  leakRateLimitKpaPerMin: String(AIR_LEAKAGE_TEST.maxLeakRateKpaPerMin),
+  leakVacuumSetPointKpaAbs: String(AIR_LEAKAGE_TEST.vacuumSetPointKpaAbs),
   basis: "en-285",
   basisReason: "",
 };
@@ -85,6 +97,18 @@ export function ProfileForm({ profile }: { profile?: ProfileFormValues }) {
         {limit("freeSpaceEarlyK", "Free space, at the plateau start", "K", "Largest excess over the reference")}
         {limit("freeSpaceEarlyS", "Free space, start allowance lasts", "s", "From the plateau start")}
         {limit("freeSpaceK", "Free space, after that", "K", "Largest excess over the reference")}
+      </div>
+      {/* The logged air leakage test (DOMAIN.md §2.5): the leak-rate limit and the vacuum the test starts from. */}
+      <div className="grid grid-cols-2 gap-3">
+        {limit("leakRateLimitKpaPerMin", "Air leakage: highest leak rate", "kPa/min", "(p3 − p2) / 10 min")}
+        {limit("leakVacuumSetPointKpaAbs", "Air leakage: vacuum set point", "kPa abs", "The evacuation must reach it")}
+      </div>
+      <div className="flex flex-wrap gap-2" aria-label="Air leakage limit presets">
+        {LEAK_LIMIT_PRESETS.map((pr) => (
+          <button key={pr.label} type="button" className="btn-secondary px-2 py-1 text-xs" onClick={() => set("leakRateLimitKpaPerMin")(String(pr.kpaPerMin))}>
+            {pr.label}
+          </button>
+        ))}
       </div>
       <BasisFields idPrefix={p} values={values} errors={errors} set={set} />
       {editing && <TextInput id={`${p}-reason`} name="reason" label="Reason for the change" error={errors.reason} hint="Written to the audit ledger with the old and new limits." />}

@@ -190,6 +190,7 @@ function CycleFacts({ idPrefix: ids, details, wiring }: { idPrefix: string; deta
         </select>
         {errorText("testKind")}
       </div>
+      {fields.testKind === "air-leakage" && <LeakMarkField idPrefix={ids} details={details} />}
       <div className="md:col-span-2 xl:col-span-3">
         <label className="field-label" htmlFor={`${ids}-load`}>
           Load description
@@ -208,6 +209,38 @@ function CycleFacts({ idPrefix: ids, details, wiring }: { idPrefix: string; deta
         {errorText("load")}
       </div>
     </>
+  );
+}
+
+/** An air leakage test's t1, when the trace alone does not show where the valves closed (DOMAIN.md §2.5). */
+function LeakMarkField({ idPrefix: ids, details }: { idPrefix: string; details: CycleFields }) {
+  const error = details.fieldErrors.leakMarks;
+  return (
+    <div>
+      <label className="field-label" htmlFor={`${ids}-leak-t1`}>
+        Valves closed at t1 (optional)
+      </label>
+      <input
+        id={`${ids}-leak-t1`}
+        name="leakT1"
+        className="field-input mono"
+        inputMode="decimal"
+        placeholder="m:ss after the first sample"
+        value={details.fields.leakT1 ?? ""}
+        onChange={(e) => details.setField("leakT1", e.target.value)}
+        aria-invalid={Boolean(error)}
+        aria-describedby={error ? `${ids}-leak-t1-error` : `${ids}-leak-t1-hint`}
+      />
+      {error ? (
+        <p id={`${ids}-leak-t1-error`} className="field-error" data-field-error="leakMarks">
+          {error}
+        </p>
+      ) : (
+        <p id={`${ids}-leak-t1-hint`} className="mt-1 text-xs text-ink-muted">
+          Empty: Papin takes the deepest vacuum as t1. A marked t1 overrides it and is recorded as marked; t2 and t3 follow 5 and 15 min later. The file may hold only time and chamber pressure.
+        </p>
+      )}
+    </div>
   );
 }
 

@@ -1,6 +1,6 @@
 import type { InspectResponse, MappingOverrides } from "@/lib/cycles/contracts";
 import type { ProfileBasis, TestKind } from "@/lib/domain";
-import { createCycleFieldsSchema, mappingProblems, pressureReferenceProblem, type CreateCycleField } from "@/lib/validations/intake";
+import { createCycleFieldsSchema, mappingProblems, parseElapsedInput, pressureReferenceProblem, type CreateCycleField } from "@/lib/validations/intake";
 import { timeFormatHasDate } from "@/lib/cycles/start-time";
 import type { MappedColumn } from "./mapping-table";
 
@@ -19,10 +19,16 @@ export type IntakeProfile = { id: string; name: string; sterilizationTempC: numb
 export type IntakeInstrument = { id: string; name: string; serialNumber: string; kind: string; hasSavedMapping: boolean };
 
 /** The cycle details as the form holds them; startedAt is a datetime-local value, read in the site's time zone. */
-export type IntakeFields = { sterilizerId: string; profileId: string; instrumentId: string; cycleNumber: string; load: string; testKind: TestKind; startedAt: string };
-export type FieldErrors = Partial<Record<CreateCycleField, string>>;
+/** leakT1: an air leakage test's t1 as typed (m:ss or seconds since the first sample); empty lets Papin find it in the trace. */
+export type IntakeFields = { sterilizerId: string; profileId: string; instrumentId: string; cycleNumber: string; load: string; testKind: TestKind; startedAt: string; leakT1?: string };
+export type FieldErrors = Partial<Record<CreateCycleField | "leakMarks", string>>;
 
-export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind", "startedAt"];
+export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind", "startedAt", "leakMarks"];
+
+/** The air leakage test's marked t1 in seconds: null when none is given or the test kind is another, NaN when it cannot be read. */
+export function markedT1(fields: IntakeFields): number | null {
+  return fields.testKind === "air-leakage" ? parseElapsedInput(fields.leakT1 ?? "") : null;
+}
 
 /** Whether the inspected file leaves the start time to the user: elapsed times or clock times without a date. */
 export function needsStartTime(inspect: InspectResponse | null): boolean {
@@ -100,7 +106,9 @@ export function draftProblems(draft: IntakeDraft): DraftProblems {
     }
   }
   if (askStart && !draft.fields.startedAt.trim()) fieldErrors.startedAt ??= "This file holds elapsed times without a date: give the date and time the cycle started.";
-  const mappingErrors = draft.inspect ? mappingProblems(draft.columns, draft.referenceColumn) : [];
+  const t1 = markedT1(draft.fields);
+  if (t1 !== null && Number.isNaN(t1)) fieldErrors.leakMarks = "Write t1 as minutes:seconds (or seconds) after the first sample, e.g. 4:30, or leave it empty.";
+  const mappingErrors = draft.inspect ? mappingProblems(draft.columns, draft.referenceColumn, { pressureOnly: draft.fields.testKind === "air-leakage" }) : [];
   const pressureReferenceError = draft.inspect ? pressureReferenceProblem(draft.columns) : null;
   let fileError: string | null = null;
   if (!draft.files[0] || !draft.inspect) fileError = draft.files[0] ? "The file could not be read; choose another one." : "Add the logger file first.";
@@ -124,6 +132,8 @@ export function cycleForm(draft: IntakeDraft): FormData {
   form.append("testKind", fields.testKind);
   if (needsStartTime(draft.inspect) && fields.startedAt.trim()) form.append("startedAt", fields.startedAt.trim());
   form.append("mapping", JSON.stringify(toMappingOverrides(draft.columns, draft.referenceColumn, draft.freeSpaceColumn)));
+  const t1 = markedT1(fields);
+  if (t1 !== null && Number.isFinite(t1)) form.append("leakMarks", JSON.stringify({ t1S: t1 }));
   if (draft.saveMapping && fields.instrumentId) form.append("saveMapping", "true");
   return form;
 }

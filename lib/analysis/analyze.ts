@@ -1,5 +1,7 @@
 import type { Recording, RecordingSource } from "../logger-files/types";
 import { STANDARD_ATMOSPHERE_KPA } from "../steam";
+import { analyzeAirLeakage } from "./air-leakage";
+import type { AirLeakageLimits, AirLeakageMarks } from "./air-leakage-types";
 import { channelSummaries, checkBand, checkSpread, measureHold } from "./band-spread";
 import { bandTopC, checkBases } from "./checks";
 import { checkEquilibration, timePlateau } from "./equilibration";
@@ -11,7 +13,7 @@ import { checkRecordComplete, countMissing, findGaps, gapsOutsideNote, recordPac
 import { checkSaturation, scanSaturation } from "./saturation";
 import { checkSaturationBand } from "./saturation-band";
 import type { FlagWords } from "./saturation-words";
-import type { AcceptanceLimits, AnalysisInput, AnalysisResult, Check, CheckId, Diagnosis } from "./types";
+import type { AcceptanceLimits, AnalysisInput, AnalysisResult, Check, CheckId, CycleAnalysis, Diagnosis } from "./types";
 import { validateLimits, validateRecording } from "./validate";
 import { decideVerdict, noPlateauSummary, unmeasuredChecks } from "./verdict";
 import { round } from "./words";
@@ -38,6 +40,17 @@ const UNSTATED_SOURCE: RecordingSource = {
   atmosphere: { kpa: STANDARD_ATMOSPHERE_KPA, source: "standard" },
   warnings: [],
 };
+
+/** Which analysis a cycle gets: the plateau analysis, or the air leakage test's (issue 10, item 6). */
+export type AnalysisRequest = { kind: "thermometric"; limits: AcceptanceLimits; plateau?: number } | { kind: "air-leakage"; limits: AirLeakageLimits; marks?: AirLeakageMarks | null };
+
+/** The kind switch: each test kind judged on its own terms. */
+export function analyzeCycleRecording(recording: Recording, request: AnalysisRequest): CycleAnalysis {
+  if (request.kind === "air-leakage") {
+    return analyzeAirLeakage(recording, request.limits, { marks: request.marks, engineVersion: ENGINE_VERSION, source: recording.source ?? UNSTATED_SOURCE });
+  }
+  return analyzeRecording(recording, request.limits, { plateau: request.plateau });
+}
 
 /**
  * Analyses one plateau of a recording against the acceptance limits (DESIGN.md "The analysis"), in
@@ -97,6 +110,7 @@ function noPlateauResult(recording: Recording, limits: AcceptanceLimits, common:
   const ts = limits.sterilizationTempC;
   const freeSpace = (recording.freeSpaceIndex ?? -1) >= 0;
   return {
+    kind: "thermometric",
     engineVersion: ENGINE_VERSION,
     verdict: "fail",
     summary: noPlateauSummary(limits, common.peak.maxC),
@@ -146,6 +160,7 @@ function plateauResult(recording: Recording, limits: AcceptanceLimits, span: Pla
   const { equilibrationTime, holdingTime } = timing;
   const { verdict, summary } = decideVerdict(checks, limits, { startS: timing.startS, equilibrationTime, holdingTime, largestDeviationK: scan.largest, freeSpace: freeSpace !== null });
   return {
+    kind: "thermometric",
     engineVersion: ENGINE_VERSION,
     verdict,
     summary,

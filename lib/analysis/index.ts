@@ -1,4 +1,7 @@
-export { analyzeRecording, findPlateaus, saturationTemperatureSeries, ENGINE_VERSION, PLATEAU_REARM_K } from "./analyze";
+export { analyzeRecording, analyzeCycleRecording, findPlateaus, saturationTemperatureSeries, ENGINE_VERSION, PLATEAU_REARM_K, type AnalysisRequest } from "./analyze";
+export { analyzeAirLeakage, pressureAt } from "./air-leakage";
+export { judgeLeakRate, type LeakRateJudgement, type LeakReadings } from "./air-leakage-rate";
+export type { AirLeakageCheck, AirLeakageCheckId, AirLeakageDiagnosis, AirLeakageLimits, AirLeakageMarks, AirLeakageResult, LeakTimeSource } from "./air-leakage-types";
 export { downsampleSeries, type DownsampledSeries } from "./downsample";
 export { lethalityMinutes, lethalRate } from "./f0";
 export {
@@ -10,6 +13,9 @@ export {
   type AcceptanceLimits,
   type AnalysisInput,
   type AnalysisResult,
+  type CycleAnalysis,
+  isAirLeakage,
+  thermometricOf,
   type ChannelSummary,
   type Check,
   type CheckId,

@@ -1,4 +1,5 @@
 import type { AtmosphereUsed, PressureReference } from "../logger-files/types";
+import type { AirLeakageResult } from "./air-leakage-types";
 
 export type AcceptanceLimits = {
   /** Ts: lower limit of the sterilization band, °C */
@@ -115,7 +116,10 @@ export type AnalysisInput = {
   warnings: string[];
 };
 
+/** A thermometric analysis (plateau, equilibration, holding, band, saturation, F0). */
 export type AnalysisResult = {
+  /** absent in analyses stored before air leakage tests were analysed: read as thermometric */
+  kind?: "thermometric";
   engineVersion: string;
   verdict: "pass" | "fail";
   /** one or two plain sentences */
@@ -154,6 +158,14 @@ export type AnalysisResult = {
   /** absent in analyses stored by engine 1.x */
   input?: AnalysisInput;
 };
+
+/** What a cycle's analysis can be: thermometric, or a logged air leakage test. */
+export type CycleAnalysis = AnalysisResult | AirLeakageResult;
+
+export const isAirLeakage = (analysis: CycleAnalysis | null | undefined): analysis is AirLeakageResult => analysis?.kind === "air-leakage";
+
+/** The thermometric analysis of a cycle, or null when it has none or is an air leakage test. */
+export const thermometricOf = (analysis: CycleAnalysis | null | undefined): AnalysisResult | null => (analysis && analysis.kind !== "air-leakage" ? analysis : null);
 
 export class AnalysisError extends Error {
   constructor(message: string) {

@@ -1,11 +1,24 @@
 import { readFileSync } from "node:fs";
 import { DEFAULT_LIMITS, type AcceptanceLimits } from "../analysis";
+import type { AnalysisRequest } from "../analysis/analyze";
+import { LEAK_FLAGS, THERMOMETRIC_ONLY_FLAGS, parseLeakRequest } from "./air-leakage-arguments";
+import { UsageError, numberFlag } from "./flags";
+
+export { UsageError } from "./flags";
 import type { MappingOverrides, ReadContext } from "../logger-files";
 import { atmosphereAtAltitudeKpa, atmosphereOutOfRange, parsePressureLabel, parseTemperatureUnit } from "../steam";
 
 export const USAGE = `Usage: npm run --silent analyze -- <logger file> --sterilization-temp <°C> --holding-time <s> [options]
+       npm run --silent analyze -- <logger file> --test-kind air-leakage [--leak-limit <kPa/min>] [--vacuum-set-point <kPa abs>] [--t1 <s>]
 
-Acceptance limits:
+  --test-kind <kind>         thermometric (default) or air-leakage: a vacuum leak test judged from the chamber pressure
+                             alone (DOMAIN.md §2.5); the file may hold only time and pressure
+Air leakage test:
+  --leak-limit <kPa/min>     highest leak rate (p3 − p2) / 10 min (default 0.13, EN 285 / HTM 2010; 1 mmHg/min = 0.1333)
+  --vacuum-set-point <kPa>   the evacuation must reach this absolute pressure or below (default 7, EN 285)
+  --t1 <s>                   when the valves closed, s since the first sample (default: the deepest vacuum)
+  --t2 <s>, --t3 <s>         marked ends of the 5 min wait and of the 10 min test (default t1 + 300 s, t2 + 600 s)
+Acceptance limits (thermometric):
   --band <K>                 band width above the sterilization temperature (default 3)
   --max-equilibration <s>    longest equilibration time (default 15)
   --max-spread <K>           largest difference between channels during holding (default 2)
@@ -31,15 +44,8 @@ Columns and units:
   --mapping <file.json>      a saved column mapping (JSON)
 Prints one JSON object and exits 0 whenever the file could be analysed, pass or fail.`;
 
-/** An error in how the command was called: exit code 2. */
-export class UsageError extends Error {
-  constructor(message: string) {
-    super(message);
-    this.name = "UsageError";
-  }
-}
-
-export type Parsed = { file: string; limits: AcceptanceLimits; overrides: MappingOverrides; context: ReadContext; plateau: number; help: boolean };
+/** limits: the thermometric limits (placeholders for an air leakage test); request: what the analysis is asked to do. */
+export type Parsed = { file: string; limits: AcceptanceLimits; request: AnalysisRequest; overrides: MappingOverrides; context: ReadContext; plateau: number; help: boolean };
 
 const VALUE_FLAGS = new Set([
   "sterilization-temp",
@@ -62,19 +68,10 @@ const VALUE_FLAGS = new Set([
   "max-interval",
   "free-space",
   "pressure-reference",
+  "test-kind",
+  ...LEAK_FLAGS,
 ]);
 const SWITCH_FLAGS = new Set(["pressure-gauge", "pressure-absolute", "help"]);
-
-function numberFlag(values: Map<string, string>, name: string, fallback?: number): number {
-  const raw = values.get(name);
-  if (raw === undefined) {
-    if (fallback === undefined) throw new UsageError(`--${name} is required (see --help)`);
-    return fallback;
-  }
-  const value = Number(raw.replace(",", "."));
-  if (raw.trim() === "" || !Number.isFinite(value)) throw new UsageError(`--${name} needs a number, not "${raw}"`);
-  return value;
-}
 
 export function parseArguments(argv: string[]): Parsed {
   const values = new Map<string, string>();
@@ -109,12 +106,27 @@ export function parseArguments(argv: string[]): Parsed {
       positional.push(arg);
     }
   }
+  const unused: AcceptanceLimits = { ...DEFAULT_LIMITS, sterilizationTempC: 0, holdingTimeS: 0 };
   if (switches.has("help")) {
-    return { file: "", limits: { ...DEFAULT_LIMITS, sterilizationTempC: 0, holdingTimeS: 0 }, overrides: {}, context: {}, plateau: 0, help: true };
+    return { file: "", limits: unused, request: { kind: "thermometric", limits: unused }, overrides: {}, context: {}, plateau: 0, help: true };
   }
   if (positional.length === 0) throw new UsageError("No logger file given (see --help)");
   if (positional.length > 1) throw new UsageError(`One logger file at a time; got ${positional.length}: ${positional.join(", ")}`);
+  const testKind = values.get("test-kind") ?? "thermometric";
+  if (testKind !== "thermometric" && testKind !== "air-leakage") throw new UsageError(`--test-kind takes "thermometric" or "air-leakage", not "${testKind}"`);
+  const misplaced = [...values.keys()].find((flag) => (testKind === "air-leakage" ? THERMOMETRIC_ONLY_FLAGS.includes(flag) : LEAK_FLAGS.includes(flag)));
+  if (misplaced) throw new UsageError(`--${misplaced} does not apply to ${testKind === "air-leakage" ? "an air leakage test" : "a thermometric test (use --test-kind air-leakage)"}`);
+  const limits = testKind === "air-leakage" ? unused : thermometricLimits(values);
+  const { overrides, atmosphereSource } = readOverrides(values, switches);
+  const plateauNumber = numberFlag(values, "plateau", 1);
+  if (!Number.isInteger(plateauNumber) || plateauNumber < 1) throw new UsageError(`--plateau needs a whole number from 1, not ${plateauNumber}`);
+  const request: AnalysisRequest = testKind === "air-leakage" ? parseLeakRequest(values) : { kind: "thermometric", limits, plateau: plateauNumber - 1 };
+  // A leak-test file may hold only time and chamber pressure.
+  if (testKind === "air-leakage") overrides.temperaturesOptional = true;
+  return { file: positional[0], limits, request, overrides, context: { overrideSource: "option", atmosphereSource }, plateau: plateauNumber - 1, help: false };
+}
 
+function thermometricLimits(values: Map<string, string>): AcceptanceLimits {
   const limits: AcceptanceLimits = {
     sterilizationTempC: numberFlag(values, "sterilization-temp"),
     holdingTimeS: numberFlag(values, "holding-time"),
@@ -142,7 +154,10 @@ export function parseArguments(argv: string[]): Parsed {
   if (!(limits.sterilizationTempC >= 100 && limits.sterilizationTempC <= 200)) {
     throw new UsageError(`--sterilization-temp ${limits.sterilizationTempC} °C is outside 100–200 °C; give it in °C`);
   }
+  return limits;
+}
 
+function readOverrides(values: Map<string, string>, switches: Set<string>): { overrides: MappingOverrides; atmosphereSource: ReadContext["atmosphereSource"] } {
   let overrides: MappingOverrides = {};
   const mappingPath = values.get("mapping");
   if (mappingPath !== undefined) {
@@ -182,10 +197,7 @@ export function parseArguments(argv: string[]): Parsed {
     if (!unit) throw new UsageError(`--temperature-unit "${temperatureUnit}" is not °C, °F or K`);
     overrides.temperatureUnit = unit;
   }
-  const atmosphereSource = settleAtmosphere(values, overrides);
-  const plateauNumber = numberFlag(values, "plateau", 1);
-  if (!Number.isInteger(plateauNumber) || plateauNumber < 1) throw new UsageError(`--plateau needs a whole number from 1, not ${plateauNumber}`);
-  return { file: positional[0], limits, overrides, context: { overrideSource: "option", atmosphereSource }, plateau: plateauNumber - 1, help: false };
+  return { overrides, atmosphereSource: settleAtmosphere(values, overrides) };
 }
 
 /** --pressure-reference, --pressure-gauge, --pressure-absolute and a marker in --pressure-unit must agree; the one given sets overrides.pressureGauge. */

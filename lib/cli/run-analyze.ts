@@ -1,6 +1,6 @@
 import { readFileSync, statSync, writeFileSync } from "node:fs";
 import { basename } from "node:path";
-import { AnalysisError, analyzeRecording } from "../analysis";
+import { AnalysisError, analyzeCycleRecording, type CycleAnalysis } from "../analysis";
 import { LoggerFileError, readLoggerFile } from "../logger-files";
 import { STANDARD_ATMOSPHERE_KPA, SteamRangeError } from "../steam";
 import { USAGE, UsageError, parseArguments } from "./analyze-arguments";
@@ -42,17 +42,9 @@ export function runAnalyze(argv: string[], io: { out: (text: string) => void; er
     }
     const bytes = readBytes(parsed.file);
     const { recording, dialect, columns } = readLoggerFile(bytes, parsed.overrides, parsed.context);
-    const result = analyzeRecording(recording, parsed.limits, { plateau: parsed.plateau });
-    // The contract's fields first, in its order; the rest of the analysis after them, then how the file was read.
-    const { verdict, plateau, equilibrationTime, holdingTime, saturation, f0, checks, input, ...rest } = result;
+    const result = analyzeCycleRecording(recording, parsed.request);
+    const { input, ...rest } = contractOrder(result);
     const output = {
-      verdict,
-      plateau,
-      equilibrationTime,
-      holdingTime,
-      saturation,
-      f0,
-      checks,
       ...rest,
       input: {
         file: basename(parsed.file),
@@ -79,6 +71,16 @@ export function runAnalyze(argv: string[], io: { out: (text: string) => void; er
     io.err(`analyze: internal error: ${oneLine(message)}`);
     return 70;
   }
+}
+
+/** The contract's fields first, in its order; the rest of the analysis after them (how the file was read goes last). */
+function contractOrder(result: CycleAnalysis) {
+  if (result.kind === "air-leakage") {
+    const { kind, verdict, leakRate, p1, p2, p3, t1, t2, t3, checks, ...rest } = result;
+    return { kind, verdict, leakRate, p1, p2, p3, t1, t2, t3, checks, ...rest };
+  }
+  const { verdict, plateau, equilibrationTime, holdingTime, saturation, f0, checks, ...rest } = result;
+  return { verdict, plateau, equilibrationTime, holdingTime, saturation, f0, checks, ...rest };
 }
 
 /** When PAPIN_RESOURCE_REPORT names a file, the command writes its peak memory there on exit (used by the benchmark). */

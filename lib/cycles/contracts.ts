@@ -2,11 +2,12 @@
  * Shapes of the cycle API's JSON, shared by the route handlers, the pages and the client
  * components (and stable for scripts and logger gateways: see DESIGN "Public HTTP API").
  */
-import type { AnalysisInput, AnalysisResult, RecordGap } from "@/lib/analysis/types";
+import type { AnalysisInput, AnalysisResult, CycleAnalysis, RecordGap } from "@/lib/analysis/types";
+import type { AirLeakageResult } from "@/lib/analysis/air-leakage-types";
 import type { AtmosphereUsed, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference } from "@/lib/logger-files/types";
 import type { CycleStatus, ProfileBasis, SignatureMeaning, TestKind } from "@/lib/domain";
 
-export type { AnalysisInput, AnalysisResult, AtmosphereUsed, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference, RecordGap };
+export type { AirLeakageResult, AnalysisInput, AnalysisResult, AtmosphereUsed, CycleAnalysis, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference, RecordGap };
 
 export type CycleListItem = {
   id: string;
@@ -70,8 +71,8 @@ export type CycleDetail = {
   };
   instrument: { id: string; name: string; serialNumber: string } | null;
   files: CycleFile[];
-  /** the current analysis: the analyze command's JSON and more */
-  analysis: AnalysisResult | null;
+  /** the current analysis: the analyze command's JSON and more; `kind` "air-leakage" for a logged air leakage test */
+  analysis: CycleAnalysis | null;
   analysisId: string | null;
   analysisHistory: Array<{ id: string; createdAt: string; verdict: "pass" | "fail"; engineVersion: string; inputHash: string }>;
   signatures: SignatureView[];
@@ -112,4 +113,4 @@ export type InspectResponse = InspectResult & {
 };
 
 /** POST /api/cycles → 201 */
-export type CreateCycleResponse = { id: string; status: CycleStatus; analysis: AnalysisResult };
+export type CreateCycleResponse = { id: string; status: CycleStatus; analysis: CycleAnalysis };

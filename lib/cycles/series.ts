@@ -1,4 +1,4 @@
-import { downsampleSeries, saturationTemperatureSeries, type AnalysisResult } from "@/lib/analysis";
+import { downsampleSeries, saturationTemperatureSeries, thermometricOf, type CycleAnalysis } from "@/lib/analysis";
 import type { Recording } from "@/lib/logger-files";
 import type { SeriesResponse } from "./contracts";
 
@@ -9,8 +9,10 @@ const finiteOrNull = (v: number) => (Number.isFinite(v) ? Math.round(v * 1000) /
  * chamber pressure and the saturation temperature from pressure, downsampled keeping each bucket's
  * extremes, or at full resolution when the window holds no more samples than `points`.
  */
-export function buildSeries(recording: Recording, result: AnalysisResult, { fromS, toS, points }: { fromS?: number; toS?: number; points: number }): SeriesResponse {
+export function buildSeries(recording: Recording, result: CycleAnalysis, { fromS, toS, points }: { fromS?: number; toS?: number; points: number }): SeriesResponse {
   const saturation = saturationTemperatureSeries(recording.pressure.values);
+  // An air leakage test has no plateau, band or saturation flags; its chart takes the pressure alone.
+  const thermometric = thermometricOf(result);
   const temps = recording.temperatures;
   const all = [...temps.map((t) => t.values), recording.pressure.values, saturation];
   const down = downsampleSeries(recording.timesS, all, points, fromS, toS);
@@ -34,9 +36,9 @@ export function buildSeries(recording: Recording, result: AnalysisResult, { from
       { header: recording.pressure.header, kind: "pressure" as const, unit: "kPa abs", role: "pressure" as const, values: down.series[temps.length].map(finiteOrNull) },
       { header: "Saturation temperature from pressure", kind: "saturation" as const, unit: "°C", role: "saturation" as const, values: down.series[temps.length + 1].map(finiteOrNull) },
     ],
-    plateau: result.plateau,
-    band: { low: result.limits.sterilizationTempC, high: result.limits.sterilizationTempC + result.limits.bandK },
-    flags: result.saturation.flags,
+    plateau: thermometric?.plateau ?? null,
+    band: thermometric ? { low: thermometric.limits.sterilizationTempC, high: thermometric.limits.sterilizationTempC + thermometric.limits.bandK } : { low: 0, high: 0 },
+    flags: thermometric?.saturation.flags ?? [],
     window: { from, to },
     totalSamples: n,
     fullResolution: inWindow <= points,

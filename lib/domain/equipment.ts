@@ -26,6 +26,8 @@ export const PROFILE_FIELDS = [
   "freeSpaceEarlyK",
   "freeSpaceEarlyS",
   "freeSpaceK",
+  "leakRateLimitKpaPerMin",
+  "leakVacuumSetPointKpaAbs",
   "basis",
   "basisReason",
 ] as const;

@@ -13,3 +13,4 @@ export * from "./profile-basis";
 export * from "./time-zone";
 export * from "./sterilizer-status";
 export * from "./api-tokens";
+export * from "./air-leakage";

@@ -5,6 +5,7 @@
  * from general knowledge. Where a standard's figure is not known, no minimum is imposed and the
  * record says so instead of inventing one.
  */
+import { AIR_LEAKAGE_TEST } from "./air-leakage";
 import { formatDuration } from "./format";
 
 export const PROFILE_BASES = ["en-285", "en-13060", "iso-17665", "ansi-aami-st79", "local"] as const;
@@ -126,11 +127,17 @@ export type ProfileLimitsInput = {
   maxEquilibrationS: number;
   maxSpreadK: number;
   saturationLimitK: number;
+  /** air leakage test limits; absent from callers that predate them */
+  leakRateLimitKpaPerMin?: number;
+  leakVacuumSetPointKpaAbs?: number;
   basis: ProfileBasis;
   basisReason?: string | null;
 };
 
-export type BasisShortfall = { field: "sterilizationTempC" | "bandK" | "holdingTimeS" | "maxEquilibrationS" | "maxSpreadK" | "saturationLimitK" | "basisReason"; message: string };
+export type BasisShortfall = {
+  field: "sterilizationTempC" | "bandK" | "holdingTimeS" | "maxEquilibrationS" | "maxSpreadK" | "saturationLimitK" | "leakRateLimitKpaPerMin" | "leakVacuumSetPointKpaAbs" | "basisReason";
+  message: string;
+};
 
 /** Shortest reason accepted for local practice. */
 export const MIN_BASIS_REASON_LENGTH = 10;
@@ -181,6 +188,19 @@ export function basisShortfalls(p: ProfileLimitsInput): BasisShortfall[] {
   if (m.maxSaturationLimitK !== null && p.saturationLimitK > m.maxSaturationLimitK + EPS) {
     out.push({ field: "saturationLimitK", message: `${name} allows the reference at most ${m.maxSaturationLimitK} K from the saturation temperature.` });
   }
+  return [...out, ...leakShortfalls(p, name)];
+}
+
+/** EN 285's air leakage figures (DOMAIN §2.5): rate at most 0.13 kPa/min [found], from a vacuum below 7 kPa abs [memory]; other bases set none Papin knows. */
+function leakShortfalls(p: ProfileLimitsInput, name: string): BasisShortfall[] {
+  if (p.basis !== "en-285") return [];
+  const out: BasisShortfall[] = [];
+  if (p.leakRateLimitKpaPerMin !== undefined && p.leakRateLimitKpaPerMin > AIR_LEAKAGE_TEST.maxLeakRateKpaPerMin + EPS) {
+    out.push({ field: "leakRateLimitKpaPerMin", message: `${name} allows an air leakage rate of at most ${AIR_LEAKAGE_TEST.maxLeakRateKpaPerMin} kPa/min (1.3 mbar/min).` });
+  }
+  if (p.leakVacuumSetPointKpaAbs !== undefined && p.leakVacuumSetPointKpaAbs > AIR_LEAKAGE_TEST.vacuumSetPointKpaAbs + EPS) {
+    out.push({ field: "leakVacuumSetPointKpaAbs", message: `${name} starts the air leakage test from a vacuum below ${AIR_LEAKAGE_TEST.vacuumSetPointKpaAbs} kPa abs.` });
+  }
   return out;
 }
 
@@ -219,6 +239,7 @@ export function summariseBasisMinimums(basis: ProfileBasis): string {
   if (m.maxEquilibrationS !== null) parts.push(`equilibration ≤ ${m.maxEquilibrationS} s${basis === "en-285" ? " (15 s up to 800 l)" : ""}`);
   if (m.maxSpreadK !== null) parts.push(`spread ≤ ${m.maxSpreadK} K`);
   if (m.maxSaturationLimitK !== null) parts.push(`saturation ± ${m.maxSaturationLimitK} K`);
+  if (basis === "en-285") parts.push(`air leakage ≤ ${AIR_LEAKAGE_TEST.maxLeakRateKpaPerMin} kPa/min from below ${AIR_LEAKAGE_TEST.vacuumSetPointKpaAbs} kPa abs`);
   const unknown = [m.maxEquilibrationS === null && "equilibration", m.maxSpreadK === null && "spread", m.maxSaturationLimitK === null && "saturation"].filter(Boolean);
   const tail = unknown.length ? `; no ${list(unknown as string[])} figure${unknown.length > 1 ? "s" : ""} known, so none imposed` : "";
   return parts.length ? `${PROFILE_BASIS_LABELS[basis]}: ${parts.join("; ")}${tail}.` : `${PROFILE_BASIS_LABELS[basis]} sets no fixed figures Papin knows; none imposed.`;

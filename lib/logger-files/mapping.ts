@@ -41,7 +41,8 @@ function settleAtmosphere(overrides: MappingOverrides, context: ReadContext): At
   return atmosphere;
 }
 
-const NO_TEMPERATURE = "No temperature column: no header carries a temperature unit (°C, °F, K) or a channel name; say which columns are temperatures";
+const NO_TEMPERATURE =
+  "No temperature column: no header carries a temperature unit (°C, °F, K) or a channel name; say which columns are temperatures (an air leakage test needs none: register it as that kind)";
 const NO_PRESSURE = "No pressure column: no header carries a pressure unit (kPa, bar, mbar, MPa, psi, mmHg) or the word pressure; say which column is the chamber pressure";
 
 /**
@@ -74,11 +75,17 @@ export function planColumns(
   const temperatures = columns.filter((c) => c.role === "temperature");
   const pressureReference = pressure ? decidePressureReference(pressure, overrides, overrideFor.get(pressure.index), context.overrideSource ?? "user") : null;
   const plan = { columns, timeIndex: time.index, timeFormat: time.format, elapsedScale: time.elapsedScale, atmosphere, pressureReference };
-  if (temperatures.length === 0 || !pressure) {
-    if (!problems) throw new LoggerFileError(temperatures.length === 0 ? NO_TEMPERATURE : NO_PRESSURE);
-    if (temperatures.length === 0) problems.push(NO_TEMPERATURE);
+  const pressureOnly = temperatures.length === 0 && overrides.temperaturesOptional === true;
+  if ((temperatures.length === 0 && !pressureOnly) || !pressure) {
+    if (!problems) throw new LoggerFileError(temperatures.length === 0 && !pressureOnly ? NO_TEMPERATURE : NO_PRESSURE);
+    if (temperatures.length === 0 && !pressureOnly) problems.push(NO_TEMPERATURE);
     if (!pressure) problems.push(NO_PRESSURE);
     if (temperatures.length === 0) return { ...plan, temperatureIndexes: [], pressureIndex: pressure?.index ?? -1, referenceIndex: -1, freeSpaceIndex: -1 };
+  }
+  if (pressureOnly) {
+    resolvePressureUnit(pressure!, null, sampleRows, decimal, overrides, atmosphere.kpa);
+    for (const c of columns) c.unsure = c.unsure.filter((u) => u !== "unit-unknown" && u !== "gauge-or-absolute");
+    return { ...plan, temperatureIndexes: [], pressureIndex: pressure!.index, referenceIndex: -1, freeSpaceIndex: -1 };
   }
 
   settleTemperatureUnits(temperatures, evidence, overrides.temperatureUnit);

@@ -47,7 +47,7 @@ function headerMarker(header: string): boolean | null {
  * saturated steam (units differ by factors of 2 or more, so the fit cannot turn a failing cycle
  * into a passing one), and the column says it was unsure.
  */
-export function resolvePressureUnit(pressure: ColumnMapping, reference: ColumnMapping, sampleRows: string[][], decimal: DecimalMark, overrides: MappingOverrides, atmosphereKpa: number): void {
+export function resolvePressureUnit(pressure: ColumnMapping, reference: ColumnMapping | null, sampleRows: string[][], decimal: DecimalMark, overrides: MappingOverrides, atmosphereKpa: number): void {
   if (overrides.pressureUnit) {
     pressure.unit = overrides.pressureUnit;
     pressure.unsure = pressure.unsure.filter((u) => u !== "unit-unknown");
@@ -58,7 +58,7 @@ export function resolvePressureUnit(pressure: ColumnMapping, reference: ColumnMa
 
   const code = DECIMAL_CODES[decimal];
   const cellValue = (row: string[], index: number) => parseDecimal(row[index] ?? "", 0, (row[index] ?? "").length, code);
-  const pairs = hotPairs(pressure, reference, sampleRows, cellValue);
+  const pairs = reference ? hotPairs(pressure, reference, sampleRows, cellValue) : [];
   const reading = `${pressure.gauge ? "gauge" : "absolute"}`;
   if (pairs.length === 0) {
     pressure.unit = "kPa";

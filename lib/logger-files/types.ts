@@ -53,6 +53,8 @@ export type MappingOverrides = {
   atmosphereKpa?: number;
   /** the temperature column of the sensor in free space above the pack (EN 285 small-load test); "" says there is none */
   freeSpaceColumn?: string;
+  /** the file may hold only time and chamber pressure (an air leakage test); temperature columns are then optional */
+  temperaturesOptional?: boolean;
 };
 
 /** Whether the chamber pressure was read as absolute or gauge, and who said so. */
@@ -83,7 +85,7 @@ export type Recording = {
   temperatures: TemperatureChannel[];
   /** kPa absolute, NaN where the cell was blank */
   pressure: { header: string; values: Float64Array };
-  /** index into temperatures of the reference (drain) channel */
+  /** index into temperatures of the reference (drain) channel; −1 in a pressure-only record (temperaturesOptional) */
   referenceIndex: number;
   /** index into temperatures of the free-space sensor; absent or −1 when there is none */
   freeSpaceIndex?: number;

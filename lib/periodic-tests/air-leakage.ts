@@ -1,5 +1,6 @@
 import { convertPressure, type PressureUnit } from "@/lib/steam";
-import { AIR_LEAKAGE, atMost } from "./limits";
+import { judgeLeakRate } from "@/lib/analysis/air-leakage-rate";
+import { AIR_LEAKAGE } from "./limits";
 
 export type AirLeakageInput = {
   /** absolute chamber pressure when the valves closed and the pump stopped */
@@ -41,9 +42,8 @@ export function evaluateAirLeakage(input: AirLeakageInput): AirLeakageResult {
   ] as const) {
     if (v < 0) throw new RangeError(`${name} is negative: enter absolute pressures (a vacuum is a small positive absolute value).`);
   }
-  const leakRateKpaPerMin = (p3Kpa - p2Kpa) / AIR_LEAKAGE.testPeriodMin;
-  const stabilisationRiseKpa = p2Kpa - p1Kpa;
-  const condensateSuspected = stabilisationRiseKpa > AIR_LEAKAGE.condensateRiseKpa;
+  // The same arithmetic as a logged trace (lib/analysis/air-leakage-rate.ts): one rate, one comparison.
+  const { leakRateKpaPerMin, stabilisationRiseKpa, condensateSuspected, passed } = judgeLeakRate({ p1Kpa, p2Kpa, p3Kpa, limitKpaPerMin: AIR_LEAKAGE.maxLeakRateKpaPerMin });
   const warnings: string[] = [];
   if (condensateSuspected) {
     warnings.push(
@@ -66,7 +66,7 @@ export function evaluateAirLeakage(input: AirLeakageInput): AirLeakageResult {
     limitPerMinInUnit: convertPressure(AIR_LEAKAGE.maxLeakRateKpaPerMin, "kPa", input.unit),
     stabilisationRiseKpa,
     condensateSuspected,
-    passed: atMost(leakRateKpaPerMin, AIR_LEAKAGE.maxLeakRateKpaPerMin),
+    passed,
     warnings,
     basis: AIR_LEAKAGE.basis,
   };

@@ -1,16 +1,18 @@
+import { AIR_LEAKAGE_TEST } from "@/lib/domain/air-leakage";
+
 /**
  * Limits of the periodic tests, each with the basis a reader sees beside the result.
  * Figures and tags follow DOMAIN.md §2.5, §2.7 and §2.8.
  */
 export const AIR_LEAKAGE = {
   /** kPa/min over the 10 min test period */
-  maxLeakRateKpaPerMin: 0.13,
+  maxLeakRateKpaPerMin: AIR_LEAKAGE_TEST.maxLeakRateKpaPerMin,
   /** a rise above this during the 5 min wait points to condensate rather than a leak */
-  condensateRiseKpa: 2,
+  condensateRiseKpa: AIR_LEAKAGE_TEST.condensateRiseKpa,
   /** deep-vacuum level the test normally starts from */
-  startBelowKpaAbs: 7,
-  stabilisationMin: 5,
-  testPeriodMin: 10,
+  startBelowKpaAbs: AIR_LEAKAGE_TEST.vacuumSetPointKpaAbs,
+  stabilisationMin: AIR_LEAKAGE_TEST.waitS / 60,
+  testPeriodMin: AIR_LEAKAGE_TEST.testS / 60,
   basis: "EN 285 / HTM 2010 air leakage test: rise ≤ 0.13 kPa/min (1.3 mbar/min) over 10 min after a 5 min wait",
   condensateBasis: "A rise of more than about 2 kPa during the 5 min wait suggests condensate in the chamber (common practice; verify locally)",
 } as const;

@@ -1,6 +1,6 @@
 import type { ReactNode } from "react";
 import { Document, Line, Page, Rect, Svg, Text, View } from "@react-pdf/renderer";
-import type { Check, SaturationFlag } from "@/lib/analysis/types";
+import { isAirLeakage, thermometricOf, type AnalysisResult, type Check, type SaturationFlag } from "@/lib/analysis/types";
 import type { CycleDetail, SeriesResponse, SignatureView } from "@/lib/cycles/contracts";
 import { formatElapsed } from "@/lib/cycles/chart-model";
 import { SAFETY_NOTES } from "@/lib/safety";
@@ -17,6 +17,7 @@ import { DraftWatermark } from "./watermark";
 import { Fact, Heading, T, TableHead, type Column } from "./parts";
 import { ChannelsSection, RecordInputSection } from "./record-sections";
 import { BowieDickSection } from "./bowie-dick-section";
+import { AirLeakageSection } from "./air-leakage-section";
 
 const verdictColours = {
   pass: { border: colour.pass500, background: colour.pass50, ink: colour.pass700, word: "PASS", caption: "VERDICT" },
@@ -158,7 +159,7 @@ function flagSide(flag: SaturationFlag): string {
   return flag.kind === "below" ? "Colder than saturated steam" : "Hotter than saturated steam";
 }
 
-type AnalysisOf = NonNullable<CycleDetail["analysis"]>;
+type AnalysisOf = AnalysisResult;
 
 function FlagBlock({ flag, index, at }: { flag: SaturationFlag; index: number; at: (s: number) => string }) {
   return (
@@ -203,7 +204,9 @@ function RecordSection({ detail }: { detail: CycleDetail }) {
             <>
               <Fact label="Samples">{`${analysis.record.samples.toLocaleString("en-GB")} over ${formatDuration(analysis.record.durationS)}`}</Fact>
               <Fact label="Sample interval">{`${fixed(analysis.record.medianSampleIntervalS, 2)} s (median)`}</Fact>
-              <Fact label="Plateaus found">{`${analysis.plateausFound}${analysis.plateauIndex !== null ? `; number ${analysis.plateauIndex + 1} analysed` : ""}`}</Fact>
+              {analysis.kind === "air-leakage" ? null : (
+                <Fact label="Plateaus found">{`${analysis.plateausFound}${analysis.plateauIndex !== null ? `; number ${analysis.plateauIndex + 1} analysed` : ""}`}</Fact>
+              )}
               <Fact label="Analysis engine">
                 <T style={s.mono}>{analysis.engineVersion}</T>
               </Fact>
@@ -287,14 +290,17 @@ function SignaturesSection({ signatures, zone }: { signatures: SignatureView[]; 
 
 export function CycleReportDocument({ model }: { model: ReportModel }) {
   const { detail, series, reportNumber, generatedAt, verifyHint, draft } = model;
-  // A Bowie-Dick cycle is judged by its indicator sheet (its own section); the thermometric findings are not its verdict.
-  const analysis = model.bowieDick === undefined ? detail.analysis : null;
+  // Each test kind has its own section: a Bowie-Dick cycle is judged by its indicator sheet and an air leakage test by its
+  // pressure trace; neither prints the thermometric findings.
+  const judged = model.bowieDick === undefined ? detail.analysis : null;
+  const leak = isAirLeakage(judged) ? judged : null;
+  const analysis = thermometricOf(judged);
   const zone = detail.site.timeZone;
-  const startIso = detail.startedAt ?? series.startedAt ?? analysis?.record.startedAt ?? null;
+  const startIso = detail.startedAt ?? series.startedAt ?? judged?.record.startedAt ?? null;
   const start = startIso ? instantOf(startIso, zone) : null;
   const started = bothClocks(startIso, zone);
   const generated = bothClocks(generatedAt, zone);
-  const verdictKey = analysis ? analysis.verdict : "none";
+  const verdictKey = judged ? judged.verdict : "none";
   const v = verdictColours[verdictKey];
   const clockAt = (offsetS: number) => (start ? `${siteClockAt(start, offsetS, zone)}` : null);
   const at = (offsetS: number | null | undefined) => {
@@ -390,10 +396,10 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
               <T style={[s.verdictWord, { color: v.ink }, verdictKey === "none" ? { fontSize: 18 } : {}]}>{v.word}</T>
             </View>
             <View style={[s.verdictBody, { borderLeftColor: v.border }]}>
-              <T style={s.verdictSummary}>{analysis ? analysis.summary : "This cycle has no analysis yet, so it has no verdict."}</T>
-              {analysis ? (
+              <T style={s.verdictSummary}>{judged ? judged.summary : "This cycle has no analysis yet, so it has no verdict."}</T>
+              {judged ? (
                 <T style={[s.small, { marginTop: 3 }]}>
-                  {`${analysis.checks.filter((c) => c.passed).length} of ${analysis.checks.length} checks passed against the acceptance profile "${detail.profile.name}".`}
+                  {`${judged.checks.filter((c) => c.passed).length} of ${judged.checks.length} checks passed against the acceptance profile "${detail.profile.name}".`}
                 </T>
               ) : null}
             </View>
@@ -457,8 +463,8 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           <Fact label="Instrument">{detail.instrument ? `${detail.instrument.name}, serial ${detail.instrument.serialNumber}` : "not recorded"}</Fact>
         </View>
 
-        {model.bowieDick !== undefined ? null : <Heading>Checks against the acceptance limits</Heading>}
-        {model.bowieDick !== undefined ? null : analysis ? (
+        {model.bowieDick !== undefined ? null : leak ? <AirLeakageSection analysis={leak} detail={detail} series={series} at={at} /> : <Heading>Checks against the acceptance limits</Heading>}
+        {analysis ? (
           <View style={s.table}>
             <TableHead columns={checkColumns} />
             {analysis.checks.map((c) => (
@@ -471,7 +477,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
               </View>
             ))}
           </View>
-        ) : (
+        ) : leak ? null : (
           <T style={s.muted}>No analysis: no checks were run.</T>
         )}
         {limits ? (
@@ -480,22 +486,24 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           </T>
         ) : null}
 
-        <View wrap={false}>
-          <Heading>The cycle against time</Heading>
-          {series.timesS.length > 1 ? (
-            <View style={s.chartBox}>
-              <TimeChart id="whole" series={chartSeries} width={CONTENT_WIDTH - 13} height={250} fromS={first} toS={last} showPressure labelPlateau timeAxisNote={timeNote} />
-              <Legend series={series} />
-              <T style={s.caption}>
-                {`${series.totalSamples.toLocaleString("en-GB")} samples${analysis ? ` about every ${fixed(analysis.record.medianSampleIntervalS, analysis.record.medianSampleIntervalS % 1 === 0 ? 0 : 1)} s` : ""}, drawn as vector lines${chartSeries.fullResolution ? " at full resolution" : ", each interval keeping its highest and lowest reading so no peak or dip is lost"}. Saturation temperature is computed from the chamber pressure; it is missing where the pressure is outside water's liquid–vapour line.`}
-              </T>
-            </View>
-          ) : (
-            <T style={s.muted}>No chart data.</T>
-          )}
-        </View>
+        {leak ? null : (
+          <View wrap={false}>
+            <Heading>The cycle against time</Heading>
+            {series.timesS.length > 1 ? (
+              <View style={s.chartBox}>
+                <TimeChart id="whole" series={chartSeries} width={CONTENT_WIDTH - 13} height={250} fromS={first} toS={last} showPressure labelPlateau timeAxisNote={timeNote} />
+                <Legend series={series} />
+                <T style={s.caption}>
+                  {`${series.totalSamples.toLocaleString("en-GB")} samples${analysis ? ` about every ${fixed(analysis.record.medianSampleIntervalS, analysis.record.medianSampleIntervalS % 1 === 0 ? 0 : 1)} s` : ""}, drawn as vector lines${chartSeries.fullResolution ? " at full resolution" : ", each interval keeping its highest and lowest reading so no peak or dip is lost"}. Saturation temperature is computed from the chamber pressure; it is missing where the pressure is outside water's liquid–vapour line.`}
+                </T>
+              </View>
+            ) : (
+              <T style={s.muted}>No chart data.</T>
+            )}
+          </View>
+        )}
 
-        {series.timesS.length > 1 ? (
+        {!leak && series.timesS.length > 1 ? (
           <View style={{ flexDirection: "row", marginTop: 8 }} wrap={false}>
             <View style={[s.chartBox, { width: 292 }]}>
               <T style={s.h3}>{plateau ? "Holding in detail" : "Around the highest reading"}</T>

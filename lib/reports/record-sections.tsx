@@ -1,6 +1,6 @@
 /** The report's channel table and what the record brings and how it was read (issue 9 rule 12). */
 import { View } from "@react-pdf/renderer";
-import type { CycleDetail, SeriesResponse } from "@/lib/cycles/contracts";
+import type { AnalysisResult, SeriesResponse } from "@/lib/cycles/contracts";
 import { channelRoleLabel, gapLines, missingCell, NOT_RECORDED, recordInputRows } from "@/lib/cycles/record-input";
 import { formatDuration } from "@/lib/domain";
 import { Heading, T, TableHead, type Column } from "./parts";
@@ -8,7 +8,7 @@ import { s } from "./styles";
 import { fixed } from "./text";
 import { colour } from "./theme";
 
-type AnalysisOf = NonNullable<CycleDetail["analysis"]>;
+type AnalysisOf = AnalysisResult;
 
 export function ChannelsSection({ analysis, band }: { analysis: AnalysisOf; band: SeriesResponse["band"] }) {
   const columns: Column[] = [

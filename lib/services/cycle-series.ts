@@ -2,7 +2,7 @@ import "server-only";
 import { getAnalysedFile, getCycleRow } from "@/db/queries/cycles";
 import { readLoggerFile, type MappingOverrides, type Recording } from "@/lib/logger-files";
 import { buildSeries } from "@/lib/cycles/series";
-import type { AnalysisResult } from "@/lib/analysis/types";
+import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
 
@@ -13,7 +13,7 @@ const recordingCache = holder.__papinRecordings ?? new Map<string, Recording>();
 holder.__papinRecordings = recordingCache;
 const CACHED_RECORDINGS = 4;
 
-async function recordingOfAnalysis(analysisId: string): Promise<{ recording: Recording; result: AnalysisResult } | undefined> {
+async function recordingOfAnalysis(analysisId: string): Promise<{ recording: Recording; result: CycleAnalysis } | undefined> {
   const row = await getAnalysedFile({ analysisId });
   if (!row) return undefined;
   let recording = recordingCache.get(analysisId);
@@ -22,7 +22,7 @@ async function recordingOfAnalysis(analysisId: string): Promise<{ recording: Rec
     recordingCache.set(analysisId, recording);
     while (recordingCache.size > CACHED_RECORDINGS) recordingCache.delete(recordingCache.keys().next().value!);
   }
-  return { recording, result: row.result as AnalysisResult };
+  return { recording, result: row.result as CycleAnalysis };
 }
 
 /** Chart data of a cycle's current analysis; undefined when the cycle or its analysis is not there. */

@@ -8,7 +8,7 @@ import { AppError } from "@/lib/errors";
 import { siteAtmosphereKpa } from "@/lib/cycles/analyze-file";
 import { toCsv, type CsvCell } from "@/lib/csv-export";
 import { testKindLabel } from "@/lib/domain";
-import type { AnalysisResult } from "@/lib/analysis/types";
+import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { CycleDetail, CycleListItem, CycleListResponse, HistoryEntry, MappingOverrides } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
 import { signatureIsValid } from "./record-bundle";
@@ -89,7 +89,7 @@ export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }
     },
     instrument: instrument ? { id: instrument.id, name: instrument.name, serialNumber: instrument.serialNumber } : null,
     files: files.map((f) => ({ ...f, dialect: (f.dialect ?? null) as CycleDetail["files"][number]["dialect"], mapping: (f.mapping ?? null) as MappingOverrides | null })),
-    analysis: (current?.result as AnalysisResult | undefined) ?? null,
+    analysis: (current?.result as CycleAnalysis | undefined) ?? null,
     analysisId: current?.id ?? null,
     analysisHistory: analysisRows.map((a) => ({ id: a.id, createdAt: a.createdAt, verdict: a.verdict, engineVersion: a.engineVersion, inputHash: a.inputHash })),
     signatures,

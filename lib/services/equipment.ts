@@ -16,7 +16,7 @@ import {
   saveScheduleRow,
   updateSterilizerOnSite,
 } from "@/db/queries/sterilizers";
-import type { AnalysisResult } from "@/lib/analysis/types";
+import { thermometricOf, type CycleAnalysis } from "@/lib/analysis/types";
 import { can } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
 import { defaultScheduleFor, sizeClassOf, trendsFromAnalyses } from "@/lib/periodic-tests";
@@ -90,7 +90,8 @@ async function getSterilizerDetail({ actor, id, trendDays = 90 }: { actor: Actor
   ]);
   const requiredKinds = new Set(required.filter((r) => r.requiredBeforeUse).map((r) => r.kind));
   const status = statuses.get(id) ?? { status: sterilizer.status, statusReason: sterilizer.statusReason, statusSince: sterilizer.statusSince };
-  const trends = trendsFromAnalyses(analysed.map((a) => ({ ...a, result: a.result as AnalysisResult })));
+  // Trends follow the thermometric figures; air leakage tests have none of them.
+  const trends = trendsFromAnalyses(analysed.flatMap((a) => (thermometricOf(a.result as CycleAnalysis) ? [{ ...a, result: thermometricOf(a.result as CycleAnalysis)! }] : [])));
   return {
     sterilizer: { ...sterilizer, status: status.status, statusReason: status.statusReason, statusSince: status.statusSince },
     sizeClass: sizeClassOf(sterilizer.chamberVolumeL),

@@ -6,7 +6,8 @@ import { enqueueAnalysisFailedMail } from "@/lib/services/mail";
 import type { TestKind } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 import { AnalysisError } from "@/lib/analysis";
-import type { AnalysisResult } from "@/lib/analysis/types";
+import type { CycleAnalysis } from "@/lib/analysis/types";
+import type { AirLeakageMarks } from "@/lib/analysis/air-leakage-types";
 import { inspectLoggerFile, LoggerFileError, type MappingOverrides } from "@/lib/logger-files";
 import { analyzeLoggerBytes, siteAtmosphereKpa, type FileAnalysis } from "@/lib/cycles/analyze-file";
 import { resolveCycleStart, siteClockStamp } from "@/lib/cycles/start-time";
@@ -36,6 +37,8 @@ export type CreateCycleInput = {
   supersedesId?: string | null;
   /** stores the answer of an Idempotency-Key request in the transaction that makes the cycle */
   recordAnswer?: RecordAnswer;
+  /** an air leakage test's times marked by the user; they override what the trace shows */
+  leakMarks?: AirLeakageMarks | null;
 };
 
 /** The choices of the intake form: the site's active sterilizers, profiles and instruments, and its time zone. */
@@ -130,7 +133,9 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
 
   const mapping: MappingOverrides = input.mapping ?? (instrument?.savedMapping as MappingOverrides | null) ?? {};
   const atmosphereKpa = siteAtmosphereKpa(site);
-  const { primaryIndex, analysis } = analyseFirstReadable(input.files, (bytes) => analyzeLoggerBytes(bytes, profile, mapping, atmosphereKpa));
+  if (input.leakMarks && input.testKind !== "air-leakage") throw new AppError(422, "Marked times (leakMarks) belong to an air leakage test; choose that test kind or leave them out.", "leakMarks");
+  const choice = { testKind: input.testKind, marks: input.leakMarks };
+  const { primaryIndex, analysis } = analyseFirstReadable(input.files, (bytes) => analyzeLoggerBytes(bytes, profile, mapping, atmosphereKpa, choice));
   const start = resolveCycleStart({ fileStartedAt: analysis.startedAt, givenStartedAt: input.startedAt, timeZone: site.timeZone });
   if (!start.ok) throw new AppError(start.status, start.message, start.field);
   const cycleNumber = input.cycleNumber?.trim() || `${sterilizer.serialNumber}-${siteClockStamp(start.startedAt, site.timeZone)}`;
@@ -212,7 +217,7 @@ export async function registerUploadedCycle(input: CreateCycleInput, idempotency
  * A correction of a draft or returned cycle: a new file and/or a new mapping gives a new analysis;
  * earlier files and analyses stay on the record. Submitted and approved cycles are locked.
  */
-export async function reanalyseCycle({ actor, id, file, mapping }: { actor: Actor; id: string; file?: UploadedFile; mapping?: MappingOverrides }) {
+export async function reanalyseCycle({ actor, id, file, mapping, leakMarks }: { actor: Actor; id: string; file?: UploadedFile; mapping?: MappingOverrides; leakMarks?: AirLeakageMarks | null }) {
   assertAllowed(actor, "cycle:create", "correct cycles");
   const cycle = await getCycleRow({ actor, id });
   if (!cycle) throw new AppError(404, "That cycle was not found.");
@@ -225,7 +230,9 @@ export async function reanalyseCycle({ actor, id, file, mapping }: { actor: Acto
   const bytes = file ? file.bytes : new Uint8Array(stored!.bytes);
   let analysis: FileAnalysis;
   try {
-    analysis = analyzeLoggerBytes(bytes, profile, mapping ?? {}, siteAtmosphereKpa(site));
+    // The same file keeps the times marked on it unless new ones are given; a new file starts unmarked.
+    const marks = leakMarks !== undefined ? leakMarks : file ? null : marksOf(stored?.result);
+    analysis = analyzeLoggerBytes(bytes, profile, mapping ?? {}, siteAtmosphereKpa(site), { testKind: cycle.testKind, marks });
   } catch (error) {
     if (error instanceof LoggerFileError || error instanceof AnalysisError) throw new AppError(422, `${file?.name ?? "The stored file"}: ${error.message}`, "file");
     throw error;
@@ -261,6 +268,8 @@ export async function reanalyseCycle({ actor, id, file, mapping }: { actor: Acto
   return { id, analysis: analysis.result };
 }
 
+const marksOf = (result: unknown): AirLeakageMarks | null => ((result as CycleAnalysis | undefined)?.kind === "air-leakage" ? ((result as { marks: AirLeakageMarks | null }).marks ?? null) : null);
+
 function analysisRow(analysis: FileAnalysis, actor: Actor) {
   return {
     engineVersion: analysis.engineVersion,
@@ -274,7 +283,7 @@ function analysisRow(analysis: FileAnalysis, actor: Actor) {
 
 type Tx = Parameters<typeof enqueueAnalysisFailedMail>[0];
 
-async function notifyFailure(tx: Tx, cycleId: string, result: AnalysisResult) {
+async function notifyFailure(tx: Tx, cycleId: string, result: CycleAnalysis) {
   if (result.verdict !== "fail") return;
   const failedChecks = result.checks.filter((c) => !c.passed).map((c) => c.label);
   await enqueueAnalysisFailedMail(tx, { cycleId, summary: result.summary, failedChecks });

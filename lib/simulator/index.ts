@@ -1,2 +1,3 @@
 export { simulateCycle, simulateDay, seededRandom, SCENARIOS, type Scenario, type SimulateCycleOptions, type SimulateDayOptions, type SimulatedChannel, type SimulatedCycle } from "./cycle";
 export { toLoggerCsv, type CsvDialect, type CsvTimeFormat } from "./csv";
+export { simulateLeakTest, SIMULATED_CLOSE_S, type SimulateLeakTestOptions } from "./air-leakage";

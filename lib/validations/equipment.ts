@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { DEFAULT_FREE_SPACE } from "@/lib/analysis/types";
-import { basisShortfalls, PERIODIC_TEST_KINDS, PROFILE_BASES, type ProfileLimitsInput } from "@/lib/domain";
+import { AIR_LEAKAGE_TEST, basisShortfalls, PERIODIC_TEST_KINDS, PROFILE_BASES, type ProfileLimitsInput } from "@/lib/domain";
 
 /** A number typed into a form: decimal comma accepted, an empty field is "missing", not 0. */
 export function numberField(what: string, { min, max, unit = "", integer = false }: { min: number; max: number; unit?: string; integer?: boolean }) {
@@ -120,6 +120,8 @@ const profileFields = {
   freeSpaceEarlyK: withDefault(DEFAULT_FREE_SPACE.freeSpaceEarlyK, numberField("the free-space allowance at the plateau start", { min: 0.1, max: 20, unit: "K" })),
   freeSpaceEarlyS: withDefault(DEFAULT_FREE_SPACE.freeSpaceEarlyS, numberField("how long that allowance lasts", { min: 0, max: 600, unit: "s" })),
   freeSpaceK: withDefault(DEFAULT_FREE_SPACE.freeSpaceK, numberField("the free-space allowance after that", { min: 0.1, max: 20, unit: "K" })),
+  leakRateLimitKpaPerMin: withDefault(AIR_LEAKAGE_TEST.maxLeakRateKpaPerMin, numberField("the air leakage limit", { min: 0.01, max: 5, unit: "kPa/min" })),
+  leakVacuumSetPointKpaAbs: withDefault(AIR_LEAKAGE_TEST.vacuumSetPointKpaAbs, numberField("the air leakage vacuum set point", { min: 0.1, max: 50, unit: "kPa abs" })),
   basis: z.enum(PROFILE_BASES, { error: "Choose the basis of these limits: a standard, or local practice with its reason." }),
   basisReason: z
     .string()

@@ -48,7 +48,41 @@ export const mappingOverridesSchema = z.object({
   atmosphereKpa: z.number().positive().max(200).optional(),
   // "" says there is no free-space sensor, even when a header reads "free space".
   freeSpaceColumn: z.string().optional(),
+  // An air leakage test's file may hold only time and chamber pressure.
+  temperaturesOptional: z.boolean().optional(),
 });
+
+/** The `leakMarks` JSON of an air leakage upload: times the user marked, s since the first sample (t2, t3 optional). */
+export const leakMarksSchema = z
+  .object({
+    t1S: z.number({ error: "leakMarks.t1S must be the time the valves closed, in seconds since the first sample." }).finite().min(0, "leakMarks.t1S cannot be negative."),
+    t2S: z.number().finite().min(0).optional(),
+    t3S: z.number().finite().min(0).optional(),
+  })
+  .strict();
+
+/** Reads the optional `leakMarks` field: undefined when absent, an error sentence when it is not valid. */
+export function parseLeakMarks(raw: unknown): { marks?: z.infer<typeof leakMarksSchema>; error?: string } {
+  if (typeof raw !== "string" || !raw.trim()) return {};
+  let json: unknown;
+  try {
+    json = JSON.parse(raw);
+  } catch {
+    return { error: 'leakMarks is not valid JSON; send it as {"t1S": seconds since the first sample}.' };
+  }
+  const parsed = leakMarksSchema.safeParse(json);
+  return parsed.success ? { marks: parsed.data } : { error: `leakMarks: ${parsed.error.issues[0]?.message ?? "not valid"}` };
+}
+
+/** A marked time typed in the form: "m:ss", "h:mm:ss" or seconds; null when empty, NaN when it cannot be read. */
+export function parseElapsedInput(text: string): number | null {
+  const t = text.trim().replace(",", ".");
+  if (!t) return null;
+  if (/^\d+(\.\d+)?$/.test(t)) return Number(t);
+  const parts = t.split(":");
+  if (parts.length < 2 || parts.length > 3 || !parts.every((p) => /^\d+(\.\d+)?$/.test(p))) return NaN;
+  return parts.map(Number).reduce((total, part) => total * 60 + part, 0);
+}
 
 /** A column as the intake form edits it. */
 export type EditableColumn = {
@@ -65,7 +99,7 @@ export type EditableColumn = {
  * column, at least one temperature column, and a reference channel among the temperatures.
  * Returns plain sentences; empty when the mapping can be analysed.
  */
-export function mappingProblems(columns: readonly EditableColumn[], referenceColumn: string | null): string[] {
+export function mappingProblems(columns: readonly EditableColumn[], referenceColumn: string | null, options: { pressureOnly?: boolean } = {}): string[] {
   const problems: string[] = [];
   const times = columns.filter((c) => c.role === "time");
   const pressures = columns.filter((c) => c.role === "pressure");
@@ -74,7 +108,8 @@ export function mappingProblems(columns: readonly EditableColumn[], referenceCol
   if (times.length > 1) problems.push(`Only one column can be the time column; ${times.map((c) => `"${c.header}"`).join(" and ")} are both marked as time.`);
   if (pressures.length === 0) problems.push("Mark the chamber pressure column: the saturation check needs it.");
   if (pressures.length > 1) problems.push(`Only one column can be the chamber pressure; ${pressures.map((c) => `"${c.header}"`).join(" and ")} are both marked as pressure.`);
-  if (temperatures.length === 0) problems.push("Mark at least one temperature column.");
+  // An air leakage test is judged on the chamber pressure alone (DOMAIN.md §2.5).
+  if (temperatures.length === 0 && !options.pressureOnly) problems.push("Mark at least one temperature column.");
   for (const c of temperatures) {
     if (!c.unit || !(TEMPERATURE_UNITS as readonly string[]).includes(c.unit)) problems.push(`Choose the temperature unit of "${c.header}".`);
   }

@@ -94,6 +94,8 @@ describe("saving a profile against its basis", () => {
       freeSpaceEarlyK: 5,
       freeSpaceEarlyS: 60,
       freeSpaceK: 2,
+      leakRateLimitKpaPerMin: 0.13,
+      leakVacuumSetPointKpaAbs: 7,
       basis: "en-285" as const,
       basisReason: null,
     };

@@ -188,6 +188,8 @@ describe("acceptance profiles", () => {
       freeSpaceEarlyK: 5,
       freeSpaceEarlyS: 60,
       freeSpaceK: 2,
+      leakRateLimitKpaPerMin: 0.13,
+      leakVacuumSetPointKpaAbs: 7,
       basis: "en-285" as const,
       basisReason: null,
     };

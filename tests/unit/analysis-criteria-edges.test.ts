@@ -6,6 +6,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
+import { thermometricOf } from "@/lib/analysis";
 import { inspectLoggerFile } from "@/lib/logger-files";
 import type { AcceptanceProfile } from "@/db/schema";
 import { ANALYZE_TIMEOUT_MS, channelOf, checkOf, diagnosisOf, runAnalyze } from "@/tests/support/analyze-cli";
@@ -163,7 +164,8 @@ describe("the portal's path: a user's mapping and the site's atmospheric pressur
     expect(analysis.result.verdict).toBe("pass");
     expect(analysis.result.input?.pressureReference).toEqual({ kind: "gauge", source: "user" });
     expect(analysis.result.input?.atmosphere).toEqual({ kpa: 95, source: "site" });
-    expect(analysis.result.plateauPeriod).toEqual({ start: 30, end: 330 });
+    expect(analysis.result.kind).toBe("thermometric");
+    expect(thermometricOf(analysis.result)?.plateauPeriod).toEqual({ start: 30, end: 330 });
     expect(analysis.engineVersion).toBe("papin-analysis 2.0.0");
   });
 

@@ -5,7 +5,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { renderCycleReport, type ReportModel } from "@/lib/reports";
-import { buildReportModel, SIGNER } from "@/tests/fixtures/reports/model";
+import { buildReportModel, SIGNER, type ThermometricReportModel } from "@/tests/fixtures/reports/model";
 import { basisNoteFor } from "@/lib/domain";
 import { SAFETY_NOTES } from "@/lib/safety";
 
@@ -48,13 +48,13 @@ function pngPages(r: Rendered, name: string): Array<{ file: string; width: numbe
 }
 
 let pass: Rendered;
-let passModel: ReportModel;
+let passModel: ThermometricReportModel;
 let air: Rendered;
-let airModel: ReportModel;
+let airModel: ThermometricReportModel;
 let draft: Rendered;
-let draftModel: ReportModel;
+let draftModel: ThermometricReportModel;
 let bench: Rendered;
-let benchModel: ReportModel;
+let benchModel: ThermometricReportModel;
 
 beforeAll(async () => {
   passModel = buildReportModel({ scenario: "pass" });

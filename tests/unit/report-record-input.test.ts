@@ -9,7 +9,7 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { renderCycleReport, type ReportModel } from "@/lib/reports";
 import { basisNoteFor } from "@/lib/domain";
-import { buildReportModel } from "@/tests/fixtures/reports/model";
+import { buildReportModel, type ThermometricReportModel } from "@/tests/fixtures/reports/model";
 import { loggerCsv, plateauChannel, sampleTimes, saturationKpa, TS_C, withBlanks } from "@/tests/support/logger-csv";
 
 const work = mkdtempSync(path.join(tmpdir(), "papin-report-input-"));
@@ -38,7 +38,7 @@ function gappyCycleCsv(): string {
   });
 }
 
-let model: ReportModel;
+let model: ThermometricReportModel;
 let gappy: { file: string; text: string };
 let old: { file: string; text: string };
 

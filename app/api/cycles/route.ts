@@ -4,7 +4,7 @@ import { requireActorOrToken, requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
 import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
-import { createCycleFieldsSchema, idempotencyKeySchema } from "@/lib/validations/intake";
+import { createCycleFieldsSchema, idempotencyKeySchema, parseLeakMarks } from "@/lib/validations/intake";
 import { listCycles } from "@/lib/services/cycles";
 import { registerUploadedCycle } from "@/lib/services/intake";
 import { kickMailDelivery } from "@/lib/mail/delivery";
@@ -31,6 +31,8 @@ export const POST = route(async (request) => {
     throw new AppError(400, zodMessage(fields.error), issue?.path[0] ? String(issue.path[0]) : undefined);
   }
   const mapping = mappingFromForm(form);
+  const leak = parseLeakMarks(form.get("leakMarks"));
+  if (leak.error) throw new AppError(400, leak.error, "leakMarks");
   const files = await filesOf(form, "files");
   if (files.length === 0) {
     const single = await filesOf(form, "file");
@@ -51,6 +53,7 @@ export const POST = route(async (request) => {
       files,
       mapping,
       saveMapping: form.get("saveMapping") === "true",
+      leakMarks: leak.marks,
     },
     { key: idempotencyKey?.data ?? null, requestHash: idempotencyKey ? form.digest() : "" },
   );

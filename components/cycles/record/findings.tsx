@@ -1,4 +1,5 @@
 import type { CycleDetail } from "@/lib/cycles/contracts";
+import { thermometricOf } from "@/lib/analysis/types";
 import { EmptyState } from "@/components/ui/panel";
 import { elapsedFormatter } from "@/lib/cycles/chart-model";
 import { formatNumber } from "@/lib/format";
@@ -6,7 +7,7 @@ import { formatDuration } from "@/lib/domain";
 
 /** The plain-language verdict: summary, each failed check's diagnosis, each saturation flag. */
 export function Findings({ detail }: { detail: CycleDetail }) {
-  const a = detail.analysis;
+  const a = thermometricOf(detail.analysis);
   if (!a) {
     return (
       <EmptyState title="No analysis yet">

@@ -9,6 +9,9 @@ import { PhaseDiagram } from "@/components/cycles/record/phase-diagram";
 import { AnalysisHistory, ChannelTable, ChecksTable, FilesList, KeyFigures, ProfileLimits, RecordHistory } from "@/components/cycles/record/record-tables";
 import { RecordInput } from "@/components/cycles/record/record-input";
 import { SafetyCaution } from "@/components/cycles/record/safety-caution";
+import { AirLeakageFigures, AirLeakageFindings, AirLeakageTable } from "@/components/cycles/air-leakage/leak-record";
+import { AirLeakageChart } from "@/components/cycles/air-leakage/leak-chart";
+import { isAirLeakage, thermometricOf } from "@/lib/analysis/types";
 import { formatStartedAt } from "@/components/cycles/record/record-format";
 import { testKindLabel } from "@/lib/domain";
 import { describeTimeChart } from "@/lib/cycles/chart-model";
@@ -30,7 +33,9 @@ export default async function CycleRecordPage({ params }: Props) {
   const sheets = detail.testKind === "bowie-dick" ? await getCycleIndicatorSheets({ actor, cycleId: id }) : null;
 
   const tz = detail.site.timeZone;
-  const a = detail.analysis;
+  // Each test kind on its own terms: a logged air leakage test has its own panels, the thermometric ones are not shown.
+  const leak = isAirLeakage(detail.analysis) ? detail.analysis : null;
+  const a = thermometricOf(detail.analysis);
   const profile = detail.profile;
 
   return (
@@ -87,9 +92,18 @@ export default async function CycleRecordPage({ params }: Props) {
               <CycleSheetPanel cycleId={detail.id} readings={sheets.readings} mayRecord={sheets.mayRecord} timeZone={tz} />
             </Panel>
           )}
-          <Panel title={sheets ? "The logged cycle (information only)" : "What the analysis found"}>
-            <Findings detail={detail} />
-          </Panel>
+          <Panel title={sheets ? "The logged cycle (information only)" : "What the analysis found"}>{leak ? <AirLeakageFindings analysis={leak} /> : <Findings detail={detail} />}</Panel>
+
+          {leak && (
+            <>
+              <Panel title="Air leakage test: p1, p2, p3 and the leak rate">
+                <AirLeakageTable analysis={leak} startedAt={detail.startedAt} timeZone={tz} />
+              </Panel>
+              <Panel title="Chamber pressure during the test">
+                <AirLeakageChart cycleId={detail.id} cycleNumber={detail.cycleNumber} analysis={leak} />
+              </Panel>
+            </>
+          )}
 
           {a && (
             <>
@@ -142,13 +156,13 @@ export default async function CycleRecordPage({ params }: Props) {
         </div>
 
         <aside className="space-y-gutter" aria-label="Figures and sign-off">
-          <Panel title="Key figures">
-            <KeyFigures analysis={a} startedAt={detail.startedAt} timeZone={tz} />
-          </Panel>
+          <Panel title="Key figures">{leak ? <AirLeakageFigures analysis={leak} /> : <KeyFigures analysis={a} startedAt={detail.startedAt} timeZone={tz} />}</Panel>
           <SignOffPanel detail={detail} actor={{ id: actor.id, role: actor.role, name: actor.name }} />
-          <Panel title="Acceptance profile">
-            <ProfileLimits profile={profile} analysis={a} />
-          </Panel>
+          {!leak && (
+            <Panel title="Acceptance profile">
+              <ProfileLimits profile={profile} analysis={a} />
+            </Panel>
+          )}
           <SafetyCaution />
         </aside>
       </div>

@@ -5,7 +5,7 @@ import { PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { ProfileForm } from "@/components/equipment/profile-form";
 import { formatDateTime } from "@/lib/format";
-import { describeBasis, formatDuration } from "@/lib/domain";
+import { describeBasis, formatDuration, formatLeakRate } from "@/lib/domain";
 
 export const metadata = { title: "Acceptance profile" };
 
@@ -21,6 +21,7 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
     ["Largest spread during holding", `${p.maxSpreadK} K`],
     ["Saturation limit", `± ${p.saturationLimitK} K from Tsat(chamber pressure)`],
     ["F0", `reference ${p.f0ReferenceC} °C, z = ${p.f0ZK} K`],
+    ["Air leakage test", `at most ${formatLeakRate(p.leakRateLimitKpaPerMin)} after evacuating to ${p.leakVacuumSetPointKpaAbs} kPa abs or deeper`],
     ["Basis", describeBasis(p.basis, p.basisReason)],
     ["Created", formatDateTime(p.createdAt)],
     ["Cycles analysed with it", String(p.cycleCount)],

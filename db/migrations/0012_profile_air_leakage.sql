@@ -1,0 +1,2 @@
+ALTER TABLE `acceptance_profiles` ADD `leak_rate_limit_kpa_per_min` real DEFAULT 0.13 NOT NULL;--> statement-breakpoint
+ALTER TABLE `acceptance_profiles` ADD `leak_vacuum_set_point_kpa_abs` real DEFAULT 7 NOT NULL;
