@@ -1,7 +1,8 @@
-import { desc } from "drizzle-orm";
+import { count, desc } from "drizzle-orm";
 import type { Executor } from "./index";
 import { auditEvents, type AuditEvent } from "./schema";
 import { canonicalJson, GENESIS_HASH, sha256Hex } from "@/lib/integrity";
+import type { LedgerHead } from "@/lib/integrity/anchors";
 
 export type AuditInput = {
   actorId?: string | null;
@@ -40,4 +41,14 @@ export async function appendAuditEvent(tx: Executor, input: AuditInput): Promise
     prevHash: last?.hash ?? GENESIS_HASH,
   };
   await tx.insert(auditEvents).values({ ...fields, hash: auditEventHash(fields) });
+}
+
+/**
+ * The head of the chain: how many events, the newest one's seq and hash. Inside a transaction it
+ * is the head that transaction sees (both reads in one snapshot).
+ */
+export async function readLedgerHead(tx: Executor): Promise<LedgerHead> {
+  const [last] = await tx.select({ seq: auditEvents.seq, hash: auditEvents.hash }).from(auditEvents).orderBy(desc(auditEvents.seq)).limit(1);
+  const [{ events }] = await tx.select({ events: count() }).from(auditEvents);
+  return { events, lastSeq: last?.seq ?? 0, lastHash: last?.hash ?? GENESIS_HASH };
 }

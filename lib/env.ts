@@ -24,6 +24,8 @@ const schema = z.object({
   PAPIN_DEMO: z.enum(["0", "1"]).default("1"),
   PAPIN_DEMO_PASSWORD: z.string().min(8).default("papin-demo"),
   PAPIN_UPLOAD_LIMIT_MB: z.coerce.number().positive().max(500).default(50),
+  /** The outside anchor of the audit ledger (one JSON line per head); default: ledger-anchors.jsonl beside the database file, or data/ for a libSQL server. */
+  PAPIN_LEDGER_ANCHOR_FILE: z.string().optional(),
 
   // Outgoing mail through the Resend SDK; with neither a key nor a base URL, mail waits in the outbox.
   RESEND_API_KEY: z.string().optional(),

@@ -16,6 +16,7 @@ import { TimeChart } from "./time-chart";
 import { DraftWatermark } from "./watermark";
 import { Fact, Heading, T, TableHead, type Column } from "./parts";
 import { ChannelsSection, RecordInputSection } from "./record-sections";
+import { LedgerHeadRow } from "./integrity";
 
 const verdictColours = {
   pass: { border: colour.pass500, background: colour.pass50, ink: colour.pass700, word: "PASS", caption: "VERDICT" },
@@ -554,6 +555,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
               <T style={s.identityLabel}>Cycle record</T>
               <T style={s.mono}>{detail.id}</T>
             </View>
+            {model.ledgerHead ? <LedgerHeadRow head={model.ledgerHead} /> : null}
             <View style={[s.identityRow, { marginTop: 4 }]}>
               <T style={s.identityLabel}>How to verify</T>
               <T style={{ flex: 1 }}>{verifyHint}</T>

@@ -1,4 +1,5 @@
 import type { CycleDetail, SeriesResponse } from "@/lib/cycles/contracts";
+import type { LedgerHead } from "@/lib/integrity/anchors";
 
 /** Everything a cycle report prints. Rendering is a pure function of this object. */
 export type ReportModel = {
@@ -11,6 +12,8 @@ export type ReportModel = {
   verifyHint: string;
   /** true until the cycle is approved: every page then carries "DRAFT — NOT APPROVED" */
   draft: boolean;
+  /** the audit ledger's head when an archived report is rendered at sign-off (printed in its verification section) */
+  ledgerHead?: LedgerHead | null;
 };
 
 /** Points per trace in the report's charts: far more than A4 at print resolution can separate. */

@@ -13,6 +13,7 @@ import { getCycleDetail } from "./cycles";
 import { reauthenticate } from "./reauthenticate";
 import { buildRecordBundle, signatureHash, type SignedFields } from "./record-bundle";
 import { renderReport, reportNumberFor } from "./reports";
+import { anchorLedgerHeadAfterArchive } from "./ledger-anchors";
 
 export async function submitCycle({ actor, id }: { actor: Actor; id: string }) {
   const cycle = await getCycleRow({ actor, id });
@@ -119,6 +120,7 @@ export async function signCycle({ actor, id, password, meaning, reason }: SignIn
     },
   });
   if (!applied) throw new AppError(409, "Someone else signed this cycle a moment ago; reload to see their decision.");
+  if (archived) await anchorLedgerHeadAfterArchive();
   return { id: signatureId, cycleId: id, meaning, signedAt, bundleHash, printedName: signer.name };
 }
 
