@@ -14,7 +14,7 @@ export async function getRecordBundleRows({ cycleId, analysisId, tx }: { cycleId
   const [analysis] = await db.select().from(analyses).where(eq(analyses.id, analysisId)).limit(1);
   if (!cycle || !analysis || analysis.cycleId !== cycleId) return null;
   const files = await db
-    .select({ name: loggerFiles.name, bytes: loggerFiles.bytes })
+    .select({ name: loggerFiles.name, bytes: loggerFiles.bytes, uploadedAt: loggerFiles.uploadedAt })
     .from(loggerFiles)
     .where(eq(loggerFiles.cycleId, cycleId))
     .orderBy(asc(loggerFiles.uploadedAt), asc(loggerFiles.id));

@@ -26,9 +26,10 @@ async function main() {
   const { anchor, file, mailIds } = args.has("--mail") ? await mailLedgerHead() : { ...(await anchorLedgerHead()), mailIds: null };
   console.log(`Ledger head at ${anchor.at}: ${anchor.events} events, last event ${anchor.seq}, hash ${anchor.hash}; appended to ${file}.`);
   if (mailIds) {
-    const { deliverPendingMail } = await import("@/lib/mail/delivery");
-    const sent = mailIds.length ? await deliverPendingMail({ ids: mailIds }) : null;
-    const outcome = !sent ? "" : sent.configured ? ` (${sent.sent} sent now; any other waits in the outbox)` : " (mail is not configured: they wait in the outbox)";
+    const { deliverPendingMail, mailTransport } = await import("@/lib/mail/delivery");
+    const configured = mailTransport().configured;
+    const sent = configured && mailIds.length ? await deliverPendingMail({ ids: mailIds }) : null;
+    const outcome = !configured ? " (mail is not configured: they wait in the outbox)" : sent ? ` (${sent.sent} sent now; any other waits in the outbox)` : "";
     console.log(`Queued ${mailIds.length} ledger-head mail${mailIds.length === 1 ? "" : "s"} to auditors${outcome}.`);
   }
 }

@@ -36,9 +36,15 @@ function bundleV1({ cycle, analysis, files }: RecordBundleRows) {
   };
 }
 
-/** Version 2 (current): version 1, marked, with one hash of the signed analysis (its input hash and its result). */
+/**
+ * Version 2 (current): version 1, marked, with one hash of the signed analysis (its input hash and
+ * its result), over the files that existed when that analysis was made: a correction uploaded
+ * after a return does not change what the earlier signature was given for. (Every upload makes a
+ * new analysis, so at signing these are all the cycle's files; hiding one by its time changes the
+ * set, and so the hash.)
+ */
 function bundleOf(rows: RecordBundleRows) {
-  const v1 = bundleV1(rows);
+  const v1 = bundleV1({ ...rows, files: rows.files.filter((f) => f.uploadedAt <= rows.analysis.createdAt) });
   const analysisSha256 = sha256Hex(canonicalJson({ inputHash: rows.analysis.inputHash, result: rows.analysis.result }));
   return { bundleVersion: 2 as const, ...v1, analysis: { ...v1.analysis, sha256: analysisSha256 } };
 }
