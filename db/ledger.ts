@@ -1,4 +1,4 @@
-import { count, desc } from "drizzle-orm";
+import { desc, sql } from "drizzle-orm";
 import type { Executor } from "./index";
 import { auditEvents, type AuditEvent } from "./schema";
 import { canonicalJson, GENESIS_HASH, sha256Hex } from "@/lib/integrity";
@@ -43,12 +43,14 @@ export async function appendAuditEvent(tx: Executor, input: AuditInput): Promise
   await tx.insert(auditEvents).values({ ...fields, hash: auditEventHash(fields) });
 }
 
-/**
- * The head of the chain: how many events, the newest one's seq and hash. Inside a transaction it
- * is the head that transaction sees (both reads in one snapshot).
- */
+/** The head of the chain: how many events, the newest one's seq and hash, in one statement (one snapshot). */
 export async function readLedgerHead(tx: Executor): Promise<LedgerHead> {
-  const [last] = await tx.select({ seq: auditEvents.seq, hash: auditEvents.hash }).from(auditEvents).orderBy(desc(auditEvents.seq)).limit(1);
-  const [{ events }] = await tx.select({ events: count() }).from(auditEvents);
-  return { events, lastSeq: last?.seq ?? 0, lastHash: last?.hash ?? GENESIS_HASH };
+  const [row] = await tx
+    .select({
+      events: sql<number>`(select count(*) from ${auditEvents})`,
+      lastSeq: sql<number | null>`(select max(${auditEvents.seq}) from ${auditEvents})`,
+      lastHash: sql<string | null>`(select ${auditEvents.hash} from ${auditEvents} order by ${auditEvents.seq} desc limit 1)`,
+    })
+    .from(sql`(select 1)`);
+  return { events: Number(row.events), lastSeq: Number(row.lastSeq ?? 0), lastHash: row.lastHash ?? GENESIS_HASH };
 }

@@ -13,7 +13,7 @@ export async function recordAuditEvent(input: AuditInput): Promise<void> {
 
 /** The chain's head now: event count, last seq and hash, read in one snapshot. */
 export async function getLedgerHead() {
-  return getDb().transaction(async (tx) => readLedgerHead(tx));
+  return readLedgerHead(getDb());
 }
 
 /** Runs `inside` in one transaction with the head that transaction sees (mail written with the head it reports). */
