@@ -1,7 +1,8 @@
-import { desc } from "drizzle-orm";
+import { desc, sql } from "drizzle-orm";
 import type { Executor } from "./index";
 import { auditEvents, type AuditEvent } from "./schema";
 import { canonicalJson, GENESIS_HASH, sha256Hex } from "@/lib/integrity";
+import type { LedgerHead } from "@/lib/integrity/anchors";
 
 export type AuditInput = {
   actorId?: string | null;
@@ -40,4 +41,16 @@ export async function appendAuditEvent(tx: Executor, input: AuditInput): Promise
     prevHash: last?.hash ?? GENESIS_HASH,
   };
   await tx.insert(auditEvents).values({ ...fields, hash: auditEventHash(fields) });
+}
+
+/** The head of the chain: how many events, the newest one's seq and hash, in one statement (one snapshot). */
+export async function readLedgerHead(tx: Executor): Promise<LedgerHead> {
+  const [row] = await tx
+    .select({
+      events: sql<number>`(select count(*) from ${auditEvents})`,
+      lastSeq: sql<number | null>`(select max(${auditEvents.seq}) from ${auditEvents})`,
+      lastHash: sql<string | null>`(select ${auditEvents.hash} from ${auditEvents} order by ${auditEvents.seq} desc limit 1)`,
+    })
+    .from(sql`(select 1)`);
+  return { events: Number(row.events), lastSeq: Number(row.lastSeq ?? 0), lastHash: row.lastHash ?? GENESIS_HASH };
 }

@@ -4,7 +4,7 @@
  * file first; `--no-demo` only migrates; `--start` (npm start) first refuses to go on without the
  * production settings, so a server never starts "ready" only to answer 500 to everyone.
  */
-import { existsSync, rmSync } from "node:fs";
+import { existsSync, renameSync, rmSync } from "node:fs";
 import path from "node:path";
 import { drizzle } from "drizzle-orm/libsql";
 import { applyFilePragmas, openClient } from "./index";
@@ -28,6 +28,10 @@ async function main() {
     const file = path.resolve(DATABASE_URL.slice("file:".length));
     for (const suffix of ["", "-wal", "-shm"]) if (existsSync(file + suffix)) rmSync(file + suffix);
     console.log(`Deleted ${path.relative(process.cwd(), file)}.`);
+    // The old ledger's anchors would call the new ledger tampered with: kept aside, not deleted.
+    const { ledgerAnchorFile } = await import("@/lib/services/ledger-anchors");
+    const anchors = ledgerAnchorFile();
+    if (existsSync(anchors)) renameSync(anchors, `${anchors}.before-reset-${new Date().toISOString().replace(/[-:.]/g, "")}`);
   }
   const client = openClient(DATABASE_URL, DATABASE_AUTH_TOKEN);
   await applyFilePragmas(client, DATABASE_URL);

@@ -46,6 +46,8 @@ const schema = z.object({
   PAPIN_UPLOAD_LIMIT_MB: z.coerce.number().positive().max(500).default(50),
   /** Files one upload may carry; a request with more is refused with 413 while it streams. */
   PAPIN_UPLOAD_MAX_FILES: z.coerce.number().int().min(1).max(100).default(10),
+  /** The outside anchor of the audit ledger (one JSON line per head); default: ledger-anchors.jsonl beside the database file, or data/ for a libSQL server. */
+  PAPIN_LEDGER_ANCHOR_FILE: z.string().optional(),
 
   // Outgoing mail through the Resend SDK; with neither a key nor a base URL, mail waits in the outbox.
   RESEND_API_KEY: z.string().optional(),

@@ -6,7 +6,7 @@ import { useDropzone } from "react-dropzone";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { ActionMessage } from "@/components/ui/action-message";
 
-type Outcome = { match: true; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string } | { match: false; sha256: string };
+type Outcome = { match: true; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string } | { match: false; sha256: string; problem?: string };
 
 export function VerifyReport() {
   const [outcome, setOutcome] = useState<Outcome | null>(null);
@@ -63,7 +63,7 @@ export function VerifyReport() {
             </p>
           ) : (
             <p>
-              ✕ <strong>{name}</strong> does not match any archived report of this site. It may have been altered, or it is a draft.
+              ✕ <strong>{name}</strong> does not match any archived report of this site. {outcome.problem ?? "It may have been altered, or it is a draft."}
             </p>
           )}
           <p className="mono mt-1 break-all opacity-80">SHA-256 {outcome.sha256}</p>

@@ -95,7 +95,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
                 <p className="text-xs text-ink-muted">{new Date(s.signedAt).toISOString().replace("T", " ").slice(0, 19)} UTC</p>
                 {s.reason && <p className="mt-1">Reason: {s.reason}</p>}
                 <p className={`mt-1 text-xs ${s.valid ? "text-pass-700" : "text-fail-700"}`}>
-                  {s.valid ? "✓ Signature verifies against the record as stored" : "✕ Signature no longer matches the record — investigate"}
+                  {s.valid ? "✓ Signature verifies against the record as stored" : `✕ Signature no longer matches the record: ${s.problem ?? "the record has changed."} Investigate.`}
                 </p>
                 <p className="mono mt-0.5 break-all text-ink-faint">{s.bundleHash}</p>
               </li>

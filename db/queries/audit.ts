@@ -1,13 +1,34 @@
 import "server-only";
 import { asc, desc, eq, and, gt, gte, lte, count } from "drizzle-orm";
-import { getDb } from "@/db";
+import { getDb, type Executor } from "@/db";
 import { containsText } from "./search";
-import { auditEvents } from "@/db/schema";
-import { appendAuditEvent, type AuditInput } from "@/db/ledger";
+import { auditEvents, sites, users } from "@/db/schema";
+import { appendAuditEvent, readLedgerHead, type AuditInput } from "@/db/ledger";
+import type { LedgerHead } from "@/lib/integrity/anchors";
 
 /** Records an event in a transaction of its own (sign-ins, exports: no other change to join). */
 export async function recordAuditEvent(input: AuditInput): Promise<void> {
   await getDb().transaction(async (tx) => appendAuditEvent(tx, input));
+}
+
+/** The chain's head now: event count, last seq and hash, read in one snapshot. */
+export async function getLedgerHead() {
+  return readLedgerHead(getDb());
+}
+
+/** Runs `inside` in one transaction with the head that transaction sees (mail written with the head it reports). */
+export async function withLedgerHead<T>(inside: (tx: Executor, head: LedgerHead) => Promise<T>): Promise<T> {
+  return getDb().transaction(async (tx) => inside(tx, await readLedgerHead(tx)));
+}
+
+/** Every enabled auditor with their site, for the daily ledger-head mail. */
+export async function listSiteAuditors() {
+  return getDb()
+    .select({ siteId: sites.id, siteName: sites.name, email: users.email })
+    .from(users)
+    .innerJoin(sites, eq(users.siteId, sites.id))
+    .where(and(eq(users.role, "auditor"), eq(users.disabled, false)))
+    .orderBy(asc(sites.name), asc(users.email));
 }
 
 /** One page of the whole chain in order, for walking it (the chain spans every site). */

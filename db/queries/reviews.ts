@@ -150,7 +150,7 @@ export async function listArchivedReports({ actor, q, from, to }: { actor: Actor
 /** One archived report of the actor's site, by its id. */
 export async function getArchivedReportRow({ actor, id }: { actor: Actor; id: string }) {
   const [row] = await getDb()
-    .select({ bytes: reports.bytes, reportNumber: reports.reportNumber, cycleId: cycles.id })
+    .select({ id: reports.id, bytes: reports.bytes, sha256: reports.sha256, reportNumber: reports.reportNumber, cycleId: cycles.id })
     .from(reports)
     .innerJoin(cycles, eq(reports.cycleId, cycles.id))
     .where(and(eq(reports.id, id), eq(cycles.siteId, actor.siteId ?? "")))

@@ -36,6 +36,8 @@ export type SignatureView = {
   signedAt: string;
   bundleHash: string;
   valid: boolean;
+  /** why the signature does not verify (null or absent when it does) */
+  problem?: string | null;
 };
 
 export type HistoryEntry = { seq: number; at: string; actorEmail: string | null; action: string; reason: string | null; newValue: string | null };

@@ -187,3 +187,32 @@ export function sterilizerStatusMail({
 export function sterilizerUrl(sterilizerId: string): string {
   return `${publicBaseUrl()}/sterilizers/${encodeURIComponent(sterilizerId)}`;
 }
+
+/** The link to the audit ledger page, on the configured public URL. */
+export function auditLedgerUrl(): string {
+  return `${publicBaseUrl()}/audit`;
+}
+
+/**
+ * To each site's auditors once a day: the ledger head (event count, last event and its hash), a
+ * copy outside the database that a later check of the ledger can be compared with.
+ */
+export function ledgerHeadMail({ siteName, at, events, lastSeq, lastHash, url }: { siteName: string; at: string; events: number; lastSeq: number; lastHash: string; url: string }): MailContent {
+  const heading = `Daily audit-ledger head for ${oneLine(siteName)}: ${events} events`;
+  return {
+    subject: heading,
+    ...layout({
+      heading,
+      url,
+      action: "Open the audit ledger",
+      blocks: [
+        { kind: "p", text: `At ${at} (UTC) Papin's audit ledger held ${events} events. The newest is event ${lastSeq}; the chain's hash up to it is:` },
+        { kind: "quote", label: "Ledger head", text: `events ${events} · last event ${lastSeq}\nSHA-256 ${lastHash}` },
+        {
+          kind: "p",
+          text: "Keep this mail where the portal's database cannot change it. The ledger spans every site, so the count includes other sites' events. If the ledger ever shows fewer events, or another hash at this event, it was altered after this mail was sent.",
+        },
+      ],
+    }),
+  };
+}

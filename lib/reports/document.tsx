@@ -18,6 +18,7 @@ import { Fact, Heading, T, TableHead, type Column } from "./parts";
 import { ChannelsSection, RecordInputSection } from "./record-sections";
 import { BowieDickSection } from "./bowie-dick-section";
 import { AirLeakageSection } from "./air-leakage-section";
+import { LedgerHeadRow } from "./integrity";
 
 const verdictColours = {
   pass: { border: colour.pass500, background: colour.pass50, ink: colour.pass700, word: "PASS", caption: "VERDICT" },
@@ -568,6 +569,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
               <T style={s.identityLabel}>Cycle record</T>
               <T style={s.mono}>{detail.id}</T>
             </View>
+            {model.ledgerHead ? <LedgerHeadRow head={model.ledgerHead} /> : null}
             <View style={[s.identityRow, { marginTop: 4 }]}>
               <T style={s.identityLabel}>How to verify</T>
               <T style={{ flex: 1 }}>{verifyHint}</T>

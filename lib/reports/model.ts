@@ -1,5 +1,6 @@
 import type { CycleDetail, SeriesResponse } from "@/lib/cycles/contracts";
 import type { BowieDickReportSheet } from "./bowie-dick-section";
+import type { LedgerHead } from "@/lib/integrity/anchors";
 
 /** Everything a cycle report prints. Rendering is a pure function of this object. */
 export type ReportModel = {
@@ -14,6 +15,8 @@ export type ReportModel = {
   draft: boolean;
   /** a Bowie-Dick cycle's indicator sheet (null: none recorded yet); undefined for every other kind */
   bowieDick?: BowieDickReportSheet;
+  /** the audit ledger's head when an archived report is rendered at sign-off (printed in its verification section) */
+  ledgerHead?: LedgerHead | null;
 };
 
 /** Points per trace in the report's charts: far more than A4 at print resolution can separate. */

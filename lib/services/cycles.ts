@@ -11,7 +11,7 @@ import { testKindLabel } from "@/lib/domain";
 import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { CycleDetail, CycleListItem, CycleListResponse, HistoryEntry, MappingOverrides } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
-import { signatureIsValid } from "./record-bundle";
+import { checkSignature } from "./record-bundle";
 
 export type CycleListQuery = CycleFilter & { page?: number; pageSize?: number; sort?: string };
 
@@ -56,7 +56,7 @@ export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }
       reason: s.reason,
       signedAt: s.signedAt,
       bundleHash: s.bundleHash,
-      valid: await signatureIsValid({ signature: s }),
+      ...(await checkSignature({ signature: s })),
     })),
   );
   return {

@@ -1,7 +1,8 @@
 import "server-only";
 import { getCycleRow } from "@/db/queries/cycles";
 import { findReportBySha256, getArchivedReportRow, getReportOfCycle } from "@/db/queries/reviews";
-import { recordAuditEvent } from "@/db/queries/audit";
+import { getLedgerHead, listAuditEventsForEntity, recordAuditEvent } from "@/db/queries/audit";
+import { auditEventHash } from "@/db/ledger";
 import { AppError } from "@/lib/errors";
 import { sha256Hex } from "@/lib/integrity";
 import { renderCycleReport } from "@/lib/reports";
@@ -19,11 +20,65 @@ export function reportNumberFor(detail: CycleDetail, at: string) {
   return `PR-${detail.sterilizer.serialNumber}-${stamp}-${detail.id.slice(0, 6).toUpperCase()}`;
 }
 
+/** Renders a cycle's report; the copy to archive (not a draft) prints the ledger's head at that moment. */
 export async function renderReport(actor: Actor, detail: CycleDetail, reportNumber: string, generatedAt: string, draft: boolean) {
   const series = await getCycleSeries({ actor, id: detail.id, points: 1200 });
   if (!series) throw new AppError(409, "This cycle has no chart data to print.");
   const bowieDick = await getIndicatorSheetForReport({ cycleId: detail.id, testKind: detail.testKind });
-  return renderCycleReport({ detail, series, reportNumber, generatedAt, verifyHint: REPORT_VERIFY_HINT, draft, bowieDick });
+  const ledgerHead = draft ? null : await getLedgerHead();
+  return renderCycleReport({ detail, series, reportNumber, generatedAt, verifyHint: REPORT_VERIFY_HINT, draft, bowieDick, ledgerHead });
+}
+
+/** Statuses whose report was rendered once at sign-off and archived: served from the archive only. */
+const ARCHIVED_STATUSES: ReadonlySet<string> = new Set(["approved", "failure-confirmed"]);
+
+type StoredReport = { id: string; cycleId: string; reportNumber: string; sha256: string; bytes: Uint8Array };
+
+/** What the ledger event that archived the report recorded about it, if the value names it. */
+function archivedReportOf(newValue: string | null): { report?: unknown; reportSha256?: unknown } | null {
+  if (!newValue) return null;
+  try {
+    const value = JSON.parse(newValue);
+    return value && typeof value === "object" ? value : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Why an archived report's bytes cannot be trusted, or null: they must hash to the stored SHA-256
+ * and to the one the (unaltered) ledger event that archived them recorded.
+ */
+async function reportIntegrityProblem(report: StoredReport): Promise<string | null> {
+  const actual = sha256Hex(report.bytes);
+  if (actual !== report.sha256) return `The stored bytes of report ${report.reportNumber} no longer match the SHA-256 archived with them.`;
+  const events = await listAuditEventsForEntity({ entityType: "cycle", entityId: report.cycleId });
+  const event = events.find((e) => archivedReportOf(e.newValue)?.report === report.id);
+  if (!event) return `The audit ledger holds no event that archived report ${report.reportNumber}, so its bytes cannot be checked against the ledger.`;
+  const { seq, hash, ...fields } = event;
+  if (auditEventHash(fields) !== hash) return `The ledger event that archived report ${report.reportNumber} (event ${seq}) was changed after it was written.`;
+  if (archivedReportOf(event.newValue)?.reportSha256 !== actual) return `Report ${report.reportNumber} does not match the SHA-256 the audit ledger recorded when it was archived (event ${seq}).`;
+  return null;
+}
+
+async function recordIntegrityFailure(actor: Actor, report: StoredReport, siteId: string | null, problem: string) {
+  await recordAuditEvent({
+    actorId: actor.id,
+    actorEmail: actor.email,
+    siteId,
+    action: "report.integrity-failed",
+    entityType: "cycle",
+    entityId: report.cycleId,
+    newValue: { report: report.id, reportNumber: report.reportNumber, storedSha256: report.sha256, bytesSha256: sha256Hex(report.bytes), problem },
+  });
+}
+
+/** Refuses (409, audited) an archived report whose bytes fail the integrity check; never serves it. */
+async function assertReportIntact(actor: Actor, report: StoredReport, siteId: string | null) {
+  const problem = await reportIntegrityProblem(report);
+  if (!problem) return;
+  await recordIntegrityFailure(actor, report, siteId, problem);
+  throw new AppError(409, `${problem} The report is not served; tell your auditor, who can compare it with the ledger and a backup.`);
 }
 
 /**
@@ -35,8 +90,10 @@ export async function getCycleReport({ actor, id }: { actor: Actor; id: string }
   const cycle = await getCycleRow({ actor, id });
   if (!cycle) throw new AppError(404, "That cycle was not found.");
   const archived = await getReportOfCycle({ cycleId: id });
-  if (archived && cycle.status === "approved") {
-    return { bytes: new Uint8Array(archived.bytes), fileName: `${archived.reportNumber}.pdf`, archived: true, reportNumber: archived.reportNumber };
+  if (archived && ARCHIVED_STATUSES.has(cycle.status)) {
+    const bytes = new Uint8Array(archived.bytes);
+    await assertReportIntact(actor, { ...archived, bytes }, cycle.siteId);
+    return { bytes, fileName: `${archived.reportNumber}.pdf`, archived: true, reportNumber: archived.reportNumber };
   }
   const detail = await getCycleDetail({ actor, id });
   if (!detail) throw new AppError(404, "That cycle was not found.");
@@ -52,9 +109,17 @@ export async function verifyReportBytes({ actor, bytes }: { actor: Actor; bytes:
   assertAllowed(actor, "report:verify", "check reports");
   const sha256 = sha256Hex(bytes);
   const row = await findReportBySha256({ actor, sha256 });
-  const match = !!row && Buffer.compare(Buffer.from(row.stored), Buffer.from(bytes)) === 0;
+  const sameBytes = !!row && Buffer.compare(Buffer.from(row.stored), Buffer.from(bytes)) === 0;
+  // An archive row altered behind the ledger's back (bytes and hash together) matches nothing.
+  const stored = sameBytes ? { id: row!.id, cycleId: row!.cycleId, reportNumber: row!.reportNumber, sha256, bytes } : null;
+  const problem = stored ? await reportIntegrityProblem(stored) : null;
+  const match = sameBytes && !problem;
   const cycleId = match ? row!.cycleId : null;
   await recordAuditEvent({ actorId: actor.id, actorEmail: actor.email, siteId: actor.siteId, action: "report.verify", entityType: "report", entityId: cycleId, newValue: { sha256, match, cycleId } });
+  if (stored && problem) {
+    await recordIntegrityFailure(actor, stored, actor.siteId, problem);
+    return { match: false as const, sha256, problem };
+  }
   if (!match) return { match: false as const, sha256 };
   return { match: true as const, sha256, cycleId: row!.cycleId, reportNumber: row!.reportNumber, cycleNumber: row!.cycleNumber, archivedAt: row!.createdAt };
 }
@@ -64,6 +129,8 @@ export async function downloadArchivedReport({ actor, id }: { actor: Actor; id: 
   assertAllowed(actor, "archive:read", "download archived reports");
   const row = await getArchivedReportRow({ actor, id });
   if (!row) throw new AppError(404, "That archived report was not found.");
+  const bytes = new Uint8Array(row.bytes);
+  await assertReportIntact(actor, { ...row, bytes }, actor.siteId);
   await recordAuditEvent({
     actorId: actor.id,
     actorEmail: actor.email,
@@ -73,5 +140,5 @@ export async function downloadArchivedReport({ actor, id }: { actor: Actor; id: 
     entityId: row.cycleId,
     newValue: { report: row.reportNumber },
   });
-  return { bytes: new Uint8Array(row.bytes), fileName: `${row.reportNumber}.pdf` };
+  return { bytes, fileName: `${row.reportNumber}.pdf` };
 }

@@ -14,6 +14,7 @@ import { reauthenticate } from "./reauthenticate";
 import { assertBowieDickSignable } from "./bowie-dick";
 import { buildRecordBundle, signatureHash, type SignedFields } from "./record-bundle";
 import { renderReport, reportNumberFor } from "./reports";
+import { anchorLedgerHeadAfterArchive } from "./ledger-anchors";
 
 export async function submitCycle({ actor, id }: { actor: Actor; id: string }) {
   const cycle = await getCycleRow({ actor, id });
@@ -121,6 +122,7 @@ export async function signCycle({ actor, id, password, meaning, reason }: SignIn
     },
   });
   if (!applied) throw new AppError(409, "Someone else signed this cycle a moment ago; reload to see their decision.");
+  if (archived) await anchorLedgerHeadAfterArchive();
   return { id: signatureId, cycleId: id, meaning, signedAt, bundleHash, printedName: signer.name };
 }
 

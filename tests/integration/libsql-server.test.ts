@@ -34,6 +34,8 @@ beforeAll(async () => {
   server = await startHranaServer({ file: serverFile, authToken: TOKEN });
   process.env.DATABASE_URL = server.url;
   process.env.DATABASE_AUTH_TOKEN = TOKEN;
+  // On a server URL the anchor file defaults to ./data: keep the test's anchors out of the working copy.
+  process.env.PAPIN_LEDGER_ANCHOR_FILE = path.join(dir, "ledger-anchors.jsonl");
   process.env.NEXTAUTH_SECRET ??= "test-secret-0123456789abcdef";
 
   const { getDb } = await import("@/db");
@@ -53,6 +55,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await server?.close();
+  delete process.env.PAPIN_LEDGER_ANCHOR_FILE;
   if (dir) rmSync(dir, { recursive: true, force: true });
 });
 

@@ -1,10 +1,27 @@
 import Link from "next/link";
 import { requirePageActor } from "@/lib/auth/page-guard";
-import { getAuditLedger } from "@/lib/services/audit";
+import { getAuditLedger, type AnchorState as Anchors } from "@/lib/services/audit";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 
 export const metadata = { title: "Audit ledger" };
+
+/** The comparison with the copies of the ledger head kept outside the database (the anchor file). */
+function AnchorState({ anchors }: { anchors: Anchors }) {
+  return (
+    <div className="mb-gutter" data-testid="anchor-state">
+      {anchors.status === "match" ? (
+        <Badge tone="pass">
+          ✓ Matches its {anchors.anchors} outside anchor{anchors.anchors === 1 ? "" : "s"}; the last, of {anchors.last.at.replace("T", " ").slice(0, 19)} UTC, holds {anchors.last.events} events
+        </Badge>
+      ) : anchors.status === "none" ? (
+        <Badge tone="caution">⚠ {anchors.problem}</Badge>
+      ) : anchors.status === "unchecked" ? (
+        <Badge tone="caution">⚠ {anchors.problem}</Badge>
+      ) : null}
+    </div>
+  );
+}
 
 type Search = { action?: string; actor?: string; entity?: string; from?: string; to?: string; page?: string };
 
@@ -27,15 +44,16 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
   return (
     <>
       <PageHeader title="Audit ledger" subtitle="Every change, submission, signature, sign-in and export, append-only and hash-chained." />
-      <div className="mb-gutter" data-testid="chain-state">
+      <div className="mb-2" data-testid="chain-state">
         {chain.ok ? (
           <Badge tone="pass">✓ Chain intact: {chain.events} events, each linked to the one before</Badge>
         ) : (
           <Badge tone="fail">
-            ✕ Chain broken at event {chain.firstBrokenAt}: {chain.problem}
+            ✕ {chain.anchors.status === "mismatch" ? "Ledger disagrees with its outside anchor" : `Chain broken at event ${chain.firstBrokenAt}`}: {chain.problem}
           </Badge>
         )}
       </div>
+      <AnchorState anchors={chain.anchors} />
       <Panel title={`${total} event${total === 1 ? "" : "s"}`}>
         <form className="mb-4 flex flex-wrap items-end gap-2" role="search">
           <div>
