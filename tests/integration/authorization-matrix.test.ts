@@ -34,6 +34,7 @@ const makers = () => only("technician", "engineer");
 
 /** "METHOD /api/path" (folders as in app/api, [id] kept) → who gets what; `bearer`: a valid gateway token, no session. */
 const ROUTES: Record<string, Row> = {
+  "GET /api/attachments/[id]": readers(),
   "GET /api/audit/verify": only("auditor", "admin"),
   "GET /api/auth/[...nextauth]": { ...PUBLIC, notCalled: "NextAuth's own sign-in endpoints need Next's request scope; the browser tests sign in through them" },
   "POST /api/auth/[...nextauth]": { ...PUBLIC, notCalled: "NextAuth's own sign-in endpoints need Next's request scope; the browser tests sign in through them" },
@@ -41,6 +42,7 @@ const ROUTES: Record<string, Row> = {
   "POST /api/cycles": { ...makers(), bearer: "allowed" },
   "GET /api/cycles/[id]": readers(),
   "POST /api/cycles/[id]/analyses": makers(),
+  "POST /api/cycles/[id]/indicator-sheet": makers(),
   "GET /api/cycles/[id]/report": readers(),
   "GET /api/cycles/[id]/series": readers(),
   "POST /api/cycles/[id]/signatures": only("engineer"),
@@ -50,21 +52,26 @@ const ROUTES: Record<string, Row> = {
   "GET /api/health": PUBLIC,
   "GET /api/instruments": { ...readers(), bearer: 401 },
   "POST /api/logger-files/inspect": makers(),
+  "GET /api/periodic-tests/[id]": readers(),
+  "POST /api/periodic-tests/[id]/signatures": only("engineer"),
   "GET /api/profiles": { ...readers(), bearer: "allowed" },
   "GET /api/reports/[id]": only("engineer", "auditor"),
   "POST /api/reports/verify": everyRole(),
   "GET /api/steam/saturation": everyRole(),
   "GET /api/sterilizers": { ...readers(), bearer: "allowed" },
+  "POST /api/sterilizers/[id]/status": only("engineer"),
 };
 
 /** "/folder exportName" of app/**\/actions.ts (route groups left out) → who gets what. */
 const ACTIONS: Record<string, Row> = {
+  "/account/password changeOwnPasswordAction": everyRole(),
   "/admin/mail retryMailAction": only("admin"),
   "/admin/mail sendDueMailAction": only("admin"),
   "/admin/site updateSiteAction": only("admin"),
   "/admin/users createUserAction": only("admin"),
   "/admin/users updateUserAction": only("admin"),
   "/admin/users resetPasswordAction": only("admin"),
+  "/admin/users unlockUserAction": only("admin"),
   "/instruments createInstrumentAction": only("engineer"),
   "/instruments addCertificateAction": only("engineer"),
   "/instruments clearMappingAction": only("engineer"),
@@ -79,6 +86,7 @@ const ACTIONS: Record<string, Row> = {
   "/sterilizers updateSterilizerAction": only("engineer"),
   "/sterilizers saveScheduleAction": only("engineer"),
   "/sterilizers removeScheduleAction": only("engineer"),
+  "/sterilizers setSterilizerStatusAction": only("engineer"),
   "/tokens issueApiTokenAction": only("engineer", "admin"),
   "/tokens revokeApiTokenAction": only("engineer", "admin"),
 };

@@ -1,6 +1,6 @@
 import { NextResponse } from "next/server";
 import { route, zodMessage } from "@/lib/http";
-import { requireUser } from "@/lib/auth/guards";
+import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { periodicSignatureSchema } from "@/lib/validations/periodic-tests";
 import { signPeriodicTest } from "@/lib/services/periodic-test-review";
@@ -11,6 +11,7 @@ type Context = { params: Promise<{ id: string }> };
 
 /** An engineer signs a periodic-test record: `{ password, meaning: "approved" | "failure-confirmed" | "returned", reason? }`. */
 export const POST = route<Context>(async (request, { params }) => {
+  const actor = await requireRole("periodic-test:sign", "sign periodic-test records");
   let body: unknown;
   try {
     body = await request.json();
@@ -19,7 +20,6 @@ export const POST = route<Context>(async (request, { params }) => {
   }
   const parsed = periodicSignatureSchema.safeParse(body);
   if (!parsed.success) throw new AppError(400, zodMessage(parsed.error), String(parsed.error.issues[0]?.path[0] ?? ""));
-  const actor = await requireUser();
   const { id } = await params;
   return NextResponse.json(await signPeriodicTest({ actor, id, ...parsed.data }), { status: 201 });
 });
