@@ -3,6 +3,7 @@ import { getCycleRow } from "@/db/queries/cycles";
 import { findReportBySha256, getArchivedReportRow, getReportOfCycle } from "@/db/queries/reviews";
 import { recordAuditEvent } from "@/db/queries/audit";
 import { AppError } from "@/lib/errors";
+import { isLockedCycleStatus } from "@/lib/domain";
 import { sha256Hex } from "@/lib/integrity";
 import { renderCycleReport } from "@/lib/reports";
 import type { CycleDetail } from "@/lib/cycles/contracts";
@@ -33,7 +34,7 @@ export async function getCycleReport({ actor, id }: { actor: Actor; id: string }
   const cycle = await getCycleRow({ actor, id });
   if (!cycle) throw new AppError(404, "That cycle was not found.");
   const archived = await getReportOfCycle({ cycleId: id });
-  if (archived && cycle.status === "approved") {
+  if (archived && isLockedCycleStatus(cycle.status)) {
     return { bytes: new Uint8Array(archived.bytes), fileName: `${archived.reportNumber}.pdf`, archived: true, reportNumber: archived.reportNumber };
   }
   const detail = await getCycleDetail({ actor, id });

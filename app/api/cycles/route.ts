@@ -34,7 +34,7 @@ export const POST = route(async (request) => {
     files.push(...single);
   }
   if (files.length === 0) throw new AppError(400, "Attach at least one logger file in the field named files.", "files");
-  const { sterilizerId, profileId, instrumentId, cycleNumber, load, testKind, startedAt } = fields.data;
+  const { sterilizerId, profileId, instrumentId, cycleNumber, load, testKind, startedAt, duplicateReason } = fields.data;
   const created = await createCycleFromUpload({
     actor,
     sterilizerId,
@@ -47,6 +47,7 @@ export const POST = route(async (request) => {
     files,
     mapping,
     saveMapping: form.get("saveMapping") === "true",
+    duplicateReason,
   });
   kickMailDelivery();
   return NextResponse.json({ id: created.id, status: created.status, analysis: created.analysis }, { status: 201 });
