@@ -72,14 +72,13 @@ export function SharedFilesNote({ detail }: { detail: CycleDetail }) {
 }
 
 const HISTORY_COLUMNS: Column[] = [
-  { title: "When (site time)", width: 17 },
-  { title: "By", width: 14 },
-  { title: "Reason", width: 27 },
-  { title: "Verdict", width: 8 },
-  { title: "File read and its SHA-256", width: 34 },
+  { title: "When (site time)", width: 22 },
+  { title: "By", width: 18 },
+  { title: "Reason", width: 50 },
+  { title: "Verdict", width: 10 },
 ];
 
-/** Every analysis of the cycle, oldest first: when, who, why, verdict, file name and hash. */
+/** Every analysis of the cycle, oldest first: when, who, why, verdict, and beneath it the file read with its SHA-256 on one line. */
 export function AnalysisHistorySection({ detail }: { detail: CycleDetail }) {
   const oldestFirst = [...detail.analysisHistory].reverse();
   if (oldestFirst.length === 0) return null;
@@ -92,15 +91,14 @@ export function AnalysisHistorySection({ detail }: { detail: CycleDetail }) {
       </View>
       <View style={s.table}>
         {oldestFirst.map((h, index) => (
-          <View key={h.id} style={s.tr} wrap={false}>
-            <T style={[s.td, { width: "17%" }]}>{`${bothClocks(h.createdAt, detail.site.timeZone).site}${h.id === detail.analysisId ? " (current)" : ""}`}</T>
-            <T style={[s.td, { width: "14%" }]}>{h.createdByName ?? "—"}</T>
-            <T style={[s.td, { width: "27%" }]}>{h.reason ?? (index === 0 ? "first analysis" : "—")}</T>
-            <T style={[s.td, { width: "8%" }, h.verdict === "pass" ? s.pass : s.fail]}>{h.verdict === "pass" ? "PASS" : "FAIL"}</T>
-            <View style={[s.td, { width: "34%" }]}>
-              <T>{h.fileName}</T>
-              <T style={s.monoSmall}>{h.fileSha256}</T>
+          <View key={h.id} style={[s.tr, { flexDirection: "column" }]} wrap={false}>
+            <View style={{ flexDirection: "row" }}>
+              <T style={[s.td, { width: "22%" }]}>{`${bothClocks(h.createdAt, detail.site.timeZone).site}${h.id === detail.analysisId ? " (current)" : ""}`}</T>
+              <T style={[s.td, { width: "18%" }]}>{h.createdByName ?? "—"}</T>
+              <T style={[s.td, { width: "50%" }]}>{h.reason ?? (index === 0 ? "first analysis" : "—")}</T>
+              <T style={[s.td, { width: "10%" }, h.verdict === "pass" ? s.pass : s.fail]}>{h.verdict === "pass" ? "PASS" : "FAIL"}</T>
             </View>
+            <T style={[s.monoSmall, { paddingHorizontal: 3, paddingBottom: 3 }]}>{`${h.fileName} · SHA-256 ${h.fileSha256}`}</T>
           </View>
         ))}
       </View>

@@ -80,9 +80,13 @@ async function assertSignable(actor: Actor, cycle: Cycle, detail: CycleDetail, i
     throw new AppError(409, "This cycle's analysis passed, so there is no failure to confirm: approve it, or return it with the reason.");
   }
   if (!isDeciding(meaning)) return;
-  const own = [...new Set((await listContributions({ cycleId: cycle.id })).filter((c) => c.userId === actor.id).map((c) => CONTRIBUTION_WORDS[c.kind]))];
+  const kinds = new Set((await listContributions({ cycleId: cycle.id })).filter((c) => c.userId === actor.id).map((c) => c.kind));
+  // The ledger's edit events mostly repeat what the rows say; they are named only when nothing else is.
+  if (kinds.size > 1) kinds.delete("edited");
+  const own = (Object.keys(CONTRIBUTION_WORDS) as ContributionKind[]).filter((k) => kinds.has(k)).map((k) => CONTRIBUTION_WORDS[k]);
   if (own.length > 0) {
-    throw new AppError(403, `Segregation of duties: you ${own.join(" and ")}, so another engineer must approve it or confirm its failure.`);
+    const list = own.length > 1 ? `${own.slice(0, -1).join(", ")} and ${own[own.length - 1]}` : own[0];
+    throw new AppError(403, `Segregation of duties: you ${list}, so another engineer must approve it or confirm its failure.`);
   }
   if (meaning === "approved") assertInstrumentEvidence(detail);
   const differences = detail.fileReplacement?.differences ?? [];
