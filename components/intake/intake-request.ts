@@ -9,10 +9,20 @@ export type IntakeProfile = { id: string; name: string; sterilizationTempC: numb
 export type IntakeInstrument = { id: string; name: string; serialNumber: string; kind: string; hasSavedMapping: boolean };
 
 /** The cycle details as the form holds them; startedAt is a datetime-local value, read in the site's time zone. */
-export type IntakeFields = { sterilizerId: string; profileId: string; instrumentId: string; cycleNumber: string; load: string; testKind: TestKind; startedAt: string };
+export type IntakeFields = {
+  sterilizerId: string;
+  profileId: string;
+  instrumentId: string;
+  cycleNumber: string;
+  load: string;
+  testKind: TestKind;
+  startedAt: string;
+  /** asked for only once the server says another cycle of the site already holds the file */
+  duplicateReason: string;
+};
 export type FieldErrors = Partial<Record<CreateCycleField, string>>;
 
-export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind", "startedAt"];
+export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind", "startedAt", "duplicateReason"];
 
 /** Whether the inspected file leaves the start time to the user: elapsed times or clock times without a date. */
 export function needsStartTime(inspect: InspectResponse | null): boolean {
@@ -113,6 +123,7 @@ export function cycleForm(draft: IntakeDraft): FormData {
   if (fields.load.trim()) form.append("load", fields.load.trim());
   form.append("testKind", fields.testKind);
   if (needsStartTime(draft.inspect) && fields.startedAt.trim()) form.append("startedAt", fields.startedAt.trim());
+  if (fields.duplicateReason.trim()) form.append("duplicateReason", fields.duplicateReason.trim());
   form.append("mapping", JSON.stringify(toMappingOverrides(draft.columns, draft.referenceColumn, draft.freeSpaceColumn)));
   if (draft.saveMapping && fields.instrumentId) form.append("saveMapping", "true");
   return form;

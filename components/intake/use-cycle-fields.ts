@@ -21,6 +21,7 @@ export function useCycleFields({ sterilizers, instruments, onEdit }: Options) {
     load: "",
     testKind: "thermometric-small-load",
     startedAt: "",
+    duplicateReason: "",
   });
   const [fieldErrors, setFieldErrors] = useState<FieldErrors>({});
   const [saveMapping, setSaveMapping] = useState(false);
