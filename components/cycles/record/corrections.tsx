@@ -4,7 +4,7 @@ import { EmptyState } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { formatDateTime } from "@/lib/format";
 
-/** Every analysis of the cycle, newest first: when, who, why, the verdict and the file it read (name and SHA-256). */
+/** Every analysis of the cycle, newest first: when, who, why, the verdict, and beneath it the file read (name and SHA-256). */
 export function AnalysisHistory({ history, currentId, timeZone }: { history: CycleDetail["analysisHistory"]; currentId: string | null; timeZone: string }) {
   if (history.length === 0) return <EmptyState title="Not analysed yet" />;
   return (
@@ -16,13 +16,11 @@ export function AnalysisHistory({ history, currentId, timeZone }: { history: Cyc
             <th scope="col">By</th>
             <th scope="col">Reason</th>
             <th scope="col">Verdict</th>
-            <th scope="col">File read</th>
-            <th scope="col">Engine and input hash</th>
           </tr>
         </thead>
-        <tbody>
-          {history.map((h, index) => (
-            <tr key={h.id}>
+        {history.map((h, index) => (
+          <tbody key={h.id}>
+            <tr>
               <td className="whitespace-nowrap">
                 {formatDateTime(h.createdAt, timeZone)}
                 {h.id === currentId && (
@@ -32,21 +30,19 @@ export function AnalysisHistory({ history, currentId, timeZone }: { history: Cyc
                 )}
               </td>
               <td>{h.createdByName ?? "—"}</td>
-              <td className="min-w-48">{h.reason ?? (index === history.length - 1 ? <span className="text-ink-muted">first analysis</span> : "—")}</td>
+              <td>{h.reason ?? (index === history.length - 1 ? <span className="text-ink-muted">first analysis</span> : "—")}</td>
               <td>
                 <VerdictBadge verdict={h.verdict} />
               </td>
-              <td className="min-w-56">
-                <span className="break-all">{h.fileName}</span>
-                <span className="mono block text-2xs break-all text-ink-muted">SHA-256 {h.fileSha256}</span>
-              </td>
-              <td className="mono text-2xs break-all">
-                {h.engineVersion}
-                <span className="block text-ink-muted">{h.inputHash}</span>
+            </tr>
+            <tr>
+              <td colSpan={4} className="text-xs text-ink-muted">
+                File <span className="break-all text-ink-soft">{h.fileName}</span>, SHA-256 <span className="mono break-all">{h.fileSha256}</span> · engine{" "}
+                <span className="mono">{h.engineVersion}</span>, input <span className="mono break-all">{h.inputHash}</span>
               </td>
             </tr>
-          ))}
-        </tbody>
+          </tbody>
+        ))}
       </table>
     </div>
   );
