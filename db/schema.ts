@@ -271,6 +271,8 @@ export const loggerFiles = sqliteTable(
     bytes: blob("bytes", { mode: "buffer" }).notNull(),
     dialect: text("dialect", { mode: "json" }),
     mapping: text("mapping", { mode: "json" }),
+    // Why a file whose SHA-256 another cycle of the site already holds was accepted (one file holding several cycles).
+    duplicateReason: text("duplicate_reason"),
     uploadedBy: text("uploaded_by")
       .notNull()
       .references(() => users.id),
@@ -297,6 +299,8 @@ export const analyses = sqliteTable(
     limits: text("limits", { mode: "json" }).notNull(),
     result: text("result", { mode: "json" }).notNull(),
     verdict: text("verdict", { enum: VERDICTS }).notNull(),
+    // Why this analysis was made (a new file, a new mapping, changed details); null for a cycle's first analysis.
+    reason: text("reason"),
     createdBy: text("created_by").references(() => users.id),
     createdAt: createdAt(),
   },

@@ -335,7 +335,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
 
   return {
     loaded: true,
-    summary: `1 site, ${DEMO_USERS.length} users, ${DEMO_STERILIZERS.length} sterilizers, ${cycleCount} cycles (${failCount} failing), ${decisions.approved} approved with archived reports, ${decisions.rejected} returned`,
+    summary: `1 site, ${DEMO_USERS.length} users, ${DEMO_STERILIZERS.length} sterilizers, ${cycleCount} cycles (${failCount} failing), ${decisions.approved} approved with archived reports, ${decisions.returned} returned`,
   };
 }
 
@@ -401,15 +401,15 @@ async function signOlderDemoCycles(db: Database, password: string) {
   const cutoff = new Date(Date.now() - 6 * DAY_MS).toISOString();
   const older = (await db.select().from(cycles).where(eq(cycles.status, "submitted"))).filter((c) => (c.startedAt ?? "") < cutoff);
   let approved = 0;
-  let rejected = 0;
+  let returned = 0;
   for (const cycle of older) {
     if (cycle.verdict === "pass" && approved < 4) {
       await signCycle({ actor, id: cycle.id, password, meaning: "approved" });
       approved++;
     } else if (cycle.verdict === "fail") {
-      await signCycle({ actor, id: cycle.id, password, meaning: "rejected", reason: "The analysis failed; find the cause (see the diagnosis), correct it and repeat the test." });
-      rejected++;
+      await signCycle({ actor, id: cycle.id, password, meaning: "returned", reason: "The analysis failed; find the cause (see the diagnosis), correct it and repeat the test." });
+      returned++;
     }
   }
-  return { approved, rejected };
+  return { approved, returned };
 }

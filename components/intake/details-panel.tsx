@@ -50,6 +50,7 @@ export function DetailsPanel(props: Props) {
         <EquipmentFields {...props} wiring={wiring} />
         {(props.askStartTime || props.details.fieldErrors.startedAt) && <StartTimeField idPrefix={props.idPrefix} details={props.details} wiring={wiring} timeZone={props.timeZone} />}
         <CycleFacts idPrefix={props.idPrefix} details={props.details} wiring={wiring} />
+        {(props.details.fieldErrors.duplicateReason || props.details.fields.duplicateReason) && <DuplicateReasonField idPrefix={props.idPrefix} details={props.details} wiring={wiring} />}
       </div>
       <SaveMappingBox details={props.details} />
     </Panel>
@@ -268,6 +269,30 @@ function StartTimeField({ idPrefix: ids, details, wiring, timeZone }: { idPrefix
           The file holds elapsed times only. Local time at the site ({timeZone}), from the sterilizer&apos;s printout or display.
         </p>
       )}
+    </div>
+  );
+}
+
+/** Only when another cycle of the site already holds the file: why it belongs to this cycle too (e.g. one file holding several cycles). */
+function DuplicateReasonField({ idPrefix: ids, details, wiring }: { idPrefix: string; details: CycleFields; wiring: Wiring }) {
+  const { invalid, describedBy, errorText } = wiring;
+  return (
+    <div className="md:col-span-2 xl:col-span-3">
+      <label className="field-label" htmlFor={`${ids}-duplicate-reason`}>
+        Why this file belongs to this cycle too
+      </label>
+      <textarea
+        id={`${ids}-duplicate-reason`}
+        name="duplicateReason"
+        rows={2}
+        className="field-input"
+        value={details.fields.duplicateReason}
+        placeholder="e.g. one logger file holds the morning and the afternoon cycles"
+        onChange={(e) => details.setField("duplicateReason", e.target.value)}
+        {...invalid("duplicateReason")}
+        aria-describedby={describedBy("duplicateReason")}
+      />
+      {errorText("duplicateReason")}
     </div>
   );
 }

@@ -20,10 +20,21 @@ export type IntakeInstrument = { id: string; name: string; serialNumber: string;
 
 /** The cycle details as the form holds them; startedAt is a datetime-local value, read in the site's time zone. */
 /** leakT1: an air leakage test's t1 as typed (m:ss or seconds since the first sample); empty lets Papin find it in the trace. */
-export type IntakeFields = { sterilizerId: string; profileId: string; instrumentId: string; cycleNumber: string; load: string; testKind: TestKind; startedAt: string; leakT1?: string };
+export type IntakeFields = {
+  sterilizerId: string;
+  profileId: string;
+  instrumentId: string;
+  cycleNumber: string;
+  load: string;
+  testKind: TestKind;
+  startedAt: string;
+  leakT1?: string;
+  /** asked for only once the server says another cycle of the site already holds the file */
+  duplicateReason: string;
+};
 export type FieldErrors = Partial<Record<CreateCycleField | "leakMarks", string>>;
 
-export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind", "startedAt", "leakMarks"];
+export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind", "startedAt", "leakMarks", "duplicateReason"];
 
 /** The air leakage test's marked t1 in seconds: null when none is given or the test kind is another, NaN when it cannot be read. */
 export function markedT1(fields: IntakeFields): number | null {
@@ -131,6 +142,7 @@ export function cycleForm(draft: IntakeDraft): FormData {
   if (fields.load.trim()) form.append("load", fields.load.trim());
   form.append("testKind", fields.testKind);
   if (needsStartTime(draft.inspect) && fields.startedAt.trim()) form.append("startedAt", fields.startedAt.trim());
+  if (fields.duplicateReason.trim()) form.append("duplicateReason", fields.duplicateReason.trim());
   form.append("mapping", JSON.stringify(toMappingOverrides(draft.columns, draft.referenceColumn, draft.freeSpaceColumn)));
   const t1 = markedT1(fields);
   if (t1 !== null && Number.isFinite(t1)) form.append("leakMarks", JSON.stringify({ t1S: t1 }));

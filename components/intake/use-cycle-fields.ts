@@ -22,6 +22,7 @@ export function useCycleFields({ sterilizers, instruments, onEdit }: Options) {
     testKind: "thermometric-small-load",
     startedAt: "",
     leakT1: "",
+    duplicateReason: "",
   });
   const [fieldErrors, setFieldErrors] = useState<FieldErrors>({});
   const [saveMapping, setSaveMapping] = useState(false);

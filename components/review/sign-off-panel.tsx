@@ -3,30 +3,46 @@
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import type { CycleDetail } from "@/lib/cycles/contracts";
-import { SIGNATURE_MEANING_LABELS, SIGNATURE_MEANINGS, type Role, type SignatureMeaning, type Verdict } from "@/lib/domain";
+import { isEditableCycleStatus, isLockedCycleStatus, SIGNATURE_MEANING_LABELS, SIGNING_MEANINGS, type Role, type SigningMeaning } from "@/lib/domain";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { IDLE_FORM_STATE, type FormState } from "@/lib/form-state";
 import { ActionMessage } from "@/components/ui/action-message";
+import { SignatureList } from "./signature-list";
 
-const MEANING_STATEMENTS: Record<SignatureMeaning, string> = {
+const MEANING_STATEMENTS: Record<SigningMeaning, string> = {
   reviewed: "I have reviewed this record; the decision stays open.",
-  approved: "I approve this test cycle as meeting its acceptance profile. The record will be locked and its report archived.",
-  rejected: "I return this cycle to the technician for correction, for the reason given.",
+  approved: "I approve this test as passed and accept it as evidence. The record will be locked and its report archived.",
+  "failure-confirmed": "I confirm that this test failed. The record closes as a signed failure, locked, with its report archived marked FAIL.",
+  returned: "I return this cycle to the technician to correct a data or entry problem, for the reason given.",
 };
 
-export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { id: string; role: Role; name: string } }) {
+/** Why a meaning cannot be chosen for this cycle by this engineer; null when it can. */
+function blockedBecause(meaning: SigningMeaning, detail: CycleDetail, contributed: boolean): string | null {
+  if (meaning === "approved" && detail.verdict !== "pass") return "The analysis failed, so this cycle cannot be approved: confirm the failure or return it.";
+  if (meaning === "failure-confirmed" && detail.verdict !== "fail") return "The analysis passed: there is no failure to confirm.";
+  if ((meaning === "approved" || meaning === "failure-confirmed") && contributed) return "You gave this cycle an input (file, analysis or details); another engineer must decide it.";
+  return null;
+}
+
+function firstOpenMeaning(detail: CycleDetail, contributed: boolean): SigningMeaning {
+  const preferred: SigningMeaning = detail.verdict === "pass" ? "approved" : "failure-confirmed";
+  return blockedBecause(preferred, detail, contributed) ? "returned" : preferred;
+}
+
+export function SignOffPanel({ detail, actor, contributed }: { detail: CycleDetail; actor: { id: string; role: Role; name: string }; contributed: boolean }) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState<FormState>(IDLE_FORM_STATE);
-  const [meaning, setMeaning] = useState<SignatureMeaning>(detail.verdict === "pass" && detail.createdBy.id !== actor.id ? "approved" : detail.verdict === "pass" ? "reviewed" : "rejected");
+  const [meaning, setMeaning] = useState<SigningMeaning>(firstOpenMeaning(detail, contributed));
   const [reason, setReason] = useState("");
   const [password, setPassword] = useState("");
-  const [correction, setCorrection] = useState<File | null>(null);
+  const [acknowledged, setAcknowledged] = useState(false);
 
-  const canSubmit = (actor.role === "technician" || actor.role === "engineer") && (detail.status === "draft" || detail.status === "rejected") && !!detail.analysis;
+  const editable = isEditableCycleStatus(detail.status);
+  const canSubmit = (actor.role === "technician" || actor.role === "engineer") && editable && !!detail.analysis;
   const canSign = actor.role === "engineer" && detail.status === "submitted";
-  const ownUpload = detail.createdBy.id === actor.id;
-  const canCorrect = (actor.role === "technician" || actor.role === "engineer") && (detail.status === "draft" || detail.status === "rejected");
+  const differences = detail.fileReplacement?.differences ?? [];
+  const needsAcknowledgement = differences.length > 0 && (meaning === "approved" || meaning === "failure-confirmed");
 
   async function run(action: () => Promise<string>) {
     setBusy(true);
@@ -46,8 +62,12 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
 
   const sign = (event: React.FormEvent) => {
     event.preventDefault();
-    if (meaning === "rejected" && !reason.trim()) {
-      setMessage({ status: "error", message: "Give the reason for rejecting, so the technician knows what to correct." });
+    if (meaning === "returned" && !reason.trim()) {
+      setMessage({ status: "error", message: "Give the reason for returning the cycle, so the technician knows what to correct." });
+      return;
+    }
+    if (needsAcknowledgement && !acknowledged) {
+      setMessage({ status: "error", message: "Acknowledge the replaced logger file before you sign." });
       return;
     }
     if (!password) {
@@ -56,22 +76,10 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
     }
     void run(async () => {
       const s = await fetchJson<{ printedName: string; signedAt: string }>(`/api/cycles/${detail.id}/signatures`, {
-        json: { password, meaning, reason: reason.trim() || null },
+        json: { password, meaning, reason: reason.trim() || null, acknowledgeReplacement: needsAcknowledgement ? acknowledged : undefined },
         what: "the signature",
       });
       return `Signed "${SIGNATURE_MEANING_LABELS[meaning]}" by ${s.printedName} at ${new Date(s.signedAt).toUTCString()}.`;
-    });
-  };
-
-  const correct = (event: React.FormEvent) => {
-    event.preventDefault();
-    if (!correction) return;
-    void run(async () => {
-      const form = new FormData();
-      form.set("file", correction);
-      const data = await fetchJson<{ analysis: { verdict: Verdict } }>(`/api/cycles/${detail.id}/analyses`, { form, what: "the new analysis" });
-      setCorrection(null);
-      return `New analysis: ${data.analysis.verdict === "pass" ? "pass" : "fail"}. The earlier analysis stays in the history.`;
     });
   };
 
@@ -83,25 +91,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
         </h2>
       </header>
       <div className="space-y-4 px-panel py-4 text-sm">
-        {detail.signatures.length === 0 ? (
-          <p className="text-ink-muted">No signature yet.</p>
-        ) : (
-          <ol className="space-y-2" data-testid="signatures">
-            {detail.signatures.map((s) => (
-              <li key={s.id} className="rounded-md border border-ink-line px-3 py-2">
-                <p className="font-medium">
-                  {SIGNATURE_MEANING_LABELS[s.meaning]} — {s.printedName} <span className="font-normal text-ink-muted">({s.role})</span>
-                </p>
-                <p className="text-xs text-ink-muted">{new Date(s.signedAt).toISOString().replace("T", " ").slice(0, 19)} UTC</p>
-                {s.reason && <p className="mt-1">Reason: {s.reason}</p>}
-                <p className={`mt-1 text-xs ${s.valid ? "text-pass-700" : "text-fail-700"}`}>
-                  {s.valid ? "✓ Signature verifies against the record as stored" : `✕ Signature no longer matches the record: ${s.problem ?? "the record has changed."} Investigate.`}
-                </p>
-                <p className="mono mt-0.5 break-all text-ink-faint">{s.bundleHash}</p>
-              </li>
-            ))}
-          </ol>
-        )}
+        <SignatureList signatures={detail.signatures} />
 
         <p className="flex flex-wrap gap-2">
           <a className="btn-secondary" href={`/api/cycles/${detail.id}/report`} target="_blank" rel="noreferrer">
@@ -117,7 +107,7 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
         {canSubmit && (
           <div>
             <button type="button" className="btn-primary" onClick={submit} disabled={busy}>
-              {detail.status === "rejected" ? "Submit the corrected cycle again" : "Submit for review"}
+              {detail.status === "returned" ? "Submit the corrected cycle again" : "Submit for review"}
             </button>
             <p className="mt-1 text-xs text-ink-muted">Submitting sends the record to the site&apos;s validation engineers.</p>
           </div>
@@ -128,26 +118,29 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
             <fieldset>
               <legend className="field-label">Meaning of your signature</legend>
               <div className="space-y-1">
-                {SIGNATURE_MEANINGS.map((m) => {
-                  const failing = m === "approved" && detail.verdict !== "pass";
-                  const blocked = m === "approved" && (ownUpload || failing);
+                {SIGNING_MEANINGS.map((m) => {
+                  const blocked = blockedBecause(m, detail, contributed);
                   return (
                     <label key={m} className={`flex items-start gap-2 ${blocked ? "opacity-50" : ""}`}>
-                      <input type="radio" name="meaning" value={m} checked={meaning === m} disabled={blocked} onChange={() => setMeaning(m)} className="mt-1" />
+                      <input type="radio" name="meaning" value={m} checked={meaning === m} disabled={!!blocked} onChange={() => setMeaning(m)} className="mt-1" />
                       <span>
                         <span className="font-medium">{SIGNATURE_MEANING_LABELS[m]}</span>
-                        <span className="block text-xs text-ink-muted">
-                          {failing ? "The analysis failed, so this cycle cannot be approved." : blocked ? "You uploaded this cycle; another engineer must approve it." : MEANING_STATEMENTS[m]}
-                        </span>
+                        <span className="block text-xs text-ink-muted">{blocked ?? MEANING_STATEMENTS[m]}</span>
                       </span>
                     </label>
                   );
                 })}
               </div>
             </fieldset>
+            {needsAcknowledgement && (
+              <label className="flex items-start gap-2 rounded-md border border-caution-500/40 bg-caution-50 p-2 text-xs">
+                <input type="checkbox" checked={acknowledged} onChange={(e) => setAcknowledged(e.target.checked)} className="mt-0.5" />
+                <span>I have seen that the logger file was replaced after the first analysis and that the recordings differ: {differences.join(" ")}</span>
+              </label>
+            )}
             <div>
               <label htmlFor="sign-reason" className="field-label">
-                Reason {meaning === "rejected" ? "(required)" : "(optional)"}
+                Reason {meaning === "returned" ? "(required)" : "(optional)"}
               </label>
               <textarea id="sign-reason" className="field-input" rows={2} value={reason} onChange={(e) => setReason(e.target.value)} />
             </div>
@@ -167,19 +160,11 @@ export function SignOffPanel({ detail, actor }: { detail: CycleDetail; actor: { 
           </form>
         )}
 
-        {canCorrect && (
-          <form onSubmit={correct} className="space-y-2" aria-label="Correct the logger file">
-            <label htmlFor="correction-file" className="field-label">
-              Correct with a new logger file
-            </label>
-            <input id="correction-file" type="file" accept=".csv,.txt,.tsv,.dat,.log" onChange={(e) => setCorrection(e.target.files?.[0] ?? null)} className="block text-sm" />
-            <button type="submit" className="btn-secondary" disabled={busy || !correction}>
-              Analyse the new file
-            </button>
-          </form>
+        {isLockedCycleStatus(detail.status) && (
+          <p className="text-xs text-ink-muted">
+            {detail.status === "approved" ? "Approved" : "Closed as a signed failure"}: the record is locked. A correction is a new cycle that refers to this one.
+          </p>
         )}
-
-        {detail.status === "approved" && <p className="text-xs text-ink-muted">Approved records are locked. A correction is a new cycle that refers to this one.</p>}
 
         <ActionMessage state={message} />
       </div>

@@ -22,7 +22,7 @@ export function VerdictBadge({ verdict }: { verdict: Verdict | null | undefined 
   return <Badge>Not analysed</Badge>;
 }
 
-const STATUS_TONES: Record<CycleStatus, BadgeTone> = { draft: "neutral", submitted: "steam", approved: "pass", rejected: "caution" };
+const STATUS_TONES: Record<CycleStatus, BadgeTone> = { draft: "neutral", submitted: "steam", approved: "pass", "failure-confirmed": "fail", returned: "caution" };
 
 export function StatusBadge({ status }: { status: CycleStatus }) {
   return <Badge tone={STATUS_TONES[status]}>{CYCLE_STATUS_LABELS[status]}</Badge>;

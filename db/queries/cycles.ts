@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, count, desc, eq, gte, lte, or, type SQL } from "drizzle-orm";
+import { and, asc, count, desc, eq, gte, inArray, lte, ne, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { getDb, type Executor } from "@/db";
 import { containsText } from "./search";
@@ -20,6 +20,7 @@ import {
   type NewLoggerFile,
 } from "@/db/schema";
 import { appendAuditEvent, type AuditInput } from "@/db/ledger";
+import { EDITABLE_CYCLE_STATUSES } from "@/lib/domain";
 import type { Actor } from "./users";
 
 const siteOf = (actor: Actor) => actor.siteId ?? "";
@@ -132,7 +133,8 @@ export async function getCycleRecordRows({ actor, id }: { actor: Actor; id: stri
     .limit(1);
   if (!row) return undefined;
   const uploader = alias(users, "uploader");
-  const [files, analysisRows, signatureRows, [report]] = await Promise.all([
+  const analyst = alias(users, "analyst");
+  const [files, analysisRows, signatureRows, [report], duplicates] = await Promise.all([
     db
       .select({
         id: loggerFiles.id,
@@ -148,11 +150,50 @@ export async function getCycleRecordRows({ actor, id }: { actor: Actor; id: stri
       .innerJoin(uploader, eq(loggerFiles.uploadedBy, uploader.id))
       .where(eq(loggerFiles.cycleId, id))
       .orderBy(asc(loggerFiles.uploadedAt)),
-    db.select().from(analyses).where(eq(analyses.cycleId, id)).orderBy(desc(analyses.createdAt)),
+    db
+      .select({ analysis: analyses, fileName: loggerFiles.name, fileSha256: loggerFiles.sha256, analystName: analyst.name })
+      .from(analyses)
+      .innerJoin(loggerFiles, eq(analyses.loggerFileId, loggerFiles.id))
+      .leftJoin(analyst, eq(analyses.createdBy, analyst.id))
+      .where(eq(analyses.cycleId, id))
+      .orderBy(desc(analyses.createdAt), desc(sql`analyses.rowid`)),
     db.select().from(signatures).where(eq(signatures.cycleId, id)).orderBy(asc(signatures.signedAt)),
     db.select({ id: reports.id, reportNumber: reports.reportNumber, sha256: reports.sha256 }).from(reports).where(eq(reports.cycleId, id)).orderBy(desc(reports.createdAt)).limit(1),
+    listFilesSharedWithOtherCycles({ siteId: row.cycle.siteId, cycleId: id }),
   ]);
-  return { ...row, files, analysisRows, signatureRows, report };
+  return { ...row, files, analysisRows, signatureRows, report, duplicates };
+}
+
+const otherFile = alias(loggerFiles, "other_file");
+const otherCycle = alias(cycles, "other_cycle");
+
+/** The cycle's files whose bytes (SHA-256) another cycle of the site also holds, with that cycle and the reasons given. */
+export async function listFilesSharedWithOtherCycles({ siteId, cycleId }: { siteId: string; cycleId: string }) {
+  return getDb()
+    .selectDistinct({
+      fileName: loggerFiles.name,
+      sha256: loggerFiles.sha256,
+      reason: loggerFiles.duplicateReason,
+      otherReason: otherFile.duplicateReason,
+      cycleId: otherCycle.id,
+      cycleNumber: otherCycle.cycleNumber,
+    })
+    .from(loggerFiles)
+    .innerJoin(otherFile, and(eq(otherFile.sha256, loggerFiles.sha256), ne(otherFile.cycleId, loggerFiles.cycleId)))
+    .innerJoin(otherCycle, and(eq(otherCycle.id, otherFile.cycleId), eq(otherCycle.siteId, siteId)))
+    .where(eq(loggerFiles.cycleId, cycleId))
+    .orderBy(asc(otherCycle.cycleNumber));
+}
+
+/** Cycles of the site (other than `exceptCycleId`) that already hold a file with one of these SHA-256 digests. */
+export async function findCyclesHoldingFiles({ siteId, sha256s, exceptCycleId }: { siteId: string; sha256s: string[]; exceptCycleId?: string }) {
+  if (sha256s.length === 0) return [];
+  return getDb()
+    .selectDistinct({ sha256: loggerFiles.sha256, cycleId: cycles.id, cycleNumber: cycles.cycleNumber })
+    .from(loggerFiles)
+    .innerJoin(cycles, eq(loggerFiles.cycleId, cycles.id))
+    .where(and(eq(cycles.siteId, siteId), inArray(loggerFiles.sha256, sha256s), exceptCycleId ? ne(cycles.id, exceptCycleId) : undefined))
+    .orderBy(asc(cycles.cycleNumber));
 }
 
 /** The stored logger file an analysis was made from, with that analysis's result. */
@@ -213,13 +254,24 @@ export type CorrectionInsert = {
   /** a new file, or the id of the stored file analysed again */
   file: Omit<NewLoggerFile, "cycleId"> | { existingId: string };
   analysis: NewAnalysisRow;
+  /** the cycle's details changed with this analysis (profile, instrument, load) */
+  details?: Partial<Pick<NewCycle, "profileId" | "instrumentId" | "loadDescription">>;
   audit: (analysisId: string) => AuditInput;
   inside?: Hook;
 };
 
-/** A further analysis of a cycle (and its new file, if any); earlier ones stay on the record. */
-export async function insertCorrection(input: CorrectionInsert): Promise<string> {
+/**
+ * A further analysis of a draft or returned cycle (with its new file and changed details, if any); earlier analyses
+ * and files stay on the record. Null, with nothing written, when the cycle was no longer open to correction.
+ */
+export async function insertCorrection(input: CorrectionInsert): Promise<string | null> {
   return getDb().transaction(async (tx) => {
+    const open = await tx
+      .update(cycles)
+      .set({ ...input.details, verdict: input.analysis.verdict, updatedAt: new Date().toISOString() })
+      .where(and(eq(cycles.id, input.cycleId), inArray(cycles.status, EDITABLE_CYCLE_STATUSES)))
+      .returning({ id: cycles.id });
+    if (open.length === 0) return null;
     let fileId: string;
     if ("existingId" in input.file) {
       fileId = input.file.existingId;
@@ -234,7 +286,7 @@ export async function insertCorrection(input: CorrectionInsert): Promise<string>
       .insert(analyses)
       .values({ ...input.analysis, cycleId: input.cycleId, loggerFileId: fileId })
       .returning({ id: analyses.id });
-    await tx.update(cycles).set({ currentAnalysisId: saved.id, verdict: input.analysis.verdict, updatedAt: new Date().toISOString() }).where(eq(cycles.id, input.cycleId));
+    await tx.update(cycles).set({ currentAnalysisId: saved.id }).where(eq(cycles.id, input.cycleId));
     await appendAuditEvent(tx, input.audit(saved.id));
     await input.inside?.(tx, input.cycleId);
     return saved.id;

@@ -2,6 +2,7 @@ import "server-only";
 import { and, count, desc, eq, gte, inArray, max, sql } from "drizzle-orm";
 import { getDb } from "@/db";
 import { auditEvents, calibrationCertificates, cycles, instruments, sterilizers, users } from "@/db/schema";
+import { EDITABLE_CYCLE_STATUSES } from "@/lib/domain";
 
 const DAY_MS = 86_400_000;
 
@@ -29,7 +30,7 @@ export async function listMyOpenCycles({ siteId, userId, limit = 6 }: { siteId: 
     .select(cycleSummary)
     .from(cycles)
     .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
-    .where(and(eq(cycles.siteId, siteId), eq(cycles.createdBy, userId), inArray(cycles.status, ["draft", "rejected"])))
+    .where(and(eq(cycles.siteId, siteId), eq(cycles.createdBy, userId), inArray(cycles.status, EDITABLE_CYCLE_STATUSES)))
     .orderBy(desc(cycles.createdAt))
     .limit(limit);
 }

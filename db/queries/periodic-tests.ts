@@ -61,12 +61,12 @@ export async function getScheduleFacts({
     db
       .select({ sterilizerId: cycles.sterilizerId, kind: cycles.testKind, at: max(startedOrCreated) })
       .from(cycles)
-      .where(and(eq(cycles.siteId, siteId), eq(cycles.status, "approved"), eq(cycles.verdict, "fail"), byCycle))
+      .where(and(eq(cycles.siteId, siteId), eq(cycles.status, "failure-confirmed"), eq(cycles.verdict, "fail"), byCycle))
       .groupBy(cycles.sterilizerId, cycles.testKind),
     db
       .select({ sterilizerId: cycles.sterilizerId, kind: cycles.testKind, n: count() })
       .from(cycles)
-      .where(and(eq(cycles.siteId, siteId), ne(cycles.status, "approved"), ne(cycles.status, "rejected"), eq(cycles.verdict, "pass"), byCycle))
+      .where(and(eq(cycles.siteId, siteId), ne(cycles.status, "approved"), ne(cycles.status, "failure-confirmed"), ne(cycles.status, "returned"), eq(cycles.verdict, "pass"), byCycle))
       .groupBy(cycles.sterilizerId, cycles.testKind),
     db
       .select({ sterilizerId: periodicTests.sterilizerId, kind: periodicTests.kind, n: count() })

@@ -1,17 +1,49 @@
 import "server-only";
-import { and, desc, eq, gte, lte, ne, or } from "drizzle-orm";
+import { and, desc, eq, gte, inArray, isNotNull, lte, ne, or, sql } from "drizzle-orm";
 import { getDb, type Executor } from "@/db";
 import { containsText } from "./search";
-import { cycles, loggerFiles, reports, signatures, sterilizers, users, type CycleStatus, type NewSignature } from "@/db/schema";
+import { analyses, auditEvents, cycles, loggerFiles, reports, signatures, sterilizers, users, type CycleStatus, type NewSignature } from "@/db/schema";
 import { appendAuditEvent, type AuditInput } from "@/db/ledger";
 import type { Actor } from "./users";
 
 type Hook = (tx: Executor) => Promise<void>;
 
-/** Who uploaded each of the cycle's files. */
-export async function listUploaderIds({ cycleId }: { cycleId: string }): Promise<string[]> {
-  const rows = await getDb().select({ by: loggerFiles.uploadedBy }).from(loggerFiles).where(eq(loggerFiles.cycleId, cycleId));
-  return rows.map((r) => r.by);
+/** The ledger actions that change a cycle's inputs (registering it, a new analysis, an edit of its details). */
+export const CYCLE_INPUT_ACTIONS = ["cycle.create", "cycle.reanalyse", "cycle.edit"];
+
+/** How someone put something into a cycle: each of these bars them from approving it or confirming its failure. */
+export type ContributionKind = "registered" | "uploaded" | "analysed" | "edited";
+
+/**
+ * Everyone who gave the cycle an input, and how: who registered it, uploaded any of its files, made any of its
+ * analyses (a new file, a re-mapping, changed details or profile) or changed it according to the audit ledger.
+ */
+export async function listContributions({ cycleId, tx }: { cycleId: string; tx?: Executor }): Promise<Array<{ userId: string; kind: ContributionKind }>> {
+  const db = tx ?? getDb();
+  const as = (kind: ContributionKind) => sql<ContributionKind>`${kind}`.as("kind");
+  const rows = await db
+    .select({ userId: sql<string>`${cycles.createdBy}`.as("user_id"), kind: as("registered") })
+    .from(cycles)
+    .where(eq(cycles.id, cycleId))
+    .union(
+      db
+        .select({ userId: sql<string>`${loggerFiles.uploadedBy}`.as("user_id"), kind: as("uploaded") })
+        .from(loggerFiles)
+        .where(eq(loggerFiles.cycleId, cycleId)),
+    )
+    .union(
+      db
+        .select({ userId: sql<string>`${analyses.createdBy}`.as("user_id"), kind: as("analysed") })
+        .from(analyses)
+        .where(and(eq(analyses.cycleId, cycleId), isNotNull(analyses.createdBy))),
+    )
+    .union(
+      db
+        .select({ userId: sql<string>`${auditEvents.actorId}`.as("user_id"), kind: as("edited") })
+        .from(auditEvents)
+        .where(and(eq(auditEvents.entityType, "cycle"), eq(auditEvents.entityId, cycleId), inArray(auditEvents.action, CYCLE_INPUT_ACTIONS), isNotNull(auditEvents.actorId))),
+    );
+  return rows;
 }
 
 /**

@@ -6,7 +6,9 @@ import type { AnalysisInput, AnalysisResult, CycleAnalysis, RecordGap } from "@/
 import type { AirLeakageResult } from "@/lib/analysis/air-leakage-types";
 import type { AtmosphereUsed, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference } from "@/lib/logger-files/types";
 import type { CycleStatus, ProfileBasis, SignatureMeaning, TestKind } from "@/lib/domain";
+import type { FileReplacement } from "./file-replacement";
 
+export type { FileReplacement };
 export type { AirLeakageResult, AnalysisInput, AnalysisResult, AtmosphereUsed, CycleAnalysis, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference, RecordGap };
 
 export type CycleListItem = {
@@ -40,6 +42,26 @@ export type SignatureView = {
   problem?: string | null;
 };
 
+/** One analysis of the cycle, as the record and the report list them: when, who, why, the verdict and the file read. */
+export type AnalysisHistoryEntry = {
+  id: string;
+  createdAt: string;
+  verdict: "pass" | "fail";
+  engineVersion: string;
+  inputHash: string;
+  /** why it was made; null for the first analysis */
+  reason: string | null;
+  createdByName: string | null;
+  fileName: string;
+  fileSha256: string;
+};
+
+/** The instrument's calibration certificate in force on the cycle's date (null: none predates the test). */
+export type InstrumentCalibration = { certificateNumber: string; calibratedOn: string; dueOn: string; testDate: string; lapsed: boolean };
+
+/** Another cycle of the site holding a file with the same bytes, and the reason given for it. */
+export type SharedFile = { fileName: string; sha256: string; cycleId: string; cycleNumber: string; reason: string | null };
+
 export type HistoryEntry = { seq: number; at: string; actorEmail: string | null; action: string; reason: string | null; newValue: string | null };
 
 export type CycleDetail = {
@@ -71,12 +93,16 @@ export type CycleDetail = {
     basis: ProfileBasis;
     basisReason: string | null;
   };
-  instrument: { id: string; name: string; serialNumber: string } | null;
+  instrument: { id: string; name: string; serialNumber: string; calibration: InstrumentCalibration | null } | null;
   files: CycleFile[];
   /** the current analysis: the analyze command's JSON and more; `kind` "air-leakage" for a logged air leakage test */
   analysis: CycleAnalysis | null;
   analysisId: string | null;
-  analysisHistory: Array<{ id: string; createdAt: string; verdict: "pass" | "fail"; engineVersion: string; inputHash: string }>;
+  /** newest first */
+  analysisHistory: AnalysisHistoryEntry[];
+  /** the logger file replaced after the first analysis, and how the recordings differ; null when never replaced */
+  fileReplacement: FileReplacement | null;
+  sharedFiles: SharedFile[];
   signatures: SignatureView[];
   supersedesId: string | null;
   report: { id: string; reportNumber: string; sha256: string } | null;

@@ -1,22 +1,46 @@
-export const CYCLE_STATUSES = ["draft", "submitted", "approved", "rejected"] as const;
+/**
+ * A cycle's review state. `approved` (a pass accepted as evidence) and `failure-confirmed` (a failed test closed as a
+ * signed failure) are the confirmed outcomes and lock the record; `returned` goes back to the technician to correct.
+ */
+export const CYCLE_STATUSES = ["draft", "submitted", "approved", "failure-confirmed", "returned"] as const;
 export type CycleStatus = (typeof CYCLE_STATUSES)[number];
 
 export const CYCLE_STATUS_LABELS: Record<CycleStatus, string> = {
   draft: "Draft",
   submitted: "Awaiting review",
   approved: "Approved",
-  rejected: "Returned",
+  "failure-confirmed": "Failure confirmed",
+  returned: "Returned",
 };
+
+/** Signed outcomes: the record is locked and its report archived; a correction is a new, linked record. */
+export const LOCKED_CYCLE_STATUSES = ["approved", "failure-confirmed"] as const satisfies readonly CycleStatus[];
+/** Where the technician may correct the cycle (new file, mapping, details) and submit it. */
+export const EDITABLE_CYCLE_STATUSES = ["draft", "returned"] as const satisfies readonly CycleStatus[];
+
+export const isLockedCycleStatus = (status: string): boolean => (LOCKED_CYCLE_STATUSES as readonly string[]).includes(status);
+export const isEditableCycleStatus = (status: string): boolean => (EDITABLE_CYCLE_STATUSES as readonly string[]).includes(status);
 
 /** An analysis' verdict, a cycle's verdict and a periodic test's result all take these two words. */
 export const VERDICTS = ["pass", "fail"] as const;
 export type Verdict = (typeof VERDICTS)[number];
 
-export const SIGNATURE_MEANINGS = ["reviewed", "approved", "rejected"] as const;
+/** What a new signature may mean. */
+export const SIGNING_MEANINGS = ["reviewed", "approved", "failure-confirmed", "returned"] as const;
+export type SigningMeaning = (typeof SIGNING_MEANINGS)[number];
+
+/** Every meaning a stored signature can carry: `rejected` is the word of records signed before outcomes had their GMP meaning (it meant returned). */
+export const SIGNATURE_MEANINGS = [...SIGNING_MEANINGS, "rejected"] as const;
 export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
 
 export const SIGNATURE_MEANING_LABELS: Record<SignatureMeaning, string> = {
   reviewed: "Reviewed",
   approved: "Approved",
-  rejected: "Rejected",
+  "failure-confirmed": "Failure confirmed",
+  returned: "Returned for correction",
+  rejected: "Rejected (returned for correction)",
 };
+
+/** Test kinds whose evidence is a measurement by an instrument: approval needs the instrument named and calibrated on the test's date. */
+export const INSTRUMENT_EVIDENCE_KINDS = ["thermometric-small-load", "thermometric-full-load", "air-leakage"] as const;
+export const needsCalibratedInstrument = (testKind: string): boolean => (INSTRUMENT_EVIDENCE_KINDS as readonly string[]).includes(testKind);

@@ -131,6 +131,22 @@ export function cycleApprovedMail({ cycleNumber, sterilizerName, url, signerName
   };
 }
 
+/** To the person who submitted: the failed test was confirmed as a failure and its report archived marked FAIL. */
+export function cycleFailureConfirmedMail({
+  cycleNumber,
+  sterilizerName,
+  url,
+  signerName,
+  reportNumber,
+  reason,
+}: CycleFacts & { signerName: string; reportNumber: string; reason: string | null }): MailContent {
+  const heading = `Cycle ${oneLine(cycleNumber)} on ${oneLine(sterilizerName)}: failure confirmed`;
+  const blocks: Block[] = [{ kind: "p", text: `${signerName} confirmed with an electronic signature that cycle ${cycleNumber} on ${sterilizerName} failed its test.` }];
+  if (reason) blocks.push({ kind: "quote", label: "Note from the engineer", text: reason });
+  blocks.push({ kind: "p", text: `The signed report ${reportNumber}, marked FAIL, is in the archive and the record is locked. Find and correct the cause before the sterilizer is tested again.` });
+  return { subject: heading, ...layout({ heading, url, action: "Open the cycle and its report", blocks }) };
+}
+
 /** To the site's engineers at once: an analysis did not pass. */
 export function analysisFailedMail({
   cycleNumber,

@@ -21,3 +21,13 @@ export function latestCertificate<T extends { calibratedOn: string; dueOn: strin
   }
   return best;
 }
+
+/**
+ * The certificate in force on a test's date (YYYY-MM-DD): the latest calibrated on or before that day, and whether its
+ * due date had passed by then. Null when no certificate predates the test: the instrument was not shown to be calibrated.
+ */
+export function certificateOnDate<T extends { calibratedOn: string; dueOn: string }>(certificates: readonly T[], testDate: string): { certificate: T; lapsed: boolean } | null {
+  const day = testDate.slice(0, 10);
+  const inForce = latestCertificate(certificates.filter((c) => c.calibratedOn.slice(0, 10) <= day));
+  return inForce ? { certificate: inForce, lapsed: inForce.dueOn.slice(0, 10) < day } : null;
+}

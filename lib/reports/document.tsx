@@ -19,6 +19,7 @@ import { ChannelsSection, RecordInputSection } from "./record-sections";
 import { BowieDickSection } from "./bowie-dick-section";
 import { AirLeakageSection } from "./air-leakage-section";
 import { LedgerHeadRow } from "./integrity";
+import { AnalysisHistorySection, calibrationFacts, FailureConfirmedBanner, ReplacementBanner, SharedFilesNote } from "./correction-sections";
 
 const verdictColours = {
   pass: { border: colour.pass500, background: colour.pass50, ink: colour.pass700, word: "PASS", caption: "VERDICT" },
@@ -42,14 +43,17 @@ function limitText(check: Check): string {
 const MEANING_TEXT: Record<SignatureView["meaning"], string> = {
   reviewed: "Reviewed: the signer has reviewed this record and its analysis.",
   approved: "Approved: the signer approves this record and its verdict.",
-  rejected: "Rejected: the signer rejects this record; it needs correcting before it can be approved.",
+  "failure-confirmed": "Failure confirmed: the signer confirms that this test failed; the record is closed as a signed failure.",
+  returned: "Returned: the signer returns this record to be corrected and submitted again.",
+  rejected: "Rejected: the signer returned this record to be corrected before it can be approved.",
 };
 
 const STATUS_TEXT: Record<CycleDetail["status"], string> = {
   draft: "Draft: not yet submitted for review",
   submitted: "Submitted: waiting for an engineer's review",
   approved: "Approved",
-  rejected: "Rejected: to be corrected and submitted again",
+  "failure-confirmed": "Failure confirmed: closed as a signed failure",
+  returned: "Returned: to be corrected and submitted again",
 };
 
 function Legend({ series }: { series: SeriesResponse }) {
@@ -201,6 +205,11 @@ function RecordSection({ detail }: { detail: CycleDetail }) {
           <Fact label="Instrument serial">
             <T style={s.mono}>{detail.instrument?.serialNumber ?? "—"}</T>
           </Fact>
+          {calibrationFacts(detail.instrument).map((f) => (
+            <Fact key={f.label} label={f.label}>
+              <T style={f.lapsed ? s.fail : s.mono}>{f.value}</T>
+            </Fact>
+          ))}
           {analysis ? (
             <>
               <Fact label="Samples">{`${analysis.record.samples.toLocaleString("en-GB")} over ${formatDuration(analysis.record.durationS)}`}</Fact>
@@ -255,7 +264,23 @@ function SignatureBlock({ sig, zone }: { sig: SignatureView; zone: string }) {
           <T style={[s.small, { textAlign: "right" }]}>{when.site}</T>
         </View>
       </View>
-      <T style={[s.signatureMeaning, { color: sig.meaning === "rejected" ? colour.fail700 : sig.meaning === "approved" ? colour.pass700 : colour.ink }]}>{MEANING_TEXT[sig.meaning]}</T>
+      <T
+        style={[
+          s.signatureMeaning,
+          {
+            color:
+              sig.meaning === "failure-confirmed"
+                ? colour.fail700
+                : sig.meaning === "returned" || sig.meaning === "rejected"
+                  ? colour.caution700
+                  : sig.meaning === "approved"
+                    ? colour.pass700
+                    : colour.ink,
+          },
+        ]}
+      >
+        {MEANING_TEXT[sig.meaning]}
+      </T>
       {sig.reason ? <T>{`Reason: ${sig.reason}`}</T> : null}
       <T style={[s.monoSmall, { marginTop: 3 }]}>{`Bundle SHA-256 ${sig.bundleHash}`}</T>
       <T style={[s.small, sig.valid ? { color: colour.pass700 } : s.fail]}>
@@ -407,6 +432,10 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           </View>
         )}
 
+        <FailureConfirmedBanner detail={detail} />
+        <ReplacementBanner detail={detail} />
+        <SharedFilesNote detail={detail} />
+
         {failures.length > 0 ? (
           <View style={{ marginBottom: 5 }}>
             <View wrap={false}>
@@ -552,6 +581,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
         {analysis ? <RecordInputSection analysis={analysis} at={at} /> : null}
         {analysis ? <FlagsSection analysis={analysis} at={at} /> : null}
         <RecordSection detail={detail} />
+        <AnalysisHistorySection detail={detail} />
         <SignaturesSection signatures={detail.signatures} zone={zone} />
 
         <View wrap={false}>

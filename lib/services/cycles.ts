@@ -1,15 +1,20 @@
 import "server-only";
 import { getCycleRecordRows, getCycleRow, listCycles as listCycleRows, type CycleFilter, type CycleSortKey } from "@/db/queries/cycles";
 import { listAuditEventsForEntity, recordAuditEvent } from "@/db/queries/audit";
-import { listSterilizersForSite } from "@/db/queries/catalog";
+import { listInstrumentsForSite, listProfilesForSite, listSterilizersForSite } from "@/db/queries/catalog";
+import { listContributions } from "@/db/queries/reviews";
+import { listCertificatesOfInstrument } from "@/db/queries/instruments";
 import { getSiteById } from "@/db/queries/sites";
 import { can } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
 import { siteAtmosphereKpa } from "@/lib/cycles/analyze-file";
 import { toCsv, type CsvCell } from "@/lib/csv-export";
-import { testKindLabel } from "@/lib/domain";
+import { isEditableCycleStatus, testKindLabel } from "@/lib/domain";
 import type { CycleAnalysis } from "@/lib/analysis/types";
-import type { CycleDetail, CycleListItem, CycleListResponse, HistoryEntry, MappingOverrides } from "@/lib/cycles/contracts";
+import type { CycleDetail, CycleListItem, CycleListResponse, HistoryEntry, InstrumentCalibration, MappingOverrides } from "@/lib/cycles/contracts";
+import { describeReplacement, recordedChannels, recordedStart } from "@/lib/cycles/file-replacement";
+import { certificateOnDate } from "@/lib/periodic-tests/calibration";
+import { localDate } from "@/lib/periodic-tests/schedule";
 import { assertAllowed, type Actor } from "./access";
 import { checkSignature } from "./record-bundle";
 
@@ -45,8 +50,11 @@ export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }
   assertAllowed(actor, "cycle:read", "read cycles");
   const rows = await getCycleRecordRows({ actor, id });
   if (!rows) return undefined;
-  const { cycle, site, sterilizer, profile, instrument, files, analysisRows, signatureRows, report } = rows;
-  const current = analysisRows.find((a) => a.id === cycle.currentAnalysisId) ?? analysisRows[0];
+  const { cycle, site, sterilizer, profile, instrument, files, analysisRows, signatureRows, report, duplicates } = rows;
+  const currentRow = analysisRows.find((a) => a.analysis.id === cycle.currentAnalysisId) ?? analysisRows[0];
+  const current = currentRow?.analysis;
+  const firstRow = analysisRows[analysisRows.length - 1];
+  const calibration = instrument ? await calibrationOnTestDate(instrument.id, cycle.startedAt ?? cycle.createdAt, site.timeZone) : null;
   const signatures = await Promise.all(
     signatureRows.map(async (s) => ({
       id: s.id,
@@ -87,15 +95,45 @@ export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }
       basis: profile.basis,
       basisReason: profile.basisReason,
     },
-    instrument: instrument ? { id: instrument.id, name: instrument.name, serialNumber: instrument.serialNumber } : null,
+    instrument: instrument ? { id: instrument.id, name: instrument.name, serialNumber: instrument.serialNumber, calibration } : null,
     files: files.map((f) => ({ ...f, dialect: (f.dialect ?? null) as CycleDetail["files"][number]["dialect"], mapping: (f.mapping ?? null) as MappingOverrides | null })),
     analysis: (current?.result as CycleAnalysis | undefined) ?? null,
     analysisId: current?.id ?? null,
-    analysisHistory: analysisRows.map((a) => ({ id: a.id, createdAt: a.createdAt, verdict: a.verdict, engineVersion: a.engineVersion, inputHash: a.inputHash })),
+    analysisHistory: analysisRows.map(({ analysis: a, fileName, fileSha256, analystName }) => ({
+      id: a.id,
+      createdAt: a.createdAt,
+      verdict: a.verdict,
+      engineVersion: a.engineVersion,
+      inputHash: a.inputHash,
+      reason: a.reason,
+      createdByName: analystName,
+      fileName,
+      fileSha256,
+    })),
+    fileReplacement: currentRow && firstRow ? describeReplacement(recordingOf(firstRow), recordingOf(currentRow)) : null,
+    sharedFiles: duplicates.map((d) => ({ fileName: d.fileName, sha256: d.sha256, cycleId: d.cycleId, cycleNumber: d.cycleNumber, reason: d.reason ?? d.otherReason })),
     signatures,
     supersedesId: cycle.supersedesId,
     report: report ?? null,
   };
+}
+
+type AnalysisRow = NonNullable<Awaited<ReturnType<typeof getCycleRecordRows>>>["analysisRows"][number];
+
+const recordingOf = ({ analysis, fileName, fileSha256 }: AnalysisRow) => ({
+  fileName,
+  sha256: fileSha256,
+  startedAt: recordedStart(analysis.result),
+  channels: recordedChannels(analysis.result),
+});
+
+/** The instrument's certificate in force on the test's day at the site, and whether it had lapsed by then. */
+async function calibrationOnTestDate(instrumentId: string, testedAt: string, timeZone: string): Promise<InstrumentCalibration | null> {
+  const testDate = localDate(testedAt, timeZone);
+  const found = certificateOnDate(await listCertificatesOfInstrument({ instrumentId }), testDate);
+  if (!found) return null;
+  const { certificateNumber, calibratedOn, dueOn } = found.certificate;
+  return { certificateNumber, calibratedOn, dueOn, testDate, lapsed: found.lapsed };
 }
 
 /** The cycle's id and status if the actor may read it on their site (403 for a refused role), else undefined. */
@@ -105,13 +143,29 @@ export async function findCycle({ actor, id }: { actor: Actor; id: string }) {
   return row ? { id: row.id, status: row.status } : undefined;
 }
 
-/** The cycle record page: the cycle and its history from the ledger. 404 off the actor's site. */
-export async function getCycleRecord({ actor, id }: { actor: Actor; id: string }): Promise<{ detail: CycleDetail; history: HistoryEntry[] }> {
+/**
+ * The cycle record page: the cycle, its history from the ledger, whether the actor gave it an input (then they cannot
+ * decide it), and, while it is open to correction and the actor may correct it, the profiles and instruments to choose
+ * from. 404 off the actor's site.
+ */
+export async function getCycleRecord({ actor, id }: { actor: Actor; id: string }) {
   const detail = await getCycleDetail({ actor, id });
   if (!detail) throw new AppError(404, "That cycle was not found.");
-  const events = await listAuditEventsForEntity({ entityType: "cycle", entityId: detail.id });
-  const history = events.map((e) => ({ seq: e.seq, at: e.at, actorEmail: e.actorEmail, action: e.action, reason: e.reason, newValue: e.newValue }));
-  return { detail, history };
+  const correcting = can(actor.role, "cycle:create") && isEditableCycleStatus(detail.status);
+  const [events, contributions, profiles, instruments] = await Promise.all([
+    listAuditEventsForEntity({ entityType: "cycle", entityId: detail.id }),
+    listContributions({ cycleId: detail.id }),
+    correcting ? listProfilesForSite({ actor }) : [],
+    correcting ? listInstrumentsForSite({ actor }) : [],
+  ]);
+  const history: HistoryEntry[] = events.map((e) => ({ seq: e.seq, at: e.at, actorEmail: e.actorEmail, action: e.action, reason: e.reason, newValue: e.newValue }));
+  const correctionChoices = correcting
+    ? {
+        profiles: [...(profiles.some((p) => p.id === detail.profile.id) ? [] : [detail.profile]), ...profiles].map((p) => ({ id: p.id, name: p.name })),
+        instruments: instruments.map((i) => ({ id: i.id, name: i.name, serialNumber: i.serialNumber })),
+      }
+    : null;
+  return { detail, history, contributed: contributions.some((c) => c.userId === actor.id), correctionChoices };
 }
 
 /** What the cycle list and review queue pages show around the table: filters and the site's time zone. */

@@ -1,9 +1,10 @@
 import "server-only";
-import { getAnalysedFile, getCycleRow, insertCorrection, insertCycleRecord } from "@/db/queries/cycles";
+import { findCyclesHoldingFiles, getAnalysedFile, getCycleRow, insertCorrection, insertCycleRecord } from "@/db/queries/cycles";
 import { getInstrumentForSite, getProfileForSite, getSterilizerForSite, listInstrumentsForSite, listProfilesForSite } from "@/db/queries/catalog";
 import { getSiteById } from "@/db/queries/sites";
 import { enqueueAnalysisFailedMail } from "@/lib/services/mail";
 import type { TestKind } from "@/db/schema";
+import { CYCLE_STATUS_LABELS, isLockedCycleStatus } from "@/lib/domain";
 import { AppError } from "@/lib/errors";
 import { AnalysisError } from "@/lib/analysis";
 import type { CycleAnalysis } from "@/lib/analysis/types";
@@ -39,6 +40,8 @@ export type CreateCycleInput = {
   recordAnswer?: RecordAnswer;
   /** an air leakage test's times marked by the user; they override what the trace shows */
   leakMarks?: AirLeakageMarks | null;
+  /** why a file another cycle of the site already holds is attached here too (one file holding several cycles) */
+  duplicateReason?: string | null;
 };
 
 /** The choices of the intake form: the site's active sterilizers, profiles and instruments, and its time zone. */
@@ -140,6 +143,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
   if (!start.ok) throw new AppError(start.status, start.message, start.field);
   const cycleNumber = input.cycleNumber?.trim() || `${sterilizer.serialNumber}-${siteClockStamp(start.startedAt, site.timeZone)}`;
   const files = input.files.map((file, index) => ({ file, primary: index === primaryIndex, sha256: index === primaryIndex ? analysis.sha256 : sha256Hex(file.bytes) }));
+  const shared = await sharedFileReasons({ siteId: site.id, files, duplicateReason: input.duplicateReason });
   const audited = { actorId: actor.id, actorEmail: actor.email, siteId: site.id };
 
   const id = await insertCycleRecord({
@@ -166,6 +170,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
       bytes: Buffer.from(file.bytes),
       dialect: primary ? analysis.dialect : null,
       mapping: primary ? analysis.mapping : null,
+      duplicateReason: shared.get(sha256)?.reason ?? null,
       uploadedBy: actor.id,
     })),
     analysis: analysisRow(analysis, actor),
@@ -186,7 +191,12 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
         cycleNumber,
         sterilizer: sterilizer.name,
         profile: profile.name,
-        files: files.map(({ file, sha256 }) => ({ name: file.name, size: file.bytes.byteLength, sha256 })),
+        files: files.map(({ file, sha256 }) => ({
+          name: file.name,
+          size: file.bytes.byteLength,
+          sha256,
+          ...(shared.has(sha256) ? { sameFileAs: shared.get(sha256)!.cycles, duplicateReason: shared.get(sha256)!.reason } : {}),
+        })),
         verdict: analysis.result.verdict,
         inputHash: analysis.inputHash,
         supersedes: input.supersedesId ?? null,
@@ -214,30 +224,84 @@ export async function registerUploadedCycle(input: CreateCycleInput, idempotency
 }
 
 /**
- * A correction of a draft or returned cycle: a new file and/or a new mapping gives a new analysis;
- * earlier files and analyses stay on the record. Submitted and approved cycles are locked.
+ * The files whose bytes another cycle of the site already holds. Refused (409, naming the cycle) unless the user says
+ * why, e.g. one logger file holding several cycles; then each such file keeps that reason and the cycles it shares.
  */
-export async function reanalyseCycle({ actor, id, file, mapping, leakMarks }: { actor: Actor; id: string; file?: UploadedFile; mapping?: MappingOverrides; leakMarks?: AirLeakageMarks | null }) {
+async function sharedFileReasons({
+  siteId,
+  files,
+  duplicateReason,
+  exceptCycleId,
+}: {
+  siteId: string;
+  files: Array<{ file: UploadedFile; sha256: string }>;
+  duplicateReason?: string | null;
+  exceptCycleId?: string;
+}) {
+  const holders = await findCyclesHoldingFiles({ siteId, sha256s: files.map((f) => f.sha256), exceptCycleId });
+  const shared = new Map<string, { reason: string; cycles: string[] }>();
+  if (holders.length === 0) return shared;
+  const reason = duplicateReason?.trim();
+  if (!reason) {
+    const { file } = files.find((f) => f.sha256 === holders[0].sha256)!;
+    const names = [...new Set(holders.map((h) => h.cycleNumber))].join(", ");
+    throw new AppError(
+      409,
+      `${file.name} is the same file (SHA-256 ${holders[0].sha256.slice(0, 12)}…) as cycle ${names} on this site. If one file holds several cycles, say so in duplicateReason; otherwise attach this cycle's own file.`,
+      "duplicateReason",
+    );
+  }
+  for (const h of holders) shared.set(h.sha256, { reason, cycles: [...(shared.get(h.sha256)?.cycles ?? []), h.cycleNumber] });
+  return shared;
+}
+
+export type CorrectionInput = {
+  actor: Actor;
+  id: string;
+  file?: UploadedFile;
+  mapping?: MappingOverrides;
+  /** why the cycle is analysed again: required, kept with the analysis */
+  reason: string;
+  duplicateReason?: string | null;
+  details?: { profileId?: string; instrumentId?: string; load?: string };
+  /** an air leakage test's times marked by the user; undefined keeps those marked on the same file */
+  leakMarks?: AirLeakageMarks | null;
+};
+
+/**
+ * A correction of a draft or returned cycle: a new file, a new mapping and/or changed details (profile, instrument,
+ * load) give a new analysis with its reason; earlier files and analyses stay on the record. Signed records are locked.
+ */
+export async function reanalyseCycle({ actor, id, file, mapping, reason, duplicateReason, details = {}, leakMarks }: CorrectionInput) {
   assertAllowed(actor, "cycle:create", "correct cycles");
   const cycle = await getCycleRow({ actor, id });
   if (!cycle) throw new AppError(404, "That cycle was not found.");
-  if (cycle.status === "approved") throw new AppError(409, "This cycle is approved and locked; a correction must be a new, linked record.");
+  if (isLockedCycleStatus(cycle.status)) throw new AppError(409, `This cycle is ${CYCLE_STATUS_LABELS[cycle.status].toLowerCase()} and locked; a correction must be a new, linked record.`);
   if (cycle.status === "submitted") throw new AppError(409, "This cycle is waiting for review; it can be corrected once it is returned.");
-  const [profile, site] = await Promise.all([getProfileForSite({ actor, id: cycle.profileId }), getSiteById({ id: cycle.siteId })]);
+  const cleanReason = reason.trim();
+  if (!cleanReason) throw new AppError(422, "Say why the cycle is analysed again (a new file, a new mapping or changed details): the reason is kept with the analysis.", "reason");
+  const [profile, site] = await Promise.all([getProfileForSite({ actor, id: details.profileId ?? cycle.profileId }), getSiteById({ id: cycle.siteId })]);
+  if (!profile && details.profileId) throw new AppError(404, "That acceptance profile was not found on your site.", "profileId");
   if (!profile || !site) throw new AppError(409, "This cycle's acceptance profile or site is missing, so it cannot be analysed again.");
+  const instrument = details.instrumentId ? await getInstrumentForSite({ actor, id: details.instrumentId }) : undefined;
+  if (details.instrumentId && !instrument) throw new AppError(404, "That instrument was not found on your site.", "instrumentId");
   const stored = file ? undefined : await getAnalysedFile({ analysisId: cycle.currentAnalysisId ?? "" });
   if (!file && !stored) throw new AppError(409, "This cycle has no logger file to analyse again; upload one.");
   const bytes = file ? file.bytes : new Uint8Array(stored!.bytes);
+  // Without a new mapping the stored file is read as it was uploaded: a change of details alone keeps the mapping.
+  const effectiveMapping = mapping ?? (file ? {} : ((stored!.fileMapping as MappingOverrides | null) ?? {}));
   let analysis: FileAnalysis;
   try {
     // The same file keeps the times marked on it unless new ones are given; a new file starts unmarked.
     const marks = leakMarks !== undefined ? leakMarks : file ? null : marksOf(stored?.result);
-    analysis = analyzeLoggerBytes(bytes, profile, mapping ?? {}, siteAtmosphereKpa(site), { testKind: cycle.testKind, marks });
+    analysis = analyzeLoggerBytes(bytes, profile, effectiveMapping, siteAtmosphereKpa(site), { testKind: cycle.testKind, marks });
   } catch (error) {
     if (error instanceof LoggerFileError || error instanceof AnalysisError) throw new AppError(422, `${file?.name ?? "The stored file"}: ${error.message}`, "file");
     throw error;
   }
-  await insertCorrection({
+  const shared = file ? await sharedFileReasons({ siteId: site.id, files: [{ file, sha256: analysis.sha256 }], duplicateReason, exceptCycleId: id }) : new Map();
+  const changed = changedDetails(cycle, { profileId: profile.id, instrumentId: instrument?.id, loadDescription: details.load?.trim() });
+  const savedId = await insertCorrection({
     cycleId: id,
     file: file
       ? {
@@ -248,10 +312,12 @@ export async function reanalyseCycle({ actor, id, file, mapping, leakMarks }: { 
           bytes: Buffer.from(bytes),
           dialect: analysis.dialect,
           mapping: analysis.mapping,
+          duplicateReason: shared.get(analysis.sha256)?.reason ?? null,
           uploadedBy: actor.id,
         }
       : { existingId: stored!.fileId },
-    analysis: analysisRow(analysis, actor),
+    analysis: { ...analysisRow(analysis, actor), reason: cleanReason },
+    details: changed.next,
     audit: (analysisId) => ({
       actorId: actor.id,
       actorEmail: actor.email,
@@ -259,16 +325,36 @@ export async function reanalyseCycle({ actor, id, file, mapping, leakMarks }: { 
       action: "cycle.reanalyse",
       entityType: "cycle",
       entityId: id,
-      oldValue: { analysis: cycle.currentAnalysisId, verdict: cycle.verdict },
-      newValue: { analysis: analysisId, verdict: analysis.result.verdict, file: file ? { name: file.name, sha256: analysis.sha256 } : null, mapping: mapping ?? null },
+      oldValue: { analysis: cycle.currentAnalysisId, verdict: cycle.verdict, ...changed.previous },
+      newValue: {
+        analysis: analysisId,
+        verdict: analysis.result.verdict,
+        file: file ? { name: file.name, sha256: analysis.sha256, ...(shared.size ? { sameFileAs: shared.get(analysis.sha256)!.cycles, duplicateReason } : {}) } : null,
+        mapping: mapping ?? null,
+        ...changed.next,
+      },
+      reason: cleanReason,
     }),
     inside: (tx) => notifyFailure(tx, id, analysis.result),
   });
+  if (!savedId) throw new AppError(409, "The cycle was submitted or signed while you were correcting it; reload it.");
   await settleBowieDickVerdict({ cycleId: id, testKind: cycle.testKind });
   return { id, analysis: analysis.result };
 }
 
 const marksOf = (result: unknown): AirLeakageMarks | null => ((result as CycleAnalysis | undefined)?.kind === "air-leakage" ? ((result as { marks: AirLeakageMarks | null }).marks ?? null) : null);
+
+type DetailChange = { profileId?: string; instrumentId?: string | null; loadDescription?: string };
+
+/** The cycle's details that this correction changes: their old and new values, for the row and the ledger. */
+function changedDetails(cycle: { profileId: string; instrumentId: string | null; loadDescription: string }, wanted: { profileId: string; instrumentId?: string; loadDescription?: string }) {
+  const previous: DetailChange = {};
+  const next: DetailChange = {};
+  if (wanted.profileId !== cycle.profileId) [previous.profileId, next.profileId] = [cycle.profileId, wanted.profileId];
+  if (wanted.instrumentId !== undefined && wanted.instrumentId !== cycle.instrumentId) [previous.instrumentId, next.instrumentId] = [cycle.instrumentId, wanted.instrumentId];
+  if (wanted.loadDescription !== undefined && wanted.loadDescription !== cycle.loadDescription) [previous.loadDescription, next.loadDescription] = [cycle.loadDescription, wanted.loadDescription];
+  return { previous, next };
+}
 
 function analysisRow(analysis: FileAnalysis, actor: Actor) {
   return {

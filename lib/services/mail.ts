@@ -16,7 +16,7 @@ import { AppError } from "@/lib/errors";
 import { formatDateTime } from "@/lib/format";
 import { deliverPendingMail, mailTransport } from "@/lib/mail/delivery";
 import { readFakeMailbox } from "@/lib/mail/fake-mailbox";
-import { analysisFailedMail, cycleApprovedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl } from "@/lib/mail/templates";
+import { analysisFailedMail, cycleApprovedMail, cycleFailureConfirmedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl } from "@/lib/mail/templates";
 import { auditActor, siteIdOf } from "./site";
 
 export type { OutboxStatus };
@@ -81,7 +81,7 @@ export async function enqueueCycleSubmittedMail(tx: Executor, { cycleId }: { cyc
   return enqueueMail(tx, { to, ...content, siteId: facts.siteId, relatedCycleId: cycleId });
 }
 
-/** Rejected → the submitter, with the reason. */
+/** Returned → the submitter, with the reason. */
 export async function enqueueCycleRejectedMail(tx: Executor, { cycleId, reason, signerName }: { cycleId: string; reason: string; signerName: string }) {
   const facts = await cycleMailFacts(tx, cycleId);
   const content = cycleRejectedMail({ ...facts, reason, signerName, url: cycleUrl(cycleId) });
@@ -93,6 +93,13 @@ export async function enqueueCycleApprovedMail(tx: Executor, { cycleId, signerNa
   const facts = await cycleMailFacts(tx, cycleId);
   const content = cycleApprovedMail({ ...facts, signerName, reportNumber, url: cycleUrl(cycleId) });
   return enqueueMail(tx, { to: facts.submitterEmail ? [facts.submitterEmail] : [], ...content, siteId: facts.siteId, relatedCycleId: cycleId });
+}
+
+/** Failure confirmed → the submitter, with the report's number. */
+export async function enqueueCycleFailureConfirmedMail(tx: Executor, input: { cycleId: string; signerName: string; reportNumber: string; reason: string | null }) {
+  const facts = await cycleMailFacts(tx, input.cycleId);
+  const content = cycleFailureConfirmedMail({ ...facts, signerName: input.signerName, reportNumber: input.reportNumber, reason: input.reason, url: cycleUrl(input.cycleId) });
+  return enqueueMail(tx, { to: facts.submitterEmail ? [facts.submitterEmail] : [], ...content, siteId: facts.siteId, relatedCycleId: input.cycleId });
 }
 
 /** A failing analysis → every engineer of the site at once. */

@@ -4,6 +4,7 @@ import { findReportBySha256, getArchivedReportRow, getReportOfCycle } from "@/db
 import { getLedgerHead, listAuditEventsForEntity, recordAuditEvent } from "@/db/queries/audit";
 import { auditEventHash } from "@/db/ledger";
 import { AppError } from "@/lib/errors";
+import { isLockedCycleStatus } from "@/lib/domain";
 import { sha256Hex } from "@/lib/integrity";
 import { renderCycleReport } from "@/lib/reports";
 import type { CycleDetail } from "@/lib/cycles/contracts";
@@ -30,7 +31,6 @@ export async function renderReport(actor: Actor, detail: CycleDetail, reportNumb
 }
 
 /** Statuses whose report was rendered once at sign-off and archived: served from the archive only. */
-const ARCHIVED_STATUSES: ReadonlySet<string> = new Set(["approved", "failure-confirmed"]);
 
 type StoredReport = { id: string; cycleId: string; reportNumber: string; sha256: string; bytes: Uint8Array };
 
@@ -90,7 +90,7 @@ export async function getCycleReport({ actor, id }: { actor: Actor; id: string }
   const cycle = await getCycleRow({ actor, id });
   if (!cycle) throw new AppError(404, "That cycle was not found.");
   const archived = await getReportOfCycle({ cycleId: id });
-  if (archived && ARCHIVED_STATUSES.has(cycle.status)) {
+  if (archived && isLockedCycleStatus(cycle.status)) {
     const bytes = new Uint8Array(archived.bytes);
     await assertReportIntact(actor, { ...archived, bytes }, cycle.siteId);
     return { bytes, fileName: `${archived.reportNumber}.pdf`, archived: true, reportNumber: archived.reportNumber };

@@ -17,6 +17,8 @@ export const createCycleFieldsSchema = z.object({
   cycleNumber: z.preprocess(emptyToUndefined, z.string().trim().max(60, "The cycle number can have at most 60 characters.").optional()),
   load: z.preprocess(emptyToUndefined, z.string().trim().max(500, "The load description can have at most 500 characters.").optional()),
   testKind: z.preprocess(emptyToUndefined, z.enum(TEST_KINDS, { message: "Choose the kind of test this cycle was." }).default("thermometric-small-load")),
+  // Only when a file's SHA-256 already belongs to another cycle of the site: why (one file holding several cycles).
+  duplicateReason: z.preprocess(emptyToUndefined, z.string().trim().max(500, "The reason for the shared file can have at most 500 characters.").optional()),
   // Needed only when the file holds elapsed times without a date; a time without a zone is the site's.
   startedAt: z.preprocess(
     emptyToUndefined,
@@ -33,6 +35,24 @@ export type CreateCycleFields = z.infer<typeof createCycleFieldsSchema>;
 /** The optional `Idempotency-Key` header of POST /api/cycles: 1–200 printable ASCII characters. */
 export const idempotencyKeySchema = z.string().regex(/^[\x20-\x7e]{1,200}$/, "The Idempotency-Key header must be 1 to 200 printable ASCII characters.");
 export type CreateCycleField = keyof CreateCycleFields;
+
+/**
+ * The fields of POST /api/cycles/{id}/analyses beside the file and mapping: why the cycle is analysed again (required:
+ * a correction leaves a trace), a shared file's reason, and the details that change with this analysis.
+ */
+export const correctionFieldsSchema = z.object({
+  reason: z
+    .string({ message: "Say why the cycle is analysed again (a new file, a new mapping or changed details): the reason is kept with the analysis." })
+    .trim()
+    .min(1, "Say why the cycle is analysed again (a new file, a new mapping or changed details): the reason is kept with the analysis.")
+    .max(1000, "The reason can have at most 1000 characters."),
+  duplicateReason: createCycleFieldsSchema.shape.duplicateReason,
+  profileId: z.preprocess(emptyToUndefined, z.uuid({ message: "Choose the acceptance profile from the list." }).optional()),
+  instrumentId: createCycleFieldsSchema.shape.instrumentId,
+  load: createCycleFieldsSchema.shape.load,
+});
+
+export type CorrectionFields = z.infer<typeof correctionFieldsSchema>;
 
 const columnRole = z.enum(["time", "temperature", "pressure", "ignored"]);
 

@@ -186,6 +186,27 @@ test("the instrument's saved mapping is applied to its next file", async ({ page
   await page.screenshot({ path: `${shots}/intake-saved-mapping.png`, fullPage: true });
 });
 
+test("a file another cycle already holds is refused until the technician says why, and the record links both", async ({ page }) => {
+  const file = genericLoggerFile("generic-logger-134.csv", 21);
+  const duplicateNumber = cycleNumber.replace("E2E", "DUP");
+  await signInAs(page, "technician");
+  await openIntake(page);
+  await chooseByText(page, "Logger (instrument)", "TL-12 (unit A)");
+  await dropFiles(page, [asDropped(file)]);
+  await expect(page.getByTestId("mapping-notice")).toContainText("The mapping saved for Thermocouple logger TL-12 (unit A) was applied");
+  await chooseByText(page, "Sterilizer", "Porous load 1");
+  await page.getByLabel("Cycle number").fill(duplicateNumber);
+  await page.getByRole("button", { name: "Analyse" }).click();
+  const refusal = page.locator('[data-field-error="duplicateReason"]');
+  await expect(refusal).toContainText(`generic-logger-134.csv is the same file`);
+  await expect(refusal).toContainText(`as cycle ${cycleNumber} on this site`);
+  await page.getByLabel("Why this file belongs to this cycle too").fill("One logger export holds both test runs of the morning.");
+  await page.screenshot({ path: `${shots}/intake-duplicate.png`, fullPage: true });
+  await page.getByRole("button", { name: "Analyse" }).click();
+  await page.waitForURL(/\/cycles\/[0-9a-f-]{36}$/, { timeout: 30_000 });
+  await expect(page.getByTestId("shared-files")).toContainText(`is the same file as cycle ${cycleNumber}: One logger export holds both test runs of the morning.`);
+});
+
 test("the new cycle is found in the cycles list; filters sit in the URL and go with the CSV download", async ({ page }) => {
   await signInAs(page, "technician");
   await page.goto("/cycles");

@@ -65,3 +65,38 @@ test("a technician submits, an engineer signs with a password, an auditor downlo
   const subjects = messages.map((m: { subject: string; to: string[] | string }) => `${m.subject} → ${[m.to].flat().join(",")}`);
   expect(subjects.some((s: string) => s.includes(cycleNumber) && s.includes(DEMO.technician.email))).toBe(true);
 });
+
+test("an engineer confirms a failed test as a signed failure; the record locks and its archived report says FAIL", async ({ browser }) => {
+  test.setTimeout(180_000);
+  const technician = await browser.newPage();
+  await signIn(technician, "technician");
+  // The demo returned its older failing cycles for correction; the technician sends one back unchanged.
+  const returned = await (await technician.request.get("/api/cycles?status=returned&verdict=fail")).json();
+  expect(returned.total).toBeGreaterThan(0);
+  const { id, cycleNumber } = returned.items[0];
+  expect((await technician.request.post(`/api/cycles/${id}/submit`)).status()).toBe(200);
+
+  const engineer = await browser.newPage();
+  await signIn(engineer, "engineer");
+  await engineer.goto(`/cycles/${id}`);
+  const signOff = engineer.getByTestId("sign-off");
+  await expect(signOff.getByLabel(/^Approved/)).toBeDisabled();
+  await signOff.getByLabel(/^Failure confirmed/).check();
+  await signOff.getByLabel(/^Reason/).fill("The test failed as analysed; the sterilizer is to be investigated before a retest.");
+  await signOff.getByLabel(/Your password/).fill("papin-demo");
+  await signOff.getByRole("button", { name: "Sign" }).click();
+  await expect(signOff.getByText(new RegExp(`Signed "Failure confirmed" by ${DEMO.engineer.name}`))).toBeVisible({ timeout: 30_000 });
+  await expect(engineer.getByTestId("record-header")).toContainText("Failure confirmed");
+  await expect(signOff).toContainText("Closed as a signed failure: the record is locked.");
+  await engineer.screenshot({ path: `${shots}/record-failure-confirmed.png`, fullPage: true });
+
+  const report = await engineer.request.get(`/api/cycles/${id}/report`);
+  expect(report.headers()["x-papin-report"]).toBe("archived");
+  const pdfPath = `${shots}/failure-confirmed-report.pdf`;
+  writeFileSync(pdfPath, await report.body());
+  const text = execFileSync("pdftotext", [pdfPath, "-"], { encoding: "utf8" }).replace(/\s+/g, " ");
+  expect(text).toContain("FAIL · FAILURE CONFIRMED");
+  expect(text).toContain(`Failure confirmed by ${DEMO.engineer.name}`);
+  expect(text).toContain(cycleNumber);
+  execFileSync("pdftoppm", ["-png", "-r", "60", "-f", "1", "-l", "1", pdfPath, `${shots}/failure-confirmed-report`]);
+});

@@ -11,19 +11,26 @@ type Person = { id: string; email: string; name: string; role: "technician" | "e
 
 let ctx: Awaited<ReturnType<typeof useTemporaryDatabase>>;
 const people = {} as Record<SiteKey, Record<Person["role"], Person>>;
-const setup = {} as Record<SiteKey, { sterilizerId: string; profileId: string; approvedId: string; draftId: string; reportId: string; reportPdf: Uint8Array; cycleNumber: string }>;
+const setup = {} as Record<
+  SiteKey,
+  { sterilizerId: string; profileId: string; instrumentId: string; approvedId: string; draftId: string; reportId: string; reportPdf: Uint8Array; cycleNumber: string }
+>;
 
 const params = (id: string) => ({ params: Promise.resolve({ id }) });
 const as = (p: Person) => (session.current = { user: { id: p.id } });
 const url = (path: string) => `http://papin.test${path}`;
 
+// Each upload is a file of its own: a file another cycle of the site holds is refused without a reason.
+let nextSeed = 11;
+
 async function upload(site: SiteKey, cycleNumber: string) {
   const { simulateCycle, toLoggerCsv } = await import("@/lib/simulator");
   const { POST } = await import("@/app/api/cycles/route");
-  const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134.6, holdingTimeS: 210, seed: 11, startedAt: new Date("2026-11-26T07:00:00Z") });
+  const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134.6, holdingTimeS: 210, seed: nextSeed++, startedAt: new Date("2026-11-26T07:00:00Z") });
   const form = new FormData();
   form.set("sterilizerId", setup[site].sterilizerId);
   form.set("profileId", setup[site].profileId);
+  form.set("instrumentId", setup[site].instrumentId);
   form.set("cycleNumber", cycleNumber);
   form.append("files", new Blob([toLoggerCsv(sim) as BlobPart]), `${cycleNumber}.csv`);
   as(people[site].technician);
@@ -44,7 +51,7 @@ async function approve(site: SiteKey, id: string) {
 
 beforeAll(async () => {
   ctx = await useTemporaryDatabase();
-  const { sites, users, sterilizers, acceptanceProfiles } = await import("@/db/schema");
+  const { sites, users, sterilizers, acceptanceProfiles, instruments, calibrationCertificates } = await import("@/db/schema");
   const { hashPassword } = await import("@/lib/auth/password");
   const passwordHash = await hashPassword(PASSWORD);
   for (const key of SITES) {
@@ -66,7 +73,22 @@ beforeAll(async () => {
       .insert(sterilizers)
       .values({ siteId: site.id, name: `${key} sterilizer`, serialNumber: `${key.toUpperCase()}-001`, chamberVolumeL: 400 })
       .returning();
-    setup[key] = { sterilizerId: sterilizer.id, profileId: profile.id, approvedId: "", draftId: "", reportId: "", reportPdf: new Uint8Array(), cycleNumber: `${key.toUpperCase()}-APPROVED` };
+    // A thermometric test is approved only with a logger calibrated on the cycle's date (26 Nov 2026).
+    const [logger] = await ctx.db
+      .insert(instruments)
+      .values({ siteId: site.id, name: `${key} logger`, serialNumber: `${key.toUpperCase()}-TL-1` })
+      .returning();
+    await ctx.db.insert(calibrationCertificates).values({ instrumentId: logger.id, certificateNumber: `${key}-CAL-1`, issuedBy: "test lab", calibratedOn: "2026-01-10", dueOn: "2027-01-10" });
+    setup[key] = {
+      sterilizerId: sterilizer.id,
+      profileId: profile.id,
+      instrumentId: logger.id,
+      approvedId: "",
+      draftId: "",
+      reportId: "",
+      reportPdf: new Uint8Array(),
+      cycleNumber: `${key.toUpperCase()}-APPROVED`,
+    };
   }
   for (const key of SITES) {
     setup[key].approvedId = await upload(key, setup[key].cycleNumber);
@@ -165,6 +187,7 @@ describe("two sites: cycle reads never show the other site's rows", () => {
     expect((await submit(new Request(url("/"), { method: "POST" }), params(id))).status).toBe(404);
     const form = new FormData();
     form.set("mapping", JSON.stringify({ temperatureUnit: "C" }));
+    form.set("reason", "Temperatures read in °C.");
     expect((await correct(new Request(url("/"), { method: "POST", body: form }), params(id))).status).toBe(404);
     as(people.south.engineer);
     const body = JSON.stringify({ password: PASSWORD, meaning: "reviewed" });

@@ -36,10 +36,13 @@ beforeAll(async () => {
 });
 afterAll(() => ctx.cleanup());
 
+// Each upload is a file of its own: a file another cycle of the site holds is refused without a reason.
+let nextSeed = 21;
+
 /** A simulated cycle whose logger clock reads 08:00:00 on 14 July 2026 (the simulator writes the wall clock without a zone). */
 async function loggerFile(timeFormat: "iso" | "elapsed-seconds") {
   const { simulateCycle, toLoggerCsv } = await import("@/lib/simulator");
-  const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134.6, holdingTimeS: 210, seed: 21, startedAt: new Date("2026-07-14T08:00:00Z") });
+  const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134.6, holdingTimeS: 210, seed: nextSeed++, startedAt: new Date("2026-07-14T08:00:00Z") });
   return toLoggerCsv(sim, { delimiter: ",", timeFormat });
 }
 

@@ -25,9 +25,12 @@ afterAll(() => ctx.cleanup());
  * marker ("Chamber (kPa)"), and the sixth pack probe renamed as a free-space sensor. The readings
  * stay absolute kPa, so "absolute" is the true answer.
  */
+// Each call gives a file of its own (another seed): a file another cycle of the site holds is refused without a reason.
+let nextSeed = 31;
+
 async function unmarkedFile(): Promise<Uint8Array> {
   const { simulateCycle, toLoggerCsv } = await import("@/lib/simulator");
-  const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134.6, holdingTimeS: 210, seed: 31, startedAt: new Date("2026-11-20T08:00:00Z") });
+  const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134.6, holdingTimeS: 210, seed: nextSeed++, startedAt: new Date("2026-11-20T08:00:00Z") });
   const text = new TextDecoder().decode(toLoggerCsv(sim, { delimiter: ",", timeFormat: "iso" }));
   expect(text).toContain("Chamber (kPa abs)");
   return new TextEncoder().encode(text.replace("Chamber (kPa abs)", "Chamber (kPa)").replace("Pack 6 (°C)", "Free space (°C)"));

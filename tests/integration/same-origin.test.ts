@@ -33,10 +33,13 @@ afterEach(() => {
 const as = (role: string) => (session.current = { user: { id: people[role] } });
 const params = (id: string) => ({ params: Promise.resolve({ id }) });
 
+// Each upload is a file of its own: a file another cycle of the site holds is refused without a reason.
+let nextSeed = 11;
+
 async function upload(headers: Record<string, string> = {}) {
   const { simulateCycle, toLoggerCsv } = await import("@/lib/simulator");
   const { POST } = await import("@/app/api/cycles/route");
-  const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134.6, holdingTimeS: 210, seed: 11, startedAt: new Date("2026-11-26T07:00:00Z") });
+  const sim = simulateCycle({ scenario: "pass", sterilizationTempC: 134.6, holdingTimeS: 210, seed: nextSeed++, startedAt: new Date("2026-11-26T07:00:00Z") });
   const form = new FormData();
   form.set("sterilizerId", sterilizerId);
   form.set("profileId", profileId);

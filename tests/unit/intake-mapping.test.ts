@@ -38,6 +38,7 @@ function draftOf(inspect: InspectResponse, columns = columnsFrom(inspect)): Inta
     load: "",
     testKind: "thermometric-small-load" as const,
     startedAt: "",
+    duplicateReason: "",
   };
   return { files: [new File(["x"], "cycle.csv")], inspect, columns, referenceColumn: "Drain (°C)", freeSpaceColumn: inspect.freeSpaceColumn, fields, saveMapping: false };
 }

@@ -3,7 +3,7 @@
 // values (& < > " ').
 import { describe, expect, it } from "vitest";
 import { SAFETY_SHORT } from "@/lib/safety";
-import { analysisFailedMail, cycleApprovedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl, escapeHtml, sterilizerStatusMail } from "@/lib/mail/templates";
+import { analysisFailedMail, cycleApprovedMail, cycleFailureConfirmedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl, escapeHtml, sterilizerStatusMail } from "@/lib/mail/templates";
 
 const base = { cycleNumber: "P1-20260310-001", sterilizerName: "Porous load 1", url: "https://papin.marlow-bridge.example/cycles/cy-1" };
 const all = [
@@ -11,6 +11,7 @@ const all = [
   cycleRejectedMail({ ...base, reason: "Drain probe misplaced", signerName: "Adaeze Okafor" }),
   cycleApprovedMail({ ...base, signerName: "Priya Nair", reportNumber: "MBGH-2026-0042" }),
   analysisFailedMail({ ...base, summary: "Air in the chamber.", failedChecks: ["Saturation"] }),
+  cycleFailureConfirmedMail({ ...base, signerName: "Priya Nair", reportNumber: "MBGH-2026-0043", reason: null }),
 ];
 
 describe("every notification", () => {
@@ -65,6 +66,15 @@ describe("what each says", () => {
     const m = cycleApprovedMail({ ...base, signerName: "Priya Nair", reportNumber: "MBGH-2026-0042" });
     expect(m.text).toContain("Priya Nair approved cycle P1-20260310-001");
     expect(m.text).toContain("The signed report MBGH-2026-0042 is in the archive.");
+  });
+
+  it("failure confirmed: names the signer, the report marked FAIL and the engineer's note when there is one", () => {
+    const m = cycleFailureConfirmedMail({ ...base, signerName: "Priya Nair", reportNumber: "MBGH-2026-0043", reason: "Door seal to be replaced." });
+    expect(m.subject).toBe("Cycle P1-20260310-001 on Porous load 1: failure confirmed");
+    expect(m.text).toContain("Priya Nair confirmed with an electronic signature that cycle P1-20260310-001 on Porous load 1 failed its test.");
+    expect(m.text).toContain("The signed report MBGH-2026-0043, marked FAIL, is in the archive");
+    expect(m.text).toContain("Note from the engineer\n> Door seal to be replaced.");
+    expect(cycleFailureConfirmedMail({ ...base, signerName: "P", reportNumber: "R", reason: null }).text).not.toContain("Note from the engineer");
   });
 
   it("analysis failed: lists each check not met, and leaves the list out when there is none", () => {

@@ -5,7 +5,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { renderCycleReport, type ReportModel } from "@/lib/reports";
-import { buildReportModel, SIGNER, type ThermometricReportModel } from "@/tests/fixtures/reports/model";
+import { buildReportModel, FIRST_FILE, SIGNER, type ThermometricReportModel } from "@/tests/fixtures/reports/model";
 import { basisNoteFor } from "@/lib/domain";
 import { SAFETY_NOTES } from "@/lib/safety";
 
@@ -276,9 +276,40 @@ describe("the report of a failing cycle (air in the chamber)", () => {
     expect(air.text).toContain("non-condensable");
   });
 
-  it("prints the rejection with its reason", () => {
-    expect(air.text).toContain("Rejected: the signer rejects this record");
+  it("is archived as a signed failure: FAIL, failure confirmed by whom and when, with the reason", () => {
+    expect(pageText(air, 1)).toContain("FAIL · FAILURE CONFIRMED");
+    // The fixture's signature: 2025-03-03 10:12:41 UTC is 10:12:41 GMT in London in March [worked by hand: no summer time before 30 March 2025].
+    expect(air.text).toContain(`Failure confirmed by ${SIGNER.engineer} (Engineer (authorised person, decontamination)) on 3 Mar 2025 10:12:41 GMT (Europe/London)`);
+    expect(air.text).toContain("Status: Failure confirmed: closed as a signed failure");
+    expect(air.text).toContain("Failure confirmed: the signer confirms that this test failed");
     expect(air.text).toContain("Reason: Air in the chamber during the plateau");
+    expect(air.text).not.toContain("DRAFT");
+  });
+});
+
+describe("the report of a corrected cycle (logger file replaced after the first analysis)", () => {
+  let replaced: Rendered;
+  beforeAll(async () => {
+    replaced = await render("replaced", buildReportModel({ scenario: "pass", replaced: true }));
+  }, 60_000);
+
+  it("states the replacement on the first page with the first file's SHA-256 and how the recordings differ", () => {
+    expect(pageText(replaced, 1)).toContain(`Logger file replaced after the first analysis; first file SHA-256 ${FIRST_FILE.sha256}`);
+    expect(replaced.text).toContain("The recording starts at 2025-03-03T07:30:00.000Z; the first file's started at 2025-03-03T05:10:00.000Z.");
+  });
+
+  it("prints the whole history of the analyses: when, who, reason, verdict, file and hash", () => {
+    const history = replaced.text.slice(replaced.text.indexOf("History of the analyses"));
+    expect(history).toContain(FIRST_FILE.name);
+    expect(history).toContain("first analysis");
+    expect(history).toContain("replaced with the cycle's own export");
+    expect(history).toContain("(current)");
+    expect(history).toMatch(/FAIL .*PASS/);
+  });
+
+  it("prints the instrument's calibration certificate and due date", () => {
+    expect(replaced.text).toContain("Certificate CAL-25-0117");
+    expect(replaced.text).toContain("Calibration due 2025-11-12");
   });
 });
 

@@ -39,7 +39,7 @@ export const POST = route(async (request) => {
     files.push(...single);
   }
   if (files.length === 0) throw new AppError(400, "Attach at least one logger file in the field named files.", "files");
-  const { sterilizerId, profileId, instrumentId, cycleNumber, load, testKind, startedAt } = fields.data;
+  const { sterilizerId, profileId, instrumentId, cycleNumber, load, testKind, startedAt, duplicateReason } = fields.data;
   const answer = await registerUploadedCycle(
     {
       actor,
@@ -54,6 +54,7 @@ export const POST = route(async (request) => {
       mapping,
       saveMapping: form.get("saveMapping") === "true",
       leakMarks: leak.marks,
+      duplicateReason,
     },
     { key: idempotencyKey?.data ?? null, requestHash: idempotencyKey ? form.digest() : "" },
   );

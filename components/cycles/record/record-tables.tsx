@@ -1,7 +1,7 @@
 import { DEFAULT_FREE_SPACE, type AnalysisResult } from "@/lib/analysis/types";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
-import { Badge, VerdictBadge } from "@/components/ui/badge";
+import { Badge } from "@/components/ui/badge";
 import { formatBytes, formatDateTime, formatNumber } from "@/lib/format";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
 import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
@@ -215,43 +215,6 @@ export function FilesList({ files, timeZone }: { files: CycleDetail["files"]; ti
         );
       })}
     </ul>
-  );
-}
-
-export function AnalysisHistory({ history, currentId, timeZone }: { history: CycleDetail["analysisHistory"]; currentId: string | null; timeZone: string }) {
-  if (history.length === 0) return <EmptyState title="Not analysed yet" />;
-  return (
-    <div className="overflow-x-auto">
-      <table className="data-table" data-testid="analysis-history">
-        <thead>
-          <tr>
-            <th scope="col">When</th>
-            <th scope="col">Verdict</th>
-            <th scope="col">Engine</th>
-            <th scope="col">Input hash (SHA-256 of file, mapping and limits)</th>
-          </tr>
-        </thead>
-        <tbody>
-          {history.map((h) => (
-            <tr key={h.id}>
-              <td className="whitespace-nowrap">
-                {formatDateTime(h.createdAt, timeZone)}
-                {h.id === currentId && (
-                  <span className="ml-2">
-                    <Badge tone="steam">current</Badge>
-                  </span>
-                )}
-              </td>
-              <td>
-                <VerdictBadge verdict={h.verdict} />
-              </td>
-              <td className="mono">{h.engineVersion}</td>
-              <td className="mono break-all">{h.inputHash}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
   );
 }
 

@@ -6,7 +6,9 @@ import { SignOffPanel } from "@/components/review/sign-off-panel";
 import { Findings } from "@/components/cycles/record/findings";
 import { TimeChart } from "@/components/cycles/record/time-chart";
 import { PhaseDiagram } from "@/components/cycles/record/phase-diagram";
-import { AnalysisHistory, ChannelTable, ChecksTable, FilesList, KeyFigures, ProfileLimits, RecordHistory } from "@/components/cycles/record/record-tables";
+import { ChannelTable, ChecksTable, FilesList, KeyFigures, ProfileLimits, RecordHistory } from "@/components/cycles/record/record-tables";
+import { AnalysisHistory, CorrectionNotices, InstrumentEvidence } from "@/components/cycles/record/corrections";
+import { CorrectionForm } from "@/components/cycles/record/correction-form";
 import { RecordInput } from "@/components/cycles/record/record-input";
 import { SafetyCaution } from "@/components/cycles/record/safety-caution";
 import { AirLeakageFigures, AirLeakageFindings, AirLeakageTable } from "@/components/cycles/air-leakage/leak-record";
@@ -29,7 +31,7 @@ export const metadata: Metadata = { title: "Cycle record" };
 export default async function CycleRecordPage({ params }: Props) {
   const { id } = await params;
   const actor = await guardCycleRecord(id);
-  const { detail, history } = await orNotFound(getCycleRecord({ actor, id }));
+  const { detail, history, contributed, correctionChoices } = await orNotFound(getCycleRecord({ actor, id }));
   const sheets = detail.testKind === "bowie-dick" ? await getCycleIndicatorSheets({ actor, cycleId: id }) : null;
 
   const tz = detail.site.timeZone;
@@ -87,6 +89,7 @@ export default async function CycleRecordPage({ params }: Props) {
 
       <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_20rem]">
         <div className="min-w-0 space-y-gutter">
+          <CorrectionNotices detail={detail} />
           {sheets && (
             <Panel title="Indicator sheet: the verdict of this test">
               <CycleSheetPanel cycleId={detail.id} readings={sheets.readings} mayRecord={sheets.mayRecord} timeZone={tz} />
@@ -150,6 +153,11 @@ export default async function CycleRecordPage({ params }: Props) {
           <Panel title="Analyses">
             <AnalysisHistory history={detail.analysisHistory} currentId={detail.analysisId} timeZone={tz} />
           </Panel>
+          {correctionChoices && (
+            <Panel title="Correct and analyse again">
+              <CorrectionForm cycleId={detail.id} current={{ profileId: detail.profile.id, instrumentId: detail.instrument?.id ?? null }} choices={correctionChoices} />
+            </Panel>
+          )}
           <Panel title="Record history">
             <RecordHistory events={history} timeZone={tz} />
           </Panel>
@@ -157,7 +165,10 @@ export default async function CycleRecordPage({ params }: Props) {
 
         <aside className="space-y-gutter" aria-label="Figures and sign-off">
           <Panel title="Key figures">{leak ? <AirLeakageFigures analysis={leak} /> : <KeyFigures analysis={a} startedAt={detail.startedAt} timeZone={tz} />}</Panel>
-          <SignOffPanel detail={detail} actor={{ id: actor.id, role: actor.role, name: actor.name }} />
+          <SignOffPanel detail={detail} actor={{ id: actor.id, role: actor.role, name: actor.name }} contributed={contributed} />
+          <Panel title="Instrument and calibration">
+            <InstrumentEvidence instrument={detail.instrument} />
+          </Panel>
           {!leak && (
             <Panel title="Acceptance profile">
               <ProfileLimits profile={profile} analysis={a} />

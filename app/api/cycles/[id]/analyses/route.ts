@@ -1,16 +1,16 @@
 import { NextResponse } from "next/server";
-import { route } from "@/lib/http";
+import { route, zodMessage } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
-import { parseLeakMarks } from "@/lib/validations/intake";
+import { correctionFieldsSchema, parseLeakMarks } from "@/lib/validations/intake";
 import { reanalyseCycle } from "@/lib/services/intake";
 
 export const runtime = "nodejs";
 
 type Context = { params: Promise<{ id: string }> };
 
-/** A correction: a new logger file and/or mapping for a draft or returned cycle; earlier analyses are kept. */
+/** A correction: a new logger file, mapping and/or details for a draft or returned cycle, with its reason; earlier analyses are kept. */
 export const POST = route<Context>(async (request, { params }) => {
   const actor = await requireRole("cycle:create", "correct cycles");
   const form = await readMultipart(request, { fileFields: ["file"], maxFiles: 1 });
@@ -18,7 +18,15 @@ export const POST = route<Context>(async (request, { params }) => {
   const mapping = mappingFromForm(form);
   const leak = parseLeakMarks(form.get("leakMarks"));
   if (leak.error) throw new AppError(400, leak.error, "leakMarks");
-  if (!file && !mapping && !leak.marks) throw new AppError(400, "Attach a corrected logger file or send a corrected mapping.");
+  const fields = correctionFieldsSchema.safeParse(Object.fromEntries([...form.entries()].filter(([key, v]) => typeof v === "string" && key !== "leakMarks")));
+  if (!fields.success) {
+    const issue = fields.error.issues[0];
+    const field = issue?.path[0] ? String(issue.path[0]) : undefined;
+    throw new AppError(field === "reason" ? 422 : 400, field === "reason" ? issue.message : zodMessage(fields.error), field);
+  }
+  const { reason, duplicateReason, ...details } = fields.data;
+  const changesDetails = Object.values(details).some((v) => v !== undefined);
+  if (!file && !mapping && !leak.marks && !changesDetails) throw new AppError(400, "Attach a corrected logger file, send a corrected mapping or change the cycle's details.");
   const { id } = await params;
-  return NextResponse.json(await reanalyseCycle({ actor, id, file, mapping, leakMarks: leak.marks }), { status: 201 });
+  return NextResponse.json(await reanalyseCycle({ actor, id, file, mapping, leakMarks: leak.marks, reason, duplicateReason, details }), { status: 201 });
 });

@@ -1,8 +1,8 @@
 import { NextResponse } from "next/server";
-import { route, zodMessage } from "@/lib/http";
+import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
-import { signatureSchema } from "@/lib/validations/reviews";
+import { parseSignatureBody } from "@/lib/validations/reviews";
 import { signCycle } from "@/lib/services/sign-off";
 import { kickMailDelivery } from "@/lib/mail/delivery";
 
@@ -16,10 +16,10 @@ export const POST = route<Context>(async (request, { params }) => {
   try {
     body = await request.json();
   } catch {
-    throw new AppError(400, "Send the signature as JSON: { password, meaning, reason }.");
+    throw new AppError(400, "Send the signature as JSON: { password, meaning, reason, acknowledgeReplacement }.");
   }
-  const parsed = signatureSchema.safeParse(body);
-  if (!parsed.success) throw new AppError(400, zodMessage(parsed.error), String(parsed.error.issues[0]?.path[0] ?? ""));
+  const parsed = parseSignatureBody(body);
+  if (!parsed.ok) throw new AppError(parsed.status, parsed.message, parsed.field);
   const { id } = await params;
   const signature = await signCycle({ actor, id, ...parsed.data });
   kickMailDelivery();
