@@ -52,6 +52,8 @@ function pressureOnlyCsv(p3Kpa = 8.0): Uint8Array {
 function upload(fields: Record<string, string>, bytes: Uint8Array) {
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) form.set(k, v);
+  // The same constructed trace serves several cycles; a file another cycle holds needs a reason.
+  form.set("duplicateReason", "test: one constructed trace for several cycles");
   form.append("files", new Blob([bytes as BlobPart], { type: "text/csv" }), "leak-test.csv");
   return new Request("http://papin.test/api/cycles", { method: "POST", body: form });
 }

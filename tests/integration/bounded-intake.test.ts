@@ -85,7 +85,8 @@ describe("bounded intake through the route handlers", () => {
 });
 
 describe("POST /api/cycles with an Idempotency-Key", () => {
-  const fields = () => ({ sterilizerId, profileId, cycleNumber: "BI-idem-1", load: "test pack" });
+  // One simulated file serves every cycle here, so each upload says why (a file another cycle holds is refused without a reason).
+  const fields = () => ({ sterilizerId, profileId, cycleNumber: "BI-idem-1", load: "test pack", duplicateReason: "test: one simulated file for several cycles" });
 
   it("replays the first answer to a retry with the same key and body, and leaves one cycle", async () => {
     const { POST } = await import("@/app/api/cycles/route");

@@ -49,6 +49,8 @@ async function uploadBowieDickCycle() {
   form.set("sterilizerId", ids.sterilizer);
   form.set("profileId", ids.profile);
   form.set("testKind", "bowie-dick");
+  // The same simulated file serves each test's cycle; a file another cycle holds needs a reason.
+  form.set("duplicateReason", "test: one simulated file for several cycles");
   form.append("files", new Blob([toLoggerCsv(sim) as BlobPart]), "bd-cycle.csv");
   as("technician");
   const res = await POST(new Request("http://papin.test/api/cycles", { method: "POST", body: form }), undefined);
