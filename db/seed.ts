@@ -28,6 +28,7 @@ import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
 import { atmosphereAtAltitudeKpa } from "@/lib/steam";
 import { zoneOffsetMs } from "@/lib/domain";
 import { defaultScheduleFor } from "@/lib/periodic-tests/sterilizer-class";
+import { STORY_OUT_OF_USE, STORY_RELEASED, tellFitnessStory, thisMorning } from "./demo-story";
 
 export { DEMO_USERS };
 
@@ -247,7 +248,9 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           { sterilizerId: sterilizer.id, kind: "thermometric-small-load", intervalDays: 91 },
           { sterilizerId: sterilizer.id, kind: "steam-non-condensable-gas", intervalDays: 365 },
         ]);
-      await seedPeriodicTests(tx, { siteId: site.id, sterilizerId: sterilizer.id, technicianId: userIds.technician, now, index });
+      // The story's sterilizers get this morning's Bowie-Dick test from the story (db/demo-story.ts), signed.
+      const story = s.name === STORY_OUT_OF_USE || s.name === STORY_RELEASED;
+      await seedPeriodicTests(tx, { siteId: site.id, sterilizerId: sterilizer.id, technicianId: userIds.technician, now, index, story });
 
       const instrument = instrumentRows[index % 2];
       // Every third day per sterilizer over three weeks, staggered so each day has some work.
@@ -332,33 +335,27 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
   });
 
   const decisions = await signOlderDemoCycles(db, password);
+  const story = await tellFitnessStory(db, { password, now, timeZone: DEMO_TIME_ZONE });
 
   return {
     loaded: true,
-    summary: `1 site, ${DEMO_USERS.length} users, ${DEMO_STERILIZERS.length} sterilizers, ${cycleCount} cycles (${failCount} failing), ${decisions.approved} approved with archived reports, ${decisions.returned} returned`,
+    summary: `1 site, ${DEMO_USERS.length} users, ${DEMO_STERILIZERS.length} sterilizers, ${cycleCount} cycles (${failCount} failing), ${decisions.approved} approved with archived reports, ${decisions.returned} returned; ${story.outOfUse} out of use after a confirmed Bowie-Dick failure, ${story.released} back in use after a passing repeat`,
   };
 }
 
 const eqId = (id: string) => eq(cycles.id, id);
 
-async function seedPeriodicTests(tx: Executor, { siteId, sterilizerId, technicianId, now, index }: { siteId: string; sterilizerId: string; technicianId: string; now: Date; index: number }) {
+async function seedPeriodicTests(
+  tx: Executor,
+  { siteId, sterilizerId, technicianId, now, index, story }: { siteId: string; sterilizerId: string; technicianId: string; now: Date; index: number; story: boolean },
+) {
   const rows: (typeof periodicTests.$inferInsert)[] = [];
   for (let daysAgo = 20; daysAgo >= 0; daysAgo--) {
-    if (index === 3 && daysAgo < 3) continue; // the benchtop's daily test is overdue in the demo
-    const at = new Date(now.getTime() - daysAgo * DAY_MS);
-    at.setUTCHours(6, 30, 0, 0);
-    // Today's test before the first load, or an hour ago when the demo is loaded earlier in the morning.
-    if (daysAgo === 0 && at > now) at.setTime(now.getTime() - 3_600_000);
-    rows.push({
-      siteId,
-      sterilizerId,
-      kind: "bowie-dick",
-      performedAt: at.toISOString(),
-      performedBy: technicianId,
-      result: daysAgo === 9 && index === 1 ? "fail" : "pass",
-      measurements: { indicator: daysAgo === 9 && index === 1 ? "paler centre" : "uniform change" },
-      notes: daysAgo === 9 && index === 1 ? "Paler area at the centre of the sheet; sterilizer taken out of use, door seal replaced, repeat passed." : null,
-    });
+    const at = daysAgo === 0 ? thisMorning(now, DEMO_TIME_ZONE, "06:30") : new Date(now.getTime() - daysAgo * DAY_MS);
+    if (daysAgo > 0) at.setUTCHours(6, 30, 0, 0);
+    // Recorded before periodic-test records were signed: these carry over as approved, without a signature.
+    if (!(story && daysAgo === 0))
+      rows.push({ siteId, sterilizerId, kind: "bowie-dick", performedAt: at.toISOString(), performedBy: technicianId, result: "pass", measurements: { indicator: "uniform change" } });
     if (daysAgo % 7 === 2) {
       // Leak rate in kPa/min; the limit is 0.13 kPa/min (EN 285 / HTM 2010).
       const leak = index === 2 && daysAgo === 16 ? 0.19 : 0.04 + 0.01 * index;
@@ -369,6 +366,7 @@ async function seedPeriodicTests(tx: Executor, { siteId, sterilizerId, technicia
         performedAt: at.toISOString(),
         performedBy: technicianId,
         result: leak <= 0.13 ? "pass" : "fail",
+        status: leak <= 0.13 ? "approved" : "failure-confirmed",
         measurements: { p2Kpa: 5.1, p3Kpa: +(5.1 + leak * 10).toFixed(2), leakRateKpaPerMin: leak },
       });
     }

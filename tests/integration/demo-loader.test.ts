@@ -60,6 +60,66 @@ describe("the demo loader", () => {
     expect(kinds.map((k) => k.id)).toEqual(expect.arrayContaining(["holding-time", "saturation", "equilibration-time"]));
   });
 
+  it("tells the fitness story: exactly one sterilizer out of use after a confirmed Bowie-Dick failure, one released after a passing repeat", async () => {
+    const { getStatusBoard, listSterilizerStatusHistory } = await import("@/lib/services/sterilizer-status");
+    const [engineer] = await ctx.db.all<{ id: string; email: string; name: string; role: "engineer"; siteId: string }>(
+      sql`select id, email, name, role, site_id as siteId from users where role = 'engineer'`,
+    );
+    const board = await getStatusBoard({ actor: engineer });
+    expect(board.length).toBe(4);
+    const out = board.filter((b) => b.status === "out-of-use");
+    expect(out.map((b) => b.name)).toEqual(["Porous load 2"]);
+    // The status rule's sentence for a required test whose latest signed outcome is a failure (lib/periodic-tests/status.ts).
+    expect(out[0].statusReason).toMatch(/^The Bowie-Dick test of \d{4}-\d{2}-\d{2} failed \(confirmed\); it must pass again before use\.$/);
+    expect(Date.parse(out[0].statusSince)).toBeLessThanOrEqual(Date.now());
+
+    // Each story record carries its photo (a PNG, by its first bytes) and the engineer's signature; the held one is failure-confirmed.
+    const story = await ctx.db.all<{ sterilizer: string; result: string; status: string; meaning: string; signer: string; contentType: string; sha256: string; head: string }>(sql`
+      select s.name as sterilizer, p.result, p.status, g.meaning, g.printed_name as signer, a.content_type as contentType, a.sha256, hex(substr(a.bytes, 1, 8)) as head
+        from periodic_tests p join sterilizers s on s.id = p.sterilizer_id
+        join periodic_test_signatures g on g.periodic_test_id = p.id
+        join attachments a on a.owner_kind = 'periodic-test' and a.owner_id = p.id
+       order by p.performed_at`);
+    expect(story.map((r) => [r.sterilizer, r.result, r.status, r.meaning, r.signer])).toEqual(
+      expect.arrayContaining([
+        ["Porous load 2", "fail", "failure-confirmed", "failure-confirmed", "Amara Osei"],
+        ["Theatre benchtop", "fail", "failure-confirmed", "failure-confirmed", "Amara Osei"],
+        ["Theatre benchtop", "pass", "approved", "approved", "Amara Osei"],
+      ]),
+    );
+    expect(story).toHaveLength(3);
+    for (const r of story) {
+      expect(r.contentType).toBe("image/png");
+      expect(r.head).toBe("89504E470D0A1A0A"); // the PNG signature (PNG specification §5.2)
+      expect(r.sha256).toMatch(/^[0-9a-f]{64}$/);
+    }
+    const pending = await ctx.db.all<{ n: number }>(sql`select count(*) as n from periodic_tests where performed_at > ${new Date().toISOString()}`);
+    expect(pending[0].n).toBe(0); // nothing dated in the future
+
+    // The released sterilizer's history: out of use on the confirmed failure, then in use on the approved repeat.
+    const benchtop = board.find((b) => b.name === "Theatre benchtop")!;
+    expect(benchtop.status).toBe("in-use");
+    const history = await listSterilizerStatusHistory({ actor: engineer, sterilizerId: benchtop.id });
+    expect(history.map((e) => [e.status, e.cause])).toEqual([
+      ["in-use", "periodic-test.sign.approved"],
+      ["out-of-use", "periodic-test.sign.failure-confirmed"],
+    ]);
+    expect(history[1].reason).toMatch(/Bowie-Dick test .* failed \(confirmed\)/);
+  });
+
+  it("places the story's morning times today in the site's zone, in order, never after now", async () => {
+    const { thisMorning } = await import("@/db/demo-story");
+    // After 10:05 local the clock times stand: 06:40 BST is 05:40 UTC (Europe/London is UTC+1 in July).
+    expect(thisMorning(new Date("2025-07-10T12:00:00Z"), "Europe/London", "06:40").toISOString()).toBe("2025-07-10T05:40:00.000Z");
+    // Loaded at 02:00 GMT: the morning (10 h 05 min) is squeezed into the 2 h since midnight; 08:05 → 485 min × 120/605 = 96.2 min (worked by hand).
+    const early = new Date("2025-03-10T02:00:00Z");
+    const times = ["06:30", "06:40", "08:05"].map((t) => thisMorning(early, "Europe/London", t).getTime());
+    expect(times[2]).toBeCloseTo(Date.parse("2025-03-10T00:00:00Z") + (485 * 120 * 60_000) / 605, -1);
+    expect(times[0]).toBeLessThan(times[1]);
+    expect(times[1]).toBeLessThan(times[2]);
+    expect(times[2]).toBeLessThan(early.getTime());
+  });
+
   it("changes nothing when run a second time", async () => {
     const { loadDemoSite } = await import("@/db/seed");
     const before = await counts();
