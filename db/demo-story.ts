@@ -51,7 +51,7 @@ export async function tellFitnessStory(db: Database, { password, now, timeZone }
       notes,
       outcome: sheet === "uniform" ? ("uniform" as const) : ("non-uniform" as const),
       indicatorLot: "BDS-2611-04",
-      photo: photoOf(sheet, `bowie-dick-${localTime.replace(":", "")}-${sheet}.png`),
+      photo: photoOf(sheet, `indicator-sheet-${name.toLowerCase().replace(/\s+/g, "-")}-${sheet}.png`),
     };
     return recordBowieDick({ actor: technician, input });
   };
