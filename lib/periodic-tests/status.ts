@@ -118,6 +118,8 @@ export function sterilizerStatusOf({ schedules, outcomes, manual, now, timeZone,
   const reason =
     lastRelease && lastManual === lastRelease && (!lastPass || lastRelease.at >= lastPass.at)
       ? `Released by ${lastRelease.byName}: ${lastRelease.reason.replace(/[.\s]+$/, "")}.`
-      : "The tests required before use are current and no confirmed failure is open.";
+      : required.size === 0
+        ? "No test is required before use and no confirmed failure is open."
+        : "The tests required before use are current and no confirmed failure is open.";
   return { status: "in-use", reason, since, causes };
 }

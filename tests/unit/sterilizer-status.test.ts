@@ -66,6 +66,13 @@ describe("a test required before use", () => {
     const r = statusAt("2025-09-01T08:00:00Z", { schedules: [THERMOMETRIC_QUARTERLY], outcomes: [outcome("thermometric-small-load", "2025-03-03T07:00:00.000Z", "pass")] });
     expect(r.status).toBe("in-use");
   });
+
+  it("in use with no test required before use says so, rather than calling required tests current", () => {
+    const r = statusAt("2025-09-01T08:00:00Z", { schedules: [THERMOMETRIC_QUARTERLY], outcomes: [] });
+    expect(r.reason).toBe("No test is required before use and no confirmed failure is open.");
+    const vacuum = statusAt("2025-03-03T08:00:00Z", { schedules: [BOWIE_DICK_DAILY], outcomes: [outcome("bowie-dick", "2025-03-03T07:00:00.000Z", "pass")] });
+    expect(vacuum.reason).toBe("The tests required before use are current and no confirmed failure is open.");
+  });
 });
 
 describe("a confirmed failure", () => {
