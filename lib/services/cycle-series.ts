@@ -5,15 +5,13 @@ import { getAnalysisSeries } from "@/db/queries/analysis-series";
 import { buildSeries, recordingFromColumns, type SeriesMeta } from "@/lib/cycles/series";
 import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
+import { processLru } from "@/lib/lru";
 import { assertAllowed, type Actor } from "./access";
 
 // Decoding the stored columns (or, for an older analysis, re-reading the file) is the costly part of a chart
 // request; keep the last few recordings (an analysis is never changed) so that zooming does not repeat it.
 type Loaded = { recording: Recording; result: CycleAnalysis };
-const holder = globalThis as unknown as { __papinLoadedRecordings?: Map<string, Loaded> };
-const recordingCache = holder.__papinLoadedRecordings ?? new Map<string, Loaded>();
-holder.__papinLoadedRecordings = recordingCache;
-const CACHED_RECORDINGS = 4;
+const recordingCache = processLru<Loaded>("recordings", 4);
 
 /** The recording an analysis read: from its stored columns, or by parsing its file again when it has none (analyses made before they were stored). */
 async function readRecording(analysisId: string): Promise<Loaded | undefined> {
@@ -30,9 +28,7 @@ async function recordingOfAnalysis(analysisId: string): Promise<Loaded | undefin
   const cached = recordingCache.get(analysisId);
   if (cached) return cached;
   const loaded = await readRecording(analysisId);
-  if (!loaded) return undefined;
-  recordingCache.set(analysisId, loaded);
-  while (recordingCache.size > CACHED_RECORDINGS) recordingCache.delete(recordingCache.keys().next().value!);
+  if (loaded) recordingCache.set(analysisId, loaded);
   return loaded;
 }
 

@@ -49,7 +49,7 @@ async function upload(bytes: Uint8Array) {
 
 /** The series answer as the client receives it, with the in-process cache emptied first so the database is read. */
 async function seriesText(id: string, query: string) {
-  (globalThis as unknown as { __papinLoadedRecordings?: Map<string, unknown> }).__papinLoadedRecordings?.clear();
+  (globalThis as unknown as { __papinLru_recordings?: Map<string, unknown> }).__papinLru_recordings?.clear();
   const { GET } = await import("@/app/api/cycles/[id]/series/route");
   const res = await GET(new Request(`http://papin.test/api/cycles/${id}/series?${query}`), { params: Promise.resolve({ id }) });
   expect(res.status).toBe(200);
@@ -103,5 +103,39 @@ describe("the recording stored with its analysis", () => {
     expect(res.status).toBe(201);
     const analysisId = await currentAnalysisOf(id);
     expect((await seriesRows()).some((r) => r.analysisId === analysisId)).toBe(true);
+  });
+});
+
+describe("the draft report", () => {
+  async function draft(id: string) {
+    const { GET } = await import("@/app/api/cycles/[id]/report/route");
+    const res = await GET(new Request(`http://papin.test/api/cycles/${id}/report`), { params: Promise.resolve({ id }) });
+    expect(res.status).toBe(200);
+    return Buffer.from(await res.arrayBuffer());
+  }
+
+  it("is served again from the cache while the record is unchanged, and rendered anew once it changes", async () => {
+    const id = await upload(await loggerFile(75));
+    const first = await draft(id);
+    await new Promise((resolve) => setTimeout(resolve, 5));
+    // The same bytes, generation time included: the second request did not render.
+    expect((await draft(id)).equals(first)).toBe(true);
+
+    const { POST } = await import("@/app/api/cycles/[id]/analyses/route");
+    const form = new FormData();
+    form.set("reason", "Load description corrected");
+    form.set("load", "Two linen packs");
+    const res = await POST(new Request(`http://papin.test/api/cycles/${id}/analyses`, { method: "POST", body: form }), { params: Promise.resolve({ id }) });
+    expect(res.status).toBe(201);
+    expect((await draft(id)).equals(first)).toBe(false);
+
+    // Every export is still in the ledger, cached or not.
+    const { auditEvents } = await import("@/db/schema");
+    const { and, eq } = await import("drizzle-orm");
+    const exports = await ctx.db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.entityId, id), eq(auditEvents.action, "report.export-draft")));
+    expect(exports).toHaveLength(3);
   });
 });
