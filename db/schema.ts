@@ -309,6 +309,23 @@ export const analyses = sqliteTable(
 export type Analysis = typeof analyses.$inferSelect;
 export type NewAnalysis = typeof analyses.$inferInsert;
 
+/**
+ * The recording an analysis read, kept in columns so the chart and the report never fetch and parse
+ * the logger file again: little-endian Float64 samples (times, then each temperature channel, then
+ * chamber pressure, sample_count each), so the series answer is exactly the one a re-parse gives.
+ */
+export const analysisSeries = sqliteTable("analysis_series", {
+  analysisId: text("analysis_id")
+    .primaryKey()
+    .references(() => analyses.id),
+  // startedAt, temperature headers, pressure header, reference and free-space index, the reader's source notes
+  meta: text("meta", { mode: "json" }).notNull(),
+  sampleCount: integer("sample_count").notNull(),
+  timesS: blob("times_s", { mode: "buffer" }).notNull(),
+  channelValues: blob("channel_values", { mode: "buffer" }).notNull(),
+  createdAt: createdAt(),
+});
+
 export const signatures = sqliteTable(
   "signatures",
   {

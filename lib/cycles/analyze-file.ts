@@ -1,4 +1,4 @@
-import { readLoggerFile, type MappingOverrides } from "@/lib/logger-files";
+import { readLoggerFile, type MappingOverrides, type Recording } from "@/lib/logger-files";
 import { analyzeCycleRecording, ENGINE_VERSION, type AcceptanceLimits, type AirLeakageLimits, type AirLeakageMarks, type AnalysisRequest, type CycleAnalysis } from "@/lib/analysis";
 import { canonicalJson, sha256Hex } from "@/lib/integrity";
 import { atmosphereAtAltitudeKpa, STANDARD_ATMOSPHERE_KPA } from "@/lib/steam";
@@ -50,6 +50,8 @@ export type FileAnalysis = {
   columns: unknown;
   startedAt: string | null;
   result: CycleAnalysis;
+  /** what the analysis read, stored with it so the chart and the report need not read the file again */
+  recording: Recording;
 };
 
 /** What besides bytes, profile and mapping decides an analysis: the cycle's test kind, and for an air leakage test the user's marked times. */
@@ -87,5 +89,6 @@ export function analyzeLoggerBytes(bytes: Uint8Array, profile: AcceptanceProfile
     columns,
     startedAt: recording.startedAt,
     result,
+    recording,
   };
 }

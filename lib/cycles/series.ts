@@ -44,3 +44,58 @@ export function buildSeries(recording: Recording, result: CycleAnalysis, { fromS
     fullResolution: inWindow <= points,
   };
 }
+
+/** What the stored columns of a recording carry besides the samples. */
+export type SeriesMeta = {
+  startedAt: string | null;
+  temperatureHeaders: string[];
+  pressureHeader: string;
+  referenceIndex: number;
+  freeSpaceIndex?: number;
+  source?: Recording["source"];
+};
+
+export type RecordingColumns = { meta: SeriesMeta; sampleCount: number; timesS: Uint8Array; channelValues: Uint8Array };
+
+// Float64 keeps every sample exactly, so a chart from the columns equals one from a re-parse; the
+// bytes are the machine's order, which the columns require to be little-endian.
+const littleEndian = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
+const float64Of = (bytes: Uint8Array) => {
+  const aligned = new Uint8Array(bytes.byteLength);
+  aligned.set(bytes);
+  return new Float64Array(aligned.buffer);
+};
+
+/** A recording as stored columns: times, then each temperature channel, then chamber pressure. */
+export function recordingToColumns(recording: Recording): RecordingColumns {
+  if (!littleEndian) throw new Error("Stored series columns are little-endian; this machine is not.");
+  const n = recording.timesS.length;
+  const channels = [...recording.temperatures.map((t) => t.values), recording.pressure.values];
+  const values = new Float64Array(n * channels.length);
+  channels.forEach((c, i) => values.set(c.subarray(0, n), i * n));
+  const { startedAt, referenceIndex, freeSpaceIndex, source } = recording;
+  return {
+    meta: { startedAt, temperatureHeaders: recording.temperatures.map((t) => t.header), pressureHeader: recording.pressure.header, referenceIndex, freeSpaceIndex, source },
+    sampleCount: n,
+    timesS: new Uint8Array(recording.timesS.buffer, recording.timesS.byteOffset, n * 8),
+    channelValues: new Uint8Array(values.buffer),
+  };
+}
+
+/** The recording back from its columns; undefined when their sizes do not add up (then the file is read again). */
+export function recordingFromColumns({ meta, sampleCount: n, timesS, channelValues }: RecordingColumns): Recording | undefined {
+  const channelCount = meta.temperatureHeaders.length + 1;
+  if (!littleEndian || timesS.byteLength !== n * 8 || channelValues.byteLength !== n * 8 * channelCount) return undefined;
+  const values = float64Of(channelValues);
+  const channel = (i: number) => values.subarray(i * n, (i + 1) * n);
+  return {
+    startedAt: meta.startedAt,
+    timesS: float64Of(timesS),
+    temperatures: meta.temperatureHeaders.map((header, i) => ({ header, values: channel(i) })),
+    pressure: { header: meta.pressureHeader, values: channel(channelCount - 1) },
+    referenceIndex: meta.referenceIndex,
+    ...(meta.freeSpaceIndex === undefined ? {} : { freeSpaceIndex: meta.freeSpaceIndex }),
+    ...(meta.source === undefined ? {} : { source: meta.source }),
+  };
+}

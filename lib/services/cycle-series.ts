@@ -1,28 +1,35 @@
 import "server-only";
 import { getAnalysedFile, getCycleRow } from "@/db/queries/cycles";
 import { readLoggerFile, type MappingOverrides, type Recording } from "@/lib/logger-files";
-import { buildSeries } from "@/lib/cycles/series";
+import { getAnalysisSeries } from "@/db/queries/analysis-series";
+import { buildSeries, recordingFromColumns, type SeriesMeta } from "@/lib/cycles/series";
 import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
+import { processLru } from "@/lib/lru";
 import { assertAllowed, type Actor } from "./access";
 
-// Re-reading a day-long file costs a few hundred milliseconds; keep the last few parsed recordings
-// so that zooming the chart does not parse it again.
-const holder = globalThis as unknown as { __papinRecordings?: Map<string, Recording> };
-const recordingCache = holder.__papinRecordings ?? new Map<string, Recording>();
-holder.__papinRecordings = recordingCache;
-const CACHED_RECORDINGS = 4;
+// Decoding the stored columns (or, for an older analysis, re-reading the file) is the costly part of a chart
+// request; keep the last few recordings (an analysis is never changed) so that zooming does not repeat it.
+type Loaded = { recording: Recording; result: CycleAnalysis };
+const recordingCache = processLru<Loaded>("recordings", 4);
 
-async function recordingOfAnalysis(analysisId: string): Promise<{ recording: Recording; result: CycleAnalysis } | undefined> {
+/** The recording an analysis read: from its stored columns, or by parsing its file again when it has none (analyses made before they were stored). */
+async function readRecording(analysisId: string): Promise<Loaded | undefined> {
+  const stored = await getAnalysisSeries({ analysisId });
+  if (!stored) return undefined;
+  const recording = stored.series ? recordingFromColumns({ ...stored.series, meta: stored.series.meta as SeriesMeta }) : undefined;
+  if (recording) return { recording, result: stored.result as CycleAnalysis };
   const row = await getAnalysedFile({ analysisId });
   if (!row) return undefined;
-  let recording = recordingCache.get(analysisId);
-  if (!recording) {
-    recording = readLoggerFile(new Uint8Array(row.bytes), (row.fileMapping ?? {}) as MappingOverrides).recording;
-    recordingCache.set(analysisId, recording);
-    while (recordingCache.size > CACHED_RECORDINGS) recordingCache.delete(recordingCache.keys().next().value!);
-  }
-  return { recording, result: row.result as CycleAnalysis };
+  return { recording: readLoggerFile(new Uint8Array(row.bytes), (row.fileMapping ?? {}) as MappingOverrides).recording, result: row.result as CycleAnalysis };
+}
+
+async function recordingOfAnalysis(analysisId: string): Promise<Loaded | undefined> {
+  const cached = recordingCache.get(analysisId);
+  if (cached) return cached;
+  const loaded = await readRecording(analysisId);
+  if (loaded) recordingCache.set(analysisId, loaded);
+  return loaded;
 }
 
 /** Chart data of a cycle's current analysis; undefined when the cycle or its analysis is not there. */

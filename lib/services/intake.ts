@@ -11,6 +11,8 @@ import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { AirLeakageMarks } from "@/lib/analysis/air-leakage-types";
 import { inspectLoggerFile, LoggerFileError, type MappingOverrides } from "@/lib/logger-files";
 import { analyzeLoggerBytes, siteAtmosphereKpa, type FileAnalysis } from "@/lib/cycles/analyze-file";
+import { recordingToColumns } from "@/lib/cycles/series";
+import { insertSeriesOfCurrentAnalysis } from "@/db/queries/analysis-series";
 import { resolveCycleStart, siteClockStamp } from "@/lib/cycles/start-time";
 import { sha256Hex } from "@/lib/integrity";
 import type { CreateCycleResponse, InspectResponse } from "@/lib/cycles/contracts";
@@ -204,6 +206,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
       },
     }),
     inside: async (tx, cycleId) => {
+      await insertSeriesOfCurrentAnalysis(tx, { cycleId, columns: recordingToColumns(analysis.recording) });
       await notifyFailure(tx, cycleId, analysis.result);
       await input.recordAnswer?.(tx, { status: 201, body: { id: cycleId, status: "draft", analysis: analysis.result } satisfies CreateCycleResponse });
     },
@@ -335,7 +338,10 @@ export async function reanalyseCycle({ actor, id, file, mapping, reason, duplica
       },
       reason: cleanReason,
     }),
-    inside: (tx) => notifyFailure(tx, id, analysis.result),
+    inside: async (tx) => {
+      await insertSeriesOfCurrentAnalysis(tx, { cycleId: id, columns: recordingToColumns(analysis.recording) });
+      await notifyFailure(tx, id, analysis.result);
+    },
   });
   if (!savedId) throw new AppError(409, "The cycle was submitted or signed while you were correcting it; reload it.");
   await settleBowieDickVerdict({ cycleId: id, testKind: cycle.testKind });

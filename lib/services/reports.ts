@@ -5,7 +5,8 @@ import { getLedgerHead, listAuditEventsForEntity, recordAuditEvent } from "@/db/
 import { auditEventHash } from "@/db/ledger";
 import { AppError } from "@/lib/errors";
 import { isLockedCycleStatus } from "@/lib/domain";
-import { sha256Hex } from "@/lib/integrity";
+import { canonicalJson, sha256Hex } from "@/lib/integrity";
+import { processLru } from "@/lib/lru";
 import { renderCycleReport } from "@/lib/reports";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
@@ -28,6 +29,24 @@ export async function renderReport(actor: Actor, detail: CycleDetail, reportNumb
   const bowieDick = await getIndicatorSheetForReport({ cycleId: detail.id, testKind: detail.testKind });
   const ledgerHead = draft ? null : await getLedgerHead();
   return renderCycleReport({ detail, series, reportNumber, generatedAt, verifyHint: REPORT_VERIFY_HINT, draft, bowieDick, ledgerHead });
+}
+
+// A draft is rendered again only when what it prints changed: the key hashes the record as the
+// reader sees it (status, analysis and its input hash, signatures, corrections) and the indicator
+// sheet. A repeat shows the time of the render it repeats. Promises are kept, so concurrent
+// requests for one draft share a single render.
+const draftCache = processLru<Promise<Buffer>>("draft-reports", 8);
+
+async function cachedDraft(actor: Actor, detail: CycleDetail, reportNumber: string): Promise<Buffer> {
+  const sheet = await getIndicatorSheetForReport({ cycleId: detail.id, testKind: detail.testKind });
+  const printedSheet = sheet?.photo ? { ...sheet, photo: { ...sheet.photo, bytes: null } } : sheet;
+  const key = sha256Hex(canonicalJson({ detail, sheet: printedSheet ?? null, reportNumber }));
+  const cached = draftCache.get(key);
+  if (cached) return cached;
+  const rendering = renderReport(actor, detail, reportNumber, new Date().toISOString(), true);
+  draftCache.set(key, rendering);
+  rendering.catch(() => draftCache.delete(key));
+  return rendering;
 }
 
 /** Statuses whose report was rendered once at sign-off and archived: served from the archive only. */
@@ -97,9 +116,8 @@ export async function getCycleReport({ actor, id }: { actor: Actor; id: string }
   }
   const detail = await getCycleDetail({ actor, id });
   if (!detail) throw new AppError(404, "That cycle was not found.");
-  const generatedAt = new Date().toISOString();
   const reportNumber = `DRAFT-${detail.cycleNumber}`;
-  const bytes = await renderReport(actor, detail, reportNumber, generatedAt, true);
+  const bytes = await cachedDraft(actor, detail, reportNumber);
   await recordAuditEvent({ actorId: actor.id, actorEmail: actor.email, siteId: cycle.siteId, action: "report.export-draft", entityType: "cycle", entityId: id });
   return { bytes: new Uint8Array(bytes), fileName: `${reportNumber}.pdf`, archived: false, reportNumber };
 }

@@ -1,0 +1,141 @@
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { useTemporaryDatabase } from "../support/test-db";
+
+const session = vi.hoisted(() => ({ current: null as null | { user: { id: string } } }));
+vi.mock("next-auth", async (original) => ({ ...(await original<typeof import("next-auth")>()), getServerSession: async () => session.current }));
+
+let ctx: Awaited<ReturnType<typeof useTemporaryDatabase>>;
+const ids: Record<string, string> = {};
+
+beforeAll(async () => {
+  ctx = await useTemporaryDatabase();
+  const { users, sites, sterilizers, acceptanceProfiles } = await import("@/db/schema");
+  const { hashPassword } = await import("@/lib/auth/password");
+  const [site] = await ctx.db.insert(sites).values({ name: "Series site", code: "SER", timeZone: "UTC" }).returning();
+  const [tech] = await ctx.db
+    .insert(users)
+    .values({ email: "tech@series.example", name: "Tech", role: "technician", passwordHash: await hashPassword("a test password"), siteId: site.id })
+    .returning();
+  const [profile] = await ctx.db.insert(acceptanceProfiles).values({ siteId: site.id, name: "134 °C / 3 min", sterilizationTempC: 134, holdingTimeS: 180, basis: "en-285" }).returning();
+  const [st] = await ctx.db.insert(sterilizers).values({ siteId: site.id, name: "Porous 1", serialNumber: "SER-1", chamberVolumeL: 445, defaultProfileId: profile.id }).returning();
+  Object.assign(ids, { tech: tech.id, profile: profile.id, sterilizer: st.id });
+  session.current = { user: { id: tech.id } };
+});
+afterAll(() => ctx.cleanup());
+
+/** A simulated pass cycle with one blank temperature cell (a missing reading, NaN in the recording, null on the chart). */
+async function loggerFile(seed: number) {
+  const { simulateCycle, toLoggerCsv } = await import("@/lib/simulator");
+  const csv = new TextDecoder().decode(
+    toLoggerCsv(simulateCycle({ scenario: "pass", sterilizationTempC: 134.6, holdingTimeS: 210, seed, startedAt: new Date("2026-07-14T08:00:00Z") }), { delimiter: ",", timeFormat: "iso" }),
+  );
+  const lines = csv.split("\n");
+  const cells = lines[40].split(",");
+  cells[2] = "";
+  lines[40] = cells.join(",");
+  return new TextEncoder().encode(lines.join("\n"));
+}
+
+async function upload(bytes: Uint8Array) {
+  const { POST } = await import("@/app/api/cycles/route");
+  const form = new FormData();
+  form.set("sterilizerId", ids.sterilizer);
+  form.set("profileId", ids.profile);
+  form.append("files", new Blob([bytes as BlobPart], { type: "text/csv" }), "cycle.csv");
+  const res = await POST(new Request("http://papin.test/api/cycles", { method: "POST", body: form }), undefined);
+  expect(res.status).toBe(201);
+  return (await res.json()).id as string;
+}
+
+/** The series answer as the client receives it, with the in-process cache emptied first so the database is read. */
+async function seriesText(id: string, query: string) {
+  (globalThis as unknown as { __papinLru_recordings?: Map<string, unknown> }).__papinLru_recordings?.clear();
+  const { GET } = await import("@/app/api/cycles/[id]/series/route");
+  const res = await GET(new Request(`http://papin.test/api/cycles/${id}/series?${query}`), { params: Promise.resolve({ id }) });
+  expect(res.status).toBe(200);
+  return res.text();
+}
+
+async function seriesRows() {
+  const { analysisSeries } = await import("@/db/schema");
+  return ctx.db.select({ analysisId: analysisSeries.analysisId, sampleCount: analysisSeries.sampleCount, meta: analysisSeries.meta }).from(analysisSeries);
+}
+
+async function currentAnalysisOf(id: string) {
+  const { cycles } = await import("@/db/schema");
+  const { eq } = await import("drizzle-orm");
+  return (await ctx.db.select({ a: cycles.currentAnalysisId }).from(cycles).where(eq(cycles.id, id)))[0].a!;
+}
+
+describe("the recording stored with its analysis", () => {
+  it("gives the same series answer, byte for byte, as parsing the file again", async () => {
+    const id = await upload(await loggerFile(71));
+    const analysisId = await currentAnalysisOf(id);
+    const [row] = (await seriesRows()).filter((r) => r.analysisId === analysisId);
+    // The simulated file has one row per second over the whole cycle: every data line is a sample.
+    expect(row.sampleCount).toBeGreaterThan(500);
+    const queries = ["points=100", "points=20000", "fromS=300&toS=420&points=50"];
+    const fromColumns = await Promise.all(queries.map((q) => seriesText(id, q)));
+    expect(fromColumns[1]).toContain("null"); // the blank cell survived as a missing reading
+
+    const { sql } = await import("drizzle-orm");
+    await ctx.db.run(sql`delete from analysis_series where analysis_id = ${analysisId}`);
+    const reparsed = await Promise.all(queries.map((q) => seriesText(id, q)));
+    expect(fromColumns).toEqual(reparsed);
+  });
+
+  it("is what the chart reads when it is there (not the file)", async () => {
+    const id = await upload(await loggerFile(72));
+    const analysisId = await currentAnalysisOf(id);
+    const { sql } = await import("drizzle-orm");
+    await ctx.db.run(sql`update analysis_series set meta = json_set(meta, '$.pressureHeader', 'from the stored columns') where analysis_id = ${analysisId}`);
+    const series = JSON.parse(await seriesText(id, "points=100"));
+    expect(series.channels.find((c: { kind: string }) => c.kind === "pressure").header).toBe("from the stored columns");
+  });
+
+  it("is written again with each correction, for the new analysis", async () => {
+    const id = await upload(await loggerFile(73));
+    const { POST } = await import("@/app/api/cycles/[id]/analyses/route");
+    const form = new FormData();
+    form.set("reason", "Corrected file from the logger");
+    form.append("file", new Blob([(await loggerFile(74)) as BlobPart], { type: "text/csv" }), "corrected.csv");
+    const res = await POST(new Request(`http://papin.test/api/cycles/${id}/analyses`, { method: "POST", body: form }), { params: Promise.resolve({ id }) });
+    expect(res.status).toBe(201);
+    const analysisId = await currentAnalysisOf(id);
+    expect((await seriesRows()).some((r) => r.analysisId === analysisId)).toBe(true);
+  });
+});
+
+describe("the draft report", () => {
+  async function draft(id: string) {
+    const { GET } = await import("@/app/api/cycles/[id]/report/route");
+    const res = await GET(new Request(`http://papin.test/api/cycles/${id}/report`), { params: Promise.resolve({ id }) });
+    expect(res.status).toBe(200);
+    return Buffer.from(await res.arrayBuffer());
+  }
+
+  it("is served again from the cache while the record is unchanged, and rendered anew once it changes", async () => {
+    const id = await upload(await loggerFile(75));
+    const first = await draft(id);
+    await new Promise((resolve) => setTimeout(resolve, 5));
+    // The same bytes, generation time included: the second request did not render.
+    expect((await draft(id)).equals(first)).toBe(true);
+
+    const { POST } = await import("@/app/api/cycles/[id]/analyses/route");
+    const form = new FormData();
+    form.set("reason", "Load description corrected");
+    form.set("load", "Two linen packs");
+    const res = await POST(new Request(`http://papin.test/api/cycles/${id}/analyses`, { method: "POST", body: form }), { params: Promise.resolve({ id }) });
+    expect(res.status).toBe(201);
+    expect((await draft(id)).equals(first)).toBe(false);
+
+    // Every export is still in the ledger, cached or not.
+    const { auditEvents } = await import("@/db/schema");
+    const { and, eq } = await import("drizzle-orm");
+    const exports = await ctx.db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.entityId, id), eq(auditEvents.action, "report.export-draft")));
+    expect(exports).toHaveLength(3);
+  });
+});
