@@ -61,6 +61,16 @@ function cycleListWhere(actor: Actor, filter: CycleFilter): SQL | undefined {
   return and(...conditions);
 }
 
+/**
+ * The sort column, then (for status and verdict) the start time, then the id, all in one direction: the order of
+ * one of the cycles indexes (migration 0016), so a page is read from the index instead of sorting every row.
+ */
+function cycleListOrder(sort: { key: CycleSortKey; direction: "asc" | "desc" }): SQL[] {
+  const by = sort.direction === "asc" ? asc : desc;
+  const columns = sort.key === "status" || sort.key === "verdict" ? [SORTS[sort.key], cycles.startedAt, cycles.id] : [SORTS[sort.key], cycles.id];
+  return columns.map((c) => by(c));
+}
+
 /** One page of the actor's site's cycles and the number matching the filter. */
 export async function listCycles({
   actor,
@@ -76,7 +86,6 @@ export async function listCycles({
   sort: { key: CycleSortKey; direction: "asc" | "desc" };
 }) {
   const db = getDb();
-  const column = SORTS[sort.key];
   const where = cycleListWhere(actor, filter);
   const [rows, [{ total }]] = await Promise.all([
     db
@@ -100,7 +109,7 @@ export async function listCycles({
       .innerJoin(acceptanceProfiles, eq(cycles.profileId, acceptanceProfiles.id))
       .innerJoin(creator, eq(cycles.createdBy, creator.id))
       .where(where)
-      .orderBy(sort.direction === "asc" ? asc(column) : desc(column), desc(cycles.id))
+      .orderBy(...cycleListOrder(sort))
       .limit(pageSize)
       .offset((page - 1) * pageSize),
     db.select({ total: count() }).from(cycles).innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id)).where(where),
