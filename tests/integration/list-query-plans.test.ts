@@ -91,3 +91,13 @@ describe("archive and audit ledger plans", () => {
     expectIndexed(lines, "audit_events");
   });
 });
+
+describe("count plans", () => {
+  it("plans the count from an index too", async () => {
+    const { countCycles } = await import("@/db/queries/cycles");
+    for (const filter of [{}, { status: "submitted" as const }, { sterilizer: "st-1" }]) {
+      const lines = await plansOf(() => countCycles({ actor, filter }));
+      expect(lines.filter((l) => /^SCAN cycles\b/.test(l))).toEqual([]);
+    }
+  });
+});
