@@ -252,7 +252,17 @@ export const cycles = sqliteTable(
     createdAt: createdAt(),
     updatedAt: text("updated_at"),
   },
-  (t) => [index("cycles_site_status_idx").on(t.siteId, t.status), index("cycles_sterilizer_idx").on(t.sterilizerId, t.startedAt)],
+  // One index per list order (site, sort column, id): a page is read in index order, never sorted whole (migration 0016).
+  (t) => [
+    index("cycles_site_started_idx").on(t.siteId, t.startedAt, t.id),
+    index("cycles_site_created_idx").on(t.siteId, t.createdAt, t.id),
+    index("cycles_site_number_idx").on(t.siteId, t.cycleNumber, t.id),
+    index("cycles_site_submitted_idx").on(t.siteId, t.submittedAt, t.id),
+    index("cycles_site_status_started_idx").on(t.siteId, t.status, t.startedAt, t.id),
+    index("cycles_site_status_submitted_idx").on(t.siteId, t.status, t.submittedAt, t.id),
+    index("cycles_site_verdict_started_idx").on(t.siteId, t.verdict, t.startedAt, t.id),
+    index("cycles_sterilizer_started_idx").on(t.sterilizerId, t.startedAt, t.id),
+  ],
 );
 export type Cycle = typeof cycles.$inferSelect;
 export type NewCycle = typeof cycles.$inferInsert;
@@ -351,18 +361,22 @@ export const signatures = sqliteTable(
 export type Signature = typeof signatures.$inferSelect;
 export type NewSignature = typeof signatures.$inferInsert;
 
-export const reports = sqliteTable("reports", {
-  id: id(),
-  cycleId: text("cycle_id")
-    .notNull()
-    .references(() => cycles.id),
-  signatureId: text("signature_id").references(() => signatures.id),
-  reportNumber: text("report_number").notNull().unique(),
-  sha256: text("sha256").notNull(),
-  sizeBytes: integer("size_bytes").notNull(),
-  bytes: blob("bytes", { mode: "buffer" }).notNull(),
-  createdAt: createdAt(),
-});
+export const reports = sqliteTable(
+  "reports",
+  {
+    id: id(),
+    cycleId: text("cycle_id")
+      .notNull()
+      .references(() => cycles.id),
+    signatureId: text("signature_id").references(() => signatures.id),
+    reportNumber: text("report_number").notNull().unique(),
+    sha256: text("sha256").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    bytes: blob("bytes", { mode: "buffer" }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("reports_created_idx").on(t.createdAt), index("reports_cycle_idx").on(t.cycleId)],
+);
 export type Report = typeof reports.$inferSelect;
 
 // Append-only: triggers in the migrations refuse UPDATE and DELETE; each row carries the hash of
@@ -384,7 +398,13 @@ export const auditEvents = sqliteTable(
     prevHash: text("prev_hash").notNull(),
     hash: text("hash").notNull(),
   },
-  (t) => [index("audit_entity_idx").on(t.entityType, t.entityId), index("audit_action_idx").on(t.action)],
+  (t) => [
+    index("audit_entity_idx").on(t.entityType, t.entityId),
+    index("audit_action_idx").on(t.action),
+    index("audit_site_seq_idx").on(t.siteId, t.seq),
+    index("audit_site_action_idx").on(t.siteId, t.action, t.seq),
+    index("audit_site_entity_idx").on(t.siteId, t.entityType, t.entityId, t.seq),
+  ],
 );
 export type AuditEvent = typeof auditEvents.$inferSelect;
 

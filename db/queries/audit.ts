@@ -31,6 +31,12 @@ export async function listSiteAuditors() {
     .orderBy(asc(sites.name), asc(users.email));
 }
 
+/** The newest event's seq (0 for none): every change to a record appends an event, so a new seq means something may have changed. */
+export async function latestAuditSeq(): Promise<number> {
+  const [row] = await getDb().select({ seq: auditEvents.seq }).from(auditEvents).orderBy(desc(auditEvents.seq)).limit(1);
+  return row?.seq ?? 0;
+}
+
 /** One page of the whole chain in order, for walking it (the chain spans every site). */
 export async function listAuditEventsAfter({ afterSeq, limit }: { afterSeq: number; limit: number }) {
   return getDb().select().from(auditEvents).where(gt(auditEvents.seq, afterSeq)).orderBy(asc(auditEvents.seq)).limit(limit);

@@ -61,7 +61,17 @@ function cycleListWhere(actor: Actor, filter: CycleFilter): SQL | undefined {
   return and(...conditions);
 }
 
-/** One page of the actor's site's cycles and the number matching the filter. */
+/**
+ * The sort column, then (for status and verdict) the start time, then the id, all in one direction: the order of
+ * one of the cycles indexes (migration 0016), so a page is read from the index instead of sorting every row.
+ */
+function cycleListOrder(sort: { key: CycleSortKey; direction: "asc" | "desc" }): SQL[] {
+  const by = sort.direction === "asc" ? asc : desc;
+  const columns = sort.key === "status" || sort.key === "verdict" ? [SORTS[sort.key], cycles.startedAt, cycles.id] : [SORTS[sort.key], cycles.id];
+  return columns.map((c) => by(c));
+}
+
+/** One page of the actor's site's cycles (the total is countCycles, cached by the service). */
 export async function listCycles({
   actor,
   filter,
@@ -75,37 +85,36 @@ export async function listCycles({
   pageSize: number;
   sort: { key: CycleSortKey; direction: "asc" | "desc" };
 }) {
-  const db = getDb();
-  const column = SORTS[sort.key];
-  const where = cycleListWhere(actor, filter);
-  const [rows, [{ total }]] = await Promise.all([
-    db
-      .select({
-        id: cycles.id,
-        cycleNumber: cycles.cycleNumber,
-        status: cycles.status,
-        verdict: cycles.verdict,
-        testKind: cycles.testKind,
-        startedAt: cycles.startedAt,
-        createdAt: cycles.createdAt,
-        loadDescription: cycles.loadDescription,
-        sterilizerId: sterilizers.id,
-        sterilizerName: sterilizers.name,
-        profileId: acceptanceProfiles.id,
-        profileName: acceptanceProfiles.name,
-        createdByName: creator.name,
-      })
-      .from(cycles)
-      .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
-      .innerJoin(acceptanceProfiles, eq(cycles.profileId, acceptanceProfiles.id))
-      .innerJoin(creator, eq(cycles.createdBy, creator.id))
-      .where(where)
-      .orderBy(sort.direction === "asc" ? asc(column) : desc(column), desc(cycles.id))
-      .limit(pageSize)
-      .offset((page - 1) * pageSize),
-    db.select({ total: count() }).from(cycles).innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id)).where(where),
-  ]);
-  return { rows, total };
+  return getDb()
+    .select({
+      id: cycles.id,
+      cycleNumber: cycles.cycleNumber,
+      status: cycles.status,
+      verdict: cycles.verdict,
+      testKind: cycles.testKind,
+      startedAt: cycles.startedAt,
+      createdAt: cycles.createdAt,
+      loadDescription: cycles.loadDescription,
+      sterilizerId: sterilizers.id,
+      sterilizerName: sterilizers.name,
+      profileId: acceptanceProfiles.id,
+      profileName: acceptanceProfiles.name,
+      createdByName: creator.name,
+    })
+    .from(cycles)
+    .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
+    .innerJoin(acceptanceProfiles, eq(cycles.profileId, acceptanceProfiles.id))
+    .innerJoin(creator, eq(cycles.createdBy, creator.id))
+    .where(cycleListWhere(actor, filter))
+    .orderBy(...cycleListOrder(sort))
+    .limit(pageSize)
+    .offset((page - 1) * pageSize);
+}
+
+/** How many of the actor's site's cycles match the filter. */
+export async function countCycles({ actor, filter }: { actor: Actor; filter: CycleFilter }): Promise<number> {
+  const [{ total }] = await getDb().select({ total: count() }).from(cycles).innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id)).where(cycleListWhere(actor, filter));
+  return total;
 }
 
 /** The cycle row, only if it belongs to the actor's site. */

@@ -1,5 +1,5 @@
 import "server-only";
-import { getCycleRecordRows, getCycleRow, listCycles as listCycleRows, type CycleFilter, type CycleSortKey } from "@/db/queries/cycles";
+import { countCycles, getCycleRecordRows, getCycleRow, listCycles as listCycleRows, type CycleFilter, type CycleSortKey } from "@/db/queries/cycles";
 import { listAuditEventsForEntity, recordAuditEvent } from "@/db/queries/audit";
 import { listInstrumentsForSite, listProfilesForSite, listSterilizersForSite } from "@/db/queries/catalog";
 import { listContributions } from "@/db/queries/reviews";
@@ -17,6 +17,7 @@ import { certificateOnDate } from "@/lib/periodic-tests/calibration";
 import { localDate } from "@/lib/periodic-tests/schedule";
 import { assertAllowed, type Actor } from "./access";
 import { checkSignature } from "./record-bundle";
+import { cachedTotal } from "./list-totals";
 
 export type CycleListQuery = CycleFilter & { page?: number; pageSize?: number; sort?: string };
 
@@ -28,7 +29,10 @@ export async function listCycles({ actor, query }: { actor: Actor; query: CycleL
   const page = Math.max(Math.trunc(rawPage ?? 1), 1);
   const [sortKey, sortDir] = (rawSort ?? "startedAt:desc").split(":");
   const key: CycleSortKey = (["startedAt", "createdAt", "cycleNumber", "status", "verdict", "sterilizer", "submittedAt"] as const).find((k) => k === sortKey) ?? "startedAt";
-  const { rows, total } = await listCycleRows({ actor, filter, page, pageSize, sort: { key, direction: sortDir === "asc" ? "asc" : "desc" } });
+  const [rows, total] = await Promise.all([
+    listCycleRows({ actor, filter, page, pageSize, sort: { key, direction: sortDir === "asc" ? "asc" : "desc" } }),
+    cachedTotal({ list: "cycles", siteId: actor.siteId ?? "", filter, count: () => countCycles({ actor, filter }) }),
+  ]);
   const items: CycleListItem[] = rows.map((r) => ({
     id: r.id,
     cycleNumber: r.cycleNumber,

@@ -1,0 +1,103 @@
+// The lists (cycles, review queue, archive, audit ledger) are read in index order: SQLite's own
+// EXPLAIN QUERY PLAN for each list's statements shows no temporary B-tree for the order and no full
+// scan of cycles or audit_events (issue 12; "USE TEMP B-TREE" and "SCAN" are SQLite's plan words).
+// The statements are the ones the query functions really send, captured at the client.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { InStatement } from "@libsql/client";
+import { useTemporaryDatabase } from "../support/test-db";
+
+let ctx: Awaited<ReturnType<typeof useTemporaryDatabase>>;
+let sent: Array<{ sql: string; args: unknown }> = [];
+type Rows = { rows: Array<Record<string, unknown>> };
+let execute: (s: InStatement) => Promise<Rows>;
+const actor = { id: "u1", email: "t@example.test", name: "T", role: "engineer" as const, siteId: "site-1" };
+
+beforeAll(async () => {
+  ctx = await useTemporaryDatabase();
+  const client = (globalThis as unknown as { __papinDb: { client: { execute: (s: InStatement) => Promise<Rows> } } }).__papinDb.client;
+  execute = client.execute.bind(client);
+  client.execute = (stmt: InStatement) => {
+    if (typeof stmt === "object") sent.push({ sql: stmt.sql, args: stmt.args });
+    return execute(stmt);
+  };
+});
+afterAll(() => ctx.cleanup());
+
+/** Every plan line of every statement `run` sends. */
+async function plansOf(run: () => Promise<unknown>): Promise<string[]> {
+  sent = [];
+  await run();
+  const statements = sent;
+  sent = [];
+  const lines: string[] = [];
+  for (const s of statements) {
+    const plan = await execute({ sql: `EXPLAIN QUERY PLAN ${s.sql}`, args: s.args as never });
+    lines.push(...plan.rows.map((r) => String(r.detail)));
+  }
+  expect(statements.length).toBeGreaterThan(0);
+  return lines;
+}
+
+function expectIndexed(lines: string[], table: string) {
+  expect(lines.join("\n")).not.toMatch(/TEMP B-TREE/);
+  expect(lines.filter((l) => new RegExp(`^SCAN ${table}\\b`).test(l))).toEqual([]);
+  expect(lines.some((l) => new RegExp(`^SEARCH ${table} USING (COVERING )?INDEX`).test(l))).toBe(true);
+}
+
+describe("cycle list plans", () => {
+  const page = async (filter: Record<string, string>, sort: { key: string; direction: "asc" | "desc" }) => {
+    const { listCycles } = await import("@/db/queries/cycles");
+    return plansOf(() => listCycles({ actor, filter, page: 3, pageSize: 50, sort: sort as never }));
+  };
+
+  it("reads the default order (newest start first) from an index", async () => {
+    const lines = await page({}, { key: "startedAt", direction: "desc" });
+    expect(lines.join("\n")).toMatch(/cycles_site_started_idx/);
+    expectIndexed(lines, "cycles");
+  });
+
+  it("reads the review queue (submitted, oldest submission first) from an index", async () => {
+    const lines = await page({ status: "submitted" }, { key: "submittedAt", direction: "asc" });
+    expect(lines.join("\n")).toMatch(/cycles_site_status_submitted_idx/);
+    expectIndexed(lines, "cycles");
+  });
+
+  it.each([
+    [{ status: "approved" }, { key: "startedAt", direction: "desc" }],
+    [{ verdict: "fail" }, { key: "startedAt", direction: "desc" }],
+    [{ sterilizer: "st-1" }, { key: "startedAt", direction: "desc" }],
+    [{}, { key: "createdAt", direction: "asc" }],
+    [{}, { key: "cycleNumber", direction: "desc" }],
+    [{}, { key: "status", direction: "asc" }],
+    [{}, { key: "verdict", direction: "desc" }],
+    [{}, { key: "submittedAt", direction: "desc" }],
+  ] as const)("filter %j, sort %j: no sort of every row", async (filter, sort) => {
+    expectIndexed(await page(filter, sort), "cycles");
+  });
+});
+
+describe("archive and audit ledger plans", () => {
+  it("reads the archive newest report first from an index, cycles by key", async () => {
+    const { listArchivedReports } = await import("@/db/queries/reviews");
+    const lines = await plansOf(() => listArchivedReports({ actor: actor as never }));
+    expect(lines.join("\n")).not.toMatch(/TEMP B-TREE/);
+    expect(lines.join("\n")).toMatch(/reports_created_idx/);
+    expect(lines.filter((l) => /^SCAN cycles\b/.test(l))).toEqual([]);
+  });
+
+  it.each([{}, { action: "cycle.create" }, { entityType: "cycle", entityId: "c1" }])("reads the site's audit events newest first from an index (filter %j)", async (filter) => {
+    const { listAuditEventsOfSite } = await import("@/db/queries/audit");
+    const lines = await plansOf(() => listAuditEventsOfSite({ siteId: "site-1", filter }));
+    expectIndexed(lines, "audit_events");
+  });
+});
+
+describe("count plans", () => {
+  it("plans the count from an index too", async () => {
+    const { countCycles } = await import("@/db/queries/cycles");
+    for (const filter of [{}, { status: "submitted" as const }, { sterilizer: "st-1" }]) {
+      const lines = await plansOf(() => countCycles({ actor, filter }));
+      expect(lines.filter((l) => /^SCAN cycles\b/.test(l))).toEqual([]);
+    }
+  });
+});
