@@ -1,7 +1,7 @@
 import type { AirLeakageResult } from "@/lib/cycles/contracts";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
-import { formatLeakRate, formatPressure } from "@/lib/domain";
-import { formatDuration } from "@/lib/domain";
+import { formatDuration, formatLeakRate, formatPressure } from "@/lib/domain";
+import { ChecksTableFrame } from "@/components/cycles/record/record-tables";
 
 const SOURCE_WORDS = { detected: "found in the trace", marked: "marked by the user", timed: "by the standard's timing" } as const;
 
@@ -92,31 +92,17 @@ export function AirLeakageTable({ analysis: a, startedAt, timeZone }: TableProps
           </tbody>
         </table>
       </div>
-      <div className="overflow-x-auto">
-        <table className="data-table" data-testid="checks-table">
-          <caption className="sr-only">Checks of the air leakage test</caption>
-          <thead>
-            <tr>
-              <th scope="col">Check</th>
-              <th scope="col">Measured</th>
-              <th scope="col">Limit</th>
-              <th scope="col">Basis</th>
-              <th scope="col">Result</th>
-            </tr>
-          </thead>
-          <tbody>
-            {a.checks.map((c) => (
-              <tr key={c.id}>
-                <th scope="row">{c.label}</th>
-                <td className="mono">{measuredText(c.unit, c.measured)}</td>
-                <td className="mono">{`${c.comparison === "at-most" ? "≤" : "≥"} ${measuredText(c.unit, c.limit)}`}</td>
-                <td className="text-xs text-ink-soft">{c.basis}</td>
-                <td className={c.passed ? "font-semibold text-pass-700" : "font-semibold text-fail-700"}>{c.passed ? "Pass" : "Fail"}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </div>
+      <ChecksTableFrame caption="Checks of the air leakage test">
+        {a.checks.map((c) => (
+          <tr key={c.id}>
+            <th scope="row">{c.label}</th>
+            <td className="mono">{measuredText(c.unit, c.measured)}</td>
+            <td className="mono">{`${c.comparison === "at-most" ? "≤" : "≥"} ${measuredText(c.unit, c.limit)}`}</td>
+            <td className="text-xs text-ink-soft">{c.basis}</td>
+            <td className={c.passed ? "font-semibold text-pass-700" : "font-semibold text-fail-700"}>{c.passed ? "Pass" : "Fail"}</td>
+          </tr>
+        ))}
+      </ChecksTableFrame>
     </div>
   );
 }

@@ -1,3 +1,4 @@
+import type { ReactNode } from "react";
 import { DEFAULT_FREE_SPACE, type AnalysisResult } from "@/lib/analysis/types";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
@@ -10,9 +11,26 @@ import { basisNoteFor, describeBasis, formatDuration } from "@/lib/domain";
 
 export function ChecksTable({ analysis, profile }: { analysis: AnalysisResult; profile: CycleDetail["profile"] }) {
   return (
+    <ChecksTableFrame caption="Checks against the acceptance profile">
+      {analysis.checks.map((c) => (
+        <tr key={c.id} className={c.passed ? "" : "bg-fail-50/60"}>
+          <td className="font-medium">{c.label}</td>
+          <td className="whitespace-nowrap tabular-nums">{formatFigure(c.measured, c.unit)}</td>
+          <td className="whitespace-nowrap tabular-nums">{formatLimit(c)}</td>
+          <td className="text-xs text-ink-muted">{basisNoteFor(c.id, profile.basis, profile.basisReason, profile.sterilizationTempC)}</td>
+          <td className="whitespace-nowrap">{c.passed ? <Badge tone="pass">✓ Pass</Badge> : <Badge tone="fail">✕ Fail</Badge>}</td>
+        </tr>
+      ))}
+    </ChecksTableFrame>
+  );
+}
+
+/** The one frame of a checks table (thermometric or air leakage): check, measured, limit, basis, result. */
+export function ChecksTableFrame({ caption, children }: { caption: string; children: ReactNode }) {
+  return (
     <div className="overflow-x-auto">
       <table className="data-table" data-testid="checks-table">
-        <caption className="sr-only">Checks against the acceptance profile</caption>
+        <caption className="sr-only">{caption}</caption>
         <thead>
           <tr>
             <th scope="col">Check</th>
@@ -22,17 +40,7 @@ export function ChecksTable({ analysis, profile }: { analysis: AnalysisResult; p
             <th scope="col">Result</th>
           </tr>
         </thead>
-        <tbody>
-          {analysis.checks.map((c) => (
-            <tr key={c.id} className={c.passed ? "" : "bg-fail-50/60"}>
-              <td className="font-medium">{c.label}</td>
-              <td className="whitespace-nowrap tabular-nums">{formatFigure(c.measured, c.unit)}</td>
-              <td className="whitespace-nowrap tabular-nums">{formatLimit(c)}</td>
-              <td className="text-xs text-ink-muted">{basisNoteFor(c.id, profile.basis, profile.basisReason, profile.sterilizationTempC)}</td>
-              <td className="whitespace-nowrap">{c.passed ? <Badge tone="pass">✓ Pass</Badge> : <Badge tone="fail">✕ Fail</Badge>}</td>
-            </tr>
-          ))}
-        </tbody>
+        <tbody>{children}</tbody>
       </table>
     </div>
   );
