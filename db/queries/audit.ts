@@ -1,8 +1,8 @@
 import "server-only";
-import { asc, desc, eq, and, gt, gte, lte, count } from "drizzle-orm";
+import { asc, desc, eq, and, gt, gte, lt, lte, count, sql } from "drizzle-orm";
 import { getDb, type Executor } from "@/db";
 import { containsText } from "./search";
-import { auditEvents, sites, users } from "@/db/schema";
+import { acceptanceProfiles, apiTokens, auditEvents, cycles, instruments, periodicTests, reports, sites, sterilizers, users } from "@/db/schema";
 import { appendAuditEvent, readLedgerHead, type AuditInput } from "@/db/ledger";
 import type { LedgerHead } from "@/lib/integrity/anchors";
 
@@ -94,6 +94,99 @@ export async function getLatestAuditEvent({ entityType, entityId, action }: { en
     .select()
     .from(auditEvents)
     .where(and(eq(auditEvents.entityType, entityType), eq(auditEvents.entityId, entityId), eq(auditEvents.action, action)))
+    .orderBy(desc(auditEvents.seq))
+    .limit(1);
+  return row;
+}
+
+// ——— The audit trail as a person reads it (the ledger page and its exports) ———
+
+/** The trail's filter: ids and instants already resolved by the service (site dates → UTC instants). */
+export type AuditTrailFilter = { actorId?: string; action?: string; entityId?: string; fromIso?: string; beforeIso?: string; maxSeq?: number };
+
+function trailWhere(siteId: string, filter: AuditTrailFilter) {
+  return and(
+    eq(auditEvents.siteId, siteId),
+    filter.actorId ? eq(auditEvents.actorId, filter.actorId) : undefined,
+    filter.action ? eq(auditEvents.action, filter.action) : undefined,
+    filter.entityId ? eq(auditEvents.entityId, filter.entityId) : undefined,
+    filter.fromIso ? gte(auditEvents.at, filter.fromIso) : undefined,
+    filter.beforeIso ? lt(auditEvents.at, filter.beforeIso) : undefined,
+    filter.maxSeq !== undefined ? lte(auditEvents.seq, filter.maxSeq) : undefined,
+  );
+}
+
+/** One page of the site's trail, newest first, with the number of events the filter matches. */
+export async function listAuditTrailPage({ siteId, filter, page, pageSize }: { siteId: string; filter: AuditTrailFilter; page: number; pageSize: number }) {
+  const where = trailWhere(siteId, filter);
+  const db = getDb();
+  const [items, [{ total }]] = await Promise.all([
+    db
+      .select()
+      .from(auditEvents)
+      .where(where)
+      .orderBy(desc(auditEvents.seq))
+      .limit(pageSize)
+      .offset((page - 1) * pageSize),
+    db.select({ total: count() }).from(auditEvents).where(where),
+  ]);
+  return { items, total };
+}
+
+export async function countAuditTrail({ siteId, filter }: { siteId: string; filter: AuditTrailFilter }): Promise<number> {
+  const [{ total }] = await getDb().select({ total: count() }).from(auditEvents).where(trailWhere(siteId, filter));
+  return total;
+}
+
+/** The next batch of an export, newest first, below `beforeSeq` (keyset paging: the trail may grow meanwhile). */
+export async function listAuditTrailBatch({ siteId, filter, beforeSeq, limit }: { siteId: string; filter: AuditTrailFilter; beforeSeq: number | null; limit: number }) {
+  return getDb()
+    .select()
+    .from(auditEvents)
+    .where(and(trailWhere(siteId, filter), beforeSeq === null ? undefined : lt(auditEvents.seq, beforeSeq)))
+    .orderBy(desc(auditEvents.seq))
+    .limit(limit);
+}
+
+export type AuditNameRow = { id: string; type: string; label: string; extra: string | null };
+
+/**
+ * The names behind record ids, in one query: cycle numbers, sterilizer, profile, instrument and
+ * token names, periodic tests (kind, sterilizer and date), reports, people (name and role). Only
+ * records of the site; people by id (an event of this site names its actor).
+ */
+export async function listAuditNames({ siteId, ids }: { siteId: string; ids: string[] }): Promise<AuditNameRow[]> {
+  if (ids.length === 0) return [];
+  const wanted = sql`(select value from json_each(${JSON.stringify(ids)}))`;
+  const rows = await getDb().all<AuditNameRow>(sql`
+    select ${cycles.id} as id, 'cycle' as type, ${cycles.cycleNumber} as label, null as extra from ${cycles} where ${cycles.siteId} = ${siteId} and ${cycles.id} in ${wanted}
+    union all select ${sterilizers.id}, 'sterilizer', ${sterilizers.name}, null from ${sterilizers} where ${sterilizers.siteId} = ${siteId} and ${sterilizers.id} in ${wanted}
+    union all select ${acceptanceProfiles.id}, 'profile', ${acceptanceProfiles.name}, null from ${acceptanceProfiles} where ${acceptanceProfiles.siteId} = ${siteId} and ${acceptanceProfiles.id} in ${wanted}
+    union all select ${instruments.id}, 'instrument', ${instruments.name}, ${instruments.serialNumber} from ${instruments} where ${instruments.siteId} = ${siteId} and ${instruments.id} in ${wanted}
+    union all select ${periodicTests.id}, 'periodic-test', ${periodicTests.kind}, (select ${sterilizers.name} from ${sterilizers} where ${sterilizers.id} = ${periodicTests.sterilizerId}) || '|' || ${periodicTests.performedAt} from ${periodicTests} where ${periodicTests.siteId} = ${siteId} and ${periodicTests.id} in ${wanted}
+    union all select ${reports.id}, 'report', ${reports.reportNumber}, null from ${reports} where ${reports.cycleId} in (select ${cycles.id} from ${cycles} where ${cycles.siteId} = ${siteId}) and ${reports.id} in ${wanted}
+    union all select ${apiTokens.id}, 'api-token', ${apiTokens.name}, ${apiTokens.prefix} from ${apiTokens} where ${apiTokens.siteId} = ${siteId} and ${apiTokens.id} in ${wanted}
+    union all select ${users.id}, 'user', ${users.name}, ${users.role} from ${users} where ${users.id} in ${wanted}
+  `);
+  return rows;
+}
+
+/** A cycle of the site by its number (the record filter takes a cycle number as well as an id). */
+export async function findCycleIdByNumber({ siteId, cycleNumber }: { siteId: string; cycleNumber: string }): Promise<string | undefined> {
+  const [row] = await getDb()
+    .select({ id: cycles.id })
+    .from(cycles)
+    .where(and(eq(cycles.siteId, siteId), eq(cycles.cycleNumber, cycleNumber)))
+    .limit(1);
+  return row?.id;
+}
+
+/** The ledger event that recorded an audit-trail extract with this SHA-256, on the site. */
+export async function findAuditExtractEvent({ siteId, sha256 }: { siteId: string; sha256: string }) {
+  const [row] = await getDb()
+    .select()
+    .from(auditEvents)
+    .where(and(eq(auditEvents.siteId, siteId), eq(auditEvents.action, "audit.export"), sql`json_extract(${auditEvents.newValue}, '$.sha256') = ${sha256}`))
     .orderBy(desc(auditEvents.seq))
     .limit(1);
   return row;

@@ -17,7 +17,7 @@ export const PERMISSIONS = {
   "archive:read": ["engineer", "auditor"],
   "report:read": ["technician", "engineer", "auditor"],
   "report:verify": ["technician", "engineer", "auditor", "admin"],
-  "audit:read": ["auditor", "admin"],
+  "audit:read": ["engineer", "auditor", "admin"],
   "steam:calculate": ["technician", "engineer", "auditor", "admin"],
   "users:manage": ["admin"],
   "settings:manage": ["admin"],

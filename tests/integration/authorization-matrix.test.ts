@@ -35,7 +35,9 @@ const makers = () => only("technician", "engineer");
 /** "METHOD /api/path" (folders as in app/api, [id] kept) → who gets what; `bearer`: a valid gateway token, no session. */
 const ROUTES: Record<string, Row> = {
   "GET /api/attachments/[id]": readers(),
-  "GET /api/audit/verify": only("auditor", "admin"),
+  "GET /api/audit/export": only("engineer", "auditor", "admin"),
+  "GET /api/audit/extract": only("engineer", "auditor", "admin"),
+  "GET /api/audit/verify": only("engineer", "auditor", "admin"),
   "GET /api/auth/[...nextauth]": { ...PUBLIC, notCalled: "NextAuth's own sign-in endpoints need Next's request scope; the browser tests sign in through them" },
   "POST /api/auth/[...nextauth]": { ...PUBLIC, notCalled: "NextAuth's own sign-in endpoints need Next's request scope; the browser tests sign in through them" },
   "GET /api/cycles": { ...readers(), bearer: 401 },
