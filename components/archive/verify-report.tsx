@@ -6,7 +6,10 @@ import { useDropzone } from "react-dropzone";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { ActionMessage } from "@/components/ui/action-message";
 
-type Outcome = { match: true; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string } | { match: false; sha256: string; problem?: string };
+type Outcome =
+  | { match: true; kind?: undefined; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string }
+  | { match: true; kind: "audit-extract"; sha256: string; seq: number; exportedAt: string; exportedBy: string | null; events: number | null }
+  | { match: false; sha256: string; problem?: string };
 
 export function VerifyReport() {
   const [outcome, setOutcome] = useState<Outcome | null>(null);
@@ -53,7 +56,12 @@ export function VerifyReport() {
       {error && <ActionMessage state={{ status: "error", message: error }} />}
       {outcome && (
         <div role="status" data-testid="verify-outcome" className={`rounded-md px-3 py-2 text-sm ${outcome.match ? "bg-pass-50 text-pass-700" : "bg-fail-50 text-fail-700"}`}>
-          {outcome.match ? (
+          {outcome.match && outcome.kind === "audit-extract" ? (
+            <p>
+              ✓ <strong>{name}</strong> is byte for byte the audit-trail extract{outcome.events === null ? "" : ` of ${outcome.events} events`} exported by {outcome.exportedBy ?? "an unknown person"}{" "}
+              on {new Date(outcome.exportedAt).toUTCString()}, as ledger event {outcome.seq} recorded it.
+            </p>
+          ) : outcome.match ? (
             <p>
               ✓ <strong>{name}</strong> is byte for byte the archived report <span className="mono">{outcome.reportNumber}</span> of cycle{" "}
               <Link className="underline" href={`/cycles/${outcome.cycleId}`}>

@@ -105,6 +105,7 @@ export const AUDIT_FIELDS: Record<string, Field> = {
   lastSeq: { label: "Last event" },
   lastHash: { label: "Last hash" },
   fileName: { label: "File name" },
+  auditExtract: { label: "Extract recorded in event" },
   sterilizationTempC: { label: "Sterilization temperature", short: "temperature", unit: "°C" },
   bandK: { label: "Band width", short: "band", unit: "K" },
   holdingTimeS: { label: "Holding time", short: "hold", unit: "s" },

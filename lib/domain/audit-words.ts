@@ -117,7 +117,12 @@ export const AUDIT_ACTIONS: Record<string, Kind> = {
   "report.export-draft": { label: "Exported a draft report", what: (f) => `exported a draft report of cycle ${f.record}` },
   "report.verify": {
     label: "Checked a report file",
-    what: (f) => (f.new.match === true ? `checked a report file: it matches the archived report of cycle ${f.record}` : "checked a report file: no match in the archive"),
+    what: (f) =>
+      num(f.new.auditExtract) !== null
+        ? `checked a file: it is the audit-trail extract recorded in event ${num(f.new.auditExtract)}`
+        : f.new.match === true
+          ? `checked a report file: it matches the archived report of cycle ${f.record}`
+          : "checked a report file: no match in the archive",
   },
   "report.integrity-failed": {
     label: "Report failed its integrity check",

@@ -13,6 +13,7 @@ import { assertAllowed, type Actor } from "./access";
 import { getCycleDetail } from "./cycles";
 import { getCycleSeries } from "./cycle-series";
 import { getIndicatorSheetForReport } from "./bowie-dick";
+import { findAuditExtract } from "./audit-export";
 
 const REPORT_VERIFY_HINT =
   "To check this report, sign in to Papin and drop the PDF on Signed archive → Check a report, or POST it to /api/reports/verify. A byte-for-byte match names the archived record.";
@@ -133,6 +134,20 @@ export async function verifyReportBytes({ actor, bytes }: { actor: Actor; bytes:
   const problem = stored ? await reportIntegrityProblem(stored) : null;
   const match = sameBytes && !problem;
   const cycleId = match ? row!.cycleId : null;
+  // Not an archived report: it may be an audit-trail extract, whose SHA-256 the ledger recorded at export.
+  const extract = row ? null : await findAuditExtract({ actor, sha256 });
+  if (extract) {
+    await recordAuditEvent({
+      actorId: actor.id,
+      actorEmail: actor.email,
+      siteId: actor.siteId,
+      action: "report.verify",
+      entityType: "report",
+      entityId: null,
+      newValue: { sha256, match: true, auditExtract: extract.seq },
+    });
+    return { match: true as const, kind: "audit-extract" as const, sha256, ...extract };
+  }
   await recordAuditEvent({ actorId: actor.id, actorEmail: actor.email, siteId: actor.siteId, action: "report.verify", entityType: "report", entityId: cycleId, newValue: { sha256, match, cycleId } });
   if (stored && problem) {
     await recordIntegrityFailure(actor, stored, actor.siteId, problem);

@@ -22,6 +22,7 @@ import { orNotFound } from "@/lib/auth/page-guard";
 import { getCycleRecord } from "@/lib/services/cycles";
 import { getCycleIndicatorSheets } from "@/lib/services/bowie-dick";
 import { CycleSheetPanel } from "@/components/bowie-dick/cycle-sheet-panel";
+import { RecordTrailLink } from "@/components/audit/record-trail-link";
 import { guardCycleRecord } from "./record";
 
 type Props = { params: Promise<{ id: string }> };
@@ -80,11 +81,14 @@ export default async function CycleRecordPage({ params }: Props) {
             </p>
           )}
         </div>
-        {detail.report && (
-          <a href={`/api/cycles/${detail.id}/report`} className="btn-secondary">
-            Report {detail.report.reportNumber} (PDF)
-          </a>
-        )}
+        <div className="flex flex-wrap gap-2">
+          {detail.report && (
+            <a href={`/api/cycles/${detail.id}/report`} className="btn-secondary">
+              Report {detail.report.reportNumber} (PDF)
+            </a>
+          )}
+          <RecordTrailLink role={actor.role} recordId={detail.id} />
+        </div>
       </header>
 
       <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_20rem]">

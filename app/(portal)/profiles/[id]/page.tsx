@@ -2,6 +2,7 @@ import Link from "next/link";
 import { orNotFound, requirePageActor } from "@/lib/auth/page-guard";
 import { getProfilePage } from "@/lib/services/profiles";
 import { PageHeader, Panel } from "@/components/ui/panel";
+import { RecordTrailLink } from "@/components/audit/record-trail-link";
 import { Badge } from "@/components/ui/badge";
 import { ProfileForm } from "@/components/equipment/profile-form";
 import { formatDateTime } from "@/lib/format";
@@ -32,9 +33,12 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
         title={p.name}
         subtitle={p.active ? "Acceptance profile in use" : "Retired version: kept for the cycles analysed with it"}
         actions={
-          <Link href="/profiles" className="btn-secondary">
-            All profiles
-          </Link>
+          <>
+            <Link href="/profiles" className="btn-secondary">
+              All profiles
+            </Link>
+            <RecordTrailLink role={actor.role} recordId={p.id} />
+          </>
         }
       />
       <div className={`grid gap-gutter ${(manage && p.active) || p.replacedBy ? "xl:grid-cols-[1fr_26rem]" : ""}`}>

@@ -2,6 +2,7 @@ import Link from "next/link";
 import { orNotFound, requirePageActor } from "@/lib/auth/page-guard";
 import { getSterilizerPage } from "@/lib/services/equipment";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
+import { RecordTrailLink } from "@/components/audit/record-trail-link";
 import { Badge, StatusBadge, VerdictBadge } from "@/components/ui/badge";
 import { SterilizerForm } from "@/components/equipment/sterilizer-form";
 import { ScheduleEditor } from "@/components/equipment/schedule-editor";
@@ -68,6 +69,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
             <Link href="/sterilizers" className="btn-secondary">
               All sterilizers
             </Link>
+            <RecordTrailLink role={actor.role} recordId={s.id} />
             {record && s.active && (
               <Link href={`/periodic-tests/new?sterilizer=${s.id}`} className="btn-primary">
                 Record a periodic test
