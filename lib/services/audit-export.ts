@@ -67,8 +67,8 @@ const filterText = (words: string[]) => (words.length ? words.join(", ") : "none
  * The filtered trail as CSV, streamed batch by batch. The export is written to the ledger first
  * (who, the filter, how many events), so a refused or broken download still leaves its trace.
  */
-export async function exportAuditCsv({ actor, query }: { actor: Actor; query: AuditTrailQuery }) {
-  const { resolved, head, events } = await limitedTrail(actor, query, AUDIT_CSV_LIMIT, "CSV");
+export async function exportAuditCsv({ actor, query, limit = AUDIT_CSV_LIMIT }: { actor: Actor; query: AuditTrailQuery; limit?: number }) {
+  const { resolved, head, events } = await limitedTrail(actor, query, limit, "CSV");
   const exportedAt = new Date().toISOString();
   const fileName = `papin-audit-trail-${stampOf(exportedAt)}.csv`;
   await recordAuditEvent({
@@ -101,8 +101,8 @@ export async function exportAuditCsv({ actor, query }: { actor: Actor; query: Au
  * the ledger's head and each event's hash. Its SHA-256 goes into the ledger, so the report checker
  * can later tell the file is the one Papin produced.
  */
-export async function exportAuditPdf({ actor, query }: { actor: Actor; query: AuditTrailQuery }) {
-  const { resolved, head, events } = await limitedTrail(actor, query, AUDIT_PDF_LIMIT, "PDF");
+export async function exportAuditPdf({ actor, query, limit = AUDIT_PDF_LIMIT }: { actor: Actor; query: AuditTrailQuery; limit?: number }) {
+  const { resolved, head, events } = await limitedTrail(actor, query, limit, "PDF");
   const rows = [];
   for await (const batch of trailBatches(resolved)) rows.push(...batch.map(({ event, line }) => ({ ...line, hash: event.hash })));
   const { site } = await getSiteContext({ actor });

@@ -16,6 +16,11 @@ describe("the permissions table", () => {
     expect(can("engineer", "users:manage")).toBe(false);
   });
 
+  it("lets engineers, auditors and admins read their site's audit trail, but not technicians", () => {
+    expect(can("engineer", "audit:read")).toBe(true);
+    expect(can("technician", "audit:read")).toBe(false);
+  });
+
   it("keeps the auditor read-only: archive and ledger yes, any change no", () => {
     expect(can("auditor", "archive:read")).toBe(true);
     expect(can("auditor", "audit:read")).toBe(true);
