@@ -27,7 +27,9 @@ export function AuditEvents({ lines }: { lines: AuditLine[] }) {
             {line.role && <span className="block text-ink-muted">{line.role}</span>}
           </span>
           <div className="min-w-0">
-            <p className="break-words">{line.what}</p>
+            <p className="break-words" data-testid="audit-what">
+              {line.what}
+            </p>
             {line.record && (
               <p className="text-xs">
                 {line.record.href ? (
