@@ -71,8 +71,29 @@ describe("cycle list plans", () => {
     [{}, { key: "status", direction: "asc" }],
     [{}, { key: "verdict", direction: "desc" }],
     [{}, { key: "submittedAt", direction: "desc" }],
+    [{}, { key: "sterilizer", direction: "asc" }],
+    [{ status: "approved" }, { key: "sterilizer", direction: "desc" }],
   ] as const)("filter %j, sort %j: no sort of every row", async (filter, sort) => {
     expectIndexed(await page(filter, sort), "cycles");
+  });
+
+  it("sorts by sterilizer name walking the site's sterilizers by name, then each one's cycles by start", async () => {
+    const lines = await page({}, { key: "sterilizer", direction: "asc" });
+    expect(lines.join("\n")).toMatch(/sterilizers_site_name_idx/);
+    expect(lines.join("\n")).toMatch(/cycles_sterilizer_started_idx/);
+  });
+
+  it.each([
+    [{ q: "autoclave" }, { key: "startedAt", direction: "desc" }],
+    [{ q: "50%_x" }, { key: "sterilizer", direction: "asc" }],
+    [
+      { q: "BD-2024", status: "approved" },
+      { key: "cycleNumber", direction: "asc" },
+    ],
+  ] as const)("search %j, sort %j: the text is looked up in the trigram index, never in every cycle", async (filter, sort) => {
+    const lines = await page(filter, sort);
+    expect(lines.join("\n")).toMatch(/SCAN cycles_search VIRTUAL TABLE INDEX/);
+    expect(lines.filter((l) => /^SCAN cycles\b/.test(l))).toEqual([]);
   });
 });
 
