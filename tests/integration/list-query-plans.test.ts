@@ -113,6 +113,16 @@ describe("archive and audit ledger plans", () => {
   });
 });
 
+describe("archive page plans", () => {
+  it("reads an archive page newest report first from an index, with the count kept off a scan of cycles", async () => {
+    const { listArchivedReports, countArchivedReports } = await import("@/db/queries/reviews");
+    const lines = await plansOf(() => listArchivedReports({ actor: actor as never, q: "BD", page: 2, pageSize: 50 }));
+    expect(lines.join("\n")).not.toMatch(/TEMP B-TREE/);
+    const counted = await plansOf(() => countArchivedReports({ actor: actor as never, q: "BD" }));
+    expect(counted.filter((l) => /^SCAN cycles\b/.test(l))).toEqual([]);
+  });
+});
+
 describe("count plans", () => {
   it("plans the count from an index too", async () => {
     const { countCycles } = await import("@/db/queries/cycles");
