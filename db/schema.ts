@@ -137,25 +137,30 @@ export const acceptanceProfiles = sqliteTable(
 export type AcceptanceProfile = typeof acceptanceProfiles.$inferSelect;
 export type NewAcceptanceProfile = typeof acceptanceProfiles.$inferInsert;
 
-export const sterilizers = sqliteTable("sterilizers", {
-  id: id(),
-  siteId: text("site_id")
-    .notNull()
-    .references(() => sites.id),
-  name: text("name").notNull(),
-  serialNumber: text("serial_number").notNull(),
-  model: text("model"),
-  chamberVolumeL: real("chamber_volume_l").notNull(),
-  location: text("location"),
-  airDetectorFitted: integer("air_detector_fitted", { mode: "boolean" }).notNull().default(true),
-  defaultProfileId: text("default_profile_id").references(() => acceptanceProfiles.id),
-  active: integer("active", { mode: "boolean" }).notNull().default(true),
-  // The cached result of the status rule (lib/periodic-tests/status.ts); sterilizer_status_events holds its history.
-  status: text("status", { enum: STERILIZER_STATUSES }).notNull().default("in-use"),
-  statusReason: text("status_reason"),
-  statusSince: text("status_since"),
-  createdAt: createdAt(),
-});
+export const sterilizers = sqliteTable(
+  "sterilizers",
+  {
+    id: id(),
+    siteId: text("site_id")
+      .notNull()
+      .references(() => sites.id),
+    name: text("name").notNull(),
+    serialNumber: text("serial_number").notNull(),
+    model: text("model"),
+    chamberVolumeL: real("chamber_volume_l").notNull(),
+    location: text("location"),
+    airDetectorFitted: integer("air_detector_fitted", { mode: "boolean" }).notNull().default(true),
+    defaultProfileId: text("default_profile_id").references(() => acceptanceProfiles.id),
+    active: integer("active", { mode: "boolean" }).notNull().default(true),
+    // The cached result of the status rule (lib/periodic-tests/status.ts); sterilizer_status_events holds its history.
+    status: text("status", { enum: STERILIZER_STATUSES }).notNull().default("in-use"),
+    statusReason: text("status_reason"),
+    statusSince: text("status_since"),
+    createdAt: createdAt(),
+  },
+  // The cycles list sorted by sterilizer walks the site's sterilizers in name order (migration 0018).
+  (t) => [uniqueIndex("sterilizers_site_name_idx").on(t.siteId, t.name, t.id)],
+);
 export type Sterilizer = typeof sterilizers.$inferSelect;
 
 // Append-only (triggers): each change of a sterilizer's status, found by the rule or decided and signed by an engineer.
@@ -264,6 +269,8 @@ export const cycles = sqliteTable(
     index("cycles_sterilizer_started_idx").on(t.sterilizerId, t.startedAt, t.id),
   ],
 );
+// Free-text search of cycles (number, load, sterilizer name) lives outside Drizzle in migration 0018: the FTS5 table
+// cycles_search (trigram tokenizer) and its keys cycle_search_rows, kept in step by triggers on cycles and sterilizers.
 export type Cycle = typeof cycles.$inferSelect;
 export type NewCycle = typeof cycles.$inferInsert;
 

@@ -3,14 +3,15 @@
  * simulated cycles on the demo site, spread over Y years (default 10), to measure the lists at the
  * size a large department reaches. Every cycle gets a small simulated logger file (its bytes
  * repeated between cycles of the same sterilizer and scenario), the real analysis of that file and
- * one audit event in the hash chain. Refuses a database holding anything but the demo site unless
+ * one audit event in the hash chain, with the analysis's stored series columns (analysis_series, so a chart never
+ * falls back to parsing the file). Refuses a database holding anything but the demo site unless
  * `--force`. Signatures and reports are not made: load cycles in a confirmed status have none.
  */
 import { count, eq, inArray, notInArray, notLike, ne, desc } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/libsql";
 import { applyFilePragmas, openClient, type Database } from "./index";
 import * as schema from "./schema";
-import { acceptanceProfiles, analyses, auditEvents, cycles, instruments, loggerFiles, sites, sterilizers, users, type CycleStatus, type NewCycle } from "./schema";
+import { acceptanceProfiles, analyses, analysisSeries, auditEvents, cycles, instruments, loggerFiles, sites, sterilizers, users, type CycleStatus, type NewCycle } from "./schema";
 import { migrateDatabase } from "./migrate";
 import { DEMO_USERS, loadDemoSite } from "./seed";
 import { auditEventHash } from "./ledger";
@@ -18,6 +19,7 @@ import { env } from "@/lib/env";
 import { canonicalJson, GENESIS_HASH } from "@/lib/integrity";
 import { simulateCycle, toLoggerCsv, type Scenario } from "@/lib/simulator";
 import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
+import { recordingToColumns } from "@/lib/cycles/series";
 import { atmosphereAtAltitudeKpa } from "@/lib/steam";
 
 const DEMO_SITE_CODE = "MBG-SSD";
@@ -54,7 +56,15 @@ async function nonDemoData(db: Database, siteId: string): Promise<string | null>
   return null;
 }
 
-type Template = { bytes: Buffer; analysis: ReturnType<typeof analyzeLoggerBytes> };
+type SeriesRow = typeof analysisSeries.$inferInsert;
+type Template = { bytes: Buffer; analysis: ReturnType<typeof analyzeLoggerBytes>; series: Omit<SeriesRow, "analysisId"> };
+
+/** The analysis's recording as the intake stores it (one copy of the bytes per template, reused by its cycles). */
+function seriesOf(analysis: Template["analysis"]): Template["series"] {
+  const { meta, sampleCount, timesS, channelValues } = recordingToColumns(analysis.recording);
+  const buffer = (bytes: Uint8Array) => Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  return { meta, sampleCount, timesS: buffer(timesS), channelValues: buffer(channelValues) };
+}
 
 /** A few small files per sterilizer (10 s sampling, 3 probes), analysed once and reused. */
 function templatesFor(profile: schema.AcceptanceProfile, atmosphereKpa: number, seed: number): Template[] {
@@ -70,7 +80,8 @@ function templatesFor(profile: schema.AcceptanceProfile, atmosphereKpa: number, 
       probeCount: 3,
     });
     const bytes = toLoggerCsv(sim, { delimiter: ",", decimal: ".", timeFormat: "iso", atmosphereKpa });
-    return { bytes: Buffer.from(bytes), analysis: analyzeLoggerBytes(bytes, profile, {}, atmosphereKpa) };
+    const analysis = analyzeLoggerBytes(bytes, profile, {}, atmosphereKpa);
+    return { bytes: Buffer.from(bytes), analysis, series: seriesOf(analysis) };
   });
 }
 
@@ -125,6 +136,7 @@ async function main() {
       const cycleRows: NewCycle[] = [];
       const fileRows: schema.NewLoggerFile[] = [];
       const analysisRows: schema.NewAnalysis[] = [];
+      const seriesRows: SeriesRow[] = [];
       const [last] = await tx.select({ hash: auditEvents.hash }).from(auditEvents).orderBy(desc(auditEvents.seq)).limit(1);
       let prevHash = last?.hash ?? GENESIS_HASH;
       const eventRows: (typeof auditEvents.$inferInsert)[] = [];
@@ -184,6 +196,7 @@ async function main() {
           createdBy: technician.id,
           createdAt: startedAt.toISOString(),
         });
+        seriesRows.push({ ...template.series, analysisId, createdAt: startedAt.toISOString() });
         const fields = {
           at: new Date().toISOString(),
           actorId: technician.id,
@@ -204,6 +217,7 @@ async function main() {
         await tx.insert(cycles).values(cycleRows.slice(k, k + ROWS_PER_INSERT));
         await tx.insert(loggerFiles).values(fileRows.slice(k, k + ROWS_PER_INSERT));
         await tx.insert(analyses).values(analysisRows.slice(k, k + ROWS_PER_INSERT));
+        await tx.insert(analysisSeries).values(seriesRows.slice(k, k + ROWS_PER_INSERT));
         await tx.insert(auditEvents).values(eventRows.slice(k, k + ROWS_PER_INSERT));
       }
     });

@@ -53,8 +53,14 @@ export type AuditFilter = {
   pageSize?: number;
 };
 
-/** The site's events, newest first; events of other sites and of no site never appear. */
-export async function listAuditEventsOfSite({ siteId, filter }: { siteId: string; filter: AuditFilter }) {
+/** Counts the matching events; the service passes one that reuses a cached total (lib/services/list-totals.ts). */
+export type TotalOf = (count: () => Promise<number>) => Promise<number>;
+
+/**
+ * The site's events, newest first; events of other sites and of no site never appear. The page is read in index order;
+ * the total goes through `totalOf` (by default counted: every matching event, so the service caches it).
+ */
+export async function listAuditEventsOfSite({ siteId, filter, totalOf = (count) => count() }: { siteId: string; filter: AuditFilter; totalOf?: TotalOf }) {
   const db = getDb();
   const where = and(
     eq(auditEvents.siteId, siteId),
@@ -67,7 +73,8 @@ export async function listAuditEventsOfSite({ siteId, filter }: { siteId: string
   );
   const pageSize = Math.min(Math.max(filter.pageSize ?? 50, 1), 500);
   const page = Math.max(filter.page ?? 1, 1);
-  const [items, [{ total }]] = await Promise.all([
+  const countAll = async () => (await db.select({ total: count() }).from(auditEvents).where(where))[0].total;
+  const [items, total] = await Promise.all([
     db
       .select()
       .from(auditEvents)
@@ -75,7 +82,7 @@ export async function listAuditEventsOfSite({ siteId, filter }: { siteId: string
       .orderBy(desc(auditEvents.seq))
       .limit(pageSize)
       .offset((page - 1) * pageSize),
-    db.select({ total: count() }).from(auditEvents).where(where),
+    totalOf(countAll),
   ]);
   return { items, total };
 }

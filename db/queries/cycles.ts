@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, count, desc, eq, gte, inArray, lte, ne, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { getDb, type Executor } from "@/db";
-import { containsText } from "./search";
+import { containsText, cycleIdsContaining, isIndexedSearch } from "./search";
 import {
   acceptanceProfiles,
   analyses,
@@ -48,17 +48,29 @@ const SORTS = {
 
 export type CycleSortKey = keyof typeof SORTS;
 
-function cycleListWhere(actor: Actor, filter: CycleFilter): SQL | undefined {
-  const conditions: Array<SQL | undefined> = [eq(cycles.siteId, siteOf(actor))];
+/**
+ * `bySterilizer`: the site is taken from the sterilizer (the unary + keeps SQLite off the cycles site indexes), so the
+ * page walks the site's sterilizers in name order and each one's cycles by start, instead of sorting every row.
+ */
+function cycleListWhere(actor: Actor, filter: CycleFilter, bySterilizer = false): SQL | undefined {
+  const site = bySterilizer ? and(eq(sterilizers.siteId, siteOf(actor)), sql`+${cycles.siteId} = ${siteOf(actor)}`) : eq(cycles.siteId, siteOf(actor));
+  const conditions: Array<SQL | undefined> = [site];
   if (filter.status) conditions.push(eq(cycles.status, filter.status));
   if (filter.verdict) conditions.push(eq(cycles.verdict, filter.verdict));
   if (filter.sterilizer) conditions.push(eq(cycles.sterilizerId, filter.sterilizer));
   if (filter.from) conditions.push(gte(cycles.startedAt, filter.from));
   if (filter.to) conditions.push(lte(cycles.startedAt, filter.to.length === 10 ? `${filter.to}T23:59:59.999Z` : filter.to));
-  if (filter.q) {
-    conditions.push(or(containsText(cycles.cycleNumber, filter.q), containsText(cycles.loadDescription, filter.q), containsText(sterilizers.name, filter.q)));
-  }
+  if (filter.q) conditions.push(cycleTextCondition(filter.q));
   return and(...conditions);
+}
+
+/**
+ * Number, load description or sterilizer name contains the text as typed: from the trigram index for three characters
+ * or more; a shorter text is compared row by row (LIKE), in the page's index order, which stops when the page is full.
+ */
+function cycleTextCondition(text: string): SQL | undefined {
+  if (isIndexedSearch(text)) return sql`${cycles.id} IN ${cycleIdsContaining(text)}`;
+  return or(containsText(cycles.cycleNumber, text), containsText(cycles.loadDescription, text), containsText(sterilizers.name, text));
 }
 
 /**
@@ -67,8 +79,14 @@ function cycleListWhere(actor: Actor, filter: CycleFilter): SQL | undefined {
  */
 function cycleListOrder(sort: { key: CycleSortKey; direction: "asc" | "desc" }): SQL[] {
   const by = sort.direction === "asc" ? asc : desc;
-  const columns = sort.key === "status" || sort.key === "verdict" ? [SORTS[sort.key], cycles.startedAt, cycles.id] : [SORTS[sort.key], cycles.id];
-  return columns.map((c) => by(c));
+  return sortColumns(sort.key).map((c) => by(c));
+}
+
+function sortColumns(key: CycleSortKey) {
+  if (key === "status" || key === "verdict") return [SORTS[key], cycles.startedAt, cycles.id];
+  // The site's sterilizers in name order (sterilizers_site_name_idx), each one's cycles by start (cycles_sterilizer_started_idx).
+  if (key === "sterilizer") return [sterilizers.name, sterilizers.id, cycles.startedAt, cycles.id];
+  return [SORTS[key], cycles.id];
 }
 
 /** One page of the actor's site's cycles (the total is countCycles, cached by the service). */
@@ -105,7 +123,7 @@ export async function listCycles({
     .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
     .innerJoin(acceptanceProfiles, eq(cycles.profileId, acceptanceProfiles.id))
     .innerJoin(creator, eq(cycles.createdBy, creator.id))
-    .where(cycleListWhere(actor, filter))
+    .where(cycleListWhere(actor, filter, sort.key === "sterilizer"))
     .orderBy(...cycleListOrder(sort))
     .limit(pageSize)
     .offset((page - 1) * pageSize);

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, desc, eq, gte, inArray, isNotNull, lte, ne, or, sql } from "drizzle-orm";
+import { and, count, desc, eq, gte, inArray, isNotNull, lte, ne, or, sql } from "drizzle-orm";
 import { getDb, type Executor } from "@/db";
 import { containsText } from "./search";
 import { analyses, auditEvents, cycles, loggerFiles, reports, signatures, sterilizers, users, type CycleStatus, type NewSignature } from "@/db/schema";
@@ -145,9 +145,24 @@ export async function findReportBySha256({ actor, sha256 }: { actor: Actor; sha2
   return row;
 }
 
-export async function listArchivedReports({ actor, q, from, to }: { actor: Actor; q?: string; from?: string; to?: string }) {
+export type ArchiveFilter = { q?: string; from?: string; to?: string };
+
+/** The site's archived reports matching the filter (LIKE over report, cycle, sterilizer and signer, walked newest first). */
+function archiveWhere(actor: Actor, { q, from, to }: ArchiveFilter) {
   const needle = q?.trim() || undefined;
-  return getDb()
+  return and(
+    // Unary + keeps SQLite from starting at the site's cycles: it walks reports newest first (reports_created_idx) instead of sorting them all.
+    sql`+${cycles.siteId} = ${actor.siteId ?? ""}`,
+    ne(cycles.status, "draft"),
+    needle ? or(containsText(reports.reportNumber, needle), containsText(cycles.cycleNumber, needle), containsText(sterilizers.name, needle), containsText(signatures.printedName, needle)) : undefined,
+    from ? gte(reports.createdAt, from) : undefined,
+    to ? lte(reports.createdAt, `${to}T23:59:59.999Z`) : undefined,
+  );
+}
+
+/** One page of the archive, newest report first (every matching report when no page is asked for). */
+export async function listArchivedReports({ actor, page, pageSize, ...filter }: { actor: Actor; page?: number; pageSize?: number } & ArchiveFilter) {
+  const query = getDb()
     .select({
       id: reports.id,
       reportNumber: reports.reportNumber,
@@ -165,19 +180,21 @@ export async function listArchivedReports({ actor, q, from, to }: { actor: Actor
     .innerJoin(cycles, eq(reports.cycleId, cycles.id))
     .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
     .leftJoin(signatures, eq(reports.signatureId, signatures.id))
-    .where(
-      and(
-        // Unary + keeps SQLite from starting at the site's cycles: it walks reports newest first (reports_created_idx) instead of sorting them all.
-        sql`+${cycles.siteId} = ${actor.siteId ?? ""}`,
-        ne(cycles.status, "draft"),
-        needle
-          ? or(containsText(reports.reportNumber, needle), containsText(cycles.cycleNumber, needle), containsText(sterilizers.name, needle), containsText(signatures.printedName, needle))
-          : undefined,
-        from ? gte(reports.createdAt, from) : undefined,
-        to ? lte(reports.createdAt, `${to}T23:59:59.999Z`) : undefined,
-      ),
-    )
+    .where(archiveWhere(actor, filter))
     .orderBy(desc(reports.createdAt));
+  return pageSize ? query.limit(pageSize).offset(((page ?? 1) - 1) * pageSize) : query;
+}
+
+/** How many archived reports match (the service caches it per filter). */
+export async function countArchivedReports({ actor, ...filter }: { actor: Actor } & ArchiveFilter): Promise<number> {
+  const [{ total }] = await getDb()
+    .select({ total: count() })
+    .from(reports)
+    .innerJoin(cycles, eq(reports.cycleId, cycles.id))
+    .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
+    .leftJoin(signatures, eq(reports.signatureId, signatures.id))
+    .where(archiveWhere(actor, filter));
+  return total;
 }
 
 /** One archived report of the actor's site, by its id. */

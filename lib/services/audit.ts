@@ -6,6 +6,7 @@ import { GENESIS_HASH } from "@/lib/integrity";
 import { anchorComparison, type LedgerAnchor, type LedgerHead } from "@/lib/integrity/anchors";
 import { readLedgerAnchors } from "./ledger-anchors";
 import { siteIdOf } from "./site";
+import { cachedTotal } from "./list-totals";
 
 type ChainState = { ok: boolean; events: number; firstBrokenAt?: number; problem?: string };
 type Row = { seq: number; hash: string };
@@ -85,7 +86,9 @@ export async function verifyLedger(): Promise<LedgerVerification> {
 
 /** The actor's site's events, newest first, filtered. */
 export async function listAuditEvents({ actor, filter }: { actor: Actor; filter: AuditFilter }) {
-  return listAuditEventsOfSite({ siteId: siteIdOf(actor, "audit ledger"), filter });
+  const siteId = siteIdOf(actor, "audit ledger");
+  const { page: _page, pageSize: _pageSize, ...counted } = filter;
+  return listAuditEventsOfSite({ siteId, filter, totalOf: (count) => cachedTotal({ list: "audit", siteId, filter: counted, count }) });
 }
 
 /** The ledger page: the chain's state against its anchors and one page of the site's events. */

@@ -71,8 +71,29 @@ describe("cycle list plans", () => {
     [{}, { key: "status", direction: "asc" }],
     [{}, { key: "verdict", direction: "desc" }],
     [{}, { key: "submittedAt", direction: "desc" }],
+    [{}, { key: "sterilizer", direction: "asc" }],
+    [{ status: "approved" }, { key: "sterilizer", direction: "desc" }],
   ] as const)("filter %j, sort %j: no sort of every row", async (filter, sort) => {
     expectIndexed(await page(filter, sort), "cycles");
+  });
+
+  it("sorts by sterilizer name walking the site's sterilizers by name, then each one's cycles by start", async () => {
+    const lines = await page({}, { key: "sterilizer", direction: "asc" });
+    expect(lines.join("\n")).toMatch(/sterilizers_site_name_idx/);
+    expect(lines.join("\n")).toMatch(/cycles_sterilizer_started_idx/);
+  });
+
+  it.each([
+    [{ q: "autoclave" }, { key: "startedAt", direction: "desc" }],
+    [{ q: "50%_x" }, { key: "sterilizer", direction: "asc" }],
+    [
+      { q: "BD-2024", status: "approved" },
+      { key: "cycleNumber", direction: "asc" },
+    ],
+  ] as const)("search %j, sort %j: the text is looked up in the trigram index, never in every cycle", async (filter, sort) => {
+    const lines = await page(filter, sort);
+    expect(lines.join("\n")).toMatch(/SCAN cycles_search VIRTUAL TABLE INDEX/);
+    expect(lines.filter((l) => /^SCAN cycles\b/.test(l))).toEqual([]);
   });
 });
 
@@ -89,6 +110,16 @@ describe("archive and audit ledger plans", () => {
     const { listAuditEventsOfSite } = await import("@/db/queries/audit");
     const lines = await plansOf(() => listAuditEventsOfSite({ siteId: "site-1", filter }));
     expectIndexed(lines, "audit_events");
+  });
+});
+
+describe("archive page plans", () => {
+  it("reads an archive page newest report first from an index, with the count kept off a scan of cycles", async () => {
+    const { listArchivedReports, countArchivedReports } = await import("@/db/queries/reviews");
+    const lines = await plansOf(() => listArchivedReports({ actor: actor as never, q: "BD", page: 2, pageSize: 50 }));
+    expect(lines.join("\n")).not.toMatch(/TEMP B-TREE/);
+    const counted = await plansOf(() => countArchivedReports({ actor: actor as never, q: "BD" }));
+    expect(counted.filter((l) => /^SCAN cycles\b/.test(l))).toEqual([]);
   });
 });
 

@@ -1,6 +1,7 @@
 // List totals are counted once per site and filter and reused until the audit ledger moves on
 // (every change to a record appends an event), so a page does not count every row each time (issue 12).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { InStatement } from "@libsql/client";
 import { useTemporaryDatabase } from "../support/test-db";
 
 let ctx: Awaited<ReturnType<typeof useTemporaryDatabase>>;
@@ -23,5 +24,41 @@ describe("cached list totals", () => {
     await recordAuditEvent({ action: "cycle.create", entityType: "cycle", entityId: "c1", siteId: "site-1" });
     expect(await ask({ status: "submitted" })).toBe(4);
     expect(await ask({ status: "submitted" })).toBe(4);
+  });
+});
+
+describe("totals of the audit ledger and the archive", () => {
+  const auditor = { id: "u1", email: "t@example.test", name: "T", role: "auditor" as const, siteId: "site-1" };
+  /** How many COUNT statements `run` sends (captured at the client). */
+  async function countsSent(run: () => Promise<unknown>): Promise<number> {
+    const client = (globalThis as unknown as { __papinDb: { client: { execute: (s: InStatement) => Promise<unknown> } } }).__papinDb.client;
+    const execute = client.execute;
+    let n = 0;
+    client.execute = (stmt: InStatement) => {
+      if (typeof stmt === "object" && /\bcount\(/i.test(stmt.sql)) n++;
+      return execute.call(client, stmt);
+    };
+    try {
+      await run();
+    } finally {
+      client.execute = execute;
+    }
+    return n;
+  }
+
+  it("counts each once per filter, not per page, and again once the ledger gains an event", async () => {
+    const { listAuditEvents } = await import("@/lib/services/audit");
+    const { getArchivePage } = await import("@/lib/services/archive");
+    const { recordAuditEvent } = await import("@/db/queries/audit");
+    const audit = (filter: object) => countsSent(() => listAuditEvents({ actor: auditor, filter }));
+    const archive = (filter: object) => countsSent(() => getArchivePage({ actor: auditor, ...filter }));
+    expect(await audit({ action: "cycle.create", page: 1 })).toBe(1);
+    expect(await audit({ action: "cycle.create", page: 2, pageSize: 20 })).toBe(0);
+    expect(await audit({ action: "sign-in", page: 1 })).toBe(1);
+    expect(await archive({ q: "BD-1", page: 1 })).toBe(1);
+    expect(await archive({ q: "BD-1", page: 3 })).toBe(0);
+    await recordAuditEvent({ action: "cycle.create", entityType: "cycle", entityId: "c1", siteId: "site-1" });
+    expect(await audit({ action: "cycle.create", page: 2 })).toBe(1);
+    expect(await archive({ q: "BD-1", page: 1 })).toBe(1);
   });
 });

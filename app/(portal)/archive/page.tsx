@@ -8,16 +8,20 @@ import { formatBytes, formatDateTime } from "@/lib/format";
 
 export const metadata = { title: "Signed archive" };
 
-export default async function ArchivePage({ searchParams }: { searchParams: Promise<{ q?: string; from?: string; to?: string }> }) {
+export default async function ArchivePage({ searchParams }: { searchParams: Promise<{ q?: string; from?: string; to?: string; page?: string }> }) {
   const actor = await requirePageActor();
-  const { q, from, to } = await searchParams;
-  const { rows, timeZone: tz, mayList: canList } = await getArchivePage({ actor, q, from, to });
+  const s = await searchParams;
+  const { q, from, to } = s;
+  const page = Math.max(Math.floor(Number(s.page ?? 1)) || 1, 1);
+  const { rows, total, pageSize, timeZone: tz, mayList: canList } = await getArchivePage({ actor, q, from, to, page });
+  const pages = Math.max(Math.ceil(total / pageSize), 1);
+  const link = (p: number) => `/archive?${new URLSearchParams({ ...Object.fromEntries(Object.entries({ q, from, to }).filter(([, v]) => v) as [string, string][]), page: String(p) })}`;
   return (
     <>
       <PageHeader title="Signed archive" subtitle="Approved reports as they were archived at signing; later software changes never re-render them." />
       <div className="grid gap-gutter xl:grid-cols-[1fr_24rem]">
         {canList ? (
-          <Panel title={`${rows.length} archived report${rows.length === 1 ? "" : "s"}`}>
+          <Panel title={`${total} archived report${total === 1 ? "" : "s"}`}>
             <form className="mb-4 flex flex-wrap items-end gap-2" role="search">
               <div>
                 <label htmlFor="q" className="field-label">
@@ -86,6 +90,23 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
                   </tbody>
                 </table>
               </div>
+            )}
+            {pages > 1 && (
+              <nav aria-label="Pages" className="mt-3 flex items-center gap-3 text-sm">
+                {page > 1 && (
+                  <Link className="text-steam-700 underline" href={link(page - 1)}>
+                    ← Newer
+                  </Link>
+                )}
+                <span className="text-ink-muted">
+                  Page {page} of {pages}
+                </span>
+                {page < pages && (
+                  <Link className="text-steam-700 underline" href={link(page + 1)}>
+                    Older →
+                  </Link>
+                )}
+              </nav>
             )}
           </Panel>
         ) : (
