@@ -45,6 +45,8 @@ export const pagesOf = (role: DemoRole) => PORTAL_PAGES.filter((p) => !p.permiss
 export async function resolvePath(page: Page, entry: PortalPage): Promise<string> {
   if (!entry.detail) return entry.path;
   await page.goto(entry.detail.list);
+  // Some lists (the cycles) load their rows after the page: wait until nothing is in flight.
+  await page.waitForLoadState("networkidle");
   const hrefs = await page.locator("a[href]").evaluateAll((links) => links.map((a) => a.getAttribute("href") ?? ""));
   const href = hrefs.find((h) => entry.detail!.link.test(h));
   if (!href) throw new Error(`No link to ${entry.path} on ${entry.detail.list}`);

@@ -5,6 +5,7 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { VerdictBadge } from "@/components/ui/badge";
 import { VerifyReport } from "@/components/archive/verify-report";
 import { formatBytes, formatDateTime } from "@/lib/format";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Signed archive" };
 
@@ -15,7 +16,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
   return (
     <>
       <PageHeader title="Signed archive" subtitle="Approved reports as they were archived at signing; later software changes never re-render them." />
-      <div className="grid gap-gutter xl:grid-cols-[1fr_24rem]">
+      <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_24rem]">
         {canList ? (
           <Panel title={`${rows.length} archived report${rows.length === 1 ? "" : "s"}`}>
             <form className="mb-4 flex flex-wrap items-end gap-2" role="search">
@@ -42,7 +43,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
             {rows.length === 0 ? (
               <EmptyState title="No archived report matches.">Reports are archived when an engineer approves a cycle.</EmptyState>
             ) : (
-              <div className="overflow-x-auto">
+              <TableFrame label="Archived reports">
                 <table className="data-table" data-testid="archive-table">
                   <thead>
                     <tr>
@@ -85,7 +86,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
                     ))}
                   </tbody>
                 </table>
-              </div>
+              </TableFrame>
             )}
           </Panel>
         ) : (
