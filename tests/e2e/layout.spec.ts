@@ -78,3 +78,23 @@ test("the public pages fit the screen at 390, 768 and 1440 px signed out", async
     for (const path of PUBLIC_PAGES) await checkPage(page, "public", size.width, path, path);
   }
 });
+
+test("on a phone the navigation folds into a menu button that the keyboard opens and Escape closes", async ({ page }) => {
+  await page.setViewportSize(SIZES[0]);
+  await signIn(page, "technician");
+  const menu = page.getByRole("button", { name: "Menu" });
+  const cycles = page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Cycles", exact: true });
+  await expect(menu).toHaveAttribute("aria-expanded", "false");
+  await expect(cycles).toBeHidden();
+  await menu.focus();
+  await page.keyboard.press("Enter");
+  await expect(menu).toHaveAttribute("aria-expanded", "true");
+  await expect(cycles).toBeVisible();
+  await page.keyboard.press("Escape");
+  await expect(menu).toHaveAttribute("aria-expanded", "false");
+  await expect(menu).toBeFocused();
+  await menu.click();
+  await cycles.click();
+  await expect(page).toHaveURL(/\/cycles$/);
+  await expect(menu).toHaveAttribute("aria-expanded", "false");
+});

@@ -94,7 +94,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
             <p className="text-sm text-ink-muted">Your role can check a report against the archive but not browse it.</p>
           </Panel>
         )}
-        <div id="verify">
+        <div id="verify" className="min-w-0">
           <Panel title="Check a report">
             <VerifyReport />
           </Panel>

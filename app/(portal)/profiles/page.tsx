@@ -25,7 +25,7 @@ export default async function ProfilesPage() {
         }
       />
       <div className={`grid gap-gutter ${manage ? "2xl:grid-cols-[minmax(0,1fr)_26rem]" : ""}`}>
-        <div className="space-y-gutter">
+        <div className="min-w-0 space-y-gutter">
           <Panel title={`${active.length} profile${active.length === 1 ? "" : "s"} in use`}>
             {active.length === 0 ? <EmptyState title="No acceptance profile yet." /> : <ProfileTable rows={active} />}
           </Panel>

@@ -15,7 +15,7 @@ export default async function UsersPage() {
   return (
     <>
       <PageHeader title="Users" subtitle="Accounts, roles and access. New accounts and password resets get a one-time password, shown once. Every change is written to the audit ledger." />
-      <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_22rem]">
+      <div className="grid gap-gutter">
         <Panel title={`${rows.length} accounts`}>
           <TableFrame label="Accounts">
             <table className="data-table" data-testid="users-table">
@@ -55,7 +55,7 @@ export default async function UsersPage() {
             </table>
           </TableFrame>
         </Panel>
-        <Panel title="Add a user">
+        <Panel title="Add a user" className="max-w-xl">
           <CreateUserForm />
         </Panel>
       </div>

@@ -32,7 +32,7 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
         }
       />
       <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[minmax(0,1fr)_24rem]" : ""}`}>
-        <div className="space-y-gutter">
+        <div className="min-w-0 space-y-gutter">
           <Panel title="Calibration" action={<CalibrationBadge state={calibration.state} daysLeft={calibration.daysLeft} dueOn={latest?.dueOn} />}>
             {certificates.length === 0 ? (
               <EmptyState title="No calibration certificate recorded.">Cycles measured with this instrument cannot be shown as traceable until one is recorded.</EmptyState>

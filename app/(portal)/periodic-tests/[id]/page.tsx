@@ -100,7 +100,7 @@ export default async function PeriodicTestRecordPage({ params }: { params: Promi
           </Panel>
         </div>
 
-        <aside className="space-y-gutter" aria-label="Review">
+        <aside className="min-w-0 space-y-gutter" aria-label="Review">
           <Panel title="Review">
             <p className="mb-3 text-sm text-ink-soft">{STATUS_TEXT[record.status]}</p>
             {record.maySign &&

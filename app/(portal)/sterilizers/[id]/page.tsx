@@ -78,7 +78,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
         }
       />
       <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_24rem]">
-        <div className="space-y-gutter">
+        <div className="min-w-0 space-y-gutter">
           <Panel title={`Trends over the last ${trendDays} days`}>
             <div className="mb-4 flex flex-wrap items-end gap-6">
               <div>
