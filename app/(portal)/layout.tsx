@@ -5,6 +5,7 @@ import { ROLE_LABELS } from "@/lib/domain";
 import { NAV_ITEMS } from "@/components/shell/navigation";
 import { NavLinks } from "@/components/shell/nav-links";
 import { SignOutButton } from "@/components/shell/sign-out-button";
+import { AccountLinks, MobileNav } from "@/components/shell/mobile-nav";
 import { SessionActivity } from "@/components/shell/session-activity";
 import { SafetyNotice } from "@/components/shell/safety-notice";
 import { PapinMark } from "@/components/ui/papin-mark";
@@ -29,34 +30,24 @@ export default async function PortalLayout({ children }: { children: React.React
           </Link>
           <NavLinks items={items} />
           <div className="mt-auto border-t border-ink-line px-3 pt-4 text-sm">
-            <p className="font-medium" data-testid="signed-in-name">
-              {user.name}
-            </p>
-            <p className="text-xs text-ink-muted" data-testid="signed-in-role">
-              {ROLE_LABELS[user.role]}
-            </p>
-            <p className="mt-2 flex gap-3">
-              <Link href="/account/password" className="text-xs font-medium text-steam-700 underline underline-offset-2">
-                Change password
-              </Link>
+            <AccountLinks name={user.name} role={ROLE_LABELS[user.role]} testIds>
               <SignOutButton />
-            </p>
+            </AccountLinks>
           </div>
         </aside>
         <div className="flex min-w-0 flex-1 flex-col">
-          <header className="border-b border-ink-line bg-paper-raised px-gutter py-2 md:hidden">
-            <div className="flex items-center justify-between">
-              <Link href="/" className="flex items-center gap-2">
-                <PapinMark className="h-6 w-6" /> <span className="font-semibold">Papin</span>
-              </Link>
-              <SignOutButton />
-            </div>
-            <details className="mt-1">
-              <summary className="cursor-pointer text-sm text-ink-soft">Menu · {user.name}</summary>
-              <div className="py-2">
-                <NavLinks items={items} />
-              </div>
-            </details>
+          <header className="relative flex items-center justify-between gap-3 border-b border-ink-line bg-paper-raised px-gutter py-2 md:hidden">
+            <Link href="/" className="flex items-center gap-2 py-1">
+              <PapinMark className="h-6 w-6" /> <span className="font-semibold">Papin</span>
+            </Link>
+            <MobileNav
+              items={items}
+              account={
+                <AccountLinks name={user.name} role={ROLE_LABELS[user.role]}>
+                  <SignOutButton />
+                </AccountLinks>
+              }
+            />
           </header>
           {demoEnabled() && <div className="border-b border-brass-100 bg-brass-50 px-gutter py-1 text-xs text-brass-700">Demo site: fictional sterilizers, people and cycles.</div>}
           <main id="content" className="flex-1 px-gutter py-6 lg:px-8">

@@ -3,6 +3,7 @@ import { EmptyState, Panel } from "@/components/ui/panel";
 import { ResultBadge } from "@/components/equipment/state-badges";
 import { formatDateTime } from "@/lib/format";
 import { testKindLabel } from "@/lib/domain";
+import { TableFrame } from "@/components/ui/table-frame";
 
 type Row = { id: string; kind: string; performedAt: string; result: "pass" | "fail"; sterilizerName: string; performedBy: string; performedByName: string };
 
@@ -14,7 +15,7 @@ export function PeriodicReviewList({ records, timeZone, actorId }: { records: Ro
         {records.length === 0 ? (
           <EmptyState title="No periodic-test record waits for review." />
         ) : (
-          <div className="overflow-x-auto">
+          <TableFrame label="Periodic tests awaiting review">
             <table className="data-table" data-testid="periodic-review-table">
               <caption className="sr-only">Periodic-test records awaiting review</caption>
               <thead>
@@ -47,7 +48,7 @@ export function PeriodicReviewList({ records, timeZone, actorId }: { records: Ro
                 ))}
               </tbody>
             </table>
-          </div>
+          </TableFrame>
         )}
       </Panel>
     </div>

@@ -3,7 +3,8 @@
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 
-export function NavLinks({ items }: { items: Array<{ href: string; label: string }> }) {
+/** The main links; `large` gives them finger-sized rows for the phone menu. */
+export function NavLinks({ items, large = false }: { items: Array<{ href: string; label: string }>; large?: boolean }) {
   const pathname = usePathname();
   return (
     <nav aria-label="Main" className="flex flex-col gap-0.5">
@@ -16,7 +17,7 @@ export function NavLinks({ items }: { items: Array<{ href: string; label: string
             key={item.href}
             href={item.href}
             aria-current={on ? "page" : undefined}
-            className={`rounded-md px-3 py-1.5 text-sm ${on ? "bg-steam-50 font-medium text-steam-700" : "text-ink-soft hover:bg-paper-sunk"}`}
+            className={`rounded-md px-3 ${large ? "py-2.5" : "py-1.5"} text-sm ${on ? "bg-steam-50 font-medium text-steam-700" : "text-ink-soft hover:bg-paper-sunk"}`}
           >
             {item.label}
           </Link>

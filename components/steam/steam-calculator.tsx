@@ -7,6 +7,7 @@ import { formatPressure, formatTemperature, PRESSURE_UNITS, TEMPERATURE_UNIT_SYM
 import { fetchJson, type RequestError } from "@/lib/client/fetch-json";
 import { Panel } from "@/components/ui/panel";
 import { bandEdgePressures } from "./band-edges";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export type SiteAtmosphere = {
   siteName: string | null;
@@ -291,7 +292,7 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
           Saturated steam at each band&apos;s lower and upper temperature (sterilization temperature to +3 K). Gauge figures use{" "}
           {atmosphere.kpa !== null ? <span className="mono">{formatPressure(atmosphere.kpa, { digits: 3 })}</span> : "the atmosphere above, once it is valid"}.
         </p>
-        <div className="overflow-x-auto">
+        <TableFrame label="Band edge pressures">
           <table className="data-table" data-testid="band-table">
             <thead>
               <tr>
@@ -318,7 +319,7 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
               ))}
             </tbody>
           </table>
-        </div>
+        </TableFrame>
       </Panel>
     </div>
   );
@@ -326,7 +327,7 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
 
 function PressureTable({ answer }: { answer: SaturationAnswer }) {
   return (
-    <div className="mt-3 overflow-x-auto">
+    <TableFrame label="Saturation pressure" className="mt-3">
       <table className="data-table">
         <thead>
           <tr>
@@ -345,6 +346,6 @@ function PressureTable({ answer }: { answer: SaturationAnswer }) {
           ))}
         </tbody>
       </table>
-    </div>
+    </TableFrame>
   );
 }

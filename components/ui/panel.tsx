@@ -4,8 +4,8 @@ export function Panel({ title, action, children, className = "" }: { title?: Rea
   return (
     <section className={`panel ${className}`}>
       {(title || action) && (
-        <header className="flex items-center justify-between gap-4 border-b border-ink-line px-panel py-3">
-          {title && <h2 className="text-base font-semibold">{title}</h2>}
+        <header className="flex flex-wrap items-center justify-between gap-x-4 gap-y-2 border-b border-ink-line px-panel py-3">
+          {title && <h2 className="min-w-0 text-base font-semibold break-words">{title}</h2>}
           {action}
         </header>
       )}
@@ -26,11 +26,11 @@ export function EmptyState({ title, children }: { title: string; children?: Reac
 export function PageHeader({ title, subtitle, actions }: { title: string; subtitle?: ReactNode; actions?: ReactNode }) {
   return (
     <div className="mb-6 flex flex-wrap items-end justify-between gap-4">
-      <div>
+      <div className="min-w-0">
         <h1>{title}</h1>
         {subtitle && <p className="mt-1 text-sm text-ink-muted">{subtitle}</p>}
       </div>
-      {actions && <div className="flex gap-2">{actions}</div>}
+      {actions && <div className="flex flex-wrap gap-2">{actions}</div>}
     </div>
   );
 }

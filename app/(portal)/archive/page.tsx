@@ -5,6 +5,7 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { VerdictBadge } from "@/components/ui/badge";
 import { VerifyReport } from "@/components/archive/verify-report";
 import { formatBytes, formatDateTime } from "@/lib/format";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Signed archive" };
 
@@ -19,7 +20,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
   return (
     <>
       <PageHeader title="Signed archive" subtitle="Approved reports as they were archived at signing; later software changes never re-render them." />
-      <div className="grid gap-gutter xl:grid-cols-[1fr_24rem]">
+      <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_24rem]">
         {canList ? (
           <Panel title={`${total} archived report${total === 1 ? "" : "s"}`}>
             <form className="mb-4 flex flex-wrap items-end gap-2" role="search">
@@ -46,7 +47,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
             {rows.length === 0 ? (
               <EmptyState title="No archived report matches.">Reports are archived when an engineer approves a cycle.</EmptyState>
             ) : (
-              <div className="overflow-x-auto">
+              <TableFrame label="Archived reports">
                 <table className="data-table" data-testid="archive-table">
                   <thead>
                     <tr>
@@ -89,7 +90,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
                     ))}
                   </tbody>
                 </table>
-              </div>
+              </TableFrame>
             )}
             {pages > 1 && (
               <nav aria-label="Pages" className="mt-3 flex items-center gap-3 text-sm">
@@ -114,7 +115,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
             <p className="text-sm text-ink-muted">Your role can check a report against the archive but not browse it.</p>
           </Panel>
         )}
-        <div id="verify">
+        <div id="verify" className="min-w-0">
           <Panel title="Check a report">
             <VerifyReport />
           </Panel>

@@ -7,6 +7,7 @@ import { CalibrationBadge } from "@/components/equipment/state-badges";
 import { InstrumentForm } from "@/components/equipment/instrument-forms";
 import { formatDate } from "@/lib/format";
 import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/lib/domain";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Instruments" };
 
@@ -19,12 +20,12 @@ export default async function InstrumentsPage() {
         title="Instruments and calibration"
         subtitle="Independent loggers and sensors used for test cycles, with the calibration certificate in force. A test measured with an uncalibrated instrument is not evidence."
       />
-      <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[1fr_22rem]" : ""}`}>
+      <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[minmax(0,1fr)_22rem]" : ""}`}>
         <Panel title={`${rows.length} instrument${rows.length === 1 ? "" : "s"}${attention ? ` · ${attention} need${attention === 1 ? "s" : ""} attention` : ""}`}>
           {rows.length === 0 ? (
             <EmptyState title="No instrument registered yet." />
           ) : (
-            <div className="overflow-x-auto">
+            <TableFrame label="Instruments">
               <table className="data-table" data-testid="instruments-table">
                 <thead>
                   <tr>
@@ -68,7 +69,7 @@ export default async function InstrumentsPage() {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </TableFrame>
           )}
           <p className="mt-3 text-xs text-ink-muted">
             ✓ valid · ▲ due within 30 days · ✕ overdue or no certificate. Test instruments are checked at least yearly against traceable references (SHTM 2010 Part 3, common practice).

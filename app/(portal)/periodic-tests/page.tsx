@@ -8,6 +8,7 @@ import { keyFigure, measurementRows } from "@/components/periodic-tests/summary"
 import { formatDate, formatDateTime } from "@/lib/format";
 import { isRecordable, PERIODIC_RECORD_STATUS_LABELS, PERIODIC_RECORD_STATUSES, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
 import { PeriodicStatusBadge } from "@/components/periodic-tests/status-badge";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Periodic tests" };
 
@@ -59,7 +60,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
           {rows.length === 0 ? (
             <EmptyState title="No sterilizer has a test schedule yet.">An engineer sets the schedule on each sterilizer&apos;s page.</EmptyState>
           ) : (
-            <div className="overflow-x-auto">
+            <TableFrame label="Test schedule">
               <table className="data-table" data-testid="schedule-table">
                 <thead>
                   <tr>
@@ -120,7 +121,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                   )}
                 </tbody>
               </table>
-            </div>
+            </TableFrame>
           )}
           <p className="mt-2 text-xs text-ink-muted">
             Dates in {timeZone}. The next test is due one interval after the last pass; a failure after it needs a repeat before the sterilizer is used. Thermometric tests are logged cycles and count
@@ -201,7 +202,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
           {history.items.length === 0 ? (
             <EmptyState title="No recorded test matches these filters." />
           ) : (
-            <div className="overflow-x-auto">
+            <TableFrame label="Test history">
               <table className="data-table" data-testid="history-table">
                 <thead>
                   <tr>
@@ -234,7 +235,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                         {keyFigure(t.kind, t.measurements)}
                         <details className="mt-1">
                           <summary className="cursor-pointer text-xs text-steam-700">Readings and notes</summary>
-                          <dl className="mt-1 grid grid-cols-[12rem_1fr] gap-x-2 text-xs">
+                          <dl className="mt-1 grid grid-cols-1 sm:grid-cols-[12rem_minmax(0,1fr)] gap-x-2 text-xs">
                             {measurementRows(t.measurements).map(([k, v], i) => (
                               <div key={`${k}-${i}`} className="contents">
                                 <dt className="text-ink-muted">{k}</dt>
@@ -255,7 +256,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                   ))}
                 </tbody>
               </table>
-            </div>
+            </TableFrame>
           )}
           {pages > 1 && (
             <nav className="mt-3 flex items-center gap-3 text-sm" aria-label="Pages">

@@ -6,6 +6,7 @@ import { Badge } from "@/components/ui/badge";
 import { ProfileForm } from "@/components/equipment/profile-form";
 import { formatDate } from "@/lib/format";
 import { describeBasis, formatDuration } from "@/lib/domain";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Acceptance profiles" };
 
@@ -23,8 +24,8 @@ export default async function ProfilesPage() {
           </Link>
         }
       />
-      <div className={`grid gap-gutter ${manage ? "2xl:grid-cols-[1fr_26rem]" : ""}`}>
-        <div className="space-y-gutter">
+      <div className={`grid gap-gutter ${manage ? "2xl:grid-cols-[minmax(0,1fr)_26rem]" : ""}`}>
+        <div className="min-w-0 space-y-gutter">
           <Panel title={`${active.length} profile${active.length === 1 ? "" : "s"} in use`}>
             {active.length === 0 ? <EmptyState title="No acceptance profile yet." /> : <ProfileTable rows={active} />}
           </Panel>
@@ -47,7 +48,7 @@ export default async function ProfilesPage() {
 
 function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof getProfilesPage>>["active"] }) {
   return (
-    <div className="overflow-x-auto">
+    <TableFrame label="Acceptance profiles">
       <table className="data-table" data-testid="profiles-table">
         <thead>
           <tr>
@@ -97,6 +98,6 @@ function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof getProfilesPag
           ))}
         </tbody>
       </table>
-    </div>
+    </TableFrame>
   );
 }

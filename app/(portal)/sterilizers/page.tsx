@@ -7,6 +7,7 @@ import { SterilizerForm } from "@/components/equipment/sterilizer-form";
 import { SterilizerStatusLine } from "@/components/equipment/sterilizer-status";
 import { formatDateTime } from "@/lib/format";
 import { testKindLabel } from "@/lib/domain";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Sterilizers" };
 
@@ -29,12 +30,12 @@ export default async function SterilizersPage() {
           </>
         }
       />
-      <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[1fr_22rem]" : ""}`}>
+      <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[minmax(0,1fr)_22rem]" : ""}`}>
         <Panel title={`${rows.length} sterilizer${rows.length === 1 ? "" : "s"}`}>
           {rows.length === 0 ? (
             <EmptyState title="No sterilizer is registered for this site yet.">{manage ? "Add the first one with the form beside this list." : "An engineer adds sterilizers."}</EmptyState>
           ) : (
-            <div className="overflow-x-auto">
+            <TableFrame label="Sterilizers">
               <table className="data-table" data-testid="sterilizers-table">
                 <thead>
                   <tr>
@@ -116,7 +117,7 @@ export default async function SterilizersPage() {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </TableFrame>
           )}
         </Panel>
         {manage && (

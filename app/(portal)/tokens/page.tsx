@@ -5,6 +5,7 @@ import { listApiTokens } from "@/lib/services/api-tokens";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { IssueTokenForm, RevokeTokenForm } from "@/components/tokens/token-forms";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "API tokens" };
 
@@ -23,12 +24,12 @@ export default async function TokensPage() {
         title="API tokens"
         subtitle={`Tokens let a logger gateway upload cycles without a person signing in. A token is accepted only on ${API_TOKEN_ROUTES.join(", ")}; each use is written to the audit ledger.`}
       />
-      <div className="grid gap-gutter xl:grid-cols-[1fr_22rem]">
+      <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_22rem]">
         <Panel title={`${tokens.length} token${tokens.length === 1 ? "" : "s"}`}>
           {tokens.length === 0 ? (
             <EmptyState title="No API token has been issued for this site.">Issue one with the form beside this list.</EmptyState>
           ) : (
-            <div className="overflow-x-auto">
+            <TableFrame label="API tokens">
               <table className="data-table" data-testid="tokens-table">
                 <thead>
                   <tr>
@@ -73,7 +74,7 @@ export default async function TokensPage() {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </TableFrame>
           )}
         </Panel>
         <Panel title="Issue a token">

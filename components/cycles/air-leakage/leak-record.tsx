@@ -2,6 +2,7 @@ import type { AirLeakageResult } from "@/lib/cycles/contracts";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
 import { formatDuration, formatLeakRate, formatPressure } from "@/lib/domain";
 import { ChecksTableFrame } from "@/components/cycles/record/record-tables";
+import { TableFrame } from "@/components/ui/table-frame";
 
 const SOURCE_WORDS = { detected: "found in the trace", marked: "marked by the user", timed: "by the standard's timing" } as const;
 
@@ -67,7 +68,7 @@ export function AirLeakageTable({ analysis: a, startedAt, timeZone }: TableProps
   ];
   return (
     <div className="space-y-4">
-      <div className="overflow-x-auto">
+      <TableFrame label="Air leakage readings">
         <table className="data-table" data-testid="leak-table">
           <caption className="sr-only">The air leakage test&apos;s three readings</caption>
           <thead>
@@ -91,7 +92,7 @@ export function AirLeakageTable({ analysis: a, startedAt, timeZone }: TableProps
             ))}
           </tbody>
         </table>
-      </div>
+      </TableFrame>
       <ChecksTableFrame caption="Checks of the air leakage test">
         {a.checks.map((c) => (
           <tr key={c.id}>
@@ -126,7 +127,7 @@ export function AirLeakageFigures({ analysis: a }: { analysis: AirLeakageResult 
     ["Pressure column", a.pressureChannel],
   ];
   return (
-    <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1.5 text-sm" data-testid="leak-figures">
+    <dl className="grid grid-cols-[auto_minmax(0,1fr)] gap-x-3 gap-y-1.5 text-sm" data-testid="leak-figures">
       {rows.map(([label, value]) => (
         <div key={label} className="contents">
           <dt className="text-ink-muted">{label}</dt>

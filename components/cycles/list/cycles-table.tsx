@@ -13,6 +13,7 @@ import { EmptyState } from "@/components/ui/panel";
 import { ListSkeletonRows } from "./list-skeleton";
 import { PAGE_SIZES, apiListQuery, exportListQuery, hasFilters, readListQuery, writeListQuery, type CycleListQuery } from "./list-query";
 import { CYCLE_STATUS_LABELS, CYCLE_STATUSES, testKindLabel } from "@/lib/domain";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export type SterilizerOption = { id: string; name: string };
 
@@ -254,7 +255,7 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
             </a>
           )}
         </div>
-        <div className="overflow-x-auto">
+        <TableFrame label="Cycles">
           <table className="data-table" data-testid="cycles-table">
             <caption className="sr-only">{caption}</caption>
             <thead>
@@ -302,7 +303,7 @@ export function CyclesTable({ sterilizers, timeZone, fixed = {}, defaultSort, em
               )}
             </tbody>
           </table>
-        </div>
+        </TableFrame>
         {error && (
           <div className="border-t border-ink-line px-panel py-4 text-sm text-fail-700" role="alert">
             {error.status === 401 ? "Your session has ended; sign in again to see the list." : error.message}{" "}

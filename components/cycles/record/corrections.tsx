@@ -3,12 +3,13 @@ import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
 import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { formatDateTime } from "@/lib/format";
+import { TableFrame } from "@/components/ui/table-frame";
 
 /** Every analysis of the cycle, newest first: when, who, why, the verdict, and beneath it the file read (name and SHA-256). */
 export function AnalysisHistory({ history, currentId, timeZone }: { history: CycleDetail["analysisHistory"]; currentId: string | null; timeZone: string }) {
   if (history.length === 0) return <EmptyState title="Not analysed yet" />;
   return (
-    <div className="overflow-x-auto">
+    <TableFrame label="Analysis history">
       <table className="data-table" data-testid="analysis-history">
         <thead>
           <tr>
@@ -44,7 +45,7 @@ export function AnalysisHistory({ history, currentId, timeZone }: { history: Cyc
           </tbody>
         ))}
       </table>
-    </div>
+    </TableFrame>
   );
 }
 
@@ -97,7 +98,7 @@ export function InstrumentEvidence({ instrument }: { instrument: CycleDetail["in
   if (!instrument) return <p className="text-sm text-caution-700">No instrument named: a thermometric or air leakage test cannot be approved without it.</p>;
   const c = instrument.calibration;
   return (
-    <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm" data-testid="instrument-evidence">
+    <dl className="grid grid-cols-[auto_minmax(0,1fr)] gap-x-3 gap-y-1 text-sm" data-testid="instrument-evidence">
       <dt className="text-ink-muted">Instrument</dt>
       <dd>{instrument.name}</dd>
       <dt className="text-ink-muted">Serial</dt>

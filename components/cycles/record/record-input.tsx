@@ -1,6 +1,7 @@
 import type { AnalysisResult } from "@/lib/analysis/types";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
 import { gapLines, recordInputRows } from "@/lib/cycles/record-input";
+import { TableFrame } from "@/components/ui/table-frame";
 
 /** What the record brings and how it was read: sampling, gaps with their times, missing readings, pressure reference, atmosphere. */
 export function RecordInput({ analysis, startedAt, timeZone }: { analysis: AnalysisResult; startedAt: string | null; timeZone: string }) {
@@ -25,7 +26,7 @@ export function RecordInput({ analysis, startedAt, timeZone }: { analysis: Analy
         ))}
       </dl>
       {gaps.length > 0 && (
-        <div className="mt-3 overflow-x-auto">
+        <TableFrame label="Gaps in the plateau" className="mt-3">
           <table className="data-table" data-testid="gap-table">
             <caption className="sr-only">Gaps inside the plateau period</caption>
             <thead>
@@ -50,7 +51,7 @@ export function RecordInput({ analysis, startedAt, timeZone }: { analysis: Analy
             </tbody>
           </table>
           {startedAt && <p className="mt-1 text-2xs text-ink-faint">Elapsed time since the first sample · clock time at the site ({timeZone}).</p>}
-        </div>
+        </TableFrame>
       )}
       {warnings.length > 0 && (
         <ul className="mt-3 list-disc space-y-1 pl-5 text-sm text-caution-700" data-testid="record-warnings">

@@ -3,6 +3,7 @@ import { DEFAULT_FREE_SPACE, type AnalysisResult } from "@/lib/analysis/types";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { EmptyState } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
+import { TableFrame } from "@/components/ui/table-frame";
 import { formatBytes, formatDateTime, formatNumber } from "@/lib/format";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
 import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
@@ -28,7 +29,7 @@ export function ChecksTable({ analysis, profile }: { analysis: AnalysisResult; p
 /** The one frame of a checks table (thermometric or air leakage): check, measured, limit, basis, result. */
 export function ChecksTableFrame({ caption, children }: { caption: string; children: ReactNode }) {
   return (
-    <div className="overflow-x-auto">
+    <TableFrame label={caption}>
       <table className="data-table" data-testid="checks-table">
         <caption className="sr-only">{caption}</caption>
         <thead>
@@ -42,7 +43,7 @@ export function ChecksTableFrame({ caption, children }: { caption: string; child
         </thead>
         <tbody>{children}</tbody>
       </table>
-    </div>
+    </TableFrame>
   );
 }
 

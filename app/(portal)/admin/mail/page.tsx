@@ -8,6 +8,7 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge, type BadgeTone } from "@/components/ui/badge";
 import { formatDateTime } from "@/lib/format";
 import { RetryMailButton, SendDueMailButton } from "./mail-actions";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Mail" };
 export const dynamic = "force-dynamic";
@@ -62,7 +63,7 @@ export default async function MailPage({ searchParams }: { searchParams: Promise
             E-mail is queued when a cycle is submitted, returned or approved, and when an analysis does not pass.
           </EmptyState>
         ) : (
-          <div className="overflow-x-auto">
+          <TableFrame label="Outbox">
             <table className="data-table" data-testid="outbox-table">
               <thead>
                 <tr>
@@ -110,7 +111,7 @@ export default async function MailPage({ searchParams }: { searchParams: Promise
               </tbody>
             </table>
             {rows.length === 100 && <p className="mt-2 text-xs text-ink-muted">Showing the newest 100.</p>}
-          </div>
+          </TableFrame>
         )}
       </Panel>
 
@@ -158,7 +159,7 @@ function FakeMailboxPanel({ mailbox }: { mailbox: Extract<FakeMailbox, { state: 
                   <span className="mono text-ink-muted">→ {m.to.join(", ")}</span>
                 </summary>
                 <div className="mt-2 space-y-3 px-1">
-                  <dl className="grid grid-cols-[auto_1fr] gap-x-3 text-xs">
+                  <dl className="grid grid-cols-[auto_minmax(0,1fr)] gap-x-3 text-xs">
                     <dt className="text-ink-muted">From</dt>
                     <dd className="mono">{m.from}</dd>
                     <dt className="text-ink-muted">To</dt>

@@ -21,7 +21,7 @@ export default async function SiteSettingsPage() {
   return (
     <>
       <PageHeader title="Site settings" subtitle={`${site.name} · code ${site.code}. Every change is written to the audit ledger.`} />
-      <div className="grid gap-gutter xl:grid-cols-[1fr_24rem]">
+      <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_24rem]">
         <Panel title="Site">
           <SiteSettingsForm
             site={{ name: site.name, timeZone: site.timeZone, atmosphereKpa: site.atmosphereKpa, altitudeM: site.altitudeM, address: site.address }}

@@ -5,6 +5,7 @@ import { PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { CreateUserForm, UserRowActions } from "@/components/admin/user-forms";
 import { formatDateTime } from "@/lib/format";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Users" };
 
@@ -14,9 +15,9 @@ export default async function UsersPage() {
   return (
     <>
       <PageHeader title="Users" subtitle="Accounts, roles and access. New accounts and password resets get a one-time password, shown once. Every change is written to the audit ledger." />
-      <div className="grid gap-gutter xl:grid-cols-[1fr_22rem]">
+      <div className="grid gap-gutter">
         <Panel title={`${rows.length} accounts`}>
-          <div className="overflow-x-auto">
+          <TableFrame label="Accounts">
             <table className="data-table" data-testid="users-table">
               <thead>
                 <tr>
@@ -52,9 +53,9 @@ export default async function UsersPage() {
                 ))}
               </tbody>
             </table>
-          </div>
+          </TableFrame>
         </Panel>
-        <Panel title="Add a user">
+        <Panel title="Add a user" className="max-w-xl">
           <CreateUserForm />
         </Panel>
       </div>

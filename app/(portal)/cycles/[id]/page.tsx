@@ -167,7 +167,7 @@ export default async function CycleRecordPage({ params }: Props) {
           </Panel>
         </div>
 
-        <aside className="space-y-gutter" aria-label="Figures and sign-off">
+        <aside className="min-w-0 space-y-gutter" aria-label="Figures and sign-off">
           <Panel title="Key figures">{leak ? <AirLeakageFigures analysis={leak} /> : <KeyFigures analysis={a} startedAt={detail.startedAt} timeZone={tz} />}</Panel>
           <SignOffPanel detail={detail} actor={{ id: actor.id, role: actor.role, name: actor.name }} contributed={contributed} />
           <Panel title="Instrument and calibration">

@@ -7,6 +7,7 @@ import { CalibrationBadge } from "@/components/equipment/state-badges";
 import { CertificateForm, ClearMappingForm } from "@/components/equipment/instrument-forms";
 import { formatDate, formatDateTime } from "@/lib/format";
 import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/lib/domain";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Instrument" };
 
@@ -30,13 +31,13 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
           </Link>
         }
       />
-      <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[1fr_24rem]" : ""}`}>
-        <div className="space-y-gutter">
+      <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[minmax(0,1fr)_24rem]" : ""}`}>
+        <div className="min-w-0 space-y-gutter">
           <Panel title="Calibration" action={<CalibrationBadge state={calibration.state} daysLeft={calibration.daysLeft} dueOn={latest?.dueOn} />}>
             {certificates.length === 0 ? (
               <EmptyState title="No calibration certificate recorded.">Cycles measured with this instrument cannot be shown as traceable until one is recorded.</EmptyState>
             ) : (
-              <div className="overflow-x-auto">
+              <TableFrame label="Calibration certificates">
                 <table className="data-table" data-testid="certificates-table">
                   <thead>
                     <tr>
@@ -69,7 +70,7 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
                     ))}
                   </tbody>
                 </table>
-              </div>
+              </TableFrame>
             )}
           </Panel>
           <Panel title="Saved channel mapping">

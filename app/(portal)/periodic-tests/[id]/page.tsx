@@ -53,7 +53,7 @@ export default async function PeriodicTestRecordPage({ params }: { params: Promi
         <div className="min-w-0 space-y-gutter">
           <Panel title="What was measured">
             <p className="mb-2 text-sm font-medium">{keyFigure(record.kind, record.measurements)}</p>
-            <dl className="grid grid-cols-[14rem_1fr] gap-x-3 gap-y-1 text-sm">
+            <dl className="grid grid-cols-1 sm:grid-cols-[14rem_minmax(0,1fr)] gap-x-3 gap-y-1 text-sm">
               {measurementRows(record.measurements).map(([k, v], i) => (
                 <div key={`${k}-${i}`} className="contents">
                   <dt className="text-ink-muted">{k}</dt>
@@ -100,7 +100,7 @@ export default async function PeriodicTestRecordPage({ params }: { params: Promi
           </Panel>
         </div>
 
-        <aside className="space-y-gutter" aria-label="Review">
+        <aside className="min-w-0 space-y-gutter" aria-label="Review">
           <Panel title="Review">
             <p className="mb-3 text-sm text-ink-soft">{STATUS_TEXT[record.status]}</p>
             {record.maySign &&

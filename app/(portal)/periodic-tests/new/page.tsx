@@ -43,7 +43,7 @@ export default async function RecordTestPage({ searchParams }: { searchParams: P
           </Link>
         ))}
       </nav>
-      <div className="grid gap-gutter xl:grid-cols-[1fr_22rem]">
+      <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_22rem]">
         <Panel title={testKindLabel(kind)}>
           {sterilizers.filter((s) => s.active).length === 0 ? (
             <EmptyState title="No sterilizer in service on this site." />

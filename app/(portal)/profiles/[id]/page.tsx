@@ -41,9 +41,9 @@ export default async function ProfilePage({ params }: { params: Promise<{ id: st
           </>
         }
       />
-      <div className={`grid gap-gutter ${(manage && p.active) || p.replacedBy ? "xl:grid-cols-[1fr_26rem]" : ""}`}>
+      <div className={`grid gap-gutter ${(manage && p.active) || p.replacedBy ? "xl:grid-cols-[minmax(0,1fr)_26rem]" : ""}`}>
         <Panel title={<>Limits {!p.active && <Badge>Retired</Badge>}</>}>
-          <dl className="grid grid-cols-[14rem_1fr] gap-x-3 gap-y-2 text-sm">
+          <dl className="grid grid-cols-1 sm:grid-cols-[14rem_minmax(0,1fr)] gap-x-3 gap-y-2 text-sm">
             {rows.map(([k, v]) => (
               <div key={k} className="contents">
                 <dt className="text-ink-muted">{k}</dt>

@@ -13,6 +13,7 @@ import { StatusDecisionForm } from "@/components/equipment/status-form";
 import { StatusHistory } from "@/components/equipment/status-history";
 import { formatDate, formatDateTime } from "@/lib/format";
 import { formatDuration, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
+import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Sterilizer" };
 
@@ -78,8 +79,8 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
           </>
         }
       />
-      <div className="grid gap-gutter xl:grid-cols-[1fr_24rem]">
-        <div className="space-y-gutter">
+      <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_24rem]">
+        <div className="min-w-0 space-y-gutter">
           <Panel title={`Trends over the last ${trendDays} days`}>
             <div className="mb-4 flex flex-wrap items-end gap-6">
               <div>
@@ -121,7 +122,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
             {schedule.length === 0 ? (
               <EmptyState title="No test schedule set for this sterilizer.">{manage ? "Add the tests below." : "An engineer sets the schedule."}</EmptyState>
             ) : (
-              <div className="overflow-x-auto">
+              <TableFrame label="Periodic test schedule">
                 <table className="data-table">
                   <thead>
                     <tr>
@@ -153,7 +154,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                     ))}
                   </tbody>
                 </table>
-              </div>
+              </TableFrame>
             )}
             <p className="mt-2 text-xs text-ink-muted">
               A test is done when it passes; the next one falls due one interval after that date. Thermometric tests count once their cycle is approved. A test required before use puts the sterilizer
@@ -172,7 +173,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
             {recentCycles.length === 0 ? (
               <EmptyState title="No cycle recorded yet." />
             ) : (
-              <div className="overflow-x-auto">
+              <TableFrame label="Recent cycles">
                 <table className="data-table">
                   <thead>
                     <tr>
@@ -203,7 +204,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                     ))}
                   </tbody>
                 </table>
-              </div>
+              </TableFrame>
             )}
           </Panel>
         </div>
@@ -224,7 +225,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
             <StatusHistory events={statusHistory} timeZone={timeZone} />
           </Panel>
           <Panel title="Identity">
-            <dl className="grid grid-cols-[8rem_1fr] gap-x-3 gap-y-1.5 text-sm">
+            <dl className="grid grid-cols-[8rem_minmax(0,1fr)] gap-x-3 gap-y-1.5 text-sm">
               <dt className="text-ink-muted">Serial number</dt>
               <dd className="mono">{s.serialNumber}</dd>
               <dt className="text-ink-muted">Model</dt>
