@@ -47,10 +47,11 @@ export function seededDatabase(cycles: number): string {
   console.error(`Seeding ${cycles.toLocaleString("en")} cycles once for this schema (about 4–5 minutes for 100,000); cached as ${path.relative(ROOT, cached)}.`);
   const seeded = spawnSync(process.execPath, [path.join(ROOT, "node_modules/tsx/dist/cli.mjs"), "--tsconfig", "db/tsconfig.scripts.json", "db/seed-load.ts", "--cycles", String(cycles)], {
     cwd: ROOT,
-    env: { ...process.env, DATABASE_URL: `file:${partial}`, PAPIN_DEMO: "1" },
+    env: { ...process.env, DATABASE_URL: `file:${partial}`, PAPIN_DEMO: "1", PAPIN_LEDGER_ANCHOR_FILE: `${partial}.anchors.jsonl` },
     stdio: ["ignore", "inherit", "inherit"],
   });
   if (seeded.status !== 0) throw new BenchStop(`npm run db:seed-load -- --cycles ${cycles} failed (exit ${seeded.status}); see its message above.`);
+  rmSync(`${partial}.anchors.jsonl`, { force: true });
   // The seeding process closed its connection, which checkpoints the WAL into the file; anything left is folded in by the server.
   renameSync(partial, cached);
   for (const suffix of ["-wal", "-shm"]) if (existsSync(partial + suffix)) renameSync(partial + suffix, cached + suffix);
@@ -63,7 +64,7 @@ export function copyDatabase(from: string, file: string): void {
 }
 
 export function removeDatabase(file: string): void {
-  for (const suffix of ["", "-wal", "-shm"]) rmSync(file + suffix, { force: true });
+  for (const suffix of ["", "-wal", "-shm", ".anchors.jsonl"]) rmSync(file + suffix, { force: true });
 }
 
 function freePort(): Promise<number> {
@@ -94,6 +95,8 @@ export async function startServer(databaseFile: string): Promise<Server> {
     NEXTAUTH_URL: url,
     NEXTAUTH_SECRET: "bench-secret-not-for-production-0123456789",
     PAPIN_DEMO: "1",
+    // The ledger's anchors of this throwaway database stay beside it, never in the operator's anchor file.
+    PAPIN_LEDGER_ANCHOR_FILE: `${databaseFile}.anchors.jsonl`,
   };
   // Mail stays in the outbox: the bench must not reach any mail service.
   delete env.RESEND_API_KEY;
