@@ -58,13 +58,17 @@ export function seededDatabase(cycles: number): string {
   return cached;
 }
 
-/** Copies the cached database (with its WAL, if any) to `file`. */
+const copies = new Set<string>();
+
+/** Copies the cached database (with its WAL, if any) to `file`; the copy is removed by removeDatabase or when the bench exits. */
 export function copyDatabase(from: string, file: string): void {
+  copies.add(file);
   for (const suffix of ["", "-wal"]) if (existsSync(from + suffix)) copyFileSync(from + suffix, file + suffix);
 }
 
 export function removeDatabase(file: string): void {
   for (const suffix of ["", "-wal", "-shm", ".anchors.jsonl"]) rmSync(file + suffix, { force: true });
+  copies.delete(file);
 }
 
 function freePort(): Promise<number> {
@@ -80,8 +84,11 @@ function freePort(): Promise<number> {
 
 export type Server = { url: string; stop: () => Promise<void> };
 const running = new Set<ChildProcess>();
-// Children die with the bench, whichever way it ends.
-process.once("exit", () => running.forEach((child) => child.kill("SIGKILL")));
+// Children die with the bench, and its database copies go, whichever way it ends.
+process.once("exit", () => {
+  running.forEach((child) => child.kill("SIGKILL"));
+  copies.forEach(removeDatabase);
+});
 for (const signal of ["SIGINT", "SIGTERM"] as const) process.once(signal, () => process.exit(130));
 
 /** `next start` on the built app and the given database file, on a port the system chose; resolves once /api/health answers. */
