@@ -57,7 +57,9 @@ export async function closedLoop(url: string, cookie: string, concurrency: numbe
         }
       } catch (error) {
         failures++;
-        firstFailure ??= error instanceof Error ? error.message : String(error);
+        // fetch says only "fetch failed"; the cause names what happened to the connection (ECONNRESET, a timeout…).
+        const cause = (error as { cause?: { code?: string; message?: string } }).cause;
+        firstFailure ??= `${error instanceof Error ? error.message : String(error)}${cause ? ` (${cause.code ?? cause.message})` : ""}`;
       }
       latenciesMs.push(performance.now() - t);
     }
