@@ -66,6 +66,8 @@ const schema = z.object({
    * Declared here for the record; the command reads it itself, since loading zod would double its start-up time.
    */
   PAPIN_RESOURCE_REPORT: z.string().optional(),
+  /** Cycles in the database `npm run bench` serves its HTTP cases from (seeded once per count and schema, then cached); 0 skips those cases. */
+  PAPIN_BENCH_CYCLES: z.coerce.number().int().min(0).max(2_000_000).default(100_000),
 
   // Browser tests (playwright.config.ts): the port of the production server they start, Debian's chromium, CI retries.
   PAPIN_E2E_PORT: port(3111),
