@@ -45,6 +45,9 @@ export const pagesOf = (role: DemoRole) => PORTAL_PAGES.filter((p) => !p.permiss
 export async function resolvePath(page: Page, entry: PortalPage): Promise<string> {
   if (!entry.detail) return entry.path;
   await page.goto(entry.detail.list);
+  // Some lists load their rows in the browser after the page: wait for a matching link (or give up and say so below).
+  const source = entry.detail.link.source;
+  await page.waitForFunction((re) => [...document.querySelectorAll("a[href]")].some((a) => new RegExp(re).test(a.getAttribute("href") ?? "")), source, { timeout: 15_000 }).catch(() => undefined);
   const hrefs = await page.locator("a[href]").evaluateAll((links) => links.map((a) => a.getAttribute("href") ?? ""));
   const href = hrefs.find((h) => entry.detail!.link.test(h));
   if (!href) throw new Error(`No link to ${entry.path} on ${entry.detail.list}`);
