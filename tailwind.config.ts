@@ -11,8 +11,8 @@ const config: Config = {
         ink: {
           DEFAULT: "#1f2328",
           soft: "#3d444d",
-          muted: "#656d76",
-          faint: "#8c959f",
+          muted: "#555c64",
+          faint: "#60676f",
           line: "#d8d4ca",
         },
         brass: { 50: "#fbf5ea", 100: "#f3e3c3", 500: "#a66a1f", 600: "#8a5515", 700: "#6d4210" },

@@ -71,7 +71,8 @@ export function TrendChart({ figure, timeZone }: { figure: TrendFigure; timeZone
   return (
     <figure>
       {header}
-      <svg viewBox={`0 0 ${W} ${H}`} className="h-auto w-full" role="img" aria-label={description}>
+      {/* A group, not an image: each point is a link to its cycle and must stay reachable by keyboard and screen reader. */}
+      <svg viewBox={`0 0 ${W} ${H}`} className="h-auto w-full" role="group" aria-label={description}>
         {ticks.map((t) => (
           <g key={t}>
             <line x1={PAD.left} x2={W - PAD.right} y1={y(t)} y2={y(t)} className="stroke-ink-line" strokeWidth={0.5} />
@@ -124,7 +125,7 @@ export function TrendChart({ figure, timeZone }: { figure: TrendFigure; timeZone
         })}
       </svg>
       <figcaption className="mt-1 text-xs text-ink-muted">
-        ● within the limit · ✕ outside it{missing ? ` · ${missing} cycle${missing === 1 ? "" : "s"} without a measured value (no plateau)` : ""}
+        {description} ● within the limit · ✕ outside it{missing ? ` · ${missing} cycle${missing === 1 ? "" : "s"} without a measured value (no plateau)` : ""}
       </figcaption>
     </figure>
   );

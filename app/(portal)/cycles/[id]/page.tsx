@@ -44,7 +44,7 @@ export default async function CycleRecordPage({ params }: Props) {
   return (
     <>
       <nav aria-label="Breadcrumb" className="mb-2 text-sm text-ink-muted">
-        <Link href="/cycles" className="text-steam-700 hover:underline">
+        <Link href="/cycles" className="text-steam-700 underline underline-offset-2">
           Cycles
         </Link>
         <span aria-hidden="true"> / </span>

@@ -28,7 +28,7 @@ export default async function PeriodicTestRecordPage({ params }: { params: Promi
   return (
     <>
       <nav aria-label="Breadcrumb" className="mb-2 text-sm text-ink-muted">
-        <Link href="/periodic-tests" className="text-steam-700 hover:underline">
+        <Link href="/periodic-tests" className="text-steam-700 underline underline-offset-2">
           Periodic tests
         </Link>
         <span aria-hidden="true"> / </span>
@@ -41,7 +41,7 @@ export default async function PeriodicTestRecordPage({ params }: { params: Promi
           <PeriodicStatusBadge status={record.status} />
         </div>
         <p className="mt-1 text-sm text-ink-soft">
-          <Link href={`/sterilizers/${record.sterilizer.id}`} className="font-medium text-steam-700 hover:underline">
+          <Link href={`/sterilizers/${record.sterilizer.id}`} className="font-medium text-steam-700 underline underline-offset-2">
             {record.sterilizer.name}
           </Link>{" "}
           <span className="text-ink-muted">(serial {record.sterilizer.serialNumber})</span> · done {formatDateTime(record.performedAt, tz)} · recorded by {record.performedBy.name} on{" "}
