@@ -4,6 +4,7 @@
  */
 import { publicBaseUrl } from "@/lib/env";
 import { SAFETY_SHORT } from "@/lib/safety";
+import { plural } from "@/lib/domain";
 
 export type MailContent = { subject: string; html: string; text: string };
 
@@ -214,7 +215,7 @@ export function auditLedgerUrl(): string {
  * copy outside the database that a later check of the ledger can be compared with.
  */
 export function ledgerHeadMail({ siteName, at, events, lastSeq, lastHash, url }: { siteName: string; at: string; events: number; lastSeq: number; lastHash: string; url: string }): MailContent {
-  const heading = `Daily audit-ledger head for ${oneLine(siteName)}: ${events} events`;
+  const heading = `Daily audit-ledger head for ${oneLine(siteName)}: ${plural(events, "event")}`;
   return {
     subject: heading,
     ...layout({
@@ -222,7 +223,7 @@ export function ledgerHeadMail({ siteName, at, events, lastSeq, lastHash, url }:
       url,
       action: "Open the audit ledger",
       blocks: [
-        { kind: "p", text: `At ${at} (UTC) Papin's audit ledger held ${events} events. The newest is event ${lastSeq}; the chain's hash up to it is:` },
+        { kind: "p", text: `At ${at} (UTC) Papin's audit ledger held ${plural(events, "event")}. The newest is event ${lastSeq}; the chain's hash up to it is:` },
         { kind: "quote", label: "Ledger head", text: `events ${events} · last event ${lastSeq}\nSHA-256 ${lastHash}` },
         {
           kind: "p",

@@ -8,7 +8,7 @@ import { downsampleForReport, strideIndexes } from "./downsample";
 import { REPORT_CHART_POINTS, REPORT_PHASE_POINTS, type ReportModel } from "./model";
 import { PhaseChart } from "./phase-chart";
 import { s } from "./styles";
-import { basisNoteFor, describeBasis, formatDuration, PROFILE_BASIS_LABELS, testKindLabel } from "@/lib/domain";
+import { basisNoteFor, describeBasis, formatDuration, PROFILE_BASIS_LABELS, testKindLabel, plural, formatVolume } from "@/lib/domain";
 import { bytes, fixed, pdfText, signed } from "./text";
 import { CONTENT_WIDTH, colour, loadChannelStyle, seriesStyle } from "./theme";
 import { bothClocks, instantOf, siteClockAt } from "./time";
@@ -358,7 +358,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
   if (flags.length > 0) {
     failures.push({
       title: checkLabel.get("saturation") ?? "Saturation",
-      text: `${flags.length} saturation flag${flags.length === 1 ? "" : "s"}: ${flags
+      text: `${plural(flags.length, "saturation flag")}: ${flags
         .map((f) => `${f.kind === "below" ? "colder" : "hotter"} than saturated steam from ${at(f.start)} to ${at(f.end)}, worst ${signed(f.worst, 2)} K`)
         .join("; ")}. Each flag's diagnosis is under "Saturation flags".`,
     });
@@ -425,7 +425,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
               <T style={s.verdictSummary}>{judged ? judged.summary : "This cycle has no analysis yet, so it has no verdict."}</T>
               {judged ? (
                 <T style={[s.small, { marginTop: 3 }]}>
-                  {`${judged.checks.filter((c) => c.passed).length} of ${judged.checks.length} checks passed against the acceptance profile "${detail.profile.name}".`}
+                  {`${judged.checks.filter((c) => c.passed).length} of ${plural(judged.checks.length, "check")} passed against the acceptance profile "${detail.profile.name}".`}
                 </T>
               ) : null}
             </View>
@@ -478,7 +478,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           <Fact label="Serial number">
             <T style={s.mono}>{detail.sterilizer.serialNumber}</T>
           </Fact>
-          <Fact label="Chamber volume">{`${fixed(detail.sterilizer.chamberVolumeL, detail.sterilizer.chamberVolumeL % 1 === 0 ? 0 : 1)} l`}</Fact>
+          <Fact label="Chamber volume">{formatVolume(detail.sterilizer.chamberVolumeL)}</Fact>
           <Fact label="Cycle number">
             <T style={s.mono}>{detail.cycleNumber}</T>
           </Fact>

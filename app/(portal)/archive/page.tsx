@@ -5,6 +5,7 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { VerdictBadge } from "@/components/ui/badge";
 import { VerifyReport } from "@/components/archive/verify-report";
 import { formatBytes, formatDateTime } from "@/lib/format";
+import { plural } from "@/lib/domain";
 
 export const metadata = { title: "Signed archive" };
 
@@ -17,7 +18,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
       <PageHeader title="Signed archive" subtitle="Approved reports as they were archived at signing; later software changes never re-render them." />
       <div className="grid gap-gutter xl:grid-cols-[1fr_24rem]">
         {canList ? (
-          <Panel title={`${rows.length} archived report${rows.length === 1 ? "" : "s"}`}>
+          <Panel title={plural(rows.length, "archived report")}>
             <form className="mb-4 flex flex-wrap items-end gap-2" role="search">
               <div>
                 <label htmlFor="q" className="field-label">

@@ -1,7 +1,7 @@
 import type { Check } from "@/lib/analysis/types";
 import type { Dialect, MappingOverrides } from "@/lib/logger-files/types";
 import { formatDateTime, formatNumber } from "@/lib/format";
-import { formatDuration, formatTemperature } from "@/lib/domain";
+import { formatDuration, formatTemperature, plural } from "@/lib/domain";
 import { hasZone } from "@/lib/cycles/chart-model";
 
 /** A logger's start time: in the site's zone when the file named a zone, else as the logger's clock showed it. */
@@ -35,7 +35,7 @@ export function describeDialect(dialect: Dialect | null): string {
     dialect.decimal === "," ? "decimal comma" : "decimal point",
     `${LINE_ENDINGS[dialect.lineEnding] ?? dialect.lineEnding} line endings`,
   ];
-  if (dialect.preambleLines > 0) parts.push(`${dialect.preambleLines} preamble line${dialect.preambleLines === 1 ? "" : "s"}`);
+  if (dialect.preambleLines > 0) parts.push(plural(dialect.preambleLines, "preamble line"));
   parts.push(dialect.headerLine ? `header on line ${dialect.headerLine}` : "no header line");
   parts.push(`times as ${String(dialect.timeFormat).replace(/-/g, " ")}`);
   if (dialect.quoted) parts.push("quoted cells");

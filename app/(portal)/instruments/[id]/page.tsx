@@ -6,7 +6,7 @@ import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { CalibrationBadge } from "@/components/equipment/state-badges";
 import { CertificateForm, ClearMappingForm } from "@/components/equipment/instrument-forms";
 import { formatDate, formatDateTime } from "@/lib/format";
-import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/lib/domain";
+import { INSTRUMENT_KIND_LABELS as KIND_LABELS, plural } from "@/lib/domain";
 
 export const metadata = { title: "Instrument" };
 
@@ -21,7 +21,7 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
         subtitle={
           <>
             <span className="mono">{i.serialNumber}</span> · {KIND_LABELS[i.kind]}
-            {i.channelCount ? ` · ${i.channelCount} channels` : ""}
+            {i.channelCount ? ` · ${plural(i.channelCount, "channel")}` : ""}
           </>
         }
         actions={

@@ -11,7 +11,7 @@ import { SterilizerStatusBadge, SterilizerStatusLine } from "@/components/equipm
 import { StatusDecisionForm } from "@/components/equipment/status-form";
 import { StatusHistory } from "@/components/equipment/status-history";
 import { formatDate, formatDateTime } from "@/lib/format";
-import { formatDuration, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
+import { formatDuration, PERIODIC_TEST_KINDS, testKindLabel, plural, formatVolume } from "@/lib/domain";
 
 export const metadata = { title: "Sterilizer" };
 
@@ -48,7 +48,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
         title={s.name}
         subtitle={
           <>
-            <span className="mono">{s.serialNumber}</span> · {s.chamberVolumeL} l · {sizeClass.label}
+            <span className="mono">{s.serialNumber}</span> · {formatVolume(s.chamberVolumeL)} · {sizeClass.label}
             {s.active && (
               <>
                 {" "}
@@ -85,7 +85,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                   {passPct === null ? "—" : `${passPct} %`}
                 </p>
                 <p className="text-sm text-ink-muted">
-                  pass rate: {trends.passed} of {trends.analysed} analysed cycle{trends.analysed === 1 ? "" : "s"} passed
+                  pass rate: {trends.passed} of {plural(trends.analysed, "analysed cycle")} passed
                 </p>
               </div>
               {Object.keys(trends.failuresByCheck).length > 0 && (
@@ -143,7 +143,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                           <ScheduleBadge status={r.status} />
                           {r.awaitingSignOff > 0 && (
                             <p className="mt-1 text-xs text-ink-muted">
-                              {r.awaitingSignOff} passing cycle{r.awaitingSignOff === 1 ? "" : "s"} awaiting sign-off
+                              {plural(r.awaitingSignOff, "passing cycle")} awaiting sign-off
                             </p>
                           )}
                         </td>
@@ -230,7 +230,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
               <dt className="text-ink-muted">Location</dt>
               <dd>{s.location ?? "—"}</dd>
               <dt className="text-ink-muted">Chamber</dt>
-              <dd>{s.chamberVolumeL} l</dd>
+              <dd>{formatVolume(s.chamberVolumeL)}</dd>
               <dt className="text-ink-muted">Size class</dt>
               <dd>{sizeClass.label}</dd>
               <dt className="text-ink-muted">Equilibration</dt>
