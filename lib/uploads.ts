@@ -203,6 +203,6 @@ export function mappingFromForm(form: UploadForm): MappingOverrides | undefined 
     throw new AppError(400, "mapping is not valid JSON.", "mapping");
   }
   const parsed = mappingOverridesSchema.safeParse(json);
-  if (!parsed.success) throw new AppError(400, `mapping: ${zodMessage(parsed.error)}`, "mapping");
+  if (!parsed.success) throw new AppError(400, `The column mapping is not valid: ${zodMessage(parsed.error)}`, "mapping");
   return parsed.data;
 }
