@@ -64,9 +64,9 @@ export function plainIssueMessage(issue: SchemaIssue): string {
     case "invalid_type":
       return missing ? `Enter ${label}: it is missing.` : `${capitalise(label)} is not in a form Papin can read: ${issue.expected === "number" ? "enter a number" : "enter it as text"}.`;
     case "too_small":
-      return issue.origin === "string" && Number(issue.minimum) <= 1 ? `Enter ${label}.` : `${capitalise(label)} is too small or too short (at least ${String(issue.minimum)}).`;
+      return issue.origin === "string" && Number(issue.minimum) <= 1 ? `Enter ${label}.` : `Too small or too short: ${label} must be at least ${String(issue.minimum)}.`;
     case "too_big":
-      return `${capitalise(label)} is too large or too long (at most ${String(issue.maximum)}).`;
+      return `Too large or too long: ${label} may be at most ${String(issue.maximum)}.`;
     case "invalid_value":
       return `Choose ${label} from the values offered.`;
     case "unrecognized_keys":

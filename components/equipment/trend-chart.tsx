@@ -124,9 +124,7 @@ export function TrendChart({ figure, timeZone }: { figure: TrendFigure; timeZone
           );
         })}
       </svg>
-      <figcaption className="mt-1 text-xs text-ink-muted">
-        ● within the limit · ✕ outside it{missing ? ` · ${plural(missing, "cycle")} without a measured value (no plateau)` : ""}
-      </figcaption>
+      <figcaption className="mt-1 text-xs text-ink-muted">● within the limit · ✕ outside it{missing ? ` · ${plural(missing, "cycle")} without a measured value (no plateau)` : ""}</figcaption>
     </figure>
   );
 }

@@ -22,7 +22,9 @@ async function main() {
       process.exitCode = 1;
       return;
     }
-    console.log(`Ledger verified: ${plural(result.events, "event")}${result.anchors.status === "match" ? `, ${plural(result.anchors.anchors, "anchor")} ${agree(result.anchors.anchors, "matches", "match")}` : `; ${result.anchors.problem}`}.`);
+    console.log(
+      `Ledger verified: ${plural(result.events, "event")}${result.anchors.status === "match" ? `, ${plural(result.anchors.anchors, "anchor")} ${agree(result.anchors.anchors, "matches", "match")}` : `; ${result.anchors.problem}`}.`,
+    );
   }
   const { anchor, file, mailIds } = args.has("--mail") ? await mailLedgerHead() : { ...(await anchorLedgerHead()), mailIds: null };
   console.log(`Ledger head at ${anchor.at}: ${plural(anchor.events, "event")}, last event ${anchor.seq}, hash ${anchor.hash}; appended to ${file}.`);
