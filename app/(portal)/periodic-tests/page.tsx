@@ -91,11 +91,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                         <td className="whitespace-nowrap text-sm">{r.status.dueOn ? formatDate(r.status.dueOn) : "Now"}</td>
                         <td>
                           <ScheduleBadge status={r.status} />
-                          {r.awaitingSignOff > 0 && (
-                            <p className="mt-1 text-xs text-ink-muted">
-                              {plural(r.awaitingSignOff, "passing cycle")} awaiting sign-off
-                            </p>
-                          )}
+                          {r.awaitingSignOff > 0 && <p className="mt-1 text-xs text-ink-muted">{plural(r.awaitingSignOff, "passing cycle")} awaiting sign-off</p>}
                           {r.recordsAwaitingSignOff > 0 && (
                             <p className="mt-1 text-xs text-ink-muted">
                               <Link href={`/periodic-tests?sterilizer=${r.sterilizerId}&kind=${r.kind}&status=submitted#history`} className="underline">
