@@ -3,9 +3,9 @@
  * (the records, their photos, the engineer's password signatures and the status rule):
  * - Porous load 2: its Bowie-Dick sheet shows a paler centre; the engineer confirms the failure
  *   and it stays OUT OF USE until a repeat passes.
- * - Theatre benchtop: its first Bowie-Dick of the day failed and was confirmed (out of use); the
- *   door seal was replaced, the repeat passed and was approved, so it is back IN USE. Its status
- *   history shows both changes.
+ * - Theatre benchtop (type B, EN 13060): its first hollow load (helix) test of the day failed and
+ *   was confirmed (out of use); the door seal was replaced, the repeat passed and was approved, so
+ *   it is back IN USE. Its status history shows both changes.
  */
 import { eq } from "drizzle-orm";
 import type { Database } from "./index";
@@ -43,10 +43,11 @@ export async function tellFitnessStory(db: Database, { password, now, timeZone }
   const engineer = await actorOf("engineer");
   const idOf = async (name: string) => (await db.select({ id: sterilizers.id }).from(sterilizers).where(eq(sterilizers.name, name)).limit(1))[0].id;
 
-  const bowieDick = async (name: string, localTime: string, sheet: DrawnSheet, notes: string) => {
+  const bowieDick = async (name: string, localTime: string, sheet: DrawnSheet, notes: string, kind: "bowie-dick" | "hollow-load" = "bowie-dick") => {
     const at = thisMorning(now, timeZone, localTime);
     const input = {
       sterilizerId: await idOf(name),
+      kind,
       performedAt: at.toISOString(),
       notes,
       outcome: sheet === "uniform" ? ("uniform" as const) : ("non-uniform" as const),
@@ -57,10 +58,10 @@ export async function tellFitnessStory(db: Database, { password, now, timeZone }
   };
   const sign = (id: string, meaning: "approved" | "failure-confirmed", reason: string) => signPeriodicTest({ actor: engineer, id, password, meaning, reason });
 
-  const released1 = await bowieDick(STORY_RELEASED, "06:40", "paler-centre", "Paler area at the centre of the sheet. Door seal found split at the hinge side.");
-  await sign(released1.id, "failure-confirmed", "Non-uniform change: air was not removed from the test pack. Out of use until the door seal is replaced and the test is repeated.");
-  const released2 = await bowieDick(STORY_RELEASED, "08:05", "uniform", "Repeat after the door seal was replaced by the maintenance contractor.");
-  await sign(released2.id, "approved", "Uniform change over the whole sheet after the seal was replaced; the sterilizer may be used.");
+  const released1 = await bowieDick(STORY_RELEASED, "06:40", "paler-centre", "Helix indicator strip paler towards the closed end. Door seal found split at the hinge side.", "hollow-load");
+  await sign(released1.id, "failure-confirmed", "Non-uniform change: air was not removed from the helix. Out of use until the door seal is replaced and the test is repeated.");
+  const released2 = await bowieDick(STORY_RELEASED, "08:05", "uniform", "Repeat after the door seal was replaced by the maintenance contractor.", "hollow-load");
+  await sign(released2.id, "approved", "Uniform change along the whole indicator strip after the seal was replaced; the sterilizer may be used.");
 
   const held = await bowieDick(STORY_OUT_OF_USE, "06:35", "paler-centre", "Paler area at the centre of the sheet; the load was not started.");
   await sign(held.id, "failure-confirmed", "Non-uniform change: air removal or a leak is suspected. Out of use until the vacuum system is checked and a repeat test passes.");

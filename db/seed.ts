@@ -4,7 +4,7 @@
  * Loaded only into an empty database, so running it twice changes nothing the second time.
  */
 import { count, eq } from "drizzle-orm";
-import type { Database, Executor } from "./index";
+import type { Database } from "./index";
 import {
   acceptanceProfiles,
   analyses,
@@ -27,8 +27,8 @@ import { simulateCycle, toLoggerCsv, type Scenario } from "@/lib/simulator";
 import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
 import { atmosphereAtAltitudeKpa } from "@/lib/steam";
 import { zoneOffsetMs } from "@/lib/domain";
-import { defaultScheduleFor } from "@/lib/periodic-tests/sterilizer-class";
-import { STORY_OUT_OF_USE, STORY_RELEASED, tellFitnessStory, thisMorning } from "./demo-story";
+import { STORY_OUT_OF_USE, STORY_RELEASED, tellFitnessStory } from "./demo-story";
+import { DEMO_LOADS, demoCycleStart, demoPeriodicTests, demoScheduleFor, type DemoKind } from "./demo-schedule";
 
 export { DEMO_USERS };
 
@@ -42,9 +42,9 @@ type DemoSterilizer = {
   model: string;
   chamberVolumeL: number;
   location: string;
-  profileKey: "p134" | "p121" | "p134large" | "p134bench";
-  /** removes air by vacuum: its daily Bowie-Dick and weekly air leakage tests are required before use */
-  vacuum: boolean;
+  profileKey: "p134" | "p121fluids" | "p134large" | "p134bench";
+  /** porous load (EN 285, vacuum), fluids (no vacuum, no porous-load tests) or a type B benchtop (EN 13060, vacuum) */
+  kind: DemoKind;
   dialect: Parameters<typeof toLoggerCsv>[1];
 };
 
@@ -57,7 +57,7 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
     chamberVolumeL: 445,
     location: "Wash room / clean room wall, bay 1",
     profileKey: "p134",
-    vacuum: true,
+    kind: "porous",
     dialect: { delimiter: ",", decimal: ".", timeFormat: "iso" },
   },
   {
@@ -68,7 +68,7 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
     chamberVolumeL: 960,
     location: "Wash room / clean room wall, bay 2",
     profileKey: "p134large",
-    vacuum: true,
+    kind: "porous",
     dialect: { delimiter: ";", decimal: ",", timeFormat: "dmy", pressureUnit: "bar", gauge: true },
   },
   {
@@ -78,8 +78,8 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
     model: "Single-door sterilizer with fluids cycle",
     chamberVolumeL: 320,
     location: "Media preparation room",
-    profileKey: "p121",
-    vacuum: false,
+    profileKey: "p121fluids",
+    kind: "fluids",
     dialect: { delimiter: "\t", decimal: ".", timeFormat: "elapsed-seconds" },
   },
   {
@@ -90,7 +90,7 @@ const DEMO_STERILIZERS: DemoSterilizer[] = [
     chamberVolumeL: 23,
     location: "Day-surgery theatre suite",
     profileKey: "p134bench",
-    vacuum: true,
+    kind: "benchtop",
     dialect: { delimiter: ",", decimal: ".", timeFormat: "mdy-ampm", pressureUnit: "mbar" },
   },
 ];
@@ -177,13 +177,14 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
         },
         {
           siteId: site.id,
-          name: "121 °C / 15 min",
+          name: "121 °C / 15 min fluids (media bottles)",
           sterilizationTempC: 121,
           bandK: 3,
           holdingTimeS: 900,
-          maxEquilibrationS: 15,
-          basis: "en-285",
-          basisReason: "HTM 01-01: band 121–124 °C, 15 min hold",
+          // The load lags the drain in a fluids cycle: the validated process allows 5 min for the bottles to reach 121 °C.
+          maxEquilibrationS: 300,
+          basis: "iso-17665",
+          basisReason: "fluids cycle as validated: 15 min at 121–124 °C in the reference bottles, F0 reported per channel",
         },
         {
           siteId: site.id,
@@ -200,7 +201,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
     const profiles: Record<DemoSterilizer["profileKey"], AcceptanceProfile> = {
       p134: profileRows[0],
       p134large: profileRows[1],
-      p121: profileRows[2],
+      p121fluids: profileRows[2],
       p134bench: profileRows[3],
     };
 
@@ -238,27 +239,23 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           chamberVolumeL: s.chamberVolumeL,
           location: s.location,
           defaultProfileId: profile.id,
-          airDetectorFitted: s.key !== "B1",
+          airDetectorFitted: s.kind === "porous",
         })
         .returning();
-      await tx
-        .insert(testSchedules)
-        .values([
-          ...defaultScheduleFor({ vacuumAirRemoval: s.vacuum }).map((d) => ({ ...d, sterilizerId: sterilizer.id })),
-          { sterilizerId: sterilizer.id, kind: "thermometric-small-load", intervalDays: 91 },
-          { sterilizerId: sterilizer.id, kind: "steam-non-condensable-gas", intervalDays: 365 },
-        ]);
+      await tx.insert(testSchedules).values(demoScheduleFor(s.kind, s.chamberVolumeL).map((d) => ({ ...d, sterilizerId: sterilizer.id })));
       // The story's sterilizers get this morning's Bowie-Dick test from the story (db/demo-story.ts), signed.
       const story = s.name === STORY_OUT_OF_USE || s.name === STORY_RELEASED;
-      await seedPeriodicTests(tx, { siteId: site.id, sterilizerId: sterilizer.id, technicianId: userIds.technician, now, index, story });
+      await tx
+        .insert(periodicTests)
+        .values(demoPeriodicTests({ siteId: site.id, sterilizerId: sterilizer.id, technicianId: userIds.technician, now, timeZone: DEMO_TIME_ZONE, index, story, kind: s.kind }));
 
       const instrument = instrumentRows[index % 2];
-      // Every third day per sterilizer over three weeks, staggered so each day has some work.
+      // Every third day per sterilizer over three weeks, staggered so each day has some work; on weekdays, in the day shift.
       for (let daysAgo = 21 - index; daysAgo >= 0; daysAgo -= 3) {
+        const startedAt = demoCycleStart(now, DEMO_TIME_ZONE, daysAgo, cycleCount);
+        if (!startedAt) continue;
         const ordinal = cycleCount;
         const scenario = SCENARIO_ROTATION[ordinal % SCENARIO_ROTATION.length];
-        const startedAt = new Date(now.getTime() - daysAgo * DAY_MS);
-        startedAt.setUTCHours(6 + (index % 3), 10 + index * 7, 0, 0);
         const sim = simulateCycle({
           scenario,
           sterilizationTempC: profile.sterilizationTempC + 0.6,
@@ -281,8 +278,8 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
             profileId: profile.id,
             instrumentId: instrument.id,
             cycleNumber,
-            testKind: "thermometric-small-load",
-            loadDescription: "Standard test pack, small-load test (demo)",
+            testKind: s.kind === "fluids" ? "thermometric-full-load" : "thermometric-small-load",
+            loadDescription: DEMO_LOADS[s.kind],
             status,
             verdict: analysis.result.verdict,
             startedAt: startedAt.toISOString(),
@@ -334,7 +331,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
     }
   });
 
-  const decisions = await signOlderDemoCycles(db, password);
+  const decisions = await signOlderDemoCycles(db, password, now);
   const story = await tellFitnessStory(db, { password, now, timeZone: DEMO_TIME_ZONE });
 
   return {
@@ -345,58 +342,15 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
 
 const eqId = (id: string) => eq(cycles.id, id);
 
-async function seedPeriodicTests(
-  tx: Executor,
-  { siteId, sterilizerId, technicianId, now, index, story }: { siteId: string; sterilizerId: string; technicianId: string; now: Date; index: number; story: boolean },
-) {
-  const rows: (typeof periodicTests.$inferInsert)[] = [];
-  for (let daysAgo = 20; daysAgo >= 0; daysAgo--) {
-    const at = daysAgo === 0 ? thisMorning(now, DEMO_TIME_ZONE, "06:30") : new Date(now.getTime() - daysAgo * DAY_MS);
-    if (daysAgo > 0) at.setUTCHours(6, 30, 0, 0);
-    // Recorded before periodic-test records were signed: these carry over as approved, without a signature.
-    if (!(story && daysAgo === 0))
-      rows.push({ siteId, sterilizerId, kind: "bowie-dick", performedAt: at.toISOString(), performedBy: technicianId, result: "pass", measurements: { indicator: "uniform change" } });
-    if (daysAgo % 7 === 2) {
-      // Leak rate in kPa/min; the limit is 0.13 kPa/min (EN 285 / HTM 2010).
-      const leak = index === 2 && daysAgo === 16 ? 0.19 : 0.04 + 0.01 * index;
-      rows.push({
-        siteId,
-        sterilizerId,
-        kind: "air-leakage",
-        performedAt: at.toISOString(),
-        performedBy: technicianId,
-        result: leak <= 0.13 ? "pass" : "fail",
-        status: leak <= 0.13 ? "approved" : "failure-confirmed",
-        measurements: { p2Kpa: 5.1, p3Kpa: +(5.1 + leak * 10).toFixed(2), leakRateKpaPerMin: leak },
-      });
-    }
-  }
-  const longAgo = (days: number) => new Date(now.getTime() - days * DAY_MS).toISOString();
-  rows.push(
-    { siteId, sterilizerId, kind: "thermometric-small-load", performedAt: longAgo(40 + index * 9), performedBy: technicianId, result: "pass", notes: "Quarterly small-load test, logger TL-12." },
-    // NCG % = 100·Vg/Vc; limit 3.5 ml per 100 ml condensate (EN 285 / HTM 2010).
-    {
-      siteId,
-      sterilizerId,
-      kind: "steam-non-condensable-gas",
-      performedAt: longAgo(120 + index * 20),
-      performedBy: technicianId,
-      result: "pass",
-      measurements: { gasMl: 1.2, condensateMl: 100, percent: 1.2 },
-    },
-  );
-  await tx.insert(periodicTests).values(rows);
-}
-
 /**
  * Older demo cycles go through the real review path: the engineer signs with the demo password,
  * which approves passing cycles (archiving their reports) and returns failing ones with a reason.
  */
-async function signOlderDemoCycles(db: Database, password: string) {
+async function signOlderDemoCycles(db: Database, password: string, now: Date) {
   const { signCycle } = await import("@/lib/services/sign-off");
   const [engineer] = await db.select().from(users).where(eq(users.role, "engineer")).limit(1);
   const actor = { id: engineer.id, email: engineer.email, name: engineer.name, role: engineer.role, siteId: engineer.siteId };
-  const cutoff = new Date(Date.now() - 6 * DAY_MS).toISOString();
+  const cutoff = new Date(now.getTime() - 6 * DAY_MS).toISOString();
   const older = (await db.select().from(cycles).where(eq(cycles.status, "submitted"))).filter((c) => (c.startedAt ?? "") < cutoff);
   let approved = 0;
   let returned = 0;

@@ -3,7 +3,7 @@ import { z, type ZodType } from "zod";
 import { requireRole } from "./auth/guards";
 import type { Permission } from "./auth/permissions";
 import type { Actor } from "@/lib/domain";
-import { AppError, databaseBusy } from "./errors";
+import { AppError, databaseBusy, plainIssueMessage } from "./errors";
 
 import type { FormState } from "./form-state";
 
@@ -22,7 +22,7 @@ export function formAction<S extends ZodType>(permission: Permission, schema: S,
     const parsed = schema.safeParse(Object.fromEntries(formData));
     if (!parsed.success) {
       const fieldErrors: Record<string, string> = {};
-      for (const issue of parsed.error.issues) fieldErrors[String(issue.path[0] ?? "form")] ??= issue.message;
+      for (const issue of parsed.error.issues) fieldErrors[String(issue.path[0] ?? "form")] ??= plainIssueMessage(issue);
       return { status: "error", message: "Please correct the fields marked below.", fieldErrors };
     }
     try {

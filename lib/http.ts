@@ -2,7 +2,7 @@ import "server-only";
 import { NextResponse } from "next/server";
 import { create as contentDisposition } from "content-disposition";
 import { ZodError } from "zod";
-import { AppError, databaseBusy } from "./errors";
+import { AppError, databaseBusy, plainIssueMessage } from "./errors";
 import { foreignOriginRefusal } from "./request-origin";
 import { bearerRefusal } from "./auth/bearer";
 
@@ -10,11 +10,11 @@ function jsonError(status: number, error: string, extra?: Record<string, unknown
   return NextResponse.json({ error, ...extra }, { status });
 }
 
+/** The first problem of a schema as a plain sentence naming the field (lib/errors.ts), never the parameter's name. */
 export function zodMessage(error: ZodError): string {
   const first = error.issues[0];
   if (!first) return "The request is not valid.";
-  const where = first.path.length ? `${first.path.join(".")}: ` : "";
-  return `${where}${first.message}`;
+  return plainIssueMessage(first);
 }
 
 /** Maps whatever a handler throws to a JSON error with a plain sentence; never a stack trace. */

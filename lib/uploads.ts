@@ -13,6 +13,7 @@ import { zodMessage } from "./http";
 import { sha256Hex } from "./integrity";
 import { mappingOverridesSchema } from "./validations/intake";
 import type { MappingOverrides } from "./logger-files";
+import { plural } from "@/lib/domain";
 
 /** Text fields are ids, short descriptions and the mapping JSON; none comes near this. */
 export const FIELD_VALUE_LIMIT_BYTES = 64 * 1024;
@@ -154,7 +155,7 @@ function spool(body: ReadableStream<Uint8Array>, contentType: string, dir: strin
       }
       if (files.length >= limits.maxFiles) {
         stream.resume();
-        return fail(new AppError(413, `Attach at most ${limits.maxFiles} file${limits.maxFiles === 1 ? "" : "s"} at once.`, name));
+        return fail(new AppError(413, `Attach at most ${plural(limits.maxFiles, "file")} at once.`, name));
       }
       const file: SpooledFile = {
         field: name,
@@ -171,7 +172,7 @@ function spool(body: ReadableStream<Uint8Array>, contentType: string, dir: strin
       outputs.push(out);
       writes.push(pipeline(stream, out).catch(() => fail(new AppError(400, `${file.name} could not be received completely; nothing was saved.`, name))));
     });
-    parser.on("filesLimit", () => fail(new AppError(413, `Attach at most ${limits.maxFiles} file${limits.maxFiles === 1 ? "" : "s"} at once.`)));
+    parser.on("filesLimit", () => fail(new AppError(413, `Attach at most ${plural(limits.maxFiles, "file")} at once.`)));
     parser.on("fieldsLimit", () => fail(new AppError(413, `The upload has more than ${MAX_TEXT_FIELDS} form fields.`)));
     parser.on("partsLimit", () => fail(new AppError(413, `The upload has more than ${limits.maxFiles + MAX_TEXT_FIELDS} parts.`)));
     parser.on("error", () => fail(new AppError(400, "The upload could not be read as multipart form data.")));
@@ -202,6 +203,6 @@ export function mappingFromForm(form: UploadForm): MappingOverrides | undefined 
     throw new AppError(400, "mapping is not valid JSON.", "mapping");
   }
   const parsed = mappingOverridesSchema.safeParse(json);
-  if (!parsed.success) throw new AppError(400, `mapping: ${zodMessage(parsed.error)}`, "mapping");
+  if (!parsed.success) throw new AppError(400, `The column mapping is not valid: ${zodMessage(parsed.error)}`, "mapping");
   return parsed.data;
 }

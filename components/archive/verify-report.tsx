@@ -1,36 +1,33 @@
 "use client";
 
 import Link from "next/link";
-import { useState } from "react";
+import { useReducer, useRef } from "react";
 import { useDropzone } from "react-dropzone";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { ActionMessage } from "@/components/ui/action-message";
-
-type Outcome =
-  | { match: true; kind?: undefined; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string }
-  | { match: true; kind: "audit-extract"; sha256: string; seq: number; exportedAt: string; exportedBy: string | null; events: number | null }
-  | { match: false; sha256: string; problem?: string };
+import { plural } from "@/lib/domain";
+import { VERIFY_IDLE, verifyReducer, type VerifyOutcome } from "./verify-state";
 
 export function VerifyReport() {
-  const [outcome, setOutcome] = useState<Outcome | null>(null);
-  const [error, setError] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
-  const [name, setName] = useState<string>("");
+  const [state, dispatch] = useReducer(verifyReducer, VERIFY_IDLE);
+  const checks = useRef(0);
+  const { outcome, error, busy, name } = state;
 
   async function check(file: File) {
-    setBusy(true);
-    setError(null);
-    setOutcome(null);
-    setName(file.name);
+    dispatch({ type: "start", name: file.name });
+    const current = ++checks.current;
     try {
       const form = new FormData();
       form.set("file", file);
-      setOutcome(await fetchJson<Outcome>("/api/reports/verify", { form, what: "the archive check" }));
+      dispatch({ type: "answered", check: current, outcome: await fetchJson<VerifyOutcome>("/api/reports/verify", { form, what: "the archive check" }) });
     } catch (e) {
-      setError(e instanceof Error ? e.message : "The check failed.");
-    } finally {
-      setBusy(false);
+      dispatch({ type: "failed", check: current, error: e instanceof Error ? e.message : "The check failed." });
     }
+  }
+
+  function refuse(name: string, error: string) {
+    checks.current++;
+    dispatch({ type: "refused", name, error });
   }
 
   const { getRootProps, getInputProps, isDragActive } = useDropzone({
@@ -38,7 +35,8 @@ export function VerifyReport() {
     accept: { "application/pdf": [".pdf"] },
     maxSize: 50 * 1024 * 1024,
     onDropAccepted: (files) => void check(files[0]),
-    onDropRejected: (rejections) => setError(rejections[0]?.errors[0]?.code === "file-too-large" ? "That file is over 50 MB; archived reports are much smaller." : "Drop one PDF file."),
+    onDropRejected: (rejections) =>
+      refuse(rejections[0]?.file.name ?? "", rejections[0]?.errors[0]?.code === "file-too-large" ? "That file is over 50 MB; archived reports are much smaller." : "Drop one PDF file."),
   });
 
   return (
@@ -58,8 +56,8 @@ export function VerifyReport() {
         <div role="status" data-testid="verify-outcome" className={`rounded-md px-3 py-2 text-sm ${outcome.match ? "bg-pass-50 text-pass-700" : "bg-fail-50 text-fail-700"}`}>
           {outcome.match && outcome.kind === "audit-extract" ? (
             <p>
-              ✓ <strong>{name}</strong> is byte for byte the audit-trail extract{outcome.events === null ? "" : ` of ${outcome.events} events`} exported by {outcome.exportedBy ?? "an unknown person"}{" "}
-              on {new Date(outcome.exportedAt).toUTCString()}, as ledger event {outcome.seq} recorded it.
+              ✓ <strong>{name}</strong> is byte for byte the audit-trail extract{outcome.events === null ? "" : ` of ${plural(outcome.events, "event")}`} exported by{" "}
+              {outcome.exportedBy ?? "an unknown person"} on {new Date(outcome.exportedAt).toUTCString()}, as ledger event {outcome.seq} recorded it.
             </p>
           ) : outcome.match ? (
             <p>

@@ -2,6 +2,7 @@ import Link from "next/link";
 import { EmptyState } from "@/components/ui/panel";
 import { SterilizerStatusLine } from "@/components/equipment/sterilizer-status";
 import type { SterilizerStatus } from "@/lib/domain";
+import { plural, agree } from "@/lib/domain";
 
 type Item = { id: string; name: string; status: SterilizerStatus; statusReason: string; statusSince: string };
 
@@ -11,9 +12,7 @@ export function StatusBoard({ items, timeZone, linked }: { items: Item[]; timeZo
   const out = items.filter((i) => i.status === "out-of-use").length;
   return (
     <div data-testid="status-board">
-      <p className="mb-2 text-sm text-ink-muted">
-        {out === 0 ? "Every sterilizer is in use." : `${out} of ${items.length} sterilizer${items.length === 1 ? "" : "s"} ${out === 1 ? "is" : "are"} out of use.`}
-      </p>
+      <p className="mb-2 text-sm text-ink-muted">{out === 0 ? "Every sterilizer is in use." : `${out} of ${plural(items.length, "sterilizer")} ${agree(out, "is", "are")} out of use.`}</p>
       <ul className="grid gap-3 sm:grid-cols-2">
         {items.map((s) => (
           <li key={s.id} className={`rounded-md border px-3 py-2 ${s.status === "out-of-use" ? "border-fail-500/40 bg-fail-50/40" : "border-ink-line"}`} data-sterilizer={s.name}>

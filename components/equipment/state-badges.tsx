@@ -1,8 +1,7 @@
 import { Badge } from "@/components/ui/badge";
 import type { CalibrationState, ScheduleStatus } from "@/lib/periodic-tests";
 import { formatDate } from "@/lib/format";
-
-const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? "" : "s"}`;
+import { plural } from "@/lib/domain";
 
 /** Calibration state in words and a symbol, never colour alone. */
 export function CalibrationBadge({ state, daysLeft, dueOn }: { state: CalibrationState; daysLeft: number | null; dueOn?: string | null }) {

@@ -37,7 +37,7 @@ export function SterilizerForm({ profiles, sterilizer }: { profiles: ProfileChoi
         id={`${p}-volume`}
         name="chamberVolumeL"
         label="Chamber volume"
-        suffix="litres"
+        suffix="l"
         inputMode="decimal"
         error={errors.chamberVolumeL}
         value={volume}

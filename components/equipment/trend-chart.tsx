@@ -1,5 +1,6 @@
 import type { TrendFigure } from "@/lib/periodic-tests/trends";
 import { formatDate } from "@/lib/format";
+import { plural } from "@/lib/domain";
 
 const W = 520;
 const H = 200;
@@ -125,7 +126,7 @@ export function TrendChart({ figure, timeZone }: { figure: TrendFigure; timeZone
         })}
       </svg>
       <figcaption className="mt-1 text-xs text-ink-muted">
-        {description} ● within the limit · ✕ outside it{missing ? ` · ${missing} cycle${missing === 1 ? "" : "s"} without a measured value (no plateau)` : ""}
+        {description} ● within the limit · ✕ outside it{missing ? ` · ${plural(missing, "cycle")} without a measured value (no plateau)` : ""}
       </figcaption>
     </figure>
   );

@@ -3,7 +3,7 @@
 import type { ReactNode } from "react";
 import type { TestKind } from "@/lib/domain";
 import type { CreateCycleField } from "@/lib/validations/intake";
-import { formatDuration, PROFILE_BASIS_LABELS, TEST_KINDS, testKindLabel } from "@/lib/domain";
+import { formatDuration, PROFILE_BASIS_LABELS, TEST_KINDS, testKindLabel, formatVolume } from "@/lib/domain";
 import { Panel } from "@/components/ui/panel";
 import { OutOfUseNotice } from "@/components/equipment/sterilizer-status";
 import type { IntakeInstrument, IntakeProfile, IntakeSterilizer } from "./intake-request";
@@ -80,7 +80,7 @@ function EquipmentFields({ idPrefix: ids, details, sterilizers, profiles, instru
           <option value="">Choose…</option>
           {sterilizers.map((s) => (
             <option key={s.id} value={s.id}>
-              {s.name} · {s.serialNumber} · {s.chamberVolumeL} L
+              {s.name} · {s.serialNumber} · {formatVolume(s.chamberVolumeL)}
             </option>
           ))}
         </select>

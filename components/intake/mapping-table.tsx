@@ -3,6 +3,7 @@
 import { PRESSURE_UNITS, TEMPERATURE_UNIT_SYMBOL, TEMPERATURE_UNITS } from "@/lib/steam/units";
 import type { EditableColumn } from "@/lib/validations/intake";
 import { PressureReferenceChoice, type GaugeSource } from "./pressure-reference";
+import { headerWithUnit } from "@/lib/domain";
 
 export type MappedColumn = EditableColumn & {
   /** what the guess was unsure of, as the server said it */
@@ -165,7 +166,9 @@ export function MappingTable({
       <p className="mb-2 text-sm" data-testid="mapping-summary">
         <span className="text-ink-muted">Time:</span> <span className="mono">{time?.header ?? "none"}</span>
         <span className="text-ink-muted"> · Chamber pressure:</span>{" "}
-        <span className="mono">{pressure ? `${pressure.header} (${pressure.unit ?? "unit?"} ${pressure.gauge === null ? "abs or gauge?" : pressure.gauge ? "gauge" : "abs"})` : "none"}</span>
+        <span className="mono">
+          {pressure ? headerWithUnit(pressure.header, `${pressure.unit ?? "unit?"} ${pressure.gauge === null ? "abs or gauge?" : pressure.gauge ? "gauge" : "abs"}`) : "none"}
+        </span>
         <span className="text-ink-muted"> · Temperatures:</span> {temperatures.length}
         <span className="text-ink-muted"> · Reference:</span> <span className="mono">{referenceColumn ?? "none"}</span>
         <span className="text-ink-muted"> · Free space:</span> <span className="mono">{freeSpaceColumn ?? "none"}</span>

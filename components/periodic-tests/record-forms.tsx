@@ -205,7 +205,7 @@ export function AirLeakageForm({ sterilizers, sterilizerId }: { sterilizers: Ste
   );
 }
 
-export function BowieDickForm({ sterilizers, sterilizerId }: { sterilizers: SterilizerChoice[]; sterilizerId?: string }) {
+export function BowieDickForm({ sterilizers, sterilizerId, kind = "bowie-dick" }: { sterilizers: SterilizerChoice[]; sterilizerId?: string; kind?: "bowie-dick" | "hollow-load" }) {
   const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(recordBowieDickAction);
   const [outcome, setOutcome] = useState<"" | IndicatorSheetResult>("");
   const [savedCount, setSavedCount] = useState(0);
@@ -213,14 +213,32 @@ export function BowieDickForm({ sterilizers, sterilizerId }: { sterilizers: Ster
     setOutcome("");
     setSavedCount((n) => n + 1);
   });
-  const r = outcome ? evaluateBowieDick(outcome) : null;
+  const r = outcome ? evaluateBowieDick(outcome, kind) : null;
   return (
-    <form ref={formRef} onSubmit={onSubmit} onChange={onChange} className="space-y-4" noValidate aria-label="Record a Bowie-Dick test" encType="multipart/form-data">
+    <form
+      ref={formRef}
+      onSubmit={onSubmit}
+      onChange={onChange}
+      className="space-y-4"
+      noValidate
+      aria-label={kind === "hollow-load" ? "Record a hollow load test" : "Record a Bowie-Dick test"}
+      encType="multipart/form-data"
+    >
+      <input type="hidden" name="kind" value={kind} />
       <CommonFields sterilizers={sterilizers} sterilizerId={sterilizerId} errors={errors} />
       <IndicatorSheetFields key={savedCount} idPrefix="bd" errors={errors} onChange={(v) => setOutcome(v.outcome)} />
       <IndicatorPhotoField id="bd-photo" error={errors.photo} resetKey={savedCount} />
       <ResultPreview
-        preview={r ? { passed: r.passed, headline: r.meaning, limit: "a uniform colour change over the whole sheet", basis: r.basis } : null}
+        preview={
+          r
+            ? {
+                passed: r.passed,
+                headline: r.meaning,
+                limit: kind === "hollow-load" ? "a uniform colour change of the whole indicator strip" : "a uniform colour change over the whole sheet",
+                basis: r.basis,
+              }
+            : null
+        }
         waiting="Choose how the indicator changed."
       />
       <p className="text-xs text-ink-muted">The record waits for an engineer&apos;s signature; it counts for the schedule once approved (pass) or confirmed as a failure (fail).</p>

@@ -5,6 +5,7 @@ const CAUTIONS: Record<RecordableKind, string> = {
   "air-leakage":
     "Fit test gauges and sensor glands only with the chamber at atmospheric pressure and the steam supply isolated, under the site's permit-to-work procedure. A leaking gland also upsets this test: repeat it with test sensors removed.",
   "bowie-dick": "The test pack and chamber are hot after the cycle: wear heat-resistant gloves and eye protection when unloading, and open the door only once the cycle is complete.",
+  "hollow-load": "The helix and chamber are hot after the cycle: wear heat-resistant gloves and eye protection when taking out the indicator strip, and open the door only once the cycle is complete.",
   "steam-non-condensable-gas": "",
   "steam-superheat": "",
   "steam-dryness": "",

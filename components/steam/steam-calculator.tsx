@@ -5,6 +5,7 @@ import useSWR from "swr";
 import { atmosphereAtAltitudeKpa } from "@/lib/steam";
 import { formatPressure, formatTemperature, PRESSURE_UNITS, TEMPERATURE_UNIT_SYMBOL, TEMPERATURE_UNITS, type PressureUnit, type TemperatureUnit } from "@/lib/domain";
 import { fetchJson, type RequestError } from "@/lib/client/fetch-json";
+import { calculatorNumber } from "./calculator-input";
 import { Panel } from "@/components/ui/panel";
 import { bandEdgePressures } from "./band-edges";
 import { TableFrame } from "@/components/ui/table-frame";
@@ -79,13 +80,21 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
 
   const bandRows = useMemo(() => (atmosphere.kpa === null ? null : bandEdgePressures(atmosphere.kpa)), [atmosphere.kpa]);
 
+  // A problem with what was typed is said here, in the field's own words, and nothing is asked of the server.
+  const [temperatureProblem, setTemperatureProblem] = useState<string | null>(null);
+  const [pressureProblem, setPressureProblem] = useState<string | null>(null);
+
   function submitTemperature(event: FormEvent) {
     event.preventDefault();
-    setTemperatureRequest(temperatureQuery(temperatureText, temperatureUnit));
+    const read = calculatorNumber(temperatureText, "temperature", "134");
+    setTemperatureProblem(read.ok ? null : read.problem);
+    if (read.ok) setTemperatureRequest(temperatureQuery(read.text, temperatureUnit));
   }
   function submitPressure(event: FormEvent) {
     event.preventDefault();
-    setPressureRequest(pressureQuery(pressureText, pressureUnit, pressureGauge));
+    const read = calculatorNumber(pressureText, "pressure", "2.03");
+    setPressureProblem(read.ok ? null : read.problem);
+    if (read.ok) setPressureRequest(pressureQuery(read.text, pressureUnit, pressureGauge));
   }
 
   const siteSourceText =
@@ -95,8 +104,8 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
         ? `the standard atmosphere at the site's altitude (${site.altitudeM} m)`
         : "the standard atmosphere at sea level (the site has no barometric pressure or altitude set)";
 
-  const temperatureError = toPressure.error as RequestError | undefined;
-  const pressureError = toTemperature.error as RequestError | undefined;
+  const temperatureError = temperatureProblem ?? (toPressure.error as RequestError | undefined)?.message ?? null;
+  const pressureError = pressureProblem ?? (toTemperature.error as RequestError | undefined)?.message ?? null;
 
   return (
     <div className="grid gap-gutter xl:grid-cols-2">
@@ -193,7 +202,7 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
         </form>
         {temperatureError && (
           <p id={`${ids}-t-error`} className="field-error text-sm" role="alert">
-            {temperatureError.message}
+            {temperatureError}
           </p>
         )}
         {toPressure.data && !temperatureError && (
@@ -254,7 +263,7 @@ export function SteamCalculator({ site }: { site: SiteAtmosphere }) {
         </form>
         {pressureError && (
           <p id={`${ids}-p-error`} className="field-error text-sm" role="alert">
-            {pressureError.message}
+            {pressureError}
           </p>
         )}
         {toTemperature.data && !pressureError && (

@@ -2,6 +2,7 @@ import type { Recording } from "../logger-files/types";
 import { CHECK_LABELS } from "./checks";
 import { AnalysisError, EDGE_TOLERANCE_K, type Check, type Diagnosis } from "./types";
 import { fmt, round, seconds } from "./words";
+import { plural } from "@/lib/domain";
 
 /**
  * A new plateau can only start once the reference has fallen this far below Ts (as at exhaust),
@@ -52,7 +53,7 @@ export function plateauPeriodEnd(recording: Recording, span: PlateauSpan, steril
 export function choosePlateau(plateaus: PlateauSpan[], wanted = 0): number {
   if (!Number.isInteger(wanted) || wanted < 0) throw new AnalysisError(`Plateau ${wanted} is not a valid plateau number`);
   if (plateaus.length > 0 && wanted >= plateaus.length) {
-    throw new AnalysisError(`The record holds ${plateaus.length} plateau${plateaus.length === 1 ? "" : "s"}; plateau ${wanted + 1} does not exist`);
+    throw new AnalysisError(`The record holds ${plural(plateaus.length, "plateau")}; plateau ${wanted + 1} does not exist`);
   }
   return wanted;
 }

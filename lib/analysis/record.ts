@@ -2,6 +2,7 @@ import type { Recording } from "../logger-files/types";
 import { CHECK_LABELS } from "./checks";
 import { GAP_FACTOR, type AcceptanceLimits, type Check, type Diagnosis, type RecordGap } from "./types";
 import { round, seconds } from "./words";
+import { plural, agree } from "@/lib/domain";
 
 /** Slack for comparing intervals, s: times parsed from text carry float noise (0.1 s steps sum to 0.30000000000000004). */
 export const TIME_TOLERANCE_S = 1e-6;
@@ -90,7 +91,7 @@ export function gapsOutsideNote(timesS: ArrayLike<number>, from: number, to: num
   }
   if (count === 0) return null;
   return (
-    `${count} interval${count === 1 ? "" : "s"} between samples outside the plateau ${count === 1 ? "is" : "are"} longer than ${seconds(round(maxIntervalS, 3))} ` +
+    `${plural(count, "interval")} between samples outside the plateau ${agree(count, "is", "are")} longer than ${seconds(round(maxIntervalS, 3))} ` +
     `(the longest ${seconds(round(longest, 1))} from ${seconds(round(longestAt, 1))}); they do not affect the checks`
   );
 }

@@ -1,6 +1,6 @@
 /**
  * `npm run dev`: prepares the database (migrations, demo site), starts the local fake of Resend's
- * HTTP API so notification mail can be read under Users → Mail, then runs `next dev`.
+ * HTTP API so notification mail can be read on the Mail page (/admin/mail), then runs `next dev`.
  * With RESEND_API_KEY set (a real provider), no fake is started.
  */
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
@@ -24,7 +24,7 @@ if (!config.RESEND_API_KEY && !config.RESEND_BASE_URL) {
   childEnv.RESEND_BASE_URL = `http://127.0.0.1:${fakePort}`;
   childEnv.FAKE_RESEND_MAILBOX ??= path.join(root, "data", "fake-mailbox.jsonl");
   children.push(spawn(process.execPath, [tsx, "lib/mail/fake-resend-server.ts", "--port", fakePort], { cwd: root, env: childEnv, stdio: "inherit" }));
-  console.log(`Local mail fake on ${childEnv.RESEND_BASE_URL}; read what Papin sends under Users → Mail.`);
+  console.log(`Local mail fake on ${childEnv.RESEND_BASE_URL}; read what Papin sends on the Mail page (menu: Mail, /admin/mail), signed in as the administrator.`);
 }
 children.push(spawn(process.execPath, [next, "dev", "-H", "127.0.0.1", "-p", port], { cwd: root, env: childEnv, stdio: "inherit" }));
 

@@ -6,6 +6,7 @@
  *   15 6 * * *  cd /srv/papin && npm run --silent ledger:anchor -- --verify --mail
  */
 import { env } from "../env";
+import { plural, agree } from "@/lib/domain";
 
 async function main() {
   const args = new Set(process.argv.slice(2));
@@ -21,16 +22,18 @@ async function main() {
       process.exitCode = 1;
       return;
     }
-    console.log(`Ledger verified: ${result.events} events${result.anchors.status === "match" ? `, ${result.anchors.anchors} anchors match` : `; ${result.anchors.problem}`}.`);
+    console.log(
+      `Ledger verified: ${plural(result.events, "event")}${result.anchors.status === "match" ? `, ${plural(result.anchors.anchors, "anchor")} ${agree(result.anchors.anchors, "matches", "match")}` : `; ${result.anchors.problem}`}.`,
+    );
   }
   const { anchor, file, mailIds } = args.has("--mail") ? await mailLedgerHead() : { ...(await anchorLedgerHead()), mailIds: null };
-  console.log(`Ledger head at ${anchor.at}: ${anchor.events} events, last event ${anchor.seq}, hash ${anchor.hash}; appended to ${file}.`);
+  console.log(`Ledger head at ${anchor.at}: ${plural(anchor.events, "event")}, last event ${anchor.seq}, hash ${anchor.hash}; appended to ${file}.`);
   if (mailIds) {
     const { deliverPendingMail, mailTransport } = await import("@/lib/mail/delivery");
     const configured = mailTransport().configured;
     const sent = configured && mailIds.length ? await deliverPendingMail({ ids: mailIds }) : null;
     const outcome = !configured ? " (mail is not configured: they wait in the outbox)" : sent ? ` (${sent.sent} sent now; any other waits in the outbox)` : "";
-    console.log(`Queued ${mailIds.length} ledger-head mail${mailIds.length === 1 ? "" : "s"} to auditors${outcome}.`);
+    console.log(`Queued ${plural(mailIds.length, "ledger-head mail")} to auditors${outcome}.`);
   }
 }
 

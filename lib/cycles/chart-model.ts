@@ -5,7 +5,7 @@
  */
 import type { SeriesResponse } from "./contracts";
 import type { AnalysisResult } from "@/lib/analysis/types";
-import { hasZone } from "@/lib/domain";
+import { hasZone, plural } from "@/lib/domain";
 
 // ---------------------------------------------------------------------------------------------
 // Time axis
@@ -222,7 +222,7 @@ export function describeTimeChart(analysis: AnalysisResult, detail: { sterilizat
     if (analysis.plateau) parts.push("No saturation flag: the reference stayed within the limit of saturated steam throughout the plateau.");
   } else {
     parts.push(
-      `${flags.length} saturation flag${flags.length === 1 ? "" : "s"}: ` +
+      `${plural(flags.length, "saturation flag")}: ` +
         flags
           .map(
             (f) =>

@@ -5,6 +5,7 @@
  */
 import type { AnalysisResult, ChannelSummary, RecordGap } from "@/lib/analysis/types";
 import type { AtmosphereUsed, PressureReference } from "@/lib/logger-files/types";
+import { plural } from "@/lib/domain";
 
 export const NOT_RECORDED = "not recorded by this engine version";
 
@@ -68,7 +69,7 @@ export function describeMissing(analysis: Pick<AnalysisResult, "input" | "channe
   if (!input || analysis.channels.some((c) => c.missing === undefined)) return NOT_RECORDED;
   const temperature = analysis.channels.reduce((n, c) => n + c.missing, 0);
   if (temperature === 0 && input.pressureMissing === 0) return "none";
-  const count = (n: number) => `${n.toLocaleString("en-GB")} reading${n === 1 ? "" : "s"}`;
+  const count = (n: number) => plural(n, "reading");
   return `${count(temperature)} of the temperature channels, ${count(input.pressureMissing)} of the pressure (per channel in the channel table)`;
 }
 

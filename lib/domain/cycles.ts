@@ -13,6 +13,27 @@ export const CYCLE_STATUS_LABELS: Record<CycleStatus, string> = {
   returned: "Returned",
 };
 
+/** What each state means, printed after its name where there is room (the PDF report). */
+export const CYCLE_STATUS_EXPLANATIONS: Record<CycleStatus, string | null> = {
+  draft: "not yet submitted for review",
+  submitted: "waiting for an engineer's review",
+  approved: null,
+  "failure-confirmed": "closed as a signed failure",
+  returned: "to be corrected and submitted again",
+};
+
+/**
+ * A cycle state's name, the same in the list, the CSV export, the e-mails and the PDF. `rejected`, the word of records
+ * returned before outcomes had their GMP meaning (migration 0011), reads as Returned, which is what it meant; a state
+ * this version does not know is spelt out from its name.
+ */
+export function cycleStatusLabel(status: string): string {
+  if (status === "rejected") return CYCLE_STATUS_LABELS.returned;
+  if (Object.hasOwn(CYCLE_STATUS_LABELS, status)) return CYCLE_STATUS_LABELS[status as CycleStatus];
+  const words = status.replace(/[-_]+/g, " ").trim();
+  return words.charAt(0).toUpperCase() + words.slice(1);
+}
+
 /** Signed outcomes: the record is locked and its report archived; a correction is a new, linked record. */
 export const LOCKED_CYCLE_STATUSES = ["approved", "failure-confirmed"] as const satisfies readonly CycleStatus[];
 /** Where the technician may correct the cycle (new file, mapping, details) and submit it. */
@@ -38,7 +59,7 @@ export const SIGNATURE_MEANING_LABELS: Record<SignatureMeaning, string> = {
   approved: "Approved",
   "failure-confirmed": "Failure confirmed",
   returned: "Returned for correction",
-  rejected: "Rejected (returned for correction)",
+  rejected: "Returned for correction (signed as rejected)",
 };
 
 /** Test kinds whose evidence is a measurement by an instrument: approval needs the instrument named and calibrated on the test's date. */

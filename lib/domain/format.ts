@@ -35,3 +35,9 @@ export function formatPressure(valueKpa: number | null | undefined, options: { d
   const suffix = options.reference ? ` ${options.reference}` : "";
   return `${fixedSigned(valueKpa, options.digits ?? 1)} kPa${suffix}`;
 }
+
+/** A chamber volume in litres with the standards' symbol, lower-case l: "445 l", "23.5 l". */
+export function formatVolume(litres: number | null | undefined): string {
+  if (litres === null || litres === undefined || !Number.isFinite(litres)) return DASH;
+  return `${Number.isInteger(litres) ? litres.toLocaleString("en-GB") : litres.toFixed(1)} l`;
+}

@@ -3,11 +3,20 @@ export const TEST_KINDS = ["thermometric-small-load", "thermometric-full-load", 
 export type TestKind = (typeof TEST_KINDS)[number];
 
 /** The tests a sterilizer's schedule asks for, and that are recorded as periodic tests. */
-export const PERIODIC_TEST_KINDS = ["air-leakage", "bowie-dick", "steam-non-condensable-gas", "steam-superheat", "steam-dryness", "thermometric-small-load", "thermometric-full-load"] as const;
+export const PERIODIC_TEST_KINDS = [
+  "air-leakage",
+  "bowie-dick",
+  "hollow-load",
+  "steam-non-condensable-gas",
+  "steam-superheat",
+  "steam-dryness",
+  "thermometric-small-load",
+  "thermometric-full-load",
+] as const;
 export type PeriodicTestKind = (typeof PERIODIC_TEST_KINDS)[number];
 
 /** Periodic tests entered by hand; the thermometric ones are evidenced by an analysed cycle. */
-export const RECORDABLE_KINDS = ["air-leakage", "bowie-dick", "steam-non-condensable-gas", "steam-superheat", "steam-dryness"] as const;
+export const RECORDABLE_KINDS = ["air-leakage", "bowie-dick", "hollow-load", "steam-non-condensable-gas", "steam-superheat", "steam-dryness"] as const;
 export type RecordableKind = (typeof RECORDABLE_KINDS)[number];
 export const isRecordable = (kind: string): kind is RecordableKind => (RECORDABLE_KINDS as readonly string[]).includes(kind);
 
@@ -15,6 +24,7 @@ const KIND_LABELS: Record<TestKind | PeriodicTestKind, string> = {
   "thermometric-small-load": "Thermometric test, small load",
   "thermometric-full-load": "Thermometric test, full load",
   "bowie-dick": "Bowie-Dick test",
+  "hollow-load": "Hollow load test (helix)",
   "air-leakage": "Air leakage test",
   "steam-quality": "Steam quality test",
   "steam-non-condensable-gas": "Steam quality: non-condensable gases",
@@ -53,6 +63,14 @@ export const PERIODIC_SIGNATURE_MEANING_LABELS: Record<PeriodicSignatureMeaning,
   "failure-confirmed": "Failure confirmed: the test failed and closes as a signed failure",
   returned: "Returned: a data or entry problem; the test is recorded again",
 };
+
+/**
+ * The steam-penetration tests judged by a chemical indicator and its photo: the Bowie-Dick test of a porous-load
+ * sterilizer (EN 285) and the hollow load test of a type B small sterilizer (EN 13060, a helix process challenge device).
+ */
+export const INDICATOR_TEST_KINDS = ["bowie-dick", "hollow-load"] as const;
+export type IndicatorTestKind = (typeof INDICATOR_TEST_KINDS)[number];
+export const isIndicatorTest = (kind: string): kind is IndicatorTestKind => (INDICATOR_TEST_KINDS as readonly string[]).includes(kind);
 
 /** The reading of a steam-penetration (Bowie-Dick) indicator sheet: only a uniform colour change passes (DOMAIN.md §2.7). */
 export const INDICATOR_SHEET_RESULTS = ["uniform", "non-uniform"] as const;

@@ -2,6 +2,7 @@ import { kpaPerUnit, type PressureUnit, type TemperatureUnit } from "../steam";
 import { LoggerFileError } from "./errors";
 import type { TimeFormat } from "./time";
 import type { ColumnMapping, TemperatureChannel } from "./types";
+import { plural, agree } from "@/lib/domain";
 
 /** An error in one row of the file, said with its row number (1-based line) and, usually, its column. */
 export function rowError(lineIndex: number, message: string): LoggerFileError {
@@ -90,7 +91,7 @@ export function toAbsoluteKpaChannel(raw: Float64Array, rowCount: number, column
   }
   if (assumedNotes && negative > 0) {
     assumedNotes.push(
-      `${negative} reading${negative === 1 ? "" : "s"} of "${column.header}" (the first on row ${firstNegative + 1}) ${negative === 1 ? "is" : "are"} below zero, ` +
+      `${plural(negative, "reading")} of "${column.header}" (the first on row ${firstNegative + 1}) ${agree(negative, "is", "are")} below zero, ` +
         "impossible for an absolute pressure: the logger very likely records gauge pressure. Set the pressure reference to gauge and analyse again",
     );
   }

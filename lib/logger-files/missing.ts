@@ -1,4 +1,5 @@
 import { LoggerFileError } from "./errors";
+import { plural } from "@/lib/domain";
 
 /**
  * Blank cells met while reading, per channel slot (1-based: temperatures, then pressure), and the
@@ -51,7 +52,7 @@ export class MissingReadings {
       const first = this.firstLine[slot] + 1;
       const last = this.lastLine[slot] + 1;
       const where = count === 1 ? `row ${first}` : `rows ${first} to ${last}`;
-      notes.push(`Column "${header}": ${count} blank cell${count === 1 ? "" : "s"} (${where}), read as missing readings`);
+      notes.push(`Column "${header}": ${plural(count, "blank cell")} (${where}), read as missing readings`);
     }
     return notes;
   }

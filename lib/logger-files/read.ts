@@ -7,6 +7,7 @@ import { DECIMAL_CODES, parseDecimal } from "./numbers";
 import { MAX_FIELDS_PER_ROW, delimiterName, isBlankLine, lineText, splitFields, type PreparedText, type TableLayout } from "./sniff";
 import { cellHasOffset, isoFromSeconds, parseTimeCell, type TimeFormat } from "./time";
 import type { MappingOverrides, ReadContext, ReadResult, Recording } from "./types";
+import { plural } from "@/lib/domain";
 
 const TIME_FORMAT_WORDS: Record<TimeFormat, string> = {
   iso: "year-month-day hour:minute:second",
@@ -188,7 +189,7 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, 
   if (rowCount === 0 && missing.skippedRows > 0) throw new LoggerFileError(`Every data row of the file has only blank cells besides the time`);
   if (rowCount === 0) throw new LoggerFileError(`The file has a header (line ${layout.headerLineIndex + 1}) but no data rows below it`);
   if (rowCount < MIN_DATA_ROWS) {
-    throw new LoggerFileError(`The file has only ${rowCount} data row${rowCount === 1 ? "" : "s"}; at least ${MIN_DATA_ROWS} are needed to analyse a cycle`);
+    throw new LoggerFileError(`The file has only ${plural(rowCount, "data row")}; at least ${MIN_DATA_ROWS} are needed to analyse a cycle`);
   }
 
   const source: RowSource = { sourceLine, cellAt: (lineIndex, field) => cellOf(prepared, layout, lineIndex, field) };

@@ -4,6 +4,7 @@
  */
 import { publicBaseUrl } from "@/lib/env";
 import { SAFETY_SHORT } from "@/lib/safety";
+import { cycleStatusLabel, plural, type CycleStatus } from "@/lib/domain";
 
 export type MailContent = { subject: string; html: string; text: string };
 
@@ -79,6 +80,9 @@ ${htmlBlocks}
   return { html, text };
 }
 
+// The state names of the list, the CSV and the PDF (lib/domain), in the middle of a sentence.
+const stateWord = (status: CycleStatus) => cycleStatusLabel(status).toLowerCase();
+
 /** To the site's engineers: a cycle waits for their review. */
 export function cycleSubmittedMail({ cycleNumber, sterilizerName, submitterName, url }: CycleFacts & { submitterName: string }): MailContent {
   const heading = `Cycle ${oneLine(cycleNumber)} on ${oneLine(sterilizerName)} is ready for review`;
@@ -98,7 +102,7 @@ export function cycleSubmittedMail({ cycleNumber, sterilizerName, submitterName,
 
 /** To the person who submitted: the cycle came back, with the engineer's reason. */
 export function cycleRejectedMail({ cycleNumber, sterilizerName, url, reason, signerName }: CycleFacts & { reason: string; signerName: string }): MailContent {
-  const heading = `Cycle ${oneLine(cycleNumber)} on ${oneLine(sterilizerName)} was returned`;
+  const heading = `Cycle ${oneLine(cycleNumber)} on ${oneLine(sterilizerName)} was ${stateWord("returned")}`;
   return {
     subject: heading,
     ...layout({
@@ -116,7 +120,7 @@ export function cycleRejectedMail({ cycleNumber, sterilizerName, url, reason, si
 
 /** To the person who submitted: the cycle was approved and its report archived. */
 export function cycleApprovedMail({ cycleNumber, sterilizerName, url, signerName, reportNumber }: CycleFacts & { signerName: string; reportNumber: string }): MailContent {
-  const heading = `Cycle ${oneLine(cycleNumber)} on ${oneLine(sterilizerName)} was approved`;
+  const heading = `Cycle ${oneLine(cycleNumber)} on ${oneLine(sterilizerName)} was ${stateWord("approved")}`;
   return {
     subject: heading,
     ...layout({
@@ -140,7 +144,7 @@ export function cycleFailureConfirmedMail({
   reportNumber,
   reason,
 }: CycleFacts & { signerName: string; reportNumber: string; reason: string | null }): MailContent {
-  const heading = `Cycle ${oneLine(cycleNumber)} on ${oneLine(sterilizerName)}: failure confirmed`;
+  const heading = `Cycle ${oneLine(cycleNumber)} on ${oneLine(sterilizerName)}: ${stateWord("failure-confirmed")}`;
   const blocks: Block[] = [{ kind: "p", text: `${signerName} confirmed with an electronic signature that cycle ${cycleNumber} on ${sterilizerName} failed its test.` }];
   if (reason) blocks.push({ kind: "quote", label: "Note from the engineer", text: reason });
   blocks.push({ kind: "p", text: `The signed report ${reportNumber}, marked FAIL, is in the archive and the record is locked. Find and correct the cause before the sterilizer is tested again.` });
@@ -214,7 +218,7 @@ export function auditLedgerUrl(): string {
  * copy outside the database that a later check of the ledger can be compared with.
  */
 export function ledgerHeadMail({ siteName, at, events, lastSeq, lastHash, url }: { siteName: string; at: string; events: number; lastSeq: number; lastHash: string; url: string }): MailContent {
-  const heading = `Daily audit-ledger head for ${oneLine(siteName)}: ${events} events`;
+  const heading = `Daily audit-ledger head for ${oneLine(siteName)}: ${plural(events, "event")}`;
   return {
     subject: heading,
     ...layout({
@@ -222,7 +226,7 @@ export function ledgerHeadMail({ siteName, at, events, lastSeq, lastHash, url }:
       url,
       action: "Open the audit ledger",
       blocks: [
-        { kind: "p", text: `At ${at} (UTC) Papin's audit ledger held ${events} events. The newest is event ${lastSeq}; the chain's hash up to it is:` },
+        { kind: "p", text: `At ${at} (UTC) Papin's audit ledger held ${plural(events, "event")}. The newest is event ${lastSeq}; the chain's hash up to it is:` },
         { kind: "quote", label: "Ledger head", text: `events ${events} · last event ${lastSeq}\nSHA-256 ${lastHash}` },
         {
           kind: "p",

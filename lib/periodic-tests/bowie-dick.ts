@@ -1,14 +1,20 @@
-import { BOWIE_DICK } from "./limits";
+import { BOWIE_DICK, HOLLOW_LOAD } from "./limits";
 
 export type BowieDickOutcome = "uniform" | "non-uniform";
 
-export function evaluateBowieDick(outcome: BowieDickOutcome): { passed: boolean; basis: string; meaning: string } {
+/** A steam-penetration indicator read by a person: the Bowie-Dick sheet, or the helix strip of a hollow load test. */
+export function evaluateBowieDick(outcome: BowieDickOutcome, kind: "bowie-dick" | "hollow-load" = "bowie-dick"): { passed: boolean; basis: string; meaning: string } {
+  const basis = kind === "hollow-load" ? HOLLOW_LOAD.basis : BOWIE_DICK.basis;
   if (outcome === "uniform") {
-    return { passed: true, basis: BOWIE_DICK.basis, meaning: "Uniform colour change: steam penetrated the test pack evenly." };
+    return {
+      passed: true,
+      basis,
+      meaning: kind === "hollow-load" ? "Uniform colour change: steam reached the far end of the helix." : "Uniform colour change: steam penetrated the test pack evenly.",
+    };
   }
   return {
     passed: false,
-    basis: BOWIE_DICK.basis,
+    basis,
     meaning:
       "A paler or uneven area means steam did not penetrate evenly: poor air removal, a leak during air removal or non-condensable gas in the steam are possible causes. Take the sterilizer out of use until the cause is found and a repeat test passes.",
   };

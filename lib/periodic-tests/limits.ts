@@ -41,6 +41,11 @@ export const BOWIE_DICK = {
   basis: "EN 285 steam penetration test (ISO 11140-3 indicator): a uniform colour change over the whole sheet passes",
 } as const;
 
+// EN 13060 type B: the hollow load test with a helix process challenge device (EN 867-5), from memory.
+export const HOLLOW_LOAD = {
+  basis: "EN 13060 hollow load test (helix process challenge device, EN 867-5 indicator): a uniform colour change of the whole strip passes",
+} as const;
+
 // Readings entered in mbar or mmHg come back from unit conversion a few ulps off; a result that
 // equals the limit as written must compare as equal.
 const TOLERANCE = 1e-9;

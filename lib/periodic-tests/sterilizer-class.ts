@@ -26,18 +26,20 @@ export function sizeClassOf(chamberVolumeL: number): SizeClass {
   };
 }
 
-export type DefaultScheduledTest = { kind: "bowie-dick" | "air-leakage"; intervalDays: number; requiredBeforeUse: boolean };
+export type DefaultScheduledTest = { kind: "bowie-dick" | "hollow-load" | "air-leakage"; intervalDays: number; requiredBeforeUse: boolean };
 
 /**
  * The schedule a new sterilizer starts with. One that removes air by vacuum (porous-load, type B) needs a steam
  * penetration (Bowie-Dick) test each day and an air leakage test each week before it is used (DOMAIN.md §2.5, §2.12;
  * HTM 01-01 Part C, common practice). A fluids or non-vacuum (type N) sterilizer gets neither; the engineer adds what
- * the site's written scheme asks for.
+ * the site's written scheme asks for. A small (EN 13060) vacuum sterilizer, type B, proves steam penetration with the
+ * hollow load (helix) test of its own standard instead of the porous-load Bowie-Dick test (common practice).
  */
-export function defaultScheduleFor({ vacuumAirRemoval }: { vacuumAirRemoval: boolean }): DefaultScheduledTest[] {
+export function defaultScheduleFor({ vacuumAirRemoval, chamberVolumeL }: { vacuumAirRemoval: boolean; chamberVolumeL?: number }): DefaultScheduledTest[] {
   if (!vacuumAirRemoval) return [];
+  const small = chamberVolumeL !== undefined && sizeClassOf(chamberVolumeL).standard === "EN 13060";
   return [
-    { kind: "bowie-dick", intervalDays: 1, requiredBeforeUse: true },
+    { kind: small ? "hollow-load" : "bowie-dick", intervalDays: 1, requiredBeforeUse: true },
     { kind: "air-leakage", intervalDays: 7, requiredBeforeUse: true },
   ];
 }

@@ -1,7 +1,9 @@
-import { Document, Page, Text, View, renderToBuffer } from "@react-pdf/renderer";
+import { Document, Page, View, renderToBuffer } from "@react-pdf/renderer";
 import type { AuditLine } from "@/lib/domain/audit-words";
+import { plural } from "@/lib/domain";
 import type { LedgerHead } from "@/lib/integrity/anchors";
 import { registerReportFonts } from "./fonts";
+import { ReportFooter } from "./footer";
 import { Fact, Heading, T, TableHead, type Column } from "./parts";
 import { s } from "./styles";
 import { pdfText } from "./text";
@@ -33,7 +35,6 @@ const cell = (width: number) => ({ width: `${width}%`, paddingVertical: 2.5, pad
 const changeStyle = { fontSize: 6.8, color: colour.inkSoft };
 const hashStyle = { fontSize: 5.8, color: colour.inkMuted, paddingHorizontal: 3, paddingBottom: 2.5 };
 // Three fixed-width parts, so the site name never runs into the page number.
-const footerPart = (width: string, align: "left" | "center" | "right") => ({ width, textAlign: align });
 
 function EventRow({ row }: { row: AuditExtractRow }) {
   return (
@@ -84,15 +85,11 @@ export function AuditExtractDocument({ model }: { model: AuditExtractModel }) {
           </View>
           <T style={s.headerRight}>{model.exportedAt.utc}</T>
         </View>
-        <View style={s.footer} fixed>
-          <T style={[s.footerMono, footerPart("38%", "left")]}>{`Extract of ${model.exportedAt.utc}`}</T>
-          <T style={footerPart("40%", "center")}>{model.siteName}</T>
-          <Text style={footerPart("22%", "right")} render={({ pageNumber, totalPages }) => `Page ${pageNumber} of ${totalPages}`} />
-        </View>
+        <ReportFooter reportNumber={`Extract ${model.exportedAt.utc}`} about={`Audit trail of ${model.siteName}`} />
 
         <View style={s.titleBlock}>
           <T style={s.title}>{`Audit trail of ${model.siteName}`}</T>
-          <T style={s.subtitle}>{`${rows.length} ${rows.length === 1 ? "event" : "events"}, newest first`}</T>
+          <T style={s.subtitle}>{`${plural(rows.length, "event")}, newest first`}</T>
         </View>
 
         <View style={[s.facts, { marginBottom: 10 }]}>

@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import { Document, Line, Page, Rect, Svg, Text, View } from "@react-pdf/renderer";
+import { Document, Line, Page, Rect, Svg, View } from "@react-pdf/renderer";
 import { isAirLeakage, thermometricOf, type AnalysisResult, type Check, type SaturationFlag } from "@/lib/analysis/types";
 import type { CycleDetail, SeriesResponse, SignatureView } from "@/lib/cycles/contracts";
 import { formatElapsed } from "@/lib/cycles/chart-model";
@@ -8,12 +8,24 @@ import { downsampleForReport, strideIndexes } from "./downsample";
 import { REPORT_CHART_POINTS, REPORT_PHASE_POINTS, type ReportModel } from "./model";
 import { PhaseChart } from "./phase-chart";
 import { s } from "./styles";
-import { basisNoteFor, describeBasis, formatDuration, PROFILE_BASIS_LABELS, testKindLabel } from "@/lib/domain";
+import {
+  basisNoteFor,
+  CYCLE_STATUS_EXPLANATIONS,
+  cycleStatusLabel,
+  describeBasis,
+  formatDuration,
+  formatVolume,
+  plural,
+  PROFILE_BASIS_LABELS,
+  SIGNATURE_MEANING_LABELS,
+  testKindLabel,
+} from "@/lib/domain";
 import { bytes, fixed, pdfText, signed } from "./text";
 import { CONTENT_WIDTH, colour, loadChannelStyle, seriesStyle } from "./theme";
 import { bothClocks, instantOf, siteClockAt } from "./time";
 import { TimeChart } from "./time-chart";
 import { DraftWatermark } from "./watermark";
+import { ReportFooter } from "./footer";
 import { Fact, Heading, T, TableHead, type Column } from "./parts";
 import { ChannelsSection, RecordInputSection } from "./record-sections";
 import { BowieDickSection } from "./bowie-dick-section";
@@ -40,20 +52,19 @@ function limitText(check: Check): string {
   return `${check.comparison === "at-most" ? "at most" : "at least"} ${value}`;
 }
 
-const MEANING_TEXT: Record<SignatureView["meaning"], string> = {
-  reviewed: "Reviewed: the signer has reviewed this record and its analysis.",
-  approved: "Approved: the signer approves this record and its verdict.",
-  "failure-confirmed": "Failure confirmed: the signer confirms that this test failed; the record is closed as a signed failure.",
-  returned: "Returned: the signer returns this record to be corrected and submitted again.",
-  rejected: "Rejected: the signer returned this record to be corrected before it can be approved.",
+// What each signature means, after its name from lib/domain (the same words as the record page).
+const MEANING_EXPLANATIONS: Record<SignatureView["meaning"], string> = {
+  reviewed: "the signer has reviewed this record and its analysis.",
+  approved: "the signer approves this record and its verdict.",
+  "failure-confirmed": "the signer confirms that this test failed; the record is closed as a signed failure.",
+  returned: "the signer sends this record back to be corrected and submitted again.",
+  rejected: "the signer sent this record back to be corrected before it could be approved.",
 };
+const meaningText = (meaning: SignatureView["meaning"]) => `${SIGNATURE_MEANING_LABELS[meaning]}: ${MEANING_EXPLANATIONS[meaning]}`;
 
-const STATUS_TEXT: Record<CycleDetail["status"], string> = {
-  draft: "Draft: not yet submitted for review",
-  submitted: "Submitted: waiting for an engineer's review",
-  approved: "Approved",
-  "failure-confirmed": "Failure confirmed: closed as a signed failure",
-  returned: "Returned: to be corrected and submitted again",
+const statusText = (status: string) => {
+  const explanation = CYCLE_STATUS_EXPLANATIONS[status as CycleDetail["status"]];
+  return explanation ? `${cycleStatusLabel(status)}: ${explanation}` : cycleStatusLabel(status);
 };
 
 function Legend({ series }: { series: SeriesResponse }) {
@@ -279,7 +290,7 @@ function SignatureBlock({ sig, zone }: { sig: SignatureView; zone: string }) {
           },
         ]}
       >
-        {MEANING_TEXT[sig.meaning]}
+        {meaningText(sig.meaning)}
       </T>
       {sig.reason ? <T>{`Reason: ${sig.reason}`}</T> : null}
       <T style={[s.monoSmall, { marginTop: 3 }]}>{`Bundle SHA-256 ${sig.bundleHash}`}</T>
@@ -358,7 +369,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
   if (flags.length > 0) {
     failures.push({
       title: checkLabel.get("saturation") ?? "Saturation",
-      text: `${flags.length} saturation flag${flags.length === 1 ? "" : "s"}: ${flags
+      text: `${plural(flags.length, "saturation flag")}: ${flags
         .map((f) => `${f.kind === "below" ? "colder" : "hotter"} than saturated steam from ${at(f.start)} to ${at(f.end)}, worst ${signed(f.worst, 2)} K`)
         .join("; ")}. Each flag's diagnosis is under "Saturation flags".`,
     });
@@ -401,16 +412,12 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
             <T style={s.draftBannerText}>Not approved by an engineer. Not a record for release or for the sterilizer{"'"}s file.</T>
           </View>
         ) : null}
-        <View style={s.footer} fixed>
-          <T style={s.footerMono}>{`${reportNumber}`}</T>
-          <T>{`${detail.site.name} · ${detail.sterilizer.name} · cycle ${detail.cycleNumber}`}</T>
-          <Text render={({ pageNumber, totalPages }) => `Page ${pageNumber} of ${totalPages}`} />
-        </View>
+        <ReportFooter reportNumber={reportNumber} about={`Cycle ${detail.cycleNumber} · ${detail.sterilizer.name} · ${detail.site.name}`} />
 
         <View style={s.titleBlock}>
           <T style={s.title}>{`Cycle ${detail.cycleNumber} · ${testKindLabel(detail.testKind)}`}</T>
           <T style={s.subtitle}>{`${detail.sterilizer.name} at ${detail.site.name}`}</T>
-          <T style={s.titleMeta}>{`Started ${started.site}  ·  Status: ${STATUS_TEXT[detail.status]}`}</T>
+          <T style={s.titleMeta}>{`Started ${started.site}  ·  Status: ${statusText(detail.status)}`}</T>
         </View>
 
         {model.bowieDick !== undefined ? (
@@ -425,7 +432,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
               <T style={s.verdictSummary}>{judged ? judged.summary : "This cycle has no analysis yet, so it has no verdict."}</T>
               {judged ? (
                 <T style={[s.small, { marginTop: 3 }]}>
-                  {`${judged.checks.filter((c) => c.passed).length} of ${judged.checks.length} checks passed against the acceptance profile "${detail.profile.name}".`}
+                  {`${judged.checks.filter((c) => c.passed).length} of ${plural(judged.checks.length, "check")} passed against the acceptance profile "${detail.profile.name}".`}
                 </T>
               ) : null}
             </View>
@@ -478,7 +485,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           <Fact label="Serial number">
             <T style={s.mono}>{detail.sterilizer.serialNumber}</T>
           </Fact>
-          <Fact label="Chamber volume">{`${fixed(detail.sterilizer.chamberVolumeL, detail.sterilizer.chamberVolumeL % 1 === 0 ? 0 : 1)} l`}</Fact>
+          <Fact label="Chamber volume">{formatVolume(detail.sterilizer.chamberVolumeL)}</Fact>
           <Fact label="Cycle number">
             <T style={s.mono}>{detail.cycleNumber}</T>
           </Fact>

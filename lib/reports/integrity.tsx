@@ -2,6 +2,7 @@ import { View } from "@react-pdf/renderer";
 import type { LedgerHead } from "@/lib/integrity/anchors";
 import { s } from "./styles";
 import { T } from "./parts";
+import { plural } from "@/lib/domain";
 
 /**
  * The audit ledger's head when the report was sealed at sign-off: anyone holding the PDF can later
@@ -12,7 +13,7 @@ export function LedgerHeadRow({ head }: { head: LedgerHead }) {
     <View style={s.identityRow} wrap={false}>
       <T style={s.identityLabel}>Audit ledger at sign-off</T>
       <View style={{ flex: 1 }}>
-        <T>{`${head.events} events; the last is event ${head.lastSeq}, chain hash (SHA-256):`}</T>
+        <T>{`${plural(head.events, "event")}; the last is event ${head.lastSeq}, chain hash (SHA-256):`}</T>
         <T style={s.monoSmall}>{head.lastHash}</T>
       </View>
     </View>

@@ -1,5 +1,5 @@
 import { StyleSheet } from "@react-pdf/renderer";
-import { A4, FONT_MONO, FONT_SANS, PAGE_MARGIN, colour } from "./theme";
+import { FONT_MONO, FONT_SANS, PAGE_MARGIN, colour } from "./theme";
 
 export const s = StyleSheet.create({
   page: {
@@ -49,22 +49,6 @@ export const s = StyleSheet.create({
   },
   draftBannerStrong: { fontSize: 8.6, fontWeight: 700, color: colour.caution700, letterSpacing: 0.3, marginRight: 8 },
   draftBannerText: { fontSize: 7.4, color: colour.caution700 },
-
-  // Placed from the top: react-pdf 4.9 drops a page-number (render) text positioned with "bottom".
-  footer: {
-    position: "absolute",
-    top: A4.height - 34,
-    left: PAGE_MARGIN.side,
-    right: PAGE_MARGIN.side,
-    flexDirection: "row",
-    justifyContent: "space-between",
-    borderTopWidth: 0.5,
-    borderTopColor: colour.inkLine,
-    paddingTop: 4,
-    fontSize: 6.8,
-    color: colour.inkMuted,
-  },
-  footerMono: { fontFamily: FONT_MONO, fontSize: 6.8 },
 
   titleBlock: { marginBottom: 9 },
   title: { fontSize: 17, fontWeight: 700, color: colour.ink, lineHeight: 1.15 },

@@ -9,7 +9,7 @@ import { can } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
 import { siteAtmosphereKpa } from "@/lib/cycles/analyze-file";
 import { toCsv, type CsvCell } from "@/lib/csv-export";
-import { isEditableCycleStatus, testKindLabel } from "@/lib/domain";
+import { isEditableCycleStatus, testKindLabel, cycleStatusLabel } from "@/lib/domain";
 import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { CycleDetail, CycleListItem, CycleListResponse, HistoryEntry, InstrumentCalibration, MappingOverrides } from "@/lib/cycles/contracts";
 import { describeReplacement, recordedChannels, recordedStart } from "@/lib/cycles/file-replacement";
@@ -191,7 +191,19 @@ const EXPORT_PAGE = 1000;
 const EXPORT_HEADER = ["Cycle number", "Started (UTC)", "Registered (UTC)", "Sterilizer", "Acceptance profile", "Kind of test", "Load", "Status", "Verdict", "Registered by", "Record ID"];
 
 function exportRow(c: CycleListItem): CsvCell[] {
-  return [c.cycleNumber, c.startedAt, c.createdAt, c.sterilizer.name, c.profile.name, testKindLabel(c.testKind), c.loadDescription, c.status, c.verdict ?? "not analysed", c.createdByName, c.id];
+  return [
+    c.cycleNumber,
+    c.startedAt,
+    c.createdAt,
+    c.sterilizer.name,
+    c.profile.name,
+    testKindLabel(c.testKind),
+    c.loadDescription,
+    cycleStatusLabel(c.status),
+    c.verdict ?? "not analysed",
+    c.createdByName,
+    c.id,
+  ];
 }
 
 /** The filtered cycles of the actor's site as CSV, safe to open in a spreadsheet; the export is audited. */

@@ -139,7 +139,7 @@ export async function createSterilizer({ actor, input: { vacuumAirRemoval = fals
   const siteId = siteIdOf(actor);
   await checkProfileOnSite(actor, input.defaultProfileId);
   await checkSerialFree(siteId, input.serialNumber);
-  const schedule = defaultScheduleFor({ vacuumAirRemoval });
+  const schedule = defaultScheduleFor({ vacuumAirRemoval, chamberVolumeL: input.chamberVolumeL });
   const created = await insertSterilizer({ values: { ...input, siteId }, schedule, audit: { ...auditActor(actor), action: "sterilizer.create", newValue: { ...input, vacuumAirRemoval, schedule } } });
   await refreshSterilizerStatus({ sterilizerId: created.id, actor, cause: "sterilizer added" });
   return created;

@@ -138,7 +138,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
 
   const mapping: MappingOverrides = input.mapping ?? (instrument?.savedMapping as MappingOverrides | null) ?? {};
   const atmosphereKpa = siteAtmosphereKpa(site);
-  if (input.leakMarks && input.testKind !== "air-leakage") throw new AppError(422, "Marked times (leakMarks) belong to an air leakage test; choose that test kind or leave them out.", "leakMarks");
+  if (input.leakMarks && input.testKind !== "air-leakage") throw new AppError(422, "Marked times (t1, t2, t3) belong to an air leakage test; choose that test kind or leave them out.", "leakMarks");
   const choice = { testKind: input.testKind, marks: input.leakMarks };
   const { primaryIndex, analysis } = analyseFirstReadable(input.files, (bytes) => analyzeLoggerBytes(bytes, profile, mapping, atmosphereKpa, choice));
   const start = resolveCycleStart({ fileStartedAt: analysis.startedAt, givenStartedAt: input.startedAt, timeZone: site.timeZone });
@@ -250,7 +250,7 @@ async function sharedFileReasons({
     const names = [...new Set(holders.map((h) => h.cycleNumber))].join(", ");
     throw new AppError(
       409,
-      `${file.name} is the same file (SHA-256 ${holders[0].sha256.slice(0, 12)}…) as cycle ${names} on this site. If one file holds several cycles, say so in duplicateReason; otherwise attach this cycle's own file.`,
+      `${file.name} is the same file (SHA-256 ${holders[0].sha256.slice(0, 12)}…) as cycle ${names} on this site. If one file holds several cycles, say why under “Why this file belongs to this cycle too”; otherwise attach this cycle's own file.`,
       "duplicateReason",
     );
   }

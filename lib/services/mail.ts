@@ -18,6 +18,7 @@ import { deliverPendingMail, mailTransport } from "@/lib/mail/delivery";
 import { readFakeMailbox } from "@/lib/mail/fake-mailbox";
 import { analysisFailedMail, cycleApprovedMail, cycleFailureConfirmedMail, cycleRejectedMail, cycleSubmittedMail, cycleUrl } from "@/lib/mail/templates";
 import { auditActor, siteIdOf } from "./site";
+import { plural } from "@/lib/domain";
 
 export type { OutboxStatus };
 
@@ -150,7 +151,7 @@ export async function retryMailNow({ actor, id }: { actor: Actor; id: string }):
   if (!report.configured) throw new AppError(503, `The e-mail is queued again. ${MAIL_NOT_CONFIGURED}`);
   const row = await getOutboxMailOnSite({ siteId: siteIdOf(actor, NO_SITE), id });
   if (row?.status === "sent") return `Sent to ${row.to.join(", ")}.`;
-  if (row?.status === "failed") throw new AppError(503, `Tried again and gave up after ${row.attempts} attempts: ${sentence(row.lastError)}.`);
+  if (row?.status === "failed") throw new AppError(503, `Tried again and gave up after ${plural(row.attempts, "attempt")}: ${sentence(row.lastError)}.`);
   if (report.attempted === 0) return "The e-mail is queued again; another sender is handling it right now.";
   throw new AppError(503, `Tried again without success: ${sentence(row?.lastError)}. Next try ${formatDateTime(row?.nextAttemptAt)} UTC.`);
 }

@@ -75,10 +75,11 @@ export async function recordAirLeakage({ actor, input }: { actor: Actor; input: 
 }
 
 /** A Bowie-Dick test judged by its indicator sheet; the photo of the sheet is kept with its SHA-256. */
-export async function recordBowieDick({ actor, input }: { actor: Actor; input: z.infer<typeof bowieDickSchema> }) {
-  const r = evaluateBowieDick(input.outcome);
+export async function recordBowieDick({ actor, input }: { actor: Actor; input: Omit<z.infer<typeof bowieDickSchema>, "kind"> & { kind?: z.infer<typeof bowieDickSchema>["kind"] } }) {
+  const kind = input.kind ?? "bowie-dick";
+  const r = evaluateBowieDick(input.outcome, kind);
   const measurements = { indicator: input.outcome === "uniform" ? "uniform change" : "non-uniform change", indicatorLot: input.indicatorLot, basis: r.basis };
-  return record(actor, input, "bowie-dick", r.passed, measurements, input.photo);
+  return record(actor, input, kind, r.passed, measurements, input.photo);
 }
 
 export async function recordNonCondensableGas({ actor, input }: { actor: Actor; input: z.infer<typeof nonCondensableGasSchema> }) {

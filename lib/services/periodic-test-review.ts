@@ -5,7 +5,7 @@ import { applyPeriodicTestSignature, getPeriodicTestOfSite, listPeriodicTestSign
 import { AppError } from "@/lib/errors";
 import { can } from "@/lib/auth/permissions";
 import { canonicalJson, sha256Hex } from "@/lib/integrity";
-import type { PeriodicRecordStatus, PeriodicSignatureMeaning } from "@/lib/domain";
+import { isIndicatorTest, type PeriodicRecordStatus, type PeriodicSignatureMeaning } from "@/lib/domain";
 import { assertAllowed, type Actor } from "./access";
 import { reauthenticate } from "./reauthenticate";
 import { getSiteContext } from "./site";
@@ -65,7 +65,7 @@ export async function signPeriodicTest({ actor, id, password, meaning, reason }:
   if (test.performedBy === actor.id) throw new AppError(403, "You recorded this test yourself; another engineer must sign it.");
   const content = await recordContent({ siteId, id });
   if (!content) throw new AppError(404, "That periodic-test record was not found.");
-  if (test.kind === "bowie-dick" && meaning !== "returned" && content.attachments.length === 0) {
+  if (isIndicatorTest(test.kind) && meaning !== "returned" && content.attachments.length === 0) {
     throw new AppError(409, "This Bowie-Dick record has no photo of its indicator sheet; return it so the test is recorded again with the photo.");
   }
 

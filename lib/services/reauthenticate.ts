@@ -4,6 +4,7 @@ import type { User } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 import { verifyPassword } from "@/lib/auth/password";
 import { CHOOSE_OWN_PASSWORD_FIRST } from "@/lib/auth/messages";
+import { plural } from "@/lib/domain";
 
 /** After this many wrong passwords in a row signing is locked for SIGNING_LOCK_MINUTES. */
 const MAX_SIGNING_FAILURES = 5;
@@ -13,7 +14,7 @@ const SIGNING_LOCK_MINUTES = 15;
 export type ReauthenticateInput = { actor: Actor; password: string; now: Date; entity: { type: string; id: string } };
 
 const lockedSentence = (until: string | null) =>
-  `Signing is locked after ${MAX_SIGNING_FAILURES} wrong passwords; try again after ${until ? `${new Date(until).toISOString().slice(11, 16)} UTC` : "a few minutes"} or ask an administrator to unlock your account.`;
+  `Signing is locked after ${plural(MAX_SIGNING_FAILURES, "wrong password")}; try again after ${until ? `${new Date(until).toISOString().slice(11, 16)} UTC` : "a few minutes"} or ask an administrator to unlock your account.`;
 
 /**
  * Re-authentication at the moment of signing, with the lockout. Each attempt is claimed (counted as a failure)
@@ -45,6 +46,6 @@ export async function reauthenticate({ actor, password, now, entity }: Reauthent
       reason: lockedNow ? `wrong password ${MAX_SIGNING_FAILURES} times; signing locked for ${SIGNING_LOCK_MINUTES} min` : "wrong password",
     },
   });
-  if (lockedNow) throw new AppError(423, `Wrong password. Signing is now locked for ${SIGNING_LOCK_MINUTES} minutes.`, "password");
-  throw new AppError(401, `The password is not correct; the signature was not applied (${MAX_SIGNING_FAILURES - claim.failures} attempts left).`, "password");
+  if (lockedNow) throw new AppError(423, `Wrong password. Signing is now locked for ${plural(SIGNING_LOCK_MINUTES, "minute")}.`, "password");
+  throw new AppError(401, `The password is not correct; the signature was not applied (${plural(MAX_SIGNING_FAILURES - claim.failures, "attempt")} left).`, "password");
 }

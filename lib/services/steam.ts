@@ -80,15 +80,15 @@ export async function saturationFor({ actor, query }: { actor: Actor; query: Sat
   try {
     if (temperature !== undefined) {
       const unit: TemperatureUnit | null = unitText === "" ? "C" : parseTemperatureUnit(unitText);
-      if (!unit) throw new AppError(400, `"${unitText}" is not a temperature unit; use unit=C, F or K.`, "unit");
-      if (query.gauge !== undefined) throw new AppError(400, "gauge applies to a pressure, not to a temperature.", "gauge");
+      if (!unit) throw new AppError(400, `"${unitText}" is not a temperature unit; choose °C, °F or K.`, "unit");
+      if (query.gauge !== undefined) throw new AppError(400, "Gauge or absolute applies to a pressure, not to a temperature.", "gauge");
       const temperatureC = toCelsius(temperature, unit);
       return answer({ quantity: "temperature", value: temperature, unit }, temperatureC, saturationPressureKpa(temperatureC), atmosphere);
     }
     const label = unitText === "" ? { unit: "kPa" as PressureUnit, gauge: null } : parsePressureLabel(unitText);
-    if (!label) throw new AppError(400, `"${unitText}" is not a pressure unit; use unit=${PRESSURE_UNITS.join(", ")}.`, "unit");
+    if (!label) throw new AppError(400, `"${unitText}" is not a pressure unit; choose one of ${PRESSURE_UNITS.join(", ")}.`, "unit");
     if (label.gauge !== null && query.gauge !== undefined && label.gauge !== query.gauge) {
-      throw new AppError(400, `The unit "${unitText}" says ${label.gauge ? "gauge" : "absolute"} but gauge=${query.gauge}; give one or the other.`, "gauge");
+      throw new AppError(400, `The unit "${unitText}" says ${label.gauge ? "gauge" : "absolute"} but the pressure was marked ${query.gauge ? "gauge" : "absolute"}; give one or the other.`, "gauge");
     }
     const gauge = query.gauge ?? label.gauge ?? false;
     const pressureKpaAbs = toAbsoluteKpa(pressure!, label.unit, { gauge, atmosphereKpa: atmosphere.atmosphereKpa });

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { INDICATOR_SHEET_RESULTS, PERIODIC_RECORD_STATUSES, PERIODIC_SIGNATURE_MEANINGS, PRESSURE_UNITS, VERDICTS } from "@/lib/domain";
+import { INDICATOR_SHEET_RESULTS, INDICATOR_TEST_KINDS, PERIODIC_RECORD_STATUSES, PERIODIC_SIGNATURE_MEANINGS, PRESSURE_UNITS, VERDICTS } from "@/lib/domain";
 import { numberField, optionalNumberField } from "./equipment";
 
 const common = {
@@ -42,7 +42,12 @@ export const indicatorSheetFields = {
   photo: z.custom<UploadedBlob>(isChosenFile, "Attach a photo of the indicator sheet (JPEG or PNG, up to 10 MB)."),
 };
 
-export const bowieDickSchema = z.object({ ...common, ...indicatorSheetFields });
+export const bowieDickSchema = z.object({
+  ...common,
+  ...indicatorSheetFields,
+  // The same indicator record serves the hollow load (helix) test of a type B small sterilizer.
+  kind: z.enum(INDICATOR_TEST_KINDS, { error: "Choose the Bowie-Dick or the hollow load test." }).default("bowie-dick"),
+});
 
 /** The sheet of a Bowie-Dick cycle; a second reading replaces the first only with a reason. */
 export const cycleIndicatorSheetSchema = z.object({

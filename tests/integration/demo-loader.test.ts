@@ -104,7 +104,7 @@ describe("the demo loader", () => {
       ["in-use", "periodic-test.sign.approved"],
       ["out-of-use", "periodic-test.sign.failure-confirmed"],
     ]);
-    expect(history[1].reason).toMatch(/Bowie-Dick test .* failed \(confirmed\)/);
+    expect(history[1].reason).toMatch(/hollow load test \(helix\) .* failed \(confirmed\)/i);
   });
 
   it("places the story's morning times today in the site's zone, in order, never after now", async () => {

@@ -119,7 +119,9 @@ describe("a logger file that already belongs to another cycle", () => {
     const firstId = await flow.register(site.people.technician, { bytes, extra: { cycleNumber: "SHARED-1" } });
     const again = await flow.upload(site.people.technician, { bytes, extra: { cycleNumber: "SHARED-2" } });
     expect(again.status).toBe(409);
-    expect(await errorOf(again)).toMatch(/^cycle\.csv is the same file \(SHA-256 [0-9a-f]{12}…\) as cycle SHARED-1 on this site\. If one file holds several cycles, say so in duplicateReason/);
+    expect(await errorOf(again)).toMatch(
+      /^cycle\.csv is the same file \(SHA-256 [0-9a-f]{12}…\) as cycle SHARED-1 on this site\. If one file holds several cycles, say why under “Why this file belongs to this cycle too”/,
+    );
 
     const reason = "One day-long file holds the morning and the afternoon cycles.";
     const secondId = await flow.register(site.people.technician, { bytes, extra: { cycleNumber: "SHARED-2", duplicateReason: reason } });

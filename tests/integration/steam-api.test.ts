@@ -150,16 +150,16 @@ describe("GET /api/steam/saturation: who may ask, and bad input", () => {
   });
 
   it.each([
-    ["temperature=abc", /temperature "abc" is not a number/i],
-    ["temperature=", /temperature "" is not a number/i],
+    ["temperature=abc", /^The temperature "abc" is not a number; write it in figures with a decimal point, for example 134\.$/],
+    ["temperature=", /^Enter the temperature, for example 134\.$/],
     ["temperature=121&unit=X", /"X" is not a temperature unit/],
     ["pressure=2&unit=furlongs", /"furlongs" is not a pressure unit/],
-    ["pressure=2&unit=bar&gauge=maybe", /gauge must be true/],
-    ["", /Give a temperature .* or a pressure/],
+    ["pressure=2&unit=bar&gauge=maybe", /^Say whether the pressure is gauge \(above the atmosphere\) or absolute; "maybe" is neither\.$/],
+    ["", /^Give a temperature \(for example 134 °C\) or a pressure \(for example 304\.2 kPa\)\.$/],
     ["temperature=121&pressure=200", /not both/],
     ["pressure=2&unit=bar&gauge=true&atmosphere=5000", /not plausible/],
     ["pressure=2&unit=bar&atmosphere=100&altitude=10", /not both/],
-    ["pressure=2&unit=barg&gauge=false", /says gauge but gauge=false/],
+    ["pressure=2&unit=barg&gauge=false", /says gauge but the pressure was marked absolute/],
   ])("?%s → 400 with a plain message", async (query, message) => {
     const { status, body } = await ask(query);
     expect(status).toBe(400);

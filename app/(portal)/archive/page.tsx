@@ -6,6 +6,7 @@ import { VerdictBadge } from "@/components/ui/badge";
 import { VerifyReport } from "@/components/archive/verify-report";
 import { formatBytes, formatDateTime } from "@/lib/format";
 import { TableFrame } from "@/components/ui/table-frame";
+import { plural } from "@/lib/domain";
 
 export const metadata = { title: "Signed archive" };
 
@@ -22,7 +23,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
       <PageHeader title="Signed archive" subtitle="Approved reports as they were archived at signing; later software changes never re-render them." />
       <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_24rem]">
         {canList ? (
-          <Panel title={`${total} archived report${total === 1 ? "" : "s"}`}>
+          <Panel title={plural(total, "archived report")}>
             <form className="mb-4 flex flex-wrap items-end gap-2" role="search">
               <div>
                 <label htmlFor="q" className="field-label">

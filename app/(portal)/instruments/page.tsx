@@ -6,7 +6,7 @@ import { Badge } from "@/components/ui/badge";
 import { CalibrationBadge } from "@/components/equipment/state-badges";
 import { InstrumentForm } from "@/components/equipment/instrument-forms";
 import { formatDate } from "@/lib/format";
-import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/lib/domain";
+import { INSTRUMENT_KIND_LABELS as KIND_LABELS, plural, agree } from "@/lib/domain";
 import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Instruments" };
@@ -21,7 +21,7 @@ export default async function InstrumentsPage() {
         subtitle="Independent loggers and sensors used for test cycles, with the calibration certificate in force. A test measured with an uncalibrated instrument is not evidence."
       />
       <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[minmax(0,1fr)_22rem]" : ""}`}>
-        <Panel title={`${rows.length} instrument${rows.length === 1 ? "" : "s"}${attention ? ` · ${attention} need${attention === 1 ? "s" : ""} attention` : ""}`}>
+        <Panel title={`${plural(rows.length, "instrument")}${attention ? ` · ${attention} ${agree(attention, "needs", "need")} attention` : ""}`}>
           {rows.length === 0 ? (
             <EmptyState title="No instrument registered yet." />
           ) : (

@@ -16,7 +16,7 @@ function saved(kind: RecordableKind, sterilizerId: string, { sterilizerName, pas
 
 export const recordAirLeakageAction = formAction("periodic-test:record", airLeakageSchema, async (input, actor) => saved("air-leakage", input.sterilizerId, await recordAirLeakage({ actor, input })));
 
-export const recordBowieDickAction = formAction("periodic-test:record", bowieDickSchema, async (input, actor) => saved("bowie-dick", input.sterilizerId, await recordBowieDick({ actor, input })));
+export const recordBowieDickAction = formAction("periodic-test:record", bowieDickSchema, async (input, actor) => saved(input.kind, input.sterilizerId, await recordBowieDick({ actor, input })));
 
 export const recordNonCondensableGasAction = formAction("periodic-test:record", nonCondensableGasSchema, async (input, actor) =>
   saved("steam-non-condensable-gas", input.sterilizerId, await recordNonCondensableGas({ actor, input })),

@@ -6,7 +6,7 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { intervalWords, ResultBadge, ScheduleBadge } from "@/components/equipment/state-badges";
 import { keyFigure, measurementRows } from "@/components/periodic-tests/summary";
 import { formatDate, formatDateTime } from "@/lib/format";
-import { isRecordable, PERIODIC_RECORD_STATUS_LABELS, PERIODIC_RECORD_STATUSES, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
+import { isRecordable, PERIODIC_RECORD_STATUS_LABELS, PERIODIC_RECORD_STATUSES, PERIODIC_TEST_KINDS, testKindLabel, plural } from "@/lib/domain";
 import { PeriodicStatusBadge } from "@/components/periodic-tests/status-badge";
 import { TableFrame } from "@/components/ui/table-frame";
 
@@ -92,15 +92,11 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
                         <td className="whitespace-nowrap text-sm">{r.status.dueOn ? formatDate(r.status.dueOn) : "Now"}</td>
                         <td>
                           <ScheduleBadge status={r.status} />
-                          {r.awaitingSignOff > 0 && (
-                            <p className="mt-1 text-xs text-ink-muted">
-                              {r.awaitingSignOff} passing cycle{r.awaitingSignOff === 1 ? "" : "s"} awaiting sign-off
-                            </p>
-                          )}
+                          {r.awaitingSignOff > 0 && <p className="mt-1 text-xs text-ink-muted">{plural(r.awaitingSignOff, "passing cycle")} awaiting sign-off</p>}
                           {r.recordsAwaitingSignOff > 0 && (
                             <p className="mt-1 text-xs text-ink-muted">
                               <Link href={`/periodic-tests?sterilizer=${r.sterilizerId}&kind=${r.kind}&status=submitted#history`} className="underline">
-                                {r.recordsAwaitingSignOff} record{r.recordsAwaitingSignOff === 1 ? "" : "s"} awaiting signature
+                                {plural(r.recordsAwaitingSignOff, "record")} awaiting signature
                               </Link>
                             </p>
                           )}
@@ -129,7 +125,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
           </p>
         </Panel>
 
-        <Panel title={`History · ${history.total} record${history.total === 1 ? "" : "s"}`}>
+        <Panel title={`History · ${plural(history.total, "record")}`}>
           <form method="get" action="/periodic-tests#history" className="mb-4 grid gap-3 sm:grid-cols-3 lg:grid-cols-7 lg:items-end" id="history" aria-label="Filter the history">
             <div>
               <label className="field-label" htmlFor="f-sterilizer">

@@ -5,7 +5,7 @@ import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
 import { ProfileForm } from "@/components/equipment/profile-form";
 import { formatDate } from "@/lib/format";
-import { describeBasis, formatDuration } from "@/lib/domain";
+import { describeBasis, formatDuration, plural } from "@/lib/domain";
 import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Acceptance profiles" };
@@ -26,11 +26,9 @@ export default async function ProfilesPage() {
       />
       <div className={`grid gap-gutter ${manage ? "2xl:grid-cols-[minmax(0,1fr)_26rem]" : ""}`}>
         <div className="min-w-0 space-y-gutter">
-          <Panel title={`${active.length} profile${active.length === 1 ? "" : "s"} in use`}>
-            {active.length === 0 ? <EmptyState title="No acceptance profile yet." /> : <ProfileTable rows={active} />}
-          </Panel>
+          <Panel title={`${plural(active.length, "profile")} in use`}>{active.length === 0 ? <EmptyState title="No acceptance profile yet." /> : <ProfileTable rows={active} />}</Panel>
           {retired.length > 0 && (
-            <Panel title={`${retired.length} retired version${retired.length === 1 ? "" : "s"}`}>
+            <Panel title={plural(retired.length, "retired version")}>
               <p className="mb-3 text-sm text-ink-muted">Kept because cycles were analysed against them; they cannot be chosen for new cycles.</p>
               <ProfileTable rows={retired} />
             </Panel>
@@ -91,7 +89,7 @@ function ProfileTable({ rows }: { rows: Awaited<ReturnType<typeof getProfilesPag
                 {p.f0ReferenceC} °C, z {p.f0ZK} K
               </td>
               <td className="min-w-[9rem] text-xs">
-                {p.cycleCount} cycle{p.cycleCount === 1 ? "" : "s"}
+                {plural(p.cycleCount, "cycle")}
                 {p.defaultFor.length > 0 && <p className="text-ink-muted">Default for {p.defaultFor.join(", ")}</p>}
               </td>
             </tr>

@@ -5,7 +5,7 @@ import { formAction } from "@/lib/actions";
 import { createSterilizerSchema, removeScheduleSchema, saveScheduleSchema, sterilizerStatusSchema, updateSterilizerSchema } from "@/lib/validations/equipment";
 import { createSterilizer, removeSchedule, saveSchedule, updateSterilizer } from "@/lib/services/equipment";
 import { setSterilizerStatus } from "@/lib/services/sterilizer-status";
-import { testKindLabel } from "@/lib/domain";
+import { testKindLabel, plural } from "@/lib/domain";
 import { z } from "zod";
 
 export const createSterilizerAction = formAction("equipment:manage", createSterilizerSchema, async (input, actor) => {
@@ -26,7 +26,7 @@ export const saveScheduleAction = formAction("equipment:manage", saveScheduleSch
   revalidatePath(`/sterilizers/${sterilizerId}`);
   revalidatePath("/periodic-tests");
   const required = requiredBeforeUse ? ", required before use" : "";
-  return changed ? `${testKindLabel(kind)}: every ${intervalDays} day${intervalDays === 1 ? "" : "s"}${required}.` : "Nothing changed.";
+  return changed ? `${testKindLabel(kind)}: every ${intervalDays === 1 ? "day" : plural(intervalDays, "day")}${required}.` : "Nothing changed.";
 });
 
 export const removeScheduleAction = formAction("equipment:manage", removeScheduleSchema, async ({ sterilizerId, kind, reason }, actor) => {

@@ -6,7 +6,7 @@ import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { SterilizerForm } from "@/components/equipment/sterilizer-form";
 import { SterilizerStatusLine } from "@/components/equipment/sterilizer-status";
 import { formatDateTime } from "@/lib/format";
-import { testKindLabel } from "@/lib/domain";
+import { testKindLabel, plural, formatVolume } from "@/lib/domain";
 import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Sterilizers" };
@@ -31,7 +31,7 @@ export default async function SterilizersPage() {
         }
       />
       <div className={`grid gap-gutter ${manage ? "xl:grid-cols-[minmax(0,1fr)_22rem]" : ""}`}>
-        <Panel title={`${rows.length} sterilizer${rows.length === 1 ? "" : "s"}`}>
+        <Panel title={plural(rows.length, "sterilizer")}>
           {rows.length === 0 ? (
             <EmptyState title="No sterilizer is registered for this site yet.">{manage ? "Add the first one with the form beside this list." : "An engineer adds sterilizers."}</EmptyState>
           ) : (
@@ -65,7 +65,7 @@ export default async function SterilizersPage() {
                         )}
                       </td>
                       <td>
-                        <p className="tabular-nums">{s.chamberVolumeL} l</p>
+                        <p className="tabular-nums">{formatVolume(s.chamberVolumeL)}</p>
                         <p className="text-xs text-ink-muted">
                           {s.sizeClass.standard}
                           {s.sizeClass.maxEquilibrationS !== null && <> · equilibration ≤ {s.sizeClass.maxEquilibrationS} s</>}

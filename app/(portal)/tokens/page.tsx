@@ -1,5 +1,5 @@
 import { requirePageActor } from "@/lib/auth/page-guard";
-import { API_TOKEN_ROUTES, API_TOKEN_SCOPE_LABELS } from "@/lib/domain";
+import { API_TOKEN_ROUTES, API_TOKEN_SCOPE_LABELS, plural } from "@/lib/domain";
 import { formatDateTime } from "@/lib/format";
 import { listApiTokens } from "@/lib/services/api-tokens";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
@@ -25,7 +25,7 @@ export default async function TokensPage() {
         subtitle={`Tokens let a logger gateway upload cycles without a person signing in. A token is accepted only on ${API_TOKEN_ROUTES.join(", ")}; each use is written to the audit ledger.`}
       />
       <div className="grid gap-gutter xl:grid-cols-[minmax(0,1fr)_22rem]">
-        <Panel title={`${tokens.length} token${tokens.length === 1 ? "" : "s"}`}>
+        <Panel title={plural(tokens.length, "token")}>
           {tokens.length === 0 ? (
             <EmptyState title="No API token has been issued for this site.">Issue one with the form beside this list.</EmptyState>
           ) : (

@@ -1,6 +1,6 @@
 import type { AirLeakageResult } from "@/lib/cycles/contracts";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
-import { formatDuration, formatLeakRate, formatPressure } from "@/lib/domain";
+import { formatDuration, formatLeakRate, formatPressure, plural, agree } from "@/lib/domain";
 import { ChecksTableFrame } from "@/components/cycles/record/record-tables";
 import { TableFrame } from "@/components/ui/table-frame";
 
@@ -15,8 +15,8 @@ export function AirLeakageFindings({ analysis: a }: { analysis: AirLeakageResult
       <div className={`rounded-md border px-4 py-3 ${passed ? "border-pass-500/30 bg-pass-50" : "border-fail-500/30 bg-fail-50"}`}>
         <p className={`text-sm font-semibold ${passed ? "text-pass-700" : "text-fail-700"}`} data-testid="verdict">
           {passed
-            ? `✓ Pass — all ${a.checks.length} checks of the air leakage test met their limits`
-            : `✕ Fail — ${failed.length} of ${a.checks.length} checks of the air leakage test did not meet their limits`}
+            ? `✓ Pass — all ${plural(a.checks.length, "check")} of the air leakage test met their limits`
+            : `✕ Fail — ${failed.length} of ${plural(a.checks.length, "check")} of the air leakage test did not meet ${agree(failed.length, "its limit", "their limits")}`}
         </p>
         <p className="mt-1 text-sm text-ink">{a.summary}</p>
       </div>

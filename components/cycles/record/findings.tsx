@@ -3,7 +3,7 @@ import { thermometricOf } from "@/lib/analysis/types";
 import { EmptyState } from "@/components/ui/panel";
 import { elapsedFormatter } from "@/lib/cycles/chart-model";
 import { formatNumber } from "@/lib/format";
-import { formatDuration } from "@/lib/domain";
+import { formatDuration, plural, agree } from "@/lib/domain";
 
 /** The plain-language verdict: summary, each failed check's diagnosis, each saturation flag. */
 export function Findings({ detail }: { detail: CycleDetail }) {
@@ -25,8 +25,8 @@ export function Findings({ detail }: { detail: CycleDetail }) {
       <div className={`rounded-md border px-4 py-3 ${a.verdict === "pass" ? "border-pass-500/30 bg-pass-50" : "border-fail-500/30 bg-fail-50"}`}>
         <p className={`text-sm font-semibold ${a.verdict === "pass" ? "text-pass-700" : "text-fail-700"}`} data-testid="verdict">
           {a.verdict === "pass"
-            ? `✓ Pass — all ${a.checks.length} checks met their limits`
-            : `✕ Fail — ${failed.length} of ${a.checks.length} check${a.checks.length === 1 ? "" : "s"} did not meet ${failed.length === 1 ? "its" : "their"} limit`}
+            ? `✓ Pass — ${a.checks.length === 1 ? "the 1 check met its limit" : `all ${plural(a.checks.length, "check")} met their limits`}`
+            : `✕ Fail — ${failed.length} of ${plural(a.checks.length, "check")} did not meet ${agree(failed.length, "its limit", "their limits")}`}
         </p>
         <p className="mt-1 text-sm text-ink">{a.summary}</p>
       </div>

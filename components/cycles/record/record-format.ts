@@ -1,7 +1,7 @@
 import type { Check } from "@/lib/analysis/types";
 import type { Dialect, MappingOverrides } from "@/lib/logger-files/types";
 import { formatDateTime, formatNumber } from "@/lib/format";
-import { formatDuration, formatTemperature } from "@/lib/domain";
+import { formatDuration, formatTemperature, plural, headerWithUnit } from "@/lib/domain";
 import { hasZone } from "@/lib/cycles/chart-model";
 
 /** A logger's start time: in the site's zone when the file named a zone, else as the logger's clock showed it. */
@@ -35,7 +35,7 @@ export function describeDialect(dialect: Dialect | null): string {
     dialect.decimal === "," ? "decimal comma" : "decimal point",
     `${LINE_ENDINGS[dialect.lineEnding] ?? dialect.lineEnding} line endings`,
   ];
-  if (dialect.preambleLines > 0) parts.push(`${dialect.preambleLines} preamble line${dialect.preambleLines === 1 ? "" : "s"}`);
+  if (dialect.preambleLines > 0) parts.push(plural(dialect.preambleLines, "preamble line"));
   parts.push(dialect.headerLine ? `header on line ${dialect.headerLine}` : "no header line");
   parts.push(`times as ${String(dialect.timeFormat).replace(/-/g, " ")}`);
   if (dialect.quoted) parts.push("quoted cells");
@@ -54,8 +54,8 @@ export function describeMapping(mapping: MappingOverrides | null): string[] {
   }
   if (mapping.temperatureUnit) lines.push(`Temperatures in ${mapping.temperatureUnit === "C" ? "°C" : mapping.temperatureUnit === "F" ? "°F" : "K"}`);
   for (const [header, o] of Object.entries(mapping.columns ?? {})) {
-    const extra = [o.unit, o.gauge === undefined ? null : o.gauge ? "gauge" : "absolute"].filter(Boolean).join(", ");
-    lines.push(`${header}: ${o.role}${extra ? ` (${extra})` : ""}`);
+    const unit = [o.unit, o.gauge === undefined ? null : o.gauge ? "gauge" : "abs"].filter(Boolean).join(" ");
+    lines.push(`${unit ? headerWithUnit(header, unit) : header}: ${o.role}`);
   }
   if (mapping.atmosphereKpa !== undefined) lines.push(`Atmosphere for gauge readings: ${formatNumber(mapping.atmosphereKpa, 3)} kPa`);
   return lines;
@@ -86,6 +86,15 @@ export function actionLabel(action: string): string {
   );
 }
 
+/** One item of a list in an audit value: a file by its name, another object by its plain values, never "[object Object]". */
+function itemText(item: unknown): string {
+  if (item === null || typeof item !== "object") return String(item);
+  const o = item as Record<string, unknown>;
+  if (typeof o.name === "string") return o.name;
+  const plain = Object.values(o).filter((v) => v !== null && (typeof v === "string" || typeof v === "number" || typeof v === "boolean"));
+  return plain.length ? plain.map(String).join(" ") : "…";
+}
+
 /** A short, readable line from an audit event's JSON value; the full JSON stays available beside it. */
 export function summariseAuditValue(json: string | null): string | null {
   if (!json) return null;
@@ -95,7 +104,7 @@ export function summariseAuditValue(json: string | null): string | null {
     const entries = Object.entries(value as Record<string, unknown>)
       .filter(([, v]) => v !== null && v !== undefined && (typeof v !== "object" || Array.isArray(v)))
       .slice(0, 5)
-      .map(([k, v]) => `${k}: ${Array.isArray(v) ? v.join(", ") : String(v)}`);
+      .map(([k, v]) => `${k}: ${Array.isArray(v) ? v.map(itemText).join(", ") : String(v)}`);
     return entries.length ? entries.join(" · ") : null;
   } catch {
     return json.length > 120 ? `${json.slice(0, 117)}…` : json;

@@ -1,5 +1,5 @@
 import { requirePageActor } from "@/lib/auth/page-guard";
-import { ROLE_LABELS } from "@/lib/domain";
+import { ROLE_LABELS, plural } from "@/lib/domain";
 import { getUsersPage } from "@/lib/services/users";
 import { PageHeader, Panel } from "@/components/ui/panel";
 import { Badge } from "@/components/ui/badge";
@@ -16,7 +16,7 @@ export default async function UsersPage() {
     <>
       <PageHeader title="Users" subtitle="Accounts, roles and access. New accounts and password resets get a one-time password, shown once. Every change is written to the audit ledger." />
       <div className="grid gap-gutter">
-        <Panel title={`${rows.length} accounts`}>
+        <Panel title={plural(rows.length, "account")}>
           <TableFrame label="Accounts">
             <table className="data-table" data-testid="users-table">
               <thead>

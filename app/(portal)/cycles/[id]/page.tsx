@@ -15,7 +15,7 @@ import { AirLeakageFigures, AirLeakageFindings, AirLeakageTable } from "@/compon
 import { AirLeakageChart } from "@/components/cycles/air-leakage/leak-chart";
 import { isAirLeakage, thermometricOf } from "@/lib/analysis/types";
 import { formatStartedAt } from "@/components/cycles/record/record-format";
-import { testKindLabel } from "@/lib/domain";
+import { testKindLabel, formatVolume } from "@/lib/domain";
 import { describeTimeChart } from "@/lib/cycles/chart-model";
 import { formatDateTime } from "@/lib/format";
 import { orNotFound } from "@/lib/auth/page-guard";
@@ -63,7 +63,7 @@ export default async function CycleRecordPage({ params }: Props) {
             {testKindLabel(detail.testKind)} on <span className="font-medium">{detail.sterilizer.name}</span>
             <span className="text-ink-muted">
               {" "}
-              (serial {detail.sterilizer.serialNumber}, {detail.sterilizer.chamberVolumeL} L)
+              (serial {detail.sterilizer.serialNumber}, {formatVolume(detail.sterilizer.chamberVolumeL)})
             </span>{" "}
             against <span className="font-medium">{profile.name}</span>
           </p>

@@ -6,7 +6,7 @@ import { Badge, VerdictBadge } from "@/components/ui/badge";
 import { CalibrationBadge } from "@/components/equipment/state-badges";
 import { CertificateForm, ClearMappingForm } from "@/components/equipment/instrument-forms";
 import { formatDate, formatDateTime } from "@/lib/format";
-import { INSTRUMENT_KIND_LABELS as KIND_LABELS } from "@/lib/domain";
+import { INSTRUMENT_KIND_LABELS as KIND_LABELS, plural } from "@/lib/domain";
 import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Instrument" };
@@ -22,7 +22,7 @@ export default async function InstrumentPage({ params }: { params: Promise<{ id:
         subtitle={
           <>
             <span className="mono">{i.serialNumber}</span> · {KIND_LABELS[i.kind]}
-            {i.channelCount ? ` · ${i.channelCount} channels` : ""}
+            {i.channelCount ? ` · ${plural(i.channelCount, "channel")}` : ""}
           </>
         }
         actions={

@@ -11,6 +11,7 @@ export const metadata = { title: "Record a periodic test" };
 const SHORT: Record<RecordableKind, string> = {
   "air-leakage": "Air leakage",
   "bowie-dick": "Bowie-Dick",
+  "hollow-load": "Hollow load (helix)",
   "steam-non-condensable-gas": "Non-condensable gases",
   "steam-superheat": "Superheat",
   "steam-dryness": "Dryness",
@@ -49,8 +50,8 @@ export default async function RecordTestPage({ searchParams }: { searchParams: P
             <EmptyState title="No sterilizer in service on this site." />
           ) : kind === "air-leakage" ? (
             <AirLeakageForm key={kind} {...props} />
-          ) : kind === "bowie-dick" ? (
-            <BowieDickForm key={kind} {...props} />
+          ) : kind === "bowie-dick" || kind === "hollow-load" ? (
+            <BowieDickForm key={kind} kind={kind} {...props} />
           ) : kind === "steam-non-condensable-gas" ? (
             <NonCondensableGasForm key={kind} {...props} />
           ) : kind === "steam-superheat" ? (
@@ -76,6 +77,8 @@ function AboutTest({ kind }: { kind: RecordableKind }) {
       "Shows that air does not leak into the chamber during the vacuum phases at a rate that would spoil steam penetration. Applies to sterilizers that use vacuum for air removal; run it before thermometric tests and stop if it fails. Readings are absolute; a leak rate is the same in gauge or absolute as long as the barometer does not move during the test.",
     "bowie-dick":
       "Shows rapid, even steam penetration of a porous test pack, usually first thing each day. A failure can come from poor air removal, a leak during air removal or non-condensable gas in the steam; it does not prove any one cause.",
+    "hollow-load":
+      "Shows that steam reaches the closed end of a narrow tube (the helix process challenge device) in a type B small sterilizer, usually first thing each day. A pale or uneven strip means air was not removed from the hollow load.",
     "steam-non-condensable-gas": "Air and other gases that do not condense collect in loads and block steam contact. Sampled at validation and yearly, and after the steam supply has been shut down.",
     "steam-superheat": "Superheated steam behaves like hot air and sterilizes poorly. The expanded steam may be at most 25 K above the local boiling point.",
     "steam-dryness":

@@ -12,7 +12,7 @@ import { SterilizerStatusBadge, SterilizerStatusLine } from "@/components/equipm
 import { StatusDecisionForm } from "@/components/equipment/status-form";
 import { StatusHistory } from "@/components/equipment/status-history";
 import { formatDate, formatDateTime } from "@/lib/format";
-import { formatDuration, PERIODIC_TEST_KINDS, testKindLabel } from "@/lib/domain";
+import { formatDuration, PERIODIC_TEST_KINDS, testKindLabel, plural, formatVolume } from "@/lib/domain";
 import { TableFrame } from "@/components/ui/table-frame";
 
 export const metadata = { title: "Sterilizer" };
@@ -50,7 +50,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
         title={s.name}
         subtitle={
           <>
-            <span className="mono">{s.serialNumber}</span> · {s.chamberVolumeL} l · {sizeClass.label}
+            <span className="mono">{s.serialNumber}</span> · {formatVolume(s.chamberVolumeL)} · {sizeClass.label}
             {s.active && (
               <>
                 {" "}
@@ -88,7 +88,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                   {passPct === null ? "—" : `${passPct} %`}
                 </p>
                 <p className="text-sm text-ink-muted">
-                  pass rate: {trends.passed} of {trends.analysed} analysed cycle{trends.analysed === 1 ? "" : "s"} passed
+                  pass rate: {trends.passed} of {plural(trends.analysed, "analysed cycle")} passed
                 </p>
               </div>
               {Object.keys(trends.failuresByCheck).length > 0 && (
@@ -144,11 +144,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
                         <td>{r.status.dueOn ? formatDate(r.status.dueOn) : "Now"}</td>
                         <td>
                           <ScheduleBadge status={r.status} />
-                          {r.awaitingSignOff > 0 && (
-                            <p className="mt-1 text-xs text-ink-muted">
-                              {r.awaitingSignOff} passing cycle{r.awaitingSignOff === 1 ? "" : "s"} awaiting sign-off
-                            </p>
-                          )}
+                          {r.awaitingSignOff > 0 && <p className="mt-1 text-xs text-ink-muted">{plural(r.awaitingSignOff, "passing cycle")} awaiting sign-off</p>}
                         </td>
                       </tr>
                     ))}
@@ -233,7 +229,7 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
               <dt className="text-ink-muted">Location</dt>
               <dd>{s.location ?? "—"}</dd>
               <dt className="text-ink-muted">Chamber</dt>
-              <dd>{s.chamberVolumeL} l</dd>
+              <dd>{formatVolume(s.chamberVolumeL)}</dd>
               <dt className="text-ink-muted">Size class</dt>
               <dd>{sizeClass.label}</dd>
               <dt className="text-ink-muted">Equilibration</dt>

@@ -12,9 +12,8 @@ function readNumber(params: URLSearchParams, name: string, what: string, example
   if (raw === null) return undefined;
   const text = raw.trim();
   const value = Number(text);
-  if (text === "" || !Number.isFinite(value)) {
-    throw new AppError(400, `${what} "${raw}" is not a number; write it with a decimal point, for example ${name}=${example}.`, name);
-  }
+  if (text === "") throw new AppError(400, `Enter ${what.toLowerCase()}, for example ${example}.`, name);
+  if (!Number.isFinite(value)) throw new AppError(400, `${what} "${raw}" is not a number; write it in figures with a decimal point, for example ${example}.`, name);
   return value;
 }
 
@@ -24,14 +23,14 @@ function readGauge(params: URLSearchParams): boolean | undefined {
   const t = raw.trim().toLowerCase();
   if (t === "true" || t === "1" || t === "yes") return true;
   if (t === "false" || t === "0" || t === "no") return false;
-  throw new AppError(400, `gauge must be true (pressure above atmosphere) or false (absolute pressure), not "${raw}".`, "gauge");
+  throw new AppError(400, `Say whether the pressure is gauge (above the atmosphere) or absolute; "${raw}" is neither.`, "gauge");
 }
 
 function readAtmosphere(params: URLSearchParams): Pick<SaturationQuery, "atmosphereKpa" | "altitudeM"> {
   const atmosphere = readNumber(params, "atmosphere", "The atmospheric pressure", "101.325");
   const altitude = readNumber(params, "altitude", "The altitude", "250");
   if (atmosphere !== undefined && altitude !== undefined) {
-    throw new AppError(400, "Give either the atmospheric pressure (atmosphere, kPa) or the altitude (altitude, m), not both.", "atmosphere");
+    throw new AppError(400, "Give either the atmospheric pressure (kPa) or the altitude (m), not both.", "atmosphere");
   }
   // Sea-level records are about 108 kPa; the summit of Everest about 34 kPa.
   if (atmosphere !== undefined && (atmosphere < 20 || atmosphere > 120)) {
@@ -55,7 +54,7 @@ export const GET = route(async (request: Request) => {
   const temperature = readNumber(params, "temperature", "The temperature", "134");
   const pressure = readNumber(params, "pressure", "The pressure", "304.2");
   if (temperature === undefined && pressure === undefined) {
-    throw new AppError(400, "Give a temperature (temperature=134&unit=C) or a pressure (pressure=304.2&unit=kPa).");
+    throw new AppError(400, "Give a temperature (for example 134 °C) or a pressure (for example 304.2 kPa).");
   }
   if (temperature !== undefined && pressure !== undefined) {
     throw new AppError(400, "Give either a temperature or a pressure, not both: the calculator works out the other one.");
