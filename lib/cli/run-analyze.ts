@@ -1,4 +1,4 @@
-import { closeSync, openSync, readSync, statSync, writeFileSync } from "node:fs";
+import { closeSync, openSync, readFileSync, readSync, statSync, writeFileSync } from "node:fs";
 import { basename } from "node:path";
 import { AnalysisError, analyzeCycleRecording, type CycleAnalysis } from "../analysis";
 import { LoggerFileError, readLoggerFile, type ByteSource } from "../logger-files";
@@ -116,6 +116,19 @@ export function reportResourcesOnExit(): void {
   if (!target) return;
   process.on("exit", () => {
     const usage = process.resourceUsage();
-    writeFileSync(target, JSON.stringify({ maxRssKb: usage.maxRSS, userCpuUs: usage.userCPUTime, systemCpuUs: usage.systemCPUTime }));
+    writeFileSync(target, JSON.stringify({ maxRssKb: usage.maxRSS, ownPeakRssKb: ownPeakRssKb(), userCpuUs: usage.userCPUTime, systemCpuUs: usage.systemCPUTime }));
   });
+}
+
+/**
+ * This process's own peak resident memory (Linux VmHWM), KB; null elsewhere. maxRSS is not enough for a child: Linux
+ * carries the parent's peak across fork and exec, so a child of a large process reports at least the parent's size.
+ */
+function ownPeakRssKb(): number | null {
+  try {
+    const match = /VmHWM:\s*(\d+) kB/.exec(readFileSync("/proc/self/status", "utf8"));
+    return match ? Number(match[1]) : null;
+  } catch {
+    return null;
+  }
 }

@@ -16,7 +16,9 @@ function peakRssKb(file: string, report: string): number {
   const args = [LAUNCHER, "analyze", file, "--sterilization-temp", "134", "--holding-time", "180"];
   const result = spawnSync(process.execPath, args, { cwd: ROOT, env: { ...process.env, PAPIN_RESOURCE_REPORT: report }, encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
   if (result.status !== 0) throw new Error(`analyze failed on ${path.basename(file)} (exit ${result.status}): ${result.stderr.trim()}`);
-  return (JSON.parse(readFileSync(report, "utf8")) as { maxRssKb: number }).maxRssKb;
+  const usage = JSON.parse(readFileSync(report, "utf8")) as { maxRssKb: number; ownPeakRssKb: number | null };
+  // The child's own peak: its maxRSS would start at this (large) process's size (lib/cli/run-analyze.ts).
+  return usage.ownPeakRssKb ?? usage.maxRssKb;
 }
 
 export type AnalyzeMemory = { rows: number; fileBytes: number; peakMb: number; baselineMb: number; bytesPerRow: number };
