@@ -1,13 +1,17 @@
-import { readFileSync, statSync, writeFileSync } from "node:fs";
+import { closeSync, openSync, readFileSync, readSync, statSync, writeFileSync } from "node:fs";
 import { basename } from "node:path";
 import { AnalysisError, analyzeCycleRecording, type CycleAnalysis } from "../analysis";
-import { LoggerFileError, readLoggerFile } from "../logger-files";
+import { LoggerFileError, readLoggerFile, type ByteSource } from "../logger-files";
 import { STANDARD_ATMOSPHERE_KPA, SteamRangeError } from "../steam";
 import { USAGE, UsageError, parseArguments } from "./analyze-arguments";
 
 export { USAGE, UsageError, parseArguments } from "./analyze-arguments";
 
-function readBytes(file: string): Uint8Array {
+/**
+ * The file as a source read piece by piece, so the command never holds the whole file (issue 12: memory per row);
+ * the caller closes it.
+ */
+function openFile(file: string): ByteSource & { close(): void } {
   let size: number;
   try {
     const stat = statSync(file);
@@ -18,8 +22,23 @@ function readBytes(file: string): Uint8Array {
     throw new LoggerFileError(`Cannot open ${file}: no such file or no permission to read it`);
   }
   if (size > 1024 * 1024 * 1024) throw new LoggerFileError(`${file} is ${Math.round(size / 1048576)} MB, more than the 1 GB a logger file may have`);
-  const buffer = readFileSync(file);
-  return new Uint8Array(buffer.buffer, buffer.byteOffset, buffer.byteLength);
+  let fd: number;
+  try {
+    fd = openSync(file, "r");
+  } catch {
+    throw new LoggerFileError(`Cannot open ${file}: no such file or no permission to read it`);
+  }
+  const slice = (start: number, end: number): Uint8Array => {
+    const bytes = Buffer.allocUnsafe(Math.max(0, end - start));
+    let read = 0;
+    while (read < bytes.length) {
+      const n = readSync(fd, bytes, read, bytes.length - read, start + read);
+      if (n === 0) throw new LoggerFileError(`${file} changed while it was read: it is shorter than ${size} bytes`);
+      read += n;
+    }
+    return bytes;
+  };
+  return { byteLength: size, slice, close: () => closeSync(fd) };
 }
 
 export type AnalyzeRun = { exitCode: number; stdout: string; stderr: string };
@@ -40,15 +59,21 @@ export function runAnalyze(argv: string[], io: { out: (text: string) => void; er
       io.out(USAGE + "\n");
       return 0;
     }
-    const bytes = readBytes(parsed.file);
-    const { recording, dialect, columns } = readLoggerFile(bytes, parsed.overrides, parsed.context);
+    const source = openFile(parsed.file);
+    let read: ReturnType<typeof readLoggerFile>;
+    try {
+      read = readLoggerFile(source, parsed.overrides, parsed.context);
+    } finally {
+      source.close();
+    }
+    const { recording, dialect, columns } = read;
     const result = analyzeCycleRecording(recording, parsed.request);
     const { input, ...rest } = contractOrder(result);
     const output = {
       ...rest,
       input: {
         file: basename(parsed.file),
-        bytes: bytes.length,
+        bytes: source.byteLength,
         dialect,
         columns,
         atmosphereKpa: parsed.overrides.atmosphereKpa ?? STANDARD_ATMOSPHERE_KPA,
@@ -91,6 +116,19 @@ export function reportResourcesOnExit(): void {
   if (!target) return;
   process.on("exit", () => {
     const usage = process.resourceUsage();
-    writeFileSync(target, JSON.stringify({ maxRssKb: usage.maxRSS, userCpuUs: usage.userCPUTime, systemCpuUs: usage.systemCPUTime }));
+    writeFileSync(target, JSON.stringify({ maxRssKb: usage.maxRSS, ownPeakRssKb: ownPeakRssKb(), userCpuUs: usage.userCPUTime, systemCpuUs: usage.systemCPUTime }));
   });
+}
+
+/**
+ * This process's own peak resident memory (Linux VmHWM), KB; null elsewhere. maxRSS is not enough for a child: Linux
+ * carries the parent's peak across fork and exec, so a child of a large process reports at least the parent's size.
+ */
+function ownPeakRssKb(): number | null {
+  try {
+    const match = /VmHWM:\s*(\d+) kB/.exec(readFileSync("/proc/self/status", "utf8"));
+    return match ? Number(match[1]) : null;
+  } catch {
+    return null;
+  }
 }

@@ -12,7 +12,7 @@ export function rowError(lineIndex: number, message: string): LoggerFileError {
 /** Where the parsed values came from: the file line of each value, and the trimmed text of any cell. */
 export type RowSource = { sourceLine: Int32Array; cellAt: (lineIndex: number, field: number) => string };
 
-/** Times as seconds since the first sample, never backwards; clock times that pass midnight gain a day. */
+/** Times as seconds since the first sample, converted in place, never backwards; clock times that pass midnight gain a day. */
 export function toElapsedSeconds(
   rawTimes: Float64Array,
   scale: number,
@@ -21,7 +21,7 @@ export function toElapsedSeconds(
   source: RowSource,
 ): { timesS: Float64Array; rollovers: number; repeats: number } {
   const rowCount = rawTimes.length;
-  const timesS = new Float64Array(rowCount);
+  const timesS = rawTimes;
   const { sourceLine } = source;
   let dayOffset = 0;
   let rollovers = 0;

@@ -35,7 +35,7 @@ export function encodeWindows1252(text: string): Uint8Array {
   return out;
 }
 
-type NodeBufferLike = { from(buffer: ArrayBufferLike, offset: number, length: number): { toString(encoding: "utf8"): string } };
+type NodeBufferLike = { from(buffer: ArrayBufferLike, offset: number, length: number): { toString(encoding: "utf8" | "latin1"): string } };
 
 function describeBinary(bytes: Uint8Array): string | null {
   const head = bytes.subarray(0, 8);
@@ -49,12 +49,23 @@ function describeBinary(bytes: Uint8Array): string | null {
   return null;
 }
 
-/** Decodes the bytes of a logger file, refusing binary content with a message that says where. */
-export function decodeLoggerBytes(bytes: Uint8Array): { text: string; encoding: TextEncodingName } {
-  if (bytes.length === 0) throw new LoggerFileError("The file is empty (0 bytes)");
-  if (bytes[0] === 0xff && bytes[1] === 0xfe) {
-    return { text: new TextDecoder("utf-16le").decode(bytes.subarray(2)), encoding: "utf-16le" };
-  }
+/** UTF-8 bytes as text; bytes that are not UTF-8 become U+FFFD. */
+export function decodeUtf8(bytes: Uint8Array): string {
+  const nodeBuffer = (globalThis as { Buffer?: NodeBufferLike }).Buffer;
+  // Node's decoder is much faster than TextDecoder.
+  if (nodeBuffer) return nodeBuffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString("utf8");
+  return new TextDecoder("utf-8").decode(bytes);
+}
+
+/** One character per byte, whatever the bytes (bytes 0x80–0xFF stay at or above U+0080): for finding ASCII separators fast. */
+export function decodeBytewise(bytes: Uint8Array): string {
+  const nodeBuffer = (globalThis as { Buffer?: NodeBufferLike }).Buffer;
+  if (nodeBuffer) return nodeBuffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength).toString("latin1");
+  return decodeWindows1252(bytes);
+}
+
+/** Refuses a file whose first bytes (up to 64 KiB) show it is binary, saying what it looks like or where. */
+export function refuseBinaryHead(bytes: Uint8Array): void {
   const known = describeBinary(bytes);
   if (known) throw new LoggerFileError(`The file is ${known}, not a text export: save the logger data as CSV or text`);
   const probe = Math.min(bytes.length, 65536);
@@ -63,20 +74,5 @@ export function decodeLoggerBytes(bytes: Uint8Array): { text: string; encoding: 
     if (b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c && b !== 0x1a) {
       throw new LoggerFileError(`The file is not text: byte 0x${b.toString(16).padStart(2, "0")} at offset ${i} is a binary control byte; export the logger data as CSV or text`);
     }
-  }
-  const hasBom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
-  const body = hasBom ? bytes.subarray(3) : bytes;
-  const nodeBuffer = (globalThis as { Buffer?: NodeBufferLike }).Buffer;
-  if (nodeBuffer) {
-    // Node's decoder is much faster than a fatal TextDecoder; bytes that are not UTF-8 become U+FFFD.
-    const text = nodeBuffer.from(body.buffer, body.byteOffset, body.byteLength).toString("utf8");
-    if (!text.includes("\uFFFD")) return { text, encoding: hasBom ? "utf-8-bom" : "utf-8" };
-    return { text: decodeWindows1252(body), encoding: "windows-1252" };
-  }
-  try {
-    const text = new TextDecoder("utf-8", { fatal: true }).decode(body);
-    return { text, encoding: hasBom ? "utf-8-bom" : "utf-8" };
-  } catch {
-    return { text: decodeWindows1252(body), encoding: "windows-1252" };
   }
 }

@@ -1,5 +1,6 @@
 import { LoggerFileError } from "./errors";
 import { planColumns, type ColumnPlan } from "./mapping";
+import { bytesSource, type ByteSource } from "./lines";
 import { findTable, isBlankLine, isDataRow, lineText, prepareText, splitFields, type PreparedText, type TableLayout } from "./sniff";
 import type { Dialect, InspectResult, MappingOverrides, ReadContext } from "./types";
 
@@ -33,9 +34,13 @@ function spreadSample(prepared: PreparedText, layout: TableLayout): string[][] {
   return rows;
 }
 
-export function analyse(bytes: Uint8Array, overrides: MappingOverrides = {}, problems?: string[], context: ReadContext = {}): Analysed {
-  if (!(bytes instanceof Uint8Array)) throw new LoggerFileError("The logger file must be given as bytes");
-  const prepared = prepareText(bytes);
+/** The file's bytes in memory, or a source that reads them piece by piece. */
+export type LoggerInput = Uint8Array | ByteSource;
+
+export function analyse(input: LoggerInput, overrides: MappingOverrides = {}, problems?: string[], context: ReadContext = {}): Analysed {
+  const isSource = typeof input === "object" && input !== null && typeof (input as ByteSource).slice === "function" && typeof (input as ByteSource).byteLength === "number";
+  if (!(input instanceof Uint8Array) && !isSource) throw new LoggerFileError("The logger file must be given as bytes");
+  const prepared = prepareText(input instanceof Uint8Array ? bytesSource(input) : input);
   const layout = findTable(prepared);
   const preview = dataLineIndexes(prepared, layout, PREVIEW_ROWS).map((i) => splitFields(lineText(prepared, i), layout.delimiter));
   const plan = planColumns(layout.headers, spreadSample(prepared, layout), layout.decimal, overrides, problems, context);
@@ -53,16 +58,16 @@ export function analyse(bytes: Uint8Array, overrides: MappingOverrides = {}, pro
 }
 
 /** Guesses dialect and mapping from the text without converting the data: cheap enough for every upload. */
-export function inspectLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, context?: ReadContext): InspectResult {
+export function inspectLoggerFile(bytes: LoggerInput, overrides?: MappingOverrides, context?: ReadContext): InspectResult {
   const problems: string[] = [];
   const { prepared, layout, plan, dialect, preview } = analyse(bytes, overrides, problems, context);
   const preambleEnd = dialect.preambleLines;
   const preamble: string[] = [];
   for (let i = 0; i < preambleEnd; i++) preamble.push(lineText(prepared, i));
   let rowCount = 0;
-  for (let i = layout.firstDataLineIndex; i < prepared.lineCount; i++) {
-    if (prepared.lineEnds[i] > prepared.lineStarts[i]) rowCount++;
-  }
+  prepared.forEachBlock(layout.firstDataLineIndex, (block) => {
+    for (let k = 0; k < block.lineCount; k++) if (block.lineEnds[k] > block.lineStarts[k]) rowCount++;
+  });
   return {
     dialect,
     columns: plan.columns,

@@ -1,7 +1,7 @@
 import Papa from "papaparse";
 import { rowError, toAbsoluteKpaChannel, toCelsiusChannel, toElapsedSeconds, type RowSource } from "./convert";
 import { LoggerFileError } from "./errors";
-import { MIN_DATA_ROWS, analyse } from "./inspect";
+import { MIN_DATA_ROWS, analyse, type LoggerInput } from "./inspect";
 import { MissingReadings, isBlankCell } from "./missing";
 import { DECIMAL_CODES, parseDecimal } from "./numbers";
 import { MAX_FIELDS_PER_ROW, delimiterName, isBlankLine, lineText, splitFields, type PreparedText, type TableLayout } from "./sniff";
@@ -29,9 +29,9 @@ type Sink = {
  * Reads the whole file into a recording: times in seconds, temperatures in °C, pressure in kPa
  * absolute; a blank cell is a missing reading (NaN), a row with every channel blank is skipped.
  */
-export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, context?: ReadContext): ReadResult {
-  const { prepared, layout, plan, dialect } = analyse(bytes, overrides, undefined, context);
-  const { text, lineStarts, lineEnds, lineCount } = prepared;
+export function readLoggerFile(input: LoggerInput, overrides?: MappingOverrides, context?: ReadContext): ReadResult {
+  const { prepared, layout, plan, dialect } = analyse(input, overrides, undefined, context);
+  const { lineCount } = prepared;
   const { width, delimiter, headers } = layout;
   const warnings: string[] = [];
   // Local bindings: module imports compiled to CommonJS are getters, too slow for the inner loop.
@@ -123,40 +123,44 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, 
   };
 
   if (!layout.dataQuoted) {
-    for (let i = layout.firstDataLineIndex; i < lineCount; i++) {
-      const start = lineStarts[i];
-      const end = lineEnds[i];
-      if (start === end) continue;
-      const firstCode = text.charCodeAt(start);
-      if ((firstCode === 32 || firstCode === 9 || firstCode === delimiterCode) && isBlankLine(text.slice(start, end), delimiter)) continue;
-      let field = 0;
-      let fieldStart = start;
-      for (;;) {
-        let next = text.indexOf(delimiter, fieldStart);
-        if (next < 0 || next > end) next = end;
-        if (field < width) {
-          fieldStarts[field] = fieldStart;
-          fieldEnds[field] = next;
+    // A block of lines at a time: the file's text never exists whole.
+    prepared.forEachBlock(layout.firstDataLineIndex, ({ text, firstLine, lineCount: blockLines, lineStarts, lineEnds }) => {
+      for (let k = 0; k < blockLines; k++) {
+        const i = firstLine + k;
+        const start = lineStarts[k];
+        const end = lineEnds[k];
+        if (start === end) continue;
+        const firstCode = text.charCodeAt(start);
+        if ((firstCode === 32 || firstCode === 9 || firstCode === delimiterCode) && isBlankLine(text.slice(start, end), delimiter)) continue;
+        let field = 0;
+        let fieldStart = start;
+        for (;;) {
+          let next = text.indexOf(delimiter, fieldStart);
+          if (next < 0 || next > end) next = end;
+          if (field < width) {
+            fieldStarts[field] = fieldStart;
+            fieldEnds[field] = next;
+          }
+          field++;
+          if (next === end) break;
+          fieldStart = next + 1;
         }
-        field++;
-        if (next === end) break;
-        fieldStart = next + 1;
-      }
-      if (field !== width) {
-        if (isFooter(i)) {
+        if (field !== width) {
+          if (isFooter(i)) {
+            footerFrom = i;
+            return false;
+          }
+          failRow(i, `has ${field} ${delimiterName(delimiter)}-separated fields where the header has ${width}`);
+        }
+        if (!parseFields(i, text)) {
           footerFrom = i;
-          break;
+          return false;
         }
-        failRow(i, `has ${field} ${delimiterName(delimiter)}-separated fields where the header has ${width}`);
+        store(i);
       }
-      if (!parseFields(i, text)) {
-        footerFrom = i;
-        break;
-      }
-      store(i);
-    }
+    });
   } else {
-    readQuotedRows(text.slice(lineStarts[layout.firstDataLineIndex]), layout.firstDataLineIndex, delimiter, (i, row, parser) => {
+    readQuotedRows(prepared.textFrom(layout.firstDataLineIndex), layout.firstDataLineIndex, delimiter, (i, row, parser) => {
       if (row.every((cell) => cell.trim() === "")) return;
       if (row.length !== width) {
         if (isFooter(i)) {
@@ -196,6 +200,7 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, 
   const rawTimes = sink.times.subarray(0, rowCount);
   const timeHeader = headers[plan.timeIndex];
   const time = { header: timeHeader, field: plan.timeIndex };
+  const firstRawTime = rawTimes[0];
   const { timesS, rollovers, repeats } = toElapsedSeconds(rawTimes, elapsed ? plan.elapsedScale : 1, timeFormat, time, source);
   if (rollovers > 0) warnings.push(`The clock times pass midnight ${rollovers} time(s); a day was added at each`);
   if (repeats > 0) warnings.push(`${repeats} row(s) repeat the time of the row before`);
@@ -203,7 +208,7 @@ export function readLoggerFile(bytes: Uint8Array, overrides?: MappingOverrides, 
 
   let startedAt: string | null = null;
   if (timeFormat !== "elapsed-seconds" && timeFormat !== "clock") {
-    startedAt = isoFromSeconds(rawTimes[0], cellHasOffset(cellOf(prepared, layout, sourceLine[0], plan.timeIndex)));
+    startedAt = isoFromSeconds(firstRawTime, cellHasOffset(cellOf(prepared, layout, sourceLine[0], plan.timeIndex)));
   }
 
   warnings.push(...missing.describe((slot) => headers[fieldOfSlot[slot]], rowCount));

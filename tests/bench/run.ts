@@ -6,6 +6,7 @@ import { simulateDay, toLoggerCsv } from "../../lib/simulator";
 import { saturationTemperatureC } from "../../lib/steam";
 import { env } from "../../lib/env";
 import { serverBench } from "./http";
+import { analyzeMemoryRows } from "./analyze-memory";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const LAUNCHER = path.join(ROOT, "lib/cli/launch.mjs");
@@ -113,6 +114,7 @@ async function main(): Promise<number> {
       ["report PDF rendered (first render)", `${intake.reportS.toFixed(3)} s`, "< 3 s", "", intake.reportS < 3 ? "goal met" : "above goal"],
       ["server part of drop → record", `${(intake.analyseS + intake.seriesS).toFixed(3)} s`, "", "< 10 s", intake.analyseS + intake.seriesS < 10 ? "within limit" : "FAILED"],
       ...bounded.rows,
+      ...analyzeMemoryRows(dir),
       ["IF97 Tsat(p) evaluations per second", `${(tsatPerSecond / 1e6).toFixed(1)} million`, "≥ 20 million", "", tsatPerSecond >= 20e6 ? "goal met" : "below goal"],
       ...server.rows,
     ];
