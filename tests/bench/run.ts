@@ -6,7 +6,7 @@ import { simulateDay, toLoggerCsv } from "../../lib/simulator";
 import { saturationTemperatureC } from "../../lib/steam";
 import { env } from "../../lib/env";
 import { serverBench } from "./http";
-import { analyzeMemoryRows } from "./analyze-memory";
+import { ANALYZE_NODE_FLAGS, analyzeMemoryRows } from "./analyze-memory";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const LAUNCHER = path.join(ROOT, "lib/cli/launch.mjs");
@@ -65,7 +65,7 @@ async function main(): Promise<number> {
     const baselineScript = path.join(dir, "baseline.cjs");
     writeFileSync(baselineScript, BASELINE_SCRIPT);
 
-    const analyzeArgs = [LAUNCHER, "analyze", file, "--sterilization-temp", "134", "--holding-time", "180"];
+    const analyzeArgs = [...ANALYZE_NODE_FLAGS, LAUNCHER, "analyze", file, "--sterilization-temp", "134", "--holding-time", "180"];
     const report = path.join(dir, "resources.json");
     const env = { ...process.env, PAPIN_RESOURCE_REPORT: report };
 
