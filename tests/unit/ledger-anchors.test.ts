@@ -71,9 +71,9 @@ describe("the daily ledger-head mail", () => {
   const m = ledgerHeadMail({ siteName: "Harbour <Lane>", at: "2026-12-01 06:15:00", events: 4211, lastSeq: 4211, lastHash: h(4211), url: "https://papin.example/audit" });
 
   it("states the count, the last event and its hash, links to the ledger and carries the safety reminder", () => {
-    expect(m.subject).toBe("Daily audit-ledger head for Harbour <Lane>: 4211 events");
+    expect(m.subject).toBe("Daily audit-ledger head for Harbour <Lane>: 4,211 events");
     for (const body of [m.text, m.html]) {
-      expect(body).toContain("4211 events");
+      expect(body).toContain("4,211 events");
       expect(body).toContain(`SHA-256 ${h(4211)}`);
       expect(body).toContain("https://papin.example/audit");
     }
