@@ -14,3 +14,4 @@ export * from "./time-zone";
 export * from "./sterilizer-status";
 export * from "./api-tokens";
 export * from "./air-leakage";
+export * from "./sensor-positions";

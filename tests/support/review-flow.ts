@@ -72,6 +72,21 @@ export async function loggerFile({ scenario = "pass", startedAt = CYCLE_DATE, pr
   return toLoggerCsv(simulateCycle({ scenario, sterilizationTempC: 134.6, holdingTimeS: 210, seed: nextSeed++, startedAt, probeCount }));
 }
 
+/** The simulator's probe positions for the temperature columns of a file (a file that cannot be read gets none). */
+export async function placementsOf(bytes: Uint8Array) {
+  const { inspectLoggerFile } = await import("@/lib/logger-files");
+  const { simulatedPlacements } = await import("@/lib/simulator");
+  try {
+    return simulatedPlacements(
+      inspectLoggerFile(bytes)
+        .columns.filter((c) => c.role === "temperature")
+        .map((c) => c.header),
+    );
+  } catch {
+    return {};
+  }
+}
+
 const params = (id: string) => ({ params: Promise.resolve({ id }) });
 const URL_BASE = "http://papin.test";
 
@@ -87,6 +102,8 @@ export function reviewFlow(session: Session, site: ReviewSite) {
     form.set("sterilizerId", site.sterilizerId);
     form.set("profileId", site.profileId);
     if (instrumentId) form.set("instrumentId", instrumentId);
+    // Probes placed as a technician records them, so a passing cycle can be approved (sign-off refuses unplaced channels).
+    if (!("mapping" in extra)) form.set("mapping", JSON.stringify({ positions: await placementsOf(bytes) }));
     for (const [k, v] of Object.entries(extra)) form.set(k, v);
     form.append("files", new Blob([bytes as BlobPart]), name);
     as(asUser);
