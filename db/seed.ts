@@ -28,6 +28,7 @@ import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
 import { atmosphereAtAltitudeKpa } from "@/lib/steam";
 import { zoneOffsetMs } from "@/lib/domain";
 import { defaultScheduleFor } from "@/lib/periodic-tests/sterilizer-class";
+import { demoLoad, demoMapping } from "./demo-positions";
 import { STORY_OUT_OF_USE, STORY_RELEASED, tellFitnessStory, thisMorning } from "./demo-story";
 
 export { DEMO_USERS };
@@ -270,7 +271,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           sampleIntervalS: 2,
         });
         const bytes = toLoggerCsv(sim, { ...s.dialect, atmosphereKpa });
-        const analysis = analyzeLoggerBytes(bytes, profile, {}, atmosphereKpa);
+        const analysis = analyzeLoggerBytes(bytes, profile, demoMapping(bytes), atmosphereKpa);
         const cycleNumber = `${s.key}-${startedAt.toISOString().slice(0, 10).replace(/-/g, "")}-${String(ordinal + 1).padStart(3, "0")}`;
         const status = daysAgo > 3 ? "submitted" : "draft";
         const [cycle] = await tx
@@ -283,6 +284,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
             cycleNumber,
             testKind: "thermometric-small-load",
             loadDescription: "Standard test pack, small-load test (demo)",
+            ...demoLoad(ordinal),
             status,
             verdict: analysis.result.verdict,
             startedAt: startedAt.toISOString(),
@@ -315,6 +317,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
             limits: analysis.limits,
             result: analysis.result,
             verdict: analysis.result.verdict,
+            mapping: analysis.mapping,
             createdBy: userIds.technician,
           })
           .returning({ id: analyses.id });

@@ -8,7 +8,7 @@ import { downsampleForReport, strideIndexes } from "./downsample";
 import { REPORT_CHART_POINTS, REPORT_PHASE_POINTS, type ReportModel } from "./model";
 import { PhaseChart } from "./phase-chart";
 import { s } from "./styles";
-import { basisNoteFor, describeBasis, formatDuration, PROFILE_BASIS_LABELS, testKindLabel } from "@/lib/domain";
+import { basisNoteFor, describeBasis, formatDuration, loadTypeLabel, PROFILE_BASIS_LABELS, testKindLabel } from "@/lib/domain";
 import { bytes, fixed, pdfText, signed } from "./text";
 import { CONTENT_WIDTH, colour, loadChannelStyle, seriesStyle } from "./theme";
 import { bothClocks, instantOf, siteClockAt } from "./time";
@@ -487,6 +487,8 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           <Fact label="Load" wide>
             {detail.loadDescription || "—"}
           </Fact>
+          <Fact label="Test pack or load">{loadTypeLabel(detail.loadType)}</Fact>
+          <Fact label="Lot or batch">{detail.loadLot || "not recorded"}</Fact>
           <Fact label="Started (site)">{started.site}</Fact>
           <Fact label="Started (UTC)">{started.utc}</Fact>
           <Fact label="Uploaded by">{detail.createdBy.name}</Fact>
@@ -577,7 +579,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           </View>
         ) : null}
 
-        {analysis ? <ChannelsSection analysis={analysis} band={series.band} /> : null}
+        {analysis ? <ChannelsSection analysis={analysis} band={series.band} positions={detail.positions} /> : null}
         {analysis ? <RecordInputSection analysis={analysis} at={at} /> : null}
         {analysis ? <FlagsSection analysis={analysis} at={at} /> : null}
         <RecordSection detail={detail} />
