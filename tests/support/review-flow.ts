@@ -137,13 +137,25 @@ export function reviewFlow(session: Session, site: ReviewSite) {
   async function correct(
     id: string,
     asUser: string,
-    fields: { file?: Uint8Array; fileName?: string; mapping?: unknown; reason?: string; duplicateReason?: string; profileId?: string; instrumentId?: string },
+    fields: {
+      file?: Uint8Array;
+      fileName?: string;
+      mapping?: unknown;
+      positions?: unknown;
+      reason?: string;
+      duplicateReason?: string;
+      profileId?: string;
+      instrumentId?: string;
+      loadType?: string;
+      loadLot?: string;
+    },
   ) {
     const { POST } = await import("@/app/api/cycles/[id]/analyses/route");
     const form = new FormData();
     if (fields.file) form.append("file", new Blob([fields.file as BlobPart]), fields.fileName ?? "corrected.csv");
     if (fields.mapping) form.set("mapping", JSON.stringify(fields.mapping));
-    for (const key of ["reason", "duplicateReason", "profileId", "instrumentId"] as const) if (fields[key] !== undefined) form.set(key, fields[key]!);
+    if (fields.positions) form.set("positions", JSON.stringify(fields.positions));
+    for (const key of ["reason", "duplicateReason", "profileId", "instrumentId", "loadType", "loadLot"] as const) if (fields[key] !== undefined) form.set(key, fields[key]!);
     as(asUser);
     return POST(new Request(`${URL_BASE}/api/cycles/${id}/analyses`, { method: "POST", body: form }), params(id));
   }
