@@ -26,3 +26,10 @@ export function positionRefusalOf(detail: { testKind: string; analysis: CycleAna
   for (const p of detail.positions) if (p.position) placements[p.header] = { position: p.position };
   return placementRefusal({ temperatureChannels: detail.positions.map((p) => p.header), referenceChannel: thermometric.referenceChannel, placements });
 }
+
+/** The placements of a channel list, in channel order, leaving out the unplaced: what a correction sends as `positions`. */
+export function canonicalPlacements(positions: readonly ChannelPosition[]): ChannelPlacements {
+  const placements: ChannelPlacements = {};
+  for (const p of positions) if (p.position) placements[p.header] = p.note ? { position: p.position, note: p.note } : { position: p.position };
+  return placements;
+}

@@ -161,7 +161,7 @@ export default async function CycleRecordPage({ params }: Props) {
           </Panel>
           {correctionChoices && (
             <Panel title="Correct and analyse again">
-              <CorrectionForm cycleId={detail.id} current={{ profileId: detail.profile.id, instrumentId: detail.instrument?.id ?? null }} choices={correctionChoices} />
+              <CorrectionForm cycleId={detail.id} current={{ profileId: detail.profile.id, instrumentId: detail.instrument?.id ?? null, positions: detail.positions }} choices={correctionChoices} />
             </Panel>
           )}
           <Panel title="Record history">
