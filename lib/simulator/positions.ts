@@ -19,7 +19,7 @@ export function simulatedPlacements(temperatureHeaders: readonly string[]): Chan
   for (const header of temperatureHeaders) {
     const pack = /^pack\s*(\d+)/i.exec(header);
     if (/^drain/i.test(header)) placements[header] = { position: "reference-drain", note: "In the chamber drain, upstream of the drain valve" };
-    else if (/^chamber/i.test(header)) placements[header] = { position: "free-space", note: "Free space about 50 mm above the pack" };
+    else if (/^(chamber|free)/i.test(header)) placements[header] = { position: "free-space", note: "Free space above the centre of the pack" };
     else if (pack) placements[header] = PACK_PLACES[(Number(pack[1]) - 1) % PACK_PLACES.length];
   }
   return placements;
