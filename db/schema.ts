@@ -16,6 +16,7 @@ import {
   CYCLE_STATUSES,
   INDICATOR_SHEET_RESULTS,
   INSTRUMENT_KINDS,
+  LOAD_TYPES,
   MAIL_STATUSES,
   PERIODIC_RECORD_STATUSES,
   PERIODIC_SIGNATURE_MEANINGS,
@@ -243,6 +244,9 @@ export const cycles = sqliteTable(
     cycleNumber: text("cycle_number").notNull(),
     testKind: text("test_kind", { enum: TEST_KINDS }).notNull().default("thermometric-small-load"),
     loadDescription: text("load_description").notNull().default(""),
+    // The test pack or load that was run, and its lot or batch (migration 0020); null: not recorded.
+    loadType: text("load_type", { enum: LOAD_TYPES }),
+    loadLot: text("load_lot").notNull().default(""),
     status: text("status", { enum: CYCLE_STATUSES }).notNull().default("draft"),
     verdict: text("verdict", { enum: VERDICTS }),
     startedAt: text("started_at"),
@@ -318,6 +322,8 @@ export const analyses = sqliteTable(
     verdict: text("verdict", { enum: VERDICTS }).notNull(),
     // Why this analysis was made (a new file, a new mapping, changed details); null for a cycle's first analysis.
     reason: text("reason"),
+    // The mapping this analysis read, sensor positions included (migration 0020); null before it: the file's mapping.
+    mapping: text("mapping", { mode: "json" }),
     createdBy: text("created_by").references(() => users.id),
     createdAt: createdAt(),
   },

@@ -29,6 +29,7 @@ import { atmosphereAtAltitudeKpa } from "@/lib/steam";
 import { zoneOffsetMs } from "@/lib/domain";
 import { STORY_OUT_OF_USE, STORY_RELEASED, tellFitnessStory } from "./demo-story";
 import { DEMO_LOADS, demoCycleStart, demoPeriodicTests, demoScheduleFor, type DemoKind } from "./demo-schedule";
+import { demoLoad, demoMapping } from "./demo-positions";
 
 export { DEMO_USERS };
 
@@ -267,7 +268,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           sampleIntervalS: 2,
         });
         const bytes = toLoggerCsv(sim, { ...s.dialect, atmosphereKpa });
-        const analysis = analyzeLoggerBytes(bytes, profile, {}, atmosphereKpa);
+        const analysis = analyzeLoggerBytes(bytes, profile, demoMapping(bytes), atmosphereKpa);
         const cycleNumber = `${s.key}-${startedAt.toISOString().slice(0, 10).replace(/-/g, "")}-${String(ordinal + 1).padStart(3, "0")}`;
         const status = daysAgo > 3 ? "submitted" : "draft";
         const [cycle] = await tx
@@ -280,6 +281,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
             cycleNumber,
             testKind: s.kind === "fluids" ? "thermometric-full-load" : "thermometric-small-load",
             loadDescription: DEMO_LOADS[s.kind],
+            ...demoLoad(ordinal, s.kind),
             status,
             verdict: analysis.result.verdict,
             startedAt: startedAt.toISOString(),
@@ -312,6 +314,7 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
             limits: analysis.limits,
             result: analysis.result,
             verdict: analysis.result.verdict,
+            mapping: analysis.mapping,
             createdBy: userIds.technician,
           })
           .returning({ id: analyses.id });

@@ -11,9 +11,10 @@ import { env } from "./env";
 import { AppError } from "./errors";
 import { zodMessage } from "./http";
 import { sha256Hex } from "./integrity";
-import { mappingOverridesSchema } from "./validations/intake";
+import { channelPlacementsSchema, mappingOverridesSchema } from "./validations/intake";
 import type { MappingOverrides } from "./logger-files";
 import { plural } from "@/lib/domain";
+import type { ChannelPlacements } from "./domain";
 
 /** Text fields are ids, short descriptions and the mapping JSON; none comes near this. */
 export const FIELD_VALUE_LIMIT_BYTES = 64 * 1024;
@@ -193,6 +194,21 @@ export async function filesOf(form: UploadForm, field: string): Promise<Received
 }
 
 /** The optional `mapping` field of an upload: JSON of the user's corrections to the guessed mapping. */
+/** The optional `positions` JSON of a correction: sensor positions by channel header; undefined when absent. */
+export function positionsFromForm(form: UploadForm): ChannelPlacements | undefined {
+  const raw = form.get("positions");
+  if (typeof raw !== "string" || !raw.trim()) return undefined;
+  let json: unknown;
+  try {
+    json = JSON.parse(raw);
+  } catch {
+    throw new AppError(400, 'positions is not valid JSON; send it as {"<channel header>": {"position": "pack-centre", "note": "…"}}.', "positions");
+  }
+  const parsed = channelPlacementsSchema.safeParse(json);
+  if (!parsed.success) throw new AppError(400, `positions: ${zodMessage(parsed.error)}`, "positions");
+  return parsed.data;
+}
+
 export function mappingFromForm(form: UploadForm): MappingOverrides | undefined {
   const raw = form.get("mapping");
   if (typeof raw !== "string" || !raw.trim()) return undefined;

@@ -58,6 +58,8 @@ export function ColumnsPanel({ logger, inspect, idPrefix }: { logger: LoggerFile
         guessedReference={inspect.referenceColumn}
         onColumnChange={logger.updateColumn}
         onReferenceChange={logger.chooseReference}
+        placements={logger.placements}
+        onPlacementChange={logger.placeChannel}
       />
       {(mappingErrors.length > 0 || logger.pressureReferenceError) && (
         <ul className="mt-3 space-y-1" data-testid="mapping-errors">

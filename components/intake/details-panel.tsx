@@ -3,10 +3,10 @@
 import type { ReactNode } from "react";
 import type { TestKind } from "@/lib/domain";
 import type { CreateCycleField } from "@/lib/validations/intake";
-import { formatDuration, PROFILE_BASIS_LABELS, TEST_KINDS, testKindLabel, formatVolume } from "@/lib/domain";
+import { formatDuration, LOAD_LOT_MAX_CHARS, LOAD_TYPE_LABELS, LOAD_TYPES, PROFILE_BASIS_LABELS, TEST_KINDS, testKindLabel, formatVolume } from "@/lib/domain";
 import { Panel } from "@/components/ui/panel";
 import { OutOfUseNotice } from "@/components/equipment/sterilizer-status";
-import type { IntakeInstrument, IntakeProfile, IntakeSterilizer } from "./intake-request";
+import type { IntakeFields, IntakeInstrument, IntakeProfile, IntakeSterilizer } from "./intake-request";
 import type { CycleFields } from "./use-cycle-fields";
 
 type Props = {
@@ -209,6 +209,49 @@ function CycleFacts({ idPrefix: ids, details, wiring }: { idPrefix: string; deta
         />
         {errorText("load")}
       </div>
+      {fields.testKind !== "air-leakage" && fields.testKind !== "bowie-dick" && (
+        <>
+          <div>
+            <label className="field-label" htmlFor={`${ids}-load-type`}>
+              Test pack or load
+            </label>
+            <select
+              id={`${ids}-load-type`}
+              name="loadType"
+              className="field-input"
+              value={fields.loadType}
+              onChange={(e) => setField("loadType", e.target.value as IntakeFields["loadType"])}
+              {...invalid("loadType")}
+              aria-describedby={describedBy("loadType")}
+            >
+              <option value="">not recorded</option>
+              {LOAD_TYPES.map((t) => (
+                <option key={t} value={t}>
+                  {LOAD_TYPE_LABELS[t]}
+                </option>
+              ))}
+            </select>
+            {errorText("loadType")}
+          </div>
+          <div>
+            <label className="field-label" htmlFor={`${ids}-load-lot`}>
+              Lot or batch of the test pack or load
+            </label>
+            <input
+              id={`${ids}-load-lot`}
+              name="loadLot"
+              className="field-input"
+              maxLength={LOAD_LOT_MAX_CHARS}
+              value={fields.loadLot}
+              placeholder="e.g. STP-2611-04"
+              onChange={(e) => setField("loadLot", e.target.value)}
+              {...invalid("loadLot")}
+              aria-describedby={describedBy("loadLot")}
+            />
+            {errorText("loadLot")}
+          </div>
+        </>
+      )}
     </>
   );
 }

@@ -1,5 +1,5 @@
 import type { InspectResponse, MappingOverrides } from "@/lib/cycles/contracts";
-import type { ProfileBasis, TestKind } from "@/lib/domain";
+import { guessSensorPosition, type ChannelPlacements, type LoadType, type ProfileBasis, type TestKind } from "@/lib/domain";
 import { createCycleFieldsSchema, mappingProblems, parseElapsedInput, pressureReferenceProblem, type CreateCycleField } from "@/lib/validations/intake";
 import { timeFormatHasDate } from "@/lib/cycles/start-time";
 import type { MappedColumn } from "./mapping-table";
@@ -26,6 +26,9 @@ export type IntakeFields = {
   instrumentId: string;
   cycleNumber: string;
   load: string;
+  /** "" while none is chosen */
+  loadType: LoadType | "";
+  loadLot: string;
   testKind: TestKind;
   startedAt: string;
   leakT1?: string;
@@ -34,7 +37,7 @@ export type IntakeFields = {
 };
 export type FieldErrors = Partial<Record<CreateCycleField | "leakMarks", string>>;
 
-export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "testKind", "startedAt", "leakMarks", "duplicateReason"];
+export const FIELD_NAMES: readonly string[] = ["sterilizerId", "profileId", "instrumentId", "cycleNumber", "load", "loadType", "loadLot", "testKind", "startedAt", "leakMarks", "duplicateReason"];
 
 /** The air leakage test's marked t1 in seconds: null when none is given or the test kind is another, NaN when it cannot be read. */
 export function markedT1(fields: IntakeFields): number | null {
@@ -70,7 +73,7 @@ export function columnsFrom(inspect: InspectResponse): MappedColumn[] {
  * header marker speaks for itself. The free-space sensor is always named ("" for none), so the
  * analysis uses exactly what the table shows.
  */
-export function toMappingOverrides(columns: readonly MappedColumn[], referenceColumn: string | null, freeSpaceColumn: string | null = null): MappingOverrides {
+export function toMappingOverrides(columns: readonly MappedColumn[], referenceColumn: string | null, freeSpaceColumn: string | null = null, placements: ChannelPlacements = {}): MappingOverrides {
   const time = columns.find((c) => c.role === "time");
   const pressure = columns.find((c) => c.role === "pressure");
   const confirmed = (c: MappedColumn) => (c.gaugeFrom === "user" || c.gaugeFrom === "saved") && c.gauge !== null;
@@ -90,7 +93,25 @@ export function toMappingOverrides(columns: readonly MappedColumn[], referenceCo
   }
   if (referenceColumn) overrides.referenceColumn = referenceColumn;
   overrides.freeSpaceColumn = freeSpaceColumn && columns.some((c) => c.role === "temperature" && c.header === freeSpaceColumn) ? freeSpaceColumn : "";
+  const placed = columns.filter((c) => c.role === "temperature" && Object.hasOwn(placements, c.header));
+  if (placed.length > 0) overrides.positions = Object.fromEntries(placed.map((c) => [c.header, placements[c.header]]));
   return overrides;
+}
+
+/**
+ * The positions the form starts from: the saved mapping's for the channels it names, else the drain (reference) and
+ * free-space sensors by their role, else a guess from the header; the user confirms or changes each.
+ */
+export function initialPlacements(inspect: InspectResponse, columns: readonly MappedColumn[], referenceColumn: string | null): ChannelPlacements {
+  const saved = inspect.savedMapping?.positions ?? {};
+  const placements: ChannelPlacements = {};
+  for (const c of columns) {
+    if (c.role !== "temperature") continue;
+    const guess = c.header === referenceColumn ? "reference-drain" : c.header === inspect.freeSpaceColumn ? "free-space" : guessSensorPosition(c.header);
+    if (Object.hasOwn(saved, c.header)) placements[c.header] = saved[c.header];
+    else if (guess) placements[c.header] = { position: guess };
+  }
+  return placements;
 }
 
 export type IntakeDraft = {
@@ -101,6 +122,7 @@ export type IntakeDraft = {
   freeSpaceColumn: string | null;
   fields: IntakeFields;
   saveMapping: boolean;
+  placements: ChannelPlacements;
 };
 
 export type DraftProblems = { fieldErrors: FieldErrors; mappingErrors: string[]; pressureReferenceError: string | null; fileError: string | null };
@@ -140,10 +162,12 @@ export function cycleForm(draft: IntakeDraft): FormData {
   if (fields.instrumentId) form.append("instrumentId", fields.instrumentId);
   if (fields.cycleNumber.trim()) form.append("cycleNumber", fields.cycleNumber.trim());
   if (fields.load.trim()) form.append("load", fields.load.trim());
+  if (fields.loadType) form.append("loadType", fields.loadType);
+  if (fields.loadLot.trim()) form.append("loadLot", fields.loadLot.trim());
   form.append("testKind", fields.testKind);
   if (needsStartTime(draft.inspect) && fields.startedAt.trim()) form.append("startedAt", fields.startedAt.trim());
   if (fields.duplicateReason.trim()) form.append("duplicateReason", fields.duplicateReason.trim());
-  form.append("mapping", JSON.stringify(toMappingOverrides(draft.columns, draft.referenceColumn, draft.freeSpaceColumn)));
+  form.append("mapping", JSON.stringify(toMappingOverrides(draft.columns, draft.referenceColumn, draft.freeSpaceColumn, draft.placements)));
   const t1 = markedT1(fields);
   if (t1 !== null && Number.isFinite(t1)) form.append("leakMarks", JSON.stringify({ t1S: t1 }));
   if (draft.saveMapping && fields.instrumentId) form.append("saveMapping", "true");

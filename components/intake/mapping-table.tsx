@@ -2,8 +2,10 @@
 
 import { PRESSURE_UNITS, TEMPERATURE_UNIT_SYMBOL, TEMPERATURE_UNITS } from "@/lib/steam/units";
 import type { EditableColumn } from "@/lib/validations/intake";
+import type { ChannelPlacement, ChannelPlacements } from "@/lib/domain";
 import { PressureReferenceChoice, type GaugeSource } from "./pressure-reference";
 import { headerWithUnit } from "@/lib/domain";
+import { PositionPicker } from "./position-picker";
 
 export type MappedColumn = EditableColumn & {
   /** what the guess was unsure of, as the server said it */
@@ -121,7 +123,12 @@ export function MappingTable({
   pressureReferenceError,
   idPrefix,
   guessedReference,
+  placements,
+  onPlacementChange,
 }: {
+  /** where each temperature channel's probe sat, by header */
+  placements: ChannelPlacements;
+  onPlacementChange: (header: string, next: ChannelPlacement | undefined) => void;
   columns: MappedColumn[];
   referenceColumn: string | null;
   /** the temperature column of the free-space sensor, null when there is none */
@@ -160,7 +167,8 @@ export function MappingTable({
           </select>
         </div>
         <p className="max-w-xl pb-2 text-xs text-ink-muted">
-          The plateau starts when the reference channel reaches the sterilization temperature, and the saturation check compares it with the steam temperature computed from the chamber pressure.
+          The plateau starts when the reference channel reaches the sterilization temperature, and the saturation check compares it with the steam temperature computed from the chamber pressure. Give
+          each temperature channel the position its probe sat at: a thermometric test without them can be saved as a draft but not approved.
         </p>
       </div>
       <p className="mb-2 text-sm" data-testid="mapping-summary">
@@ -195,6 +203,9 @@ export function MappingTable({
                         ))}
                       </select>
                       <UnitSelect id={`${idPrefix}-unit-${c.index}`} column={c} onChange={(patch) => onColumnChange(c.index, patch)} />
+                      {c.role === "temperature" && (
+                        <PositionPicker id={`${idPrefix}-position-${c.index}`} header={c.header} placement={placements[c.header]} onChange={(next) => onPlacementChange(c.header, next)} />
+                      )}
                       {c.role === "pressure" && (
                         <PressureReferenceChoice
                           header={c.header}

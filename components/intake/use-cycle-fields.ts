@@ -18,6 +18,8 @@ export function useCycleFields({ sterilizers, instruments, onEdit }: Options) {
     profileId: onlySterilizer?.defaultProfileId ?? "",
     instrumentId: "",
     cycleNumber: "",
+    loadType: "",
+    loadLot: "",
     load: "",
     testKind: "thermometric-small-load",
     startedAt: "",

@@ -68,8 +68,8 @@ export function useIntake({ sterilizers, instruments }: { sterilizers: readonly 
     const bowieDick = details.fields.testKind === "bowie-dick";
     const sheetProblems = bowieDick ? intakeSheetProblems(formElement) : {};
     setSheetErrors(sheetProblems);
-    const { files, inspect, columns, referenceColumn, freeSpaceColumn } = logger;
-    const draft: IntakeDraft = { files, inspect, columns, referenceColumn, freeSpaceColumn, fields: details.fields, saveMapping: details.saveMapping };
+    const { files, inspect, columns, referenceColumn, freeSpaceColumn, placements } = logger;
+    const draft: IntakeDraft = { files, inspect, columns, referenceColumn, freeSpaceColumn, placements, fields: details.fields, saveMapping: details.saveMapping };
     const problems = draftProblems(draft);
     details.setFieldErrors(problems.fieldErrors);
     logger.setMappingErrors(problems.mappingErrors);

@@ -5,7 +5,8 @@ import type { InspectResponse } from "@/lib/cycles/contracts";
 import { RequestError, uploadJson, type UploadProgress } from "@/lib/client/fetch-json";
 import type { EditableColumn } from "@/lib/validations/intake";
 import { changeColumn, settleFreeSpace, settleReference, type MappedColumn, type RoleChoice } from "./mapping-table";
-import { columnsFrom, inspectForm, type IntakeInstrument } from "./intake-request";
+import { columnsFrom, initialPlacements, inspectForm, type IntakeInstrument } from "./intake-request";
+import type { ChannelPlacement, ChannelPlacements } from "@/lib/domain";
 
 export const MAX_FILES = 10;
 
@@ -37,6 +38,7 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
   const [columns, setColumns] = useState<MappedColumn[]>([]);
   const [referenceColumn, setReferenceColumn] = useState<string | null>(null);
   const [freeSpaceColumn, setFreeSpaceColumn] = useState<string | null>(null);
+  const [placements, setPlacements] = useState<ChannelPlacements>({});
   const [pressureReferenceError, setPressureReferenceError] = useState<string | null>(null);
   const [mappingNotice, setMappingNotice] = useState<string | null>(null);
   const [fileError, setFileError] = useState<string | null>(null);
@@ -70,9 +72,11 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
     try {
       const { body, notice } = await readFile(file, instrumentId);
       const next = columnsFrom(body);
+      const reference = body.referenceColumn ?? settleReference(next, null, body.freeSpaceColumn);
       setInspect(body);
       setColumns(next);
-      setReferenceColumn(body.referenceColumn ?? settleReference(next, null, body.freeSpaceColumn));
+      setReferenceColumn(reference);
+      setPlacements(initialPlacements(body, next, reference));
       setFreeSpaceColumn(body.freeSpaceColumn);
       setMappingErrors([]);
       setPressureReferenceError(null);
@@ -125,7 +129,17 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
 
   function chooseReference(header: string) {
     setReferenceColumn(header);
+    // The reference channel is the drain probe unless the user has placed it elsewhere.
+    setPlacements((p) => (Object.hasOwn(p, header) ? p : { ...p, [header]: { position: "reference-drain" } }));
     setMappingErrors([]);
+  }
+
+  function placeChannel(header: string, next: ChannelPlacement | undefined) {
+    setPlacements((p) => {
+      const { [header]: _old, ...rest } = p;
+      return next ? { ...rest, [header]: next } : rest;
+    });
+    onEdit();
   }
 
   /** A column's role from the table; "free-space" makes it a temperature column and the one free-space sensor. */
@@ -151,6 +165,8 @@ export function useLoggerFiles({ instruments, setBusy, onEdit }: Options) {
     columns,
     referenceColumn,
     freeSpaceColumn,
+    placements,
+    placeChannel,
     pressureReferenceError,
     setPressureReferenceError,
     mappingNotice,

@@ -226,7 +226,7 @@ export async function findCyclesHoldingFiles({ siteId, sha256s, exceptCycleId }:
 /** The stored logger file an analysis was made from, with that analysis's result. */
 export async function getAnalysedFile({ analysisId }: { analysisId: string }) {
   const [row] = await getDb()
-    .select({ fileId: loggerFiles.id, bytes: loggerFiles.bytes, fileMapping: loggerFiles.mapping, result: analyses.result })
+    .select({ fileId: loggerFiles.id, bytes: loggerFiles.bytes, fileMapping: loggerFiles.mapping, analysisMapping: analyses.mapping, result: analyses.result })
     .from(analyses)
     .innerJoin(loggerFiles, eq(analyses.loggerFileId, loggerFiles.id))
     .where(eq(analyses.id, analysisId))

@@ -5,10 +5,11 @@
 import type { AnalysisInput, AnalysisResult, CycleAnalysis, RecordGap } from "@/lib/analysis/types";
 import type { AirLeakageResult } from "@/lib/analysis/air-leakage-types";
 import type { AtmosphereUsed, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference } from "@/lib/logger-files/types";
-import type { CycleStatus, ProfileBasis, SignatureMeaning, TestKind } from "@/lib/domain";
+import type { CycleStatus, LoadType, ProfileBasis, SignatureMeaning, TestKind } from "@/lib/domain";
+import type { ChannelPosition } from "./positions";
 import type { FileReplacement } from "./file-replacement";
 
-export type { FileReplacement };
+export type { FileReplacement, ChannelPosition };
 export type { AirLeakageResult, AnalysisInput, AnalysisResult, AtmosphereUsed, CycleAnalysis, ColumnMapping, Dialect, InspectResult, MappingOverrides, PressureReference, RecordGap };
 
 export type CycleListItem = {
@@ -71,6 +72,9 @@ export type CycleDetail = {
   verdict: "pass" | "fail" | null;
   testKind: TestKind;
   loadDescription: string;
+  /** the test pack or load that was run (null: not recorded) and its lot or batch ("" when none was given) */
+  loadType: LoadType | null;
+  loadLot: string;
   startedAt: string | null;
   createdAt: string;
   submittedAt: string | null;
@@ -98,6 +102,10 @@ export type CycleDetail = {
   /** the current analysis: the analyze command's JSON and more; `kind` "air-leakage" for a logged air leakage test */
   analysis: CycleAnalysis | null;
   analysisId: string | null;
+  /** each temperature channel of the current analysis with where its probe sat, from the mapping that analysis read */
+  positions: ChannelPosition[];
+  /** why an approval would be refused for missing positions (a thermometric test); null when they are complete or not needed */
+  positionProblem: string | null;
   /** newest first */
   analysisHistory: AnalysisHistoryEntry[];
   /** the logger file replaced after the first analysis, and how the recordings differ; null when never replaced */

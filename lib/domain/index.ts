@@ -15,3 +15,4 @@ export * from "./sterilizer-status";
 export * from "./api-tokens";
 export * from "./air-leakage";
 export * from "./words";
+export * from "./sensor-positions";

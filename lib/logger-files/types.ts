@@ -1,6 +1,7 @@
 import type { PressureUnit, TemperatureUnit } from "../steam";
 import type { TextEncodingName } from "./decode";
 import type { TimeFormat } from "./time";
+import type { ChannelPlacements } from "../domain/sensor-positions";
 
 export type { TimeFormat, TextEncodingName };
 export type Delimiter = "," | ";" | "\t";
@@ -55,6 +56,8 @@ export type MappingOverrides = {
   freeSpaceColumn?: string;
   /** the file may hold only time and chamber pressure (an air leakage test); temperature columns are then optional */
   temperaturesOptional?: boolean;
+  /** where each temperature channel's probe sat, by header; not read by the reader, kept with the mapping (and a saved instrument mapping) */
+  positions?: ChannelPlacements;
 };
 
 /** Whether the chamber pressure was read as absolute or gauge, and who said so. */

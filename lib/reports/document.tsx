@@ -15,6 +15,7 @@ import {
   describeBasis,
   formatDuration,
   formatVolume,
+  loadTypeLabel,
   plural,
   PROFILE_BASIS_LABELS,
   SIGNATURE_MEANING_LABELS,
@@ -494,6 +495,8 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           <Fact label="Load" wide>
             {detail.loadDescription || "—"}
           </Fact>
+          <Fact label="Test pack or load">{loadTypeLabel(detail.loadType)}</Fact>
+          <Fact label="Lot or batch">{detail.loadLot || "not recorded"}</Fact>
           <Fact label="Started (site)">{started.site}</Fact>
           <Fact label="Started (UTC)">{started.utc}</Fact>
           <Fact label="Uploaded by">{detail.createdBy.name}</Fact>
@@ -584,7 +587,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           </View>
         ) : null}
 
-        {analysis ? <ChannelsSection analysis={analysis} band={series.band} /> : null}
+        {analysis ? <ChannelsSection analysis={analysis} band={series.band} positions={detail.positions} /> : null}
         {analysis ? <RecordInputSection analysis={analysis} at={at} /> : null}
         {analysis ? <FlagsSection analysis={analysis} at={at} /> : null}
         <RecordSection detail={detail} />

@@ -1,8 +1,8 @@
 /** The report's channel table and what the record brings and how it was read (issue 9 rule 12). */
 import { View } from "@react-pdf/renderer";
-import type { AnalysisResult, SeriesResponse } from "@/lib/cycles/contracts";
+import type { AnalysisResult, ChannelPosition, SeriesResponse } from "@/lib/cycles/contracts";
 import { channelRoleLabel, gapLines, missingCell, NOT_RECORDED, recordInputRows } from "@/lib/cycles/record-input";
-import { formatDuration } from "@/lib/domain";
+import { formatDuration, sensorPositionLabel } from "@/lib/domain";
 import { Heading, T, TableHead, type Column } from "./parts";
 import { s } from "./styles";
 import { fixed } from "./text";
@@ -10,17 +10,25 @@ import { colour } from "./theme";
 
 type AnalysisOf = AnalysisResult;
 
-export function ChannelsSection({ analysis, band }: { analysis: AnalysisOf; band: SeriesResponse["band"] }) {
+/** Each channel with where its probe sat (position and note), its role and its figures in °C. */
+export function ChannelsSection({ analysis, band, positions }: { analysis: AnalysisOf; band: SeriesResponse["band"]; positions: ChannelPosition[] }) {
   const columns: Column[] = [
-    { title: "Channel", width: 22 },
-    { title: "Role", width: 11 },
-    { title: "Min in holding (°C)", width: 12, numeric: true },
-    { title: "Max in holding (°C)", width: 12, numeric: true },
-    { title: "Mean in holding (°C)", width: 12, numeric: true },
-    { title: "F0 (min)", width: 9, numeric: true },
-    { title: "At Ts after plateau start", width: 13, numeric: true },
-    { title: "Missing", width: 9, numeric: true },
+    { title: "Channel", width: 14 },
+    { title: "Position and note", width: 22 },
+    { title: "Role", width: 9 },
+    { title: "Min in holding (°C)", width: 10, numeric: true },
+    { title: "Max in holding (°C)", width: 10, numeric: true },
+    { title: "Mean in holding (°C)", width: 10, numeric: true },
+    { title: "F0 (min)", width: 7, numeric: true },
+    { title: "At Ts after plateau start", width: 11, numeric: true },
+    { title: "Missing", width: 7, numeric: true },
   ];
+  const placeOf = new Map(positions.map((p) => [p.header, p]));
+  const placeText = (header: string) => {
+    const place = placeOf.get(header);
+    if (!place?.position) return "NOT RECORDED";
+    return place.note ? `${sensorPositionLabel(place.position)}: ${place.note}` : sensorPositionLabel(place.position);
+  };
   const hold = analysis.saturationTemperatureDuringHold;
   const unrecorded = analysis.channels.some((c) => c.missing === undefined);
   return (
@@ -34,14 +42,15 @@ export function ChannelsSection({ analysis, band }: { analysis: AnalysisOf; band
           const high = c.maxDuringHold !== null && c.maxDuringHold > band.high;
           return (
             <View key={c.header} style={s.tr} wrap={false}>
-              <T style={[s.td, { width: "22%" }, c.role === "reference" ? s.strong : {}]}>{c.header}</T>
-              <T style={[s.td, { width: "11%" }]}>{channelRoleLabel(c.role).toLowerCase()}</T>
-              <T style={[s.tdNum, { width: "12%" }, low ? s.fail : {}]}>{fixed(c.minDuringHold, 2)}</T>
-              <T style={[s.tdNum, { width: "12%" }, high ? s.fail : {}]}>{fixed(c.maxDuringHold, 2)}</T>
-              <T style={[s.tdNum, { width: "12%" }]}>{fixed(c.meanDuringHold, 2)}</T>
-              <T style={[s.tdNum, { width: "9%" }]}>{fixed(c.f0, 2)}</T>
-              <T style={[s.tdNum, { width: "13%" }]}>{c.arrivalAfterPlateauStart === null ? "never" : formatDuration(c.arrivalAfterPlateauStart)}</T>
-              <T style={[s.tdNum, { width: "9%" }, c.missing ? { color: colour.caution700 } : {}]}>{missingCell(c)}</T>
+              <T style={[s.td, { width: "14%" }, c.role === "reference" ? s.strong : {}]}>{c.header}</T>
+              <T style={[s.td, { width: "22%" }, placeOf.get(c.header)?.position ? {} : { color: colour.caution700 }]}>{placeText(c.header)}</T>
+              <T style={[s.td, { width: "9%" }]}>{channelRoleLabel(c.role).toLowerCase()}</T>
+              <T style={[s.tdNum, { width: "10%" }, low ? s.fail : {}]}>{fixed(c.minDuringHold, 2)}</T>
+              <T style={[s.tdNum, { width: "10%" }, high ? s.fail : {}]}>{fixed(c.maxDuringHold, 2)}</T>
+              <T style={[s.tdNum, { width: "10%" }]}>{fixed(c.meanDuringHold, 2)}</T>
+              <T style={[s.tdNum, { width: "7%" }]}>{fixed(c.f0, 2)}</T>
+              <T style={[s.tdNum, { width: "11%" }]}>{c.arrivalAfterPlateauStart === null ? "never" : formatDuration(c.arrivalAfterPlateauStart)}</T>
+              <T style={[s.tdNum, { width: "7%" }, c.missing ? { color: colour.caution700 } : {}]}>{missingCell(c)}</T>
             </View>
           );
         })}

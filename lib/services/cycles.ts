@@ -12,6 +12,7 @@ import { toCsv, type CsvCell } from "@/lib/csv-export";
 import { isEditableCycleStatus, testKindLabel, cycleStatusLabel } from "@/lib/domain";
 import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { CycleDetail, CycleListItem, CycleListResponse, HistoryEntry, InstrumentCalibration, MappingOverrides } from "@/lib/cycles/contracts";
+import { channelPositionsOf, positionRefusalOf } from "@/lib/cycles/positions";
 import { describeReplacement, recordedChannels, recordedStart } from "@/lib/cycles/file-replacement";
 import { certificateOnDate } from "@/lib/periodic-tests/calibration";
 import { localDate } from "@/lib/periodic-tests/schedule";
@@ -57,6 +58,9 @@ export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }
   const { cycle, site, sterilizer, profile, instrument, files, analysisRows, signatureRows, report, duplicates } = rows;
   const currentRow = analysisRows.find((a) => a.analysis.id === cycle.currentAnalysisId) ?? analysisRows[0];
   const current = currentRow?.analysis;
+  const currentAnalysis = (current?.result as CycleAnalysis | undefined) ?? null;
+  const readMapping = (current?.mapping ?? files.find((f) => f.id === current?.loggerFileId)?.mapping ?? null) as MappingOverrides | null;
+  const positions = channelPositionsOf(currentAnalysis, readMapping?.positions);
   const firstRow = analysisRows[analysisRows.length - 1];
   const calibration = instrument ? await calibrationOnTestDate(instrument.id, cycle.startedAt ?? cycle.createdAt, site.timeZone) : null;
   const signatures = await Promise.all(
@@ -78,6 +82,8 @@ export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }
     verdict: cycle.verdict,
     testKind: cycle.testKind,
     loadDescription: cycle.loadDescription,
+    loadType: cycle.loadType ?? null,
+    loadLot: cycle.loadLot,
     startedAt: cycle.startedAt,
     createdAt: cycle.createdAt,
     submittedAt: cycle.submittedAt,
@@ -101,8 +107,10 @@ export async function getCycleDetail({ actor, id }: { actor: Actor; id: string }
     },
     instrument: instrument ? { id: instrument.id, name: instrument.name, serialNumber: instrument.serialNumber, calibration } : null,
     files: files.map((f) => ({ ...f, dialect: (f.dialect ?? null) as CycleDetail["files"][number]["dialect"], mapping: (f.mapping ?? null) as MappingOverrides | null })),
-    analysis: (current?.result as CycleAnalysis | undefined) ?? null,
+    analysis: currentAnalysis,
     analysisId: current?.id ?? null,
+    positions,
+    positionProblem: positionRefusalOf({ testKind: cycle.testKind, analysis: currentAnalysis, positions }),
     analysisHistory: analysisRows.map(({ analysis: a, fileName, fileSha256, analystName }) => ({
       id: a.id,
       createdAt: a.createdAt,

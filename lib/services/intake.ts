@@ -4,7 +4,7 @@ import { getInstrumentForSite, getProfileForSite, getSterilizerForSite, listInst
 import { getSiteById } from "@/db/queries/sites";
 import { enqueueAnalysisFailedMail } from "@/lib/services/mail";
 import type { TestKind } from "@/db/schema";
-import { CYCLE_STATUS_LABELS, isLockedCycleStatus } from "@/lib/domain";
+import { CYCLE_STATUS_LABELS, isLockedCycleStatus, type ChannelPlacements, type LoadType } from "@/lib/domain";
 import { AppError } from "@/lib/errors";
 import { AnalysisError } from "@/lib/analysis";
 import type { CycleAnalysis } from "@/lib/analysis/types";
@@ -14,7 +14,7 @@ import { analyzeLoggerBytes, siteAtmosphereKpa, type FileAnalysis } from "@/lib/
 import { recordingToColumns } from "@/lib/cycles/series";
 import { insertSeriesOfCurrentAnalysis } from "@/db/queries/analysis-series";
 import { resolveCycleStart, siteClockStamp } from "@/lib/cycles/start-time";
-import { sha256Hex } from "@/lib/integrity";
+import { canonicalJson, sha256Hex } from "@/lib/integrity";
 import type { CreateCycleResponse, InspectResponse } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
 import { listSterilizerCatalog } from "./catalog";
@@ -31,6 +31,9 @@ export type CreateCycleInput = {
   instrumentId?: string | null;
   cycleNumber?: string | null;
   load?: string | null;
+  /** the test pack or load that was run, and its lot or batch */
+  loadType?: LoadType | null;
+  loadLot?: string | null;
   testKind?: TestKind;
   /** ISO 8601; used only when the file holds elapsed times without a date */
   startedAt?: string | null;
@@ -140,7 +143,13 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
   const atmosphereKpa = siteAtmosphereKpa(site);
   if (input.leakMarks && input.testKind !== "air-leakage") throw new AppError(422, "Marked times (t1, t2, t3) belong to an air leakage test; choose that test kind or leave them out.", "leakMarks");
   const choice = { testKind: input.testKind, marks: input.leakMarks };
-  const { primaryIndex, analysis } = analyseFirstReadable(input.files, (bytes) => analyzeLoggerBytes(bytes, profile, mapping, atmosphereKpa, choice));
+  // A saved mapping's positions for channels this file does not have are dropped; the user's own are checked.
+  const analyse = (bytes: Uint8Array) => {
+    const first = analyzeLoggerBytes(bytes, profile, mapping, atmosphereKpa, choice);
+    const fitted = input.mapping ? checkedPlacements(first) : fittedPlacements(first);
+    return fitted === mapping.positions ? first : analyzeLoggerBytes(bytes, profile, { ...mapping, positions: fitted }, atmosphereKpa, choice);
+  };
+  const { primaryIndex, analysis } = analyseFirstReadable(input.files, analyse);
   const start = resolveCycleStart({ fileStartedAt: analysis.startedAt, givenStartedAt: input.startedAt, timeZone: site.timeZone });
   if (!start.ok) throw new AppError(start.status, start.message, start.field);
   const cycleNumber = input.cycleNumber?.trim() || `${sterilizer.serialNumber}-${siteClockStamp(start.startedAt, site.timeZone)}`;
@@ -157,6 +166,8 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
       cycleNumber,
       testKind: input.testKind ?? "thermometric-small-load",
       loadDescription: input.load?.trim() ?? "",
+      loadType: input.loadType ?? null,
+      loadLot: input.loadLot?.trim() ?? "",
       status: "draft",
       verdict: verdictOfNewCycle(input.testKind ?? "thermometric-small-load", analysis.result.verdict),
       startedAt: start.startedAt,
@@ -193,6 +204,8 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
         cycleNumber,
         sterilizer: sterilizer.name,
         profile: profile.name,
+        ...(input.loadType ? { loadType: input.loadType, loadLot: input.loadLot?.trim() ?? "" } : {}),
+        ...(analysis.mapping.positions ? { positions: analysis.mapping.positions } : {}),
         files: files.map(({ file, sha256 }) => ({
           name: file.name,
           size: file.bytes.byteLength,
@@ -266,7 +279,9 @@ export type CorrectionInput = {
   /** why the cycle is analysed again: required, kept with the analysis */
   reason: string;
   duplicateReason?: string | null;
-  details?: { profileId?: string; instrumentId?: string; load?: string };
+  details?: { profileId?: string; instrumentId?: string; load?: string; loadType?: LoadType; loadLot?: string };
+  /** new sensor positions for the current mapping (a correction of where the probes sat); a new mapping brings its own */
+  positions?: ChannelPlacements;
   /** an air leakage test's times marked by the user; undefined keeps those marked on the same file */
   leakMarks?: AirLeakageMarks | null;
 };
@@ -275,7 +290,7 @@ export type CorrectionInput = {
  * A correction of a draft or returned cycle: a new file, a new mapping and/or changed details (profile, instrument,
  * load) give a new analysis with its reason; earlier files and analyses stay on the record. Signed records are locked.
  */
-export async function reanalyseCycle({ actor, id, file, mapping, reason, duplicateReason, details = {}, leakMarks }: CorrectionInput) {
+export async function reanalyseCycle({ actor, id, file, mapping, positions, reason, duplicateReason, details = {}, leakMarks }: CorrectionInput) {
   assertAllowed(actor, "cycle:create", "correct cycles");
   const cycle = await getCycleRow({ actor, id });
   if (!cycle) throw new AppError(404, "That cycle was not found.");
@@ -288,22 +303,32 @@ export async function reanalyseCycle({ actor, id, file, mapping, reason, duplica
   if (!profile || !site) throw new AppError(409, "This cycle's acceptance profile or site is missing, so it cannot be analysed again.");
   const instrument = details.instrumentId ? await getInstrumentForSite({ actor, id: details.instrumentId }) : undefined;
   if (details.instrumentId && !instrument) throw new AppError(404, "That instrument was not found on your site.", "instrumentId");
-  const stored = file ? undefined : await getAnalysedFile({ analysisId: cycle.currentAnalysisId ?? "" });
+  const stored = await getAnalysedFile({ analysisId: cycle.currentAnalysisId ?? "" });
   if (!file && !stored) throw new AppError(409, "This cycle has no logger file to analyse again; upload one.");
   const bytes = file ? file.bytes : new Uint8Array(stored!.bytes);
-  // Without a new mapping the stored file is read as it was uploaded: a change of details alone keeps the mapping.
-  const effectiveMapping = mapping ?? (file ? {} : ((stored!.fileMapping as MappingOverrides | null) ?? {}));
+  // Without a new mapping the stored file is read as the current analysis read it: a change of details alone keeps the mapping.
+  const currentMapping = ((stored?.analysisMapping ?? stored?.fileMapping) as MappingOverrides | null) ?? null;
+  const baseMapping = mapping ?? (file ? {} : (currentMapping ?? {}));
+  // A new file or mapping that gives no positions keeps the probes' positions for the channels it shares: the probes did not move.
+  const carried = !positions && !mapping?.positions ? currentMapping?.positions : undefined;
+  const placed = positions ?? carried;
+  const effectiveMapping: MappingOverrides = placed ? { ...baseMapping, positions: placed } : baseMapping;
   let analysis: FileAnalysis;
   try {
     // The same file keeps the times marked on it unless new ones are given; a new file starts unmarked.
     const marks = leakMarks !== undefined ? leakMarks : file ? null : marksOf(stored?.result);
-    analysis = analyzeLoggerBytes(bytes, profile, effectiveMapping, siteAtmosphereKpa(site), { testKind: cycle.testKind, marks });
+    const choice = { testKind: cycle.testKind, marks };
+    analysis = analyzeLoggerBytes(bytes, profile, effectiveMapping, siteAtmosphereKpa(site), choice);
+    const fitted = carried ? fittedPlacements(analysis) : checkedPlacements(analysis);
+    if (fitted !== effectiveMapping.positions) analysis = analyzeLoggerBytes(bytes, profile, { ...effectiveMapping, positions: fitted }, siteAtmosphereKpa(site), choice);
   } catch (error) {
+    if (error instanceof AppError) throw error;
     if (error instanceof LoggerFileError || error instanceof AnalysisError) throw new AppError(422, `${file?.name ?? "The stored file"}: ${error.message}`, "file");
     throw error;
   }
   const shared = file ? await sharedFileReasons({ siteId: site.id, files: [{ file, sha256: analysis.sha256 }], duplicateReason, exceptCycleId: id }) : new Map();
-  const changed = changedDetails(cycle, { profileId: profile.id, instrumentId: instrument?.id, loadDescription: details.load?.trim() });
+  const changed = changedDetails(cycle, { profileId: profile.id, instrumentId: instrument?.id, loadDescription: details.load?.trim(), loadType: details.loadType, loadLot: details.loadLot?.trim() });
+  const placementChange = changedPlacements((currentMapping ?? {}).positions, analysis.mapping.positions);
   const savedId = await insertCorrection({
     cycleId: id,
     file: file
@@ -328,13 +353,14 @@ export async function reanalyseCycle({ actor, id, file, mapping, reason, duplica
       action: "cycle.reanalyse",
       entityType: "cycle",
       entityId: id,
-      oldValue: { analysis: cycle.currentAnalysisId, verdict: cycle.verdict, ...changed.previous },
+      oldValue: { analysis: cycle.currentAnalysisId, verdict: cycle.verdict, ...changed.previous, ...placementChange.previous },
       newValue: {
         analysis: analysisId,
         verdict: analysis.result.verdict,
         file: file ? { name: file.name, sha256: analysis.sha256, ...(shared.size ? { sameFileAs: shared.get(analysis.sha256)!.cycles, duplicateReason } : {}) } : null,
         mapping: mapping ?? null,
         ...changed.next,
+        ...placementChange.next,
       },
       reason: cleanReason,
     }),
@@ -350,20 +376,58 @@ export async function reanalyseCycle({ actor, id, file, mapping, reason, duplica
 
 const marksOf = (result: unknown): AirLeakageMarks | null => ((result as CycleAnalysis | undefined)?.kind === "air-leakage" ? ((result as { marks: AirLeakageMarks | null }).marks ?? null) : null);
 
-type DetailChange = { profileId?: string; instrumentId?: string | null; loadDescription?: string };
+type DetailChange = { profileId?: string; instrumentId?: string | null; loadDescription?: string; loadType?: LoadType | null; loadLot?: string };
+type DetailRow = { profileId: string; instrumentId: string | null; loadDescription: string; loadType: LoadType | null; loadLot: string };
 
 /** The cycle's details that this correction changes: their old and new values, for the row and the ledger. */
-function changedDetails(cycle: { profileId: string; instrumentId: string | null; loadDescription: string }, wanted: { profileId: string; instrumentId?: string; loadDescription?: string }) {
+function changedDetails(cycle: DetailRow, wanted: { profileId: string; instrumentId?: string; loadDescription?: string; loadType?: LoadType; loadLot?: string }) {
   const previous: DetailChange = {};
   const next: DetailChange = {};
   if (wanted.profileId !== cycle.profileId) [previous.profileId, next.profileId] = [cycle.profileId, wanted.profileId];
   if (wanted.instrumentId !== undefined && wanted.instrumentId !== cycle.instrumentId) [previous.instrumentId, next.instrumentId] = [cycle.instrumentId, wanted.instrumentId];
   if (wanted.loadDescription !== undefined && wanted.loadDescription !== cycle.loadDescription) [previous.loadDescription, next.loadDescription] = [cycle.loadDescription, wanted.loadDescription];
+  if (wanted.loadType !== undefined && wanted.loadType !== cycle.loadType) [previous.loadType, next.loadType] = [cycle.loadType, wanted.loadType];
+  if (wanted.loadLot !== undefined && wanted.loadLot !== cycle.loadLot) [previous.loadLot, next.loadLot] = [cycle.loadLot, wanted.loadLot];
   return { previous, next };
+}
+
+/** The temperature channels of what an analysis read. */
+const temperatureHeaders = (analysis: FileAnalysis) => analysis.recording.temperatures.map((t) => t.header);
+
+/** The user's positions must name temperature channels of the file: a position for another column is refused with its name. */
+function checkedPlacements(analysis: FileAnalysis): ChannelPlacements | undefined {
+  const positions = analysis.mapping.positions;
+  if (!positions) return positions;
+  const channels = temperatureHeaders(analysis);
+  const stray = Object.keys(positions).find((header) => !channels.includes(header));
+  if (stray !== undefined) {
+    throw new AppError(
+      422,
+      `mapping.positions names "${stray}", which is not a temperature channel of the file (its temperature channels: ${channels.map((c) => `"${c}"`).join(", ") || "none"}).`,
+      "mapping",
+    );
+  }
+  return positions;
+}
+
+/** A saved mapping's positions kept only for the channels this file has (the same object when all fit). */
+function fittedPlacements(analysis: FileAnalysis): ChannelPlacements | undefined {
+  const positions = analysis.mapping.positions;
+  if (!positions) return positions;
+  const channels = temperatureHeaders(analysis);
+  const kept = Object.entries(positions).filter(([header]) => channels.includes(header));
+  return kept.length === Object.keys(positions).length ? positions : Object.fromEntries(kept);
+}
+
+/** Old and new sensor positions for the ledger, when a correction changes them. */
+function changedPlacements(before: ChannelPlacements | undefined, after: ChannelPlacements | undefined) {
+  if (canonicalJson(before ?? {}) === canonicalJson(after ?? {})) return { previous: {}, next: {} };
+  return { previous: { positions: before ?? null }, next: { positions: after ?? null } };
 }
 
 function analysisRow(analysis: FileAnalysis, actor: Actor) {
   return {
+    mapping: analysis.mapping,
     engineVersion: analysis.engineVersion,
     inputHash: analysis.inputHash,
     limits: analysis.limits,

@@ -47,7 +47,9 @@ function bundleV1({ cycle, analysis, files }: RecordBundleRows) {
 function bundleOf(rows: RecordBundleRows) {
   const v1 = bundleV1({ ...rows, files: rows.files.filter((f) => f.uploadedAt <= rows.analysis.createdAt) });
   const analysisSha256 = sha256Hex(canonicalJson({ inputHash: rows.analysis.inputHash, result: rows.analysis.result }));
-  return { bundleVersion: 2 as const, ...v1, analysis: { ...v1.analysis, sha256: analysisSha256 } };
+  // The test pack or load and its lot (migration 0020) are bound only when recorded, so records without them keep their hashes.
+  const load = rows.cycle.loadType ? { loadType: rows.cycle.loadType, loadLot: rows.cycle.loadLot } : {};
+  return { bundleVersion: 2 as const, ...v1, cycle: { ...v1.cycle, ...load }, analysis: { ...v1.analysis, sha256: analysisSha256 } };
 }
 
 export type RecordBundle = ReturnType<typeof bundleOf> & { indicatorSheet?: Awaited<ReturnType<typeof indicatorSheetBundle>> };

@@ -91,6 +91,8 @@ async function assertSignable(actor: Actor, cycle: Cycle, detail: CycleDetail, i
     throw new AppError(403, `Segregation of duties: you ${list}, so another engineer must approve it or confirm its failure.`);
   }
   if (meaning === "approved") assertInstrumentEvidence(detail);
+  // A thermometric test's figures are evidence only with the probes' positions (DOMAIN.md §2.3): a gap is an entry to correct, not a failure.
+  if (meaning === "approved" && detail.positionProblem) throw new AppError(409, detail.positionProblem);
   const differences = detail.fileReplacement?.differences ?? [];
   if (differences.length > 0 && input.acknowledgeReplacement !== true) {
     throw new AppError(

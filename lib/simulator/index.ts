@@ -2,3 +2,4 @@ export { simulateCycle, simulateDay, seededRandom, SCENARIOS, type Scenario, typ
 export { toLoggerCsv, type CsvDialect, type CsvTimeFormat } from "./csv";
 export { simulateLeakTest, SIMULATED_CLOSE_S, type SimulateLeakTestOptions } from "./air-leakage";
 export { drawIndicatorSheetPng, type DrawnSheet } from "./indicator-sheet";
+export { simulatedPlacements } from "./positions";

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { PRESSURE_UNITS, TEMPERATURE_UNITS, TEST_KINDS } from "@/lib/domain";
+import { LOAD_LOT_MAX_CHARS, LOAD_TYPES, PRESSURE_UNITS, SENSOR_NOTE_MAX_CHARS, SENSOR_POSITIONS, TEMPERATURE_UNITS, TEST_KINDS } from "@/lib/domain";
 
 /** File names the intake accepts: the text exports that loggers write. */
 export const LOGGER_FILE_EXTENSIONS = [".csv", ".txt", ".tsv", ".dat", ".log"] as const;
@@ -17,6 +17,8 @@ export const createCycleFieldsSchema = z.object({
   cycleNumber: z.preprocess(emptyToUndefined, z.string().trim().max(60, "The cycle number can have at most 60 characters.").optional()),
   load: z.preprocess(emptyToUndefined, z.string().trim().max(500, "The load description can have at most 500 characters.").optional()),
   testKind: z.preprocess(emptyToUndefined, z.enum(TEST_KINDS, { message: "Choose the kind of test this cycle was." }).default("thermometric-small-load")),
+  loadType: z.preprocess(emptyToUndefined, z.enum(LOAD_TYPES, { message: "Choose the test pack or load from the list." }).optional()),
+  loadLot: z.preprocess(emptyToUndefined, z.string().trim().max(LOAD_LOT_MAX_CHARS, `The lot or batch can have at most ${LOAD_LOT_MAX_CHARS} characters.`).optional()),
   // Only when a file's SHA-256 already belongs to another cycle of the site: why (one file holding several cycles).
   duplicateReason: z.preprocess(emptyToUndefined, z.string().trim().max(500, "The reason for the shared file can have at most 500 characters.").optional()),
   // Needed only when the file holds elapsed times without a date; a time without a zone is the site's.
@@ -50,11 +52,24 @@ export const correctionFieldsSchema = z.object({
   profileId: z.preprocess(emptyToUndefined, z.uuid({ message: "Choose the acceptance profile from the list." }).optional()),
   instrumentId: createCycleFieldsSchema.shape.instrumentId,
   load: createCycleFieldsSchema.shape.load,
+  loadType: createCycleFieldsSchema.shape.loadType,
+  loadLot: createCycleFieldsSchema.shape.loadLot,
 });
 
 export type CorrectionFields = z.infer<typeof correctionFieldsSchema>;
 
 const columnRole = z.enum(["time", "temperature", "pressure", "ignored"]);
+
+/** One channel's position in the chamber and its note, as the mapping carries it (lib/domain/sensor-positions). */
+export const channelPlacementSchema = z
+  .object({
+    position: z.enum(SENSOR_POSITIONS, { message: `position must be one of ${SENSOR_POSITIONS.join(", ")}.` }),
+    note: z.preprocess(emptyToUndefined, z.string().trim().max(SENSOR_NOTE_MAX_CHARS, `A position note can have at most ${SENSOR_NOTE_MAX_CHARS} characters.`).optional()),
+  })
+  .strict();
+
+/** Placements by channel header. */
+export const channelPlacementsSchema = z.record(z.string().min(1, "A position needs the channel's header."), channelPlacementSchema);
 
 /** The `mapping` JSON of POST /api/cycles: the user's corrections to the guessed mapping (MappingOverrides). */
 export const mappingOverridesSchema = z.object({
@@ -70,6 +85,8 @@ export const mappingOverridesSchema = z.object({
   freeSpaceColumn: z.string().optional(),
   // An air leakage test's file may hold only time and chamber pressure.
   temperaturesOptional: z.boolean().optional(),
+  // Where each temperature channel's probe sat, by header (not used to read the file; kept with it).
+  positions: channelPlacementsSchema.optional(),
 });
 
 /** The `leakMarks` JSON of an air leakage upload: times the user marked, s since the first sample (t2, t3 optional). */

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { useTemporaryDatabase } from "../support/test-db";
+import { placementsOf } from "../support/review-flow";
 
 const session = vi.hoisted(() => ({ current: null as null | { user: { id: string } } }));
 vi.mock("next-auth", async (original) => ({ ...(await original<typeof import("next-auth")>()), getServerSession: async () => session.current }));
@@ -32,6 +33,8 @@ async function upload(site: SiteKey, cycleNumber: string) {
   form.set("profileId", setup[site].profileId);
   form.set("instrumentId", setup[site].instrumentId);
   form.set("cycleNumber", cycleNumber);
+  // The probes placed as recorded at intake: a thermometric cycle is approved only with its positions.
+  form.set("mapping", JSON.stringify({ positions: await placementsOf(toLoggerCsv(sim)) }));
   form.append("files", new Blob([toLoggerCsv(sim) as BlobPart]), `${cycleNumber}.csv`);
   as(people[site].technician);
   const res = await POST(new Request(url("/api/cycles"), { method: "POST", body: form }), undefined);

@@ -7,6 +7,7 @@ import { existsSync, readFileSync, renameSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { asc, eq, gt, sql } from "drizzle-orm";
 import { useTemporaryDatabase } from "../support/test-db";
+import { placementsOf } from "../support/review-flow";
 
 const session = vi.hoisted(() => ({ current: null as null | { user: { id: string } } }));
 vi.mock("next-auth", async (original) => ({ ...(await original<typeof import("next-auth")>()), getServerSession: async () => session.current }));
@@ -35,6 +36,8 @@ async function upload(seed = 21) {
   form.set("sterilizerId", sterilizerId);
   form.set("profileId", profileId);
   form.set("instrumentId", instrumentId);
+  // The probes placed as recorded at intake: a thermometric cycle is approved only with its positions.
+  form.set("mapping", JSON.stringify({ positions: await placementsOf(toLoggerCsv(sim)) }));
   form.append("files", new Blob([toLoggerCsv(sim) as BlobPart]), `cycle-${seed}.csv`);
   as("technician");
   const res = await POST(new Request(url("/api/cycles"), { method: "POST", body: form }), undefined);

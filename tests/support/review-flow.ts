@@ -72,6 +72,21 @@ export async function loggerFile({ scenario = "pass", startedAt = CYCLE_DATE, pr
   return toLoggerCsv(simulateCycle({ scenario, sterilizationTempC: 134.6, holdingTimeS: 210, seed: nextSeed++, startedAt, probeCount }));
 }
 
+/** The simulator's probe positions for the temperature columns of a file (a file that cannot be read gets none). */
+export async function placementsOf(bytes: Uint8Array) {
+  const { inspectLoggerFile } = await import("@/lib/logger-files");
+  const { simulatedPlacements } = await import("@/lib/simulator");
+  try {
+    return simulatedPlacements(
+      inspectLoggerFile(bytes)
+        .columns.filter((c) => c.role === "temperature")
+        .map((c) => c.header),
+    );
+  } catch {
+    return {};
+  }
+}
+
 const params = (id: string) => ({ params: Promise.resolve({ id }) });
 const URL_BASE = "http://papin.test";
 
@@ -87,6 +102,8 @@ export function reviewFlow(session: Session, site: ReviewSite) {
     form.set("sterilizerId", site.sterilizerId);
     form.set("profileId", site.profileId);
     if (instrumentId) form.set("instrumentId", instrumentId);
+    // Probes placed as a technician records them, so a passing cycle can be approved (sign-off refuses unplaced channels).
+    if (!("mapping" in extra)) form.set("mapping", JSON.stringify({ positions: await placementsOf(bytes) }));
     for (const [k, v] of Object.entries(extra)) form.set(k, v);
     form.append("files", new Blob([bytes as BlobPart]), name);
     as(asUser);
@@ -120,13 +137,25 @@ export function reviewFlow(session: Session, site: ReviewSite) {
   async function correct(
     id: string,
     asUser: string,
-    fields: { file?: Uint8Array; fileName?: string; mapping?: unknown; reason?: string; duplicateReason?: string; profileId?: string; instrumentId?: string },
+    fields: {
+      file?: Uint8Array;
+      fileName?: string;
+      mapping?: unknown;
+      positions?: unknown;
+      reason?: string;
+      duplicateReason?: string;
+      profileId?: string;
+      instrumentId?: string;
+      loadType?: string;
+      loadLot?: string;
+    },
   ) {
     const { POST } = await import("@/app/api/cycles/[id]/analyses/route");
     const form = new FormData();
     if (fields.file) form.append("file", new Blob([fields.file as BlobPart]), fields.fileName ?? "corrected.csv");
     if (fields.mapping) form.set("mapping", JSON.stringify(fields.mapping));
-    for (const key of ["reason", "duplicateReason", "profileId", "instrumentId"] as const) if (fields[key] !== undefined) form.set(key, fields[key]!);
+    if (fields.positions) form.set("positions", JSON.stringify(fields.positions));
+    for (const key of ["reason", "duplicateReason", "profileId", "instrumentId", "loadType", "loadLot"] as const) if (fields[key] !== undefined) form.set(key, fields[key]!);
     as(asUser);
     return POST(new Request(`${URL_BASE}/api/cycles/${id}/analyses`, { method: "POST", body: form }), params(id));
   }

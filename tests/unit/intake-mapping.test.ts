@@ -36,11 +36,13 @@ function draftOf(inspect: InspectResponse, columns = columnsFrom(inspect)): Inta
     instrumentId: "",
     cycleNumber: "",
     load: "",
+    loadType: "" as const,
+    loadLot: "",
     testKind: "thermometric-small-load" as const,
     startedAt: "",
     duplicateReason: "",
   };
-  return { files: [new File(["x"], "cycle.csv")], inspect, columns, referenceColumn: "Drain (°C)", freeSpaceColumn: inspect.freeSpaceColumn, fields, saveMapping: false };
+  return { files: [new File(["x"], "cycle.csv")], inspect, columns, referenceColumn: "Drain (°C)", freeSpaceColumn: inspect.freeSpaceColumn, placements: {}, fields, saveMapping: false };
 }
 
 describe("absolute or gauge on the intake screen", () => {

@@ -80,9 +80,9 @@ describe("the report of a cycle with a gap, missing readings and an unmarked pre
 
   it("names the free-space sensor in the channel table and gives each channel's missing count", () => {
     expect(gappy.text).toMatch(/Missing/);
-    // Columns: channel, role, min, max, mean, F0, arrival after the plateau start, missing.
-    expect(gappy.text).toMatch(/Free space \(°C\) free space [\d.]+ [\d.]+ [\d.]+ [\d.]+ [\d.]+ s 0 /);
-    expect(gappy.text).toMatch(/Pack 2 \(°C\) load [\d.]+ [\d.]+ [\d.]+ [\d.]+ [\d.]+ s 3 /);
+    // Columns: channel, position and note, role, min, max, mean, F0, arrival after the plateau start, missing.
+    expect(gappy.text).toMatch(/Free space \(°C\) Free chamber space: [^\d]*free space [\d.]+ [\d.]+ [\d.]+ [\d.]+ [\d.]+ s 0 /);
+    expect(gappy.text).toMatch(/Pack 2 \(°C\) Test pack, centre: [^\d]*load [\d.]+ [\d.]+ [\d.]+ [\d.]+ [\d.]+ s 3 /);
     expect(gappy.text).not.toMatch(/Free space \(°C\) load/);
   });
 

@@ -39,7 +39,7 @@ export const POST = route(async (request) => {
     files.push(...single);
   }
   if (files.length === 0) throw new AppError(400, "Attach at least one logger file in the field named files.", "files");
-  const { sterilizerId, profileId, instrumentId, cycleNumber, load, testKind, startedAt, duplicateReason } = fields.data;
+  const { sterilizerId, profileId, instrumentId, cycleNumber, load, loadType, loadLot, testKind, startedAt, duplicateReason } = fields.data;
   const answer = await registerUploadedCycle(
     {
       actor,
@@ -48,6 +48,8 @@ export const POST = route(async (request) => {
       instrumentId: instrumentId || null,
       cycleNumber,
       load,
+      loadType,
+      loadLot,
       testKind,
       startedAt,
       files,

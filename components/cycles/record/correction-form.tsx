@@ -2,12 +2,17 @@
 
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import type { Verdict } from "@/lib/domain";
+import type { ChannelPlacement, ChannelPlacements, Verdict } from "@/lib/domain";
+import type { ChannelPosition } from "@/lib/cycles/contracts";
+import { canonicalPlacements } from "@/lib/cycles/positions";
+import { PositionPicker } from "@/components/intake/position-picker";
 import { fetchJson, RequestError } from "@/lib/client/fetch-json";
 import { IDLE_FORM_STATE, type FormState } from "@/lib/form-state";
 import { ActionMessage } from "@/components/ui/action-message";
 
 type Choice = { id: string; name: string };
+
+const fromMap = (p: ChannelPlacements, header: string) => (Object.hasOwn(p, header) ? { position: p[header].position, note: p[header].note ?? null } : { position: null, note: null });
 
 export type CorrectionChoices = { profiles: Choice[]; instruments: Array<Choice & { serialNumber: string }> };
 
@@ -15,7 +20,15 @@ export type CorrectionChoices = { profiles: Choice[]; instruments: Array<Choice 
  * A correction of a draft or returned cycle: a replacement logger file and/or changed profile or instrument, always
  * with the reason, which stays with the new analysis. Earlier files and analyses stay on the record.
  */
-export function CorrectionForm({ cycleId, current, choices }: { cycleId: string; current: { profileId: string; instrumentId: string | null }; choices: CorrectionChoices }) {
+export function CorrectionForm({
+  cycleId,
+  current,
+  choices,
+}: {
+  cycleId: string;
+  current: { profileId: string; instrumentId: string | null; positions: ChannelPosition[] };
+  choices: CorrectionChoices;
+}) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState<FormState>(IDLE_FORM_STATE);
@@ -24,8 +37,15 @@ export function CorrectionForm({ cycleId, current, choices }: { cycleId: string;
   const [instrumentId, setInstrumentId] = useState(current.instrumentId ?? "");
   const [reason, setReason] = useState("");
   const [duplicateReason, setDuplicateReason] = useState<string | null>(null);
+  const startPlacements = canonicalPlacements(current.positions);
+  const [placements, setPlacements] = useState<ChannelPlacements>(startPlacements);
+  const placementsChanged = JSON.stringify(placements) !== JSON.stringify(startPlacements);
+  const place = (header: string, next: ChannelPlacement | undefined) =>
+    setPlacements((p) =>
+      canonicalPlacements(current.positions.map((c) => (c.header === header ? { header, position: next?.position ?? null, note: next?.note ?? null } : { header: c.header, ...fromMap(p, c.header) }))),
+    );
 
-  const changed = !!file || profileId !== current.profileId || instrumentId !== (current.instrumentId ?? "");
+  const changed = !!file || placementsChanged || profileId !== current.profileId || instrumentId !== (current.instrumentId ?? "");
 
   async function correct(event: React.FormEvent) {
     event.preventDefault();
@@ -37,6 +57,7 @@ export function CorrectionForm({ cycleId, current, choices }: { cycleId: string;
     if (file) form.set("file", file);
     if (profileId !== current.profileId) form.set("profileId", profileId);
     if (instrumentId && instrumentId !== (current.instrumentId ?? "")) form.set("instrumentId", instrumentId);
+    if (placementsChanged) form.set("positions", JSON.stringify(placements));
     form.set("reason", reason.trim());
     if (duplicateReason?.trim()) form.set("duplicateReason", duplicateReason.trim());
     setBusy(true);
@@ -91,6 +112,19 @@ export function CorrectionForm({ cycleId, current, choices }: { cycleId: string;
           </select>
         </div>
       </div>
+      {current.positions.length > 0 && (
+        <fieldset>
+          <legend className="field-label">Where each probe sat</legend>
+          <div className="grid gap-2 sm:grid-cols-2">
+            {current.positions.map((c, i) => (
+              <div key={c.header}>
+                <p className="mono mb-0.5 text-xs">{c.header}</p>
+                <PositionPicker id={`correction-position-${i}`} header={c.header} placement={placements[c.header]} onChange={(next) => place(c.header, next)} />
+              </div>
+            ))}
+          </div>
+        </fieldset>
+      )}
       <div>
         <label htmlFor="correction-reason" className="field-label">
           Why is the cycle analysed again? (required)

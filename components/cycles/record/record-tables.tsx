@@ -8,7 +8,7 @@ import { formatBytes, formatDateTime, formatNumber } from "@/lib/format";
 import { clockTimeAt, elapsedFormatter } from "@/lib/cycles/chart-model";
 import { actionLabel, describeDialect, describeMapping, formatFigure, formatLimit, summariseAuditValue } from "./record-format";
 import { channelRoleLabel, missingCell, NOT_RECORDED } from "@/lib/cycles/record-input";
-import { basisNoteFor, describeBasis, formatDuration } from "@/lib/domain";
+import { basisNoteFor, describeBasis, formatDuration, sensorPositionLabel } from "@/lib/domain";
 
 export function ChecksTable({ analysis, profile }: { analysis: AnalysisResult; profile: CycleDetail["profile"] }) {
   return (
@@ -47,19 +47,29 @@ export function ChecksTableFrame({ caption, children }: { caption: string; child
   );
 }
 
-export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
+/** Each temperature channel: where its probe sat, its role and its figures during holding; its own scroll frame on a phone. */
+export function ChannelTable({ analysis, positions, positionProblem }: { analysis: AnalysisResult; positions: CycleDetail["positions"]; positionProblem: string | null }) {
   const ref = analysis.limits.f0ReferenceC;
   const z = analysis.limits.f0ZK;
   const hold = analysis.saturationTemperatureDuringHold;
+  const placeOf = new Map(positions.map((p) => [p.header, p]));
   return (
     <>
+      {positionProblem && (
+        <p className="mb-2 text-sm text-caution-700" data-testid="position-problem">
+          ⚠ {positionProblem}
+        </p>
+      )}
       <div className="overflow-x-auto">
         <table className="data-table" data-testid="channel-table">
           <caption className="sr-only">Temperature channels during holding</caption>
           <thead>
             <tr>
               <th scope="col">Channel</th>
+              <th scope="col">Position</th>
+              <th scope="col">Note</th>
               <th scope="col">Role</th>
+              <th scope="col">Unit</th>
               <th scope="col" className="text-right">
                 Min (°C)
               </th>
@@ -84,7 +94,12 @@ export function ChannelTable({ analysis }: { analysis: AnalysisResult }) {
             {analysis.channels.map((ch) => (
               <tr key={ch.header}>
                 <td className="whitespace-nowrap font-medium">{ch.header}</td>
+                <td className="whitespace-nowrap">
+                  {placeOf.get(ch.header)?.position ? sensorPositionLabel(placeOf.get(ch.header)!.position!) : <span className="text-caution-700">not recorded</span>}
+                </td>
+                <td className="min-w-40 text-xs text-ink-muted">{placeOf.get(ch.header)?.note ?? ""}</td>
                 <td className="whitespace-nowrap">{ch.role === "reference" ? <Badge tone="steam">{channelRoleLabel(ch.role)}</Badge> : channelRoleLabel(ch.role)}</td>
+                <td className="whitespace-nowrap">°C</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.minDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.maxDuringHold, 2)}</td>
                 <td className="text-right tabular-nums">{formatNumber(ch.meanDuringHold, 2)}</td>

@@ -15,7 +15,7 @@ import { AirLeakageFigures, AirLeakageFindings, AirLeakageTable } from "@/compon
 import { AirLeakageChart } from "@/components/cycles/air-leakage/leak-chart";
 import { isAirLeakage, thermometricOf } from "@/lib/analysis/types";
 import { formatStartedAt } from "@/components/cycles/record/record-format";
-import { testKindLabel, formatVolume } from "@/lib/domain";
+import { loadTypeLabel, testKindLabel, formatVolume } from "@/lib/domain";
 import { describeTimeChart } from "@/lib/cycles/chart-model";
 import { formatDateTime } from "@/lib/format";
 import { orNotFound } from "@/lib/auth/page-guard";
@@ -73,6 +73,12 @@ export default async function CycleRecordPage({ params }: Props) {
             {detail.instrument ? ` · logger ${detail.instrument.name} (${detail.instrument.serialNumber})` : ""}
           </p>
           {detail.loadDescription && <p className="mt-0.5 text-sm text-ink-muted">Load: {detail.loadDescription}</p>}
+          {(detail.loadType || detail.loadLot) && (
+            <p className="mt-0.5 text-sm text-ink-muted" data-testid="load-type">
+              Test pack or load: {loadTypeLabel(detail.loadType)}
+              {detail.loadLot ? ` · lot ${detail.loadLot}` : ""}
+            </p>
+          )}
           {detail.supersedesId && (
             <p className="mt-0.5 text-sm">
               <Link href={`/cycles/${detail.supersedesId}`} className="text-steam-700 underline">
@@ -145,7 +151,7 @@ export default async function CycleRecordPage({ params }: Props) {
               </Panel>
 
               <Panel title="Channels">
-                <ChannelTable analysis={a} />
+                <ChannelTable analysis={a} positions={detail.positions} positionProblem={detail.positionProblem} />
               </Panel>
             </>
           )}
@@ -159,7 +165,7 @@ export default async function CycleRecordPage({ params }: Props) {
           </Panel>
           {correctionChoices && (
             <Panel title="Correct and analyse again">
-              <CorrectionForm cycleId={detail.id} current={{ profileId: detail.profile.id, instrumentId: detail.instrument?.id ?? null }} choices={correctionChoices} />
+              <CorrectionForm cycleId={detail.id} current={{ profileId: detail.profile.id, instrumentId: detail.instrument?.id ?? null, positions: detail.positions }} choices={correctionChoices} />
             </Panel>
           )}
           <Panel title="Record history">

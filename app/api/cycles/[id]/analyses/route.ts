@@ -2,7 +2,7 @@ import { NextResponse } from "next/server";
 import { route, zodMessage } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
-import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
+import { filesOf, mappingFromForm, positionsFromForm, readMultipart } from "@/lib/uploads";
 import { correctionFieldsSchema, parseLeakMarks } from "@/lib/validations/intake";
 import { reanalyseCycle } from "@/lib/services/intake";
 
@@ -16,9 +16,10 @@ export const POST = route<Context>(async (request, { params }) => {
   const form = await readMultipart(request, { fileFields: ["file"], maxFiles: 1 });
   const [file] = await filesOf(form, "file");
   const mapping = mappingFromForm(form);
+  const positions = positionsFromForm(form);
   const leak = parseLeakMarks(form.get("leakMarks"));
   if (leak.error) throw new AppError(400, leak.error, "leakMarks");
-  const fields = correctionFieldsSchema.safeParse(Object.fromEntries([...form.entries()].filter(([key, v]) => typeof v === "string" && key !== "leakMarks")));
+  const fields = correctionFieldsSchema.safeParse(Object.fromEntries([...form.entries()].filter(([key, v]) => typeof v === "string" && key !== "leakMarks" && key !== "positions")));
   if (!fields.success) {
     const issue = fields.error.issues[0];
     const field = issue?.path[0] ? String(issue.path[0]) : undefined;
@@ -26,7 +27,8 @@ export const POST = route<Context>(async (request, { params }) => {
   }
   const { reason, duplicateReason, ...details } = fields.data;
   const changesDetails = Object.values(details).some((v) => v !== undefined);
-  if (!file && !mapping && !leak.marks && !changesDetails) throw new AppError(400, "Attach a corrected logger file, send a corrected mapping or change the cycle's details.");
+  if (!file && !mapping && !positions && !leak.marks && !changesDetails)
+    throw new AppError(400, "Attach a corrected logger file, send a corrected mapping or sensor positions, or change the cycle's details.");
   const { id } = await params;
-  return NextResponse.json(await reanalyseCycle({ actor, id, file, mapping, leakMarks: leak.marks, reason, duplicateReason, details }), { status: 201 });
+  return NextResponse.json(await reanalyseCycle({ actor, id, file, mapping, positions, leakMarks: leak.marks, reason, duplicateReason, details }), { status: 201 });
 });
