@@ -46,13 +46,14 @@ export async function listRecentFailures({ siteId, days = 14, limit = 6 }: { sit
     .limit(limit);
 }
 
+/** The site's latest approvals, walked down cycles_site_status_updated_idx. */
 export async function listRecentlyApproved({ siteId, limit = 6 }: { siteId: string; limit?: number }) {
   return getDb()
     .select(cycleSummary)
     .from(cycles)
     .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
     .where(and(eq(cycles.siteId, siteId), eq(cycles.status, "approved")))
-    .orderBy(desc(cycles.updatedAt))
+    .orderBy(desc(cycles.updatedAt), desc(cycles.id))
     .limit(limit);
 }
 
