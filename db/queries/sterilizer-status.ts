@@ -4,17 +4,13 @@ import { getDb, type Executor } from "@/db";
 import { sterilizers, sterilizerStatusEvents, testSchedules } from "@/db/schema";
 import type { SterilizerStatus } from "@/lib/domain";
 import { appendAuditEvent, type AuditInput } from "@/db/ledger";
+import { CYCLE_AT, CYCLE_CONFIRMED, CYCLE_RESULT } from "./cycle-outcomes";
 
 type Hook = (tx: Executor) => Promise<void>;
 
 export type OutcomeRow = { sterilizerId: string; kind: string; at: string; result: "pass" | "fail"; sourceType: "cycle" | "periodic-test"; sourceId: string };
 
-// A confirmed outcome: a cycle approved with a verdict or failure-confirmed (a fail); a periodic record approved (its
-// result) or failure-confirmed (a fail). The texts repeat migration 0019's partial index cycles_outcome_idx word for
-// word (SQLite uses an expression index only for the same expression, with constants, not bound values).
-const CYCLE_CONFIRMED = sql.raw(`(c.status = 'failure-confirmed' or (c.status = 'approved' and c.verdict in ('pass', 'fail')))`);
-const CYCLE_RESULT = sql.raw(`(case when c.status = 'failure-confirmed' then 'fail' else c.verdict end)`);
-const CYCLE_AT = sql.raw(`coalesce(c.started_at, c.created_at)`);
+// A periodic record approved (its result) or failure-confirmed (a fail); cycles: see cycle-outcomes.ts.
 const RECORD_CONFIRMED = sql.raw(`p.status in ('approved', 'failure-confirmed')`);
 const RECORD_RESULT = sql.raw(`(case when p.status = 'failure-confirmed' then 'fail' else p.result end)`);
 

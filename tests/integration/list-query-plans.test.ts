@@ -186,3 +186,15 @@ describe("status board, sterilizers page and home plans", () => {
     expect(lines.some((l) => /^SEARCH cycles USING (COVERING )?INDEX/.test(l))).toBe(true);
   });
 });
+
+describe("schedule plans", () => {
+  it("finds the latest passing and failed cycle of each sterilizer and kind by index lookups, and counts only unsigned cycles", async () => {
+    const { getScheduleFacts } = await import("@/db/queries/periodic-tests");
+    const lines = await plansOf(() => getScheduleFacts({ siteId: "site-1", cycleEvidencedKinds: ["thermometric-small-load", "thermometric-full-load"] }));
+    expect(lines.filter((l) => /^SCAN (cycles|c)\b/.test(l))).toEqual([]);
+    expect(lines.filter((l) => /^SEARCH c USING INDEX cycles_outcome_idx \(sterilizer_id=\? AND test_kind=\? AND <expr>=\?\)/.test(l)).length).toBeGreaterThanOrEqual(2);
+    // The unsigned cycles (draft, submitted) are grouped after the site-and-status index found them, not every cycle.
+    expect(lines.join("\n")).toMatch(/SEARCH cycles USING INDEX cycles_site_status_\w+_idx \(site_id=\? AND status=\?\)/);
+    expect(lines.filter((l) => /TEMP B-TREE/.test(l) && !/GROUP BY/.test(l))).toEqual([]);
+  });
+});
