@@ -171,6 +171,13 @@ describe("status board, sterilizers page and home plans", () => {
     expect(lines.join("\n")).toMatch(/SEARCH cycles USING INDEX cycles_site_status_updated_idx \(site_id=\? AND status=\?\)/);
   });
 
+  it("finds a person's open cycles through the site-and-status index, sorting only those", async () => {
+    const { listMyOpenCycles } = await import("@/db/queries/dashboard");
+    const lines = await plansOf(() => listMyOpenCycles({ siteId: "site-1", userId: "u1" }));
+    expect(lines.filter((l) => /^SCAN (cycles|c)\b/.test(l))).toEqual([]);
+    expect(lines.join("\n")).toMatch(/SEARCH cycles USING INDEX cycles_site_status_\w+_idx \(site_id=\? AND status=\?\)/);
+  });
+
   it.each([
     [{ q: "test pack" }, { key: "startedAt", direction: "desc" }],
     [{ q: "test pack" }, { key: "sterilizer", direction: "asc" }],
