@@ -271,6 +271,12 @@ export const cycles = sqliteTable(
     index("cycles_site_status_submitted_idx").on(t.siteId, t.status, t.submittedAt, t.id),
     index("cycles_site_verdict_started_idx").on(t.siteId, t.verdict, t.startedAt, t.id),
     index("cycles_sterilizer_started_idx").on(t.sterilizerId, t.startedAt, t.id),
+    // The status board's latest confirmed outcome, each sterilizer's latest cycles, the auditor's recent approvals (migration 0019).
+    index("cycles_outcome_idx")
+      .on(t.sterilizerId, t.testKind, sql`(case when ${t.status} = 'failure-confirmed' then 'fail' else ${t.verdict} end)`, sql`coalesce(${t.startedAt}, ${t.createdAt})`)
+      .where(sql`${t.status} = 'failure-confirmed' or (${t.status} = 'approved' and ${t.verdict} in ('pass', 'fail'))`),
+    index("cycles_sterilizer_at_idx").on(t.sterilizerId, sql`coalesce(${t.startedAt}, ${t.createdAt})`, t.id),
+    index("cycles_site_status_updated_idx").on(t.siteId, t.status, t.updatedAt, t.id),
   ],
 );
 // Free-text search of cycles (number, load, sterilizer name) lives outside Drizzle in migration 0018: the FTS5 table

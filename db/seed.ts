@@ -8,6 +8,7 @@ import type { Database } from "./index";
 import {
   acceptanceProfiles,
   analyses,
+  analysisSeries,
   calibrationCertificates,
   cycles,
   instruments,
@@ -25,6 +26,7 @@ import { DEMO_USERS } from "./demo-users";
 import { hashPassword } from "@/lib/auth/password";
 import { simulateCycle, toLoggerCsv, type Scenario } from "@/lib/simulator";
 import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
+import { recordingToColumns } from "@/lib/cycles/series";
 import { atmosphereAtAltitudeKpa } from "@/lib/steam";
 import { zoneOffsetMs } from "@/lib/domain";
 import { STORY_OUT_OF_USE, STORY_RELEASED, tellFitnessStory } from "./demo-story";
@@ -319,6 +321,10 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           })
           .returning({ id: analyses.id });
         await tx.update(cycles).set({ currentAnalysisId: saved.id }).where(eqId(cycle.id));
+        // The recording's columns, as intake stores them, so the demo's charts and reports never re-parse the file.
+        const { meta, sampleCount, timesS, channelValues } = recordingToColumns(analysis.recording);
+        const buffer = (bytes: Uint8Array) => Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+        await tx.insert(analysisSeries).values({ analysisId: saved.id, meta, sampleCount, timesS: buffer(timesS), channelValues: buffer(channelValues) });
         await appendAuditEvent(tx, {
           actorId: userIds.technician,
           actorEmail: "technician@papin.example",

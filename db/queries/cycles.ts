@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, count, desc, eq, gte, inArray, lte, ne, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { getDb, type Executor } from "@/db";
-import { containsText, cycleIdsContaining, isIndexedSearch } from "./search";
+import { containsText, cycleIdsContaining, cycleRowMatches, isIndexedSearch, searchMatchesUpTo } from "./search";
 import {
   acceptanceProfiles,
   analyses,
@@ -52,7 +52,7 @@ export type CycleSortKey = keyof typeof SORTS;
  * `bySterilizer`: the site is taken from the sterilizer (the unary + keeps SQLite off the cycles site indexes), so the
  * page walks the site's sterilizers in name order and each one's cycles by start, instead of sorting every row.
  */
-function cycleListWhere(actor: Actor, filter: CycleFilter, bySterilizer = false): SQL | undefined {
+function cycleListWhere(actor: Actor, filter: CycleFilter, { bySterilizer = false, broadSearch = false } = {}): SQL | undefined {
   const site = bySterilizer ? and(eq(sterilizers.siteId, siteOf(actor)), sql`+${cycles.siteId} = ${siteOf(actor)}`) : eq(cycles.siteId, siteOf(actor));
   const conditions: Array<SQL | undefined> = [site];
   if (filter.status) conditions.push(eq(cycles.status, filter.status));
@@ -60,17 +60,29 @@ function cycleListWhere(actor: Actor, filter: CycleFilter, bySterilizer = false)
   if (filter.sterilizer) conditions.push(eq(cycles.sterilizerId, filter.sterilizer));
   if (filter.from) conditions.push(gte(cycles.startedAt, filter.from));
   if (filter.to) conditions.push(lte(cycles.startedAt, filter.to.length === 10 ? `${filter.to}T23:59:59.999Z` : filter.to));
-  if (filter.q) conditions.push(cycleTextCondition(filter.q));
+  if (filter.q) conditions.push(cycleTextCondition(filter.q, broadSearch));
   return and(...conditions);
 }
 
 /**
  * Number, load description or sterilizer name contains the text as typed: from the trigram index for three characters
  * or more; a shorter text is compared row by row (LIKE), in the page's index order, which stops when the page is full.
+ * A `broad` text (one matching most cycles) is tested row by row against the matches in the page's index order too,
+ * instead of fetching and sorting every match; both forms select the same rows.
  */
-function cycleTextCondition(text: string): SQL | undefined {
-  if (isIndexedSearch(text)) return sql`${cycles.id} IN ${cycleIdsContaining(text)}`;
+function cycleTextCondition(text: string, broad: boolean): SQL | undefined {
+  if (isIndexedSearch(text)) return broad ? cycleRowMatches(cycles.id, text) : sql`${cycles.id} IN ${cycleIdsContaining(text)}`;
   return or(containsText(cycles.cycleNumber, text), containsText(cycles.loadDescription, text), containsText(sterilizers.name, text));
+}
+
+/** From this many trigram matches on (every site's), a search is read in the page's index order (cycleTextCondition). */
+export const BROAD_SEARCH_MATCHES = 5000;
+
+/** Whether the filter's text is broad: counted in the trigram index up to `broadAt` matches, so never all of them. */
+async function isBroadSearch(filter: CycleFilter, broadAt: number): Promise<boolean> {
+  if (!filter.q || !isIndexedSearch(filter.q)) return false;
+  const row = await getDb().get<{ matches: number }>(sql`select ${searchMatchesUpTo(filter.q, broadAt)} as matches`);
+  return Number(row?.matches ?? 0) >= broadAt;
 }
 
 /**
@@ -96,13 +108,17 @@ export async function listCycles({
   page,
   pageSize,
   sort,
+  broadSearchAt = BROAD_SEARCH_MATCHES,
 }: {
   actor: Actor;
   filter: CycleFilter;
   page: number;
   pageSize: number;
   sort: { key: CycleSortKey; direction: "asc" | "desc" };
+  /** tests only: from how many matches a search counts as broad */
+  broadSearchAt?: number;
 }) {
+  const broadSearch = await isBroadSearch(filter, broadSearchAt);
   return getDb()
     .select({
       id: cycles.id,
@@ -123,15 +139,20 @@ export async function listCycles({
     .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
     .innerJoin(acceptanceProfiles, eq(cycles.profileId, acceptanceProfiles.id))
     .innerJoin(creator, eq(cycles.createdBy, creator.id))
-    .where(cycleListWhere(actor, filter, sort.key === "sterilizer"))
+    .where(cycleListWhere(actor, filter, { bySterilizer: sort.key === "sterilizer", broadSearch }))
     .orderBy(...cycleListOrder(sort))
     .limit(pageSize)
     .offset((page - 1) * pageSize);
 }
 
 /** How many of the actor's site's cycles match the filter. */
-export async function countCycles({ actor, filter }: { actor: Actor; filter: CycleFilter }): Promise<number> {
-  const [{ total }] = await getDb().select({ total: count() }).from(cycles).innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id)).where(cycleListWhere(actor, filter));
+export async function countCycles({ actor, filter, broadSearchAt = BROAD_SEARCH_MATCHES }: { actor: Actor; filter: CycleFilter; broadSearchAt?: number }): Promise<number> {
+  const broadSearch = await isBroadSearch(filter, broadSearchAt);
+  const [{ total }] = await getDb()
+    .select({ total: count() })
+    .from(cycles)
+    .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
+    .where(cycleListWhere(actor, filter, { broadSearch }));
   return total;
 }
 

@@ -25,13 +25,17 @@ export async function listCyclesAwaitingReview({ siteId, limit = 6 }: { siteId: 
   return { items, total };
 }
 
+/**
+ * The person's drafts and returned cycles, newest first. Found through the site-and-status index and then sorted (a
+ * few rows): ordered by `+created_at` so SQLite does not walk every cycle of the site in creation order looking for them.
+ */
 export async function listMyOpenCycles({ siteId, userId, limit = 6 }: { siteId: string; userId: string; limit?: number }) {
   return getDb()
     .select(cycleSummary)
     .from(cycles)
     .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
     .where(and(eq(cycles.siteId, siteId), eq(cycles.createdBy, userId), inArray(cycles.status, EDITABLE_CYCLE_STATUSES)))
-    .orderBy(desc(cycles.createdAt))
+    .orderBy(desc(sql`+${cycles.createdAt}`))
     .limit(limit);
 }
 
@@ -46,13 +50,14 @@ export async function listRecentFailures({ siteId, days = 14, limit = 6 }: { sit
     .limit(limit);
 }
 
+/** The site's latest approvals, walked down cycles_site_status_updated_idx. */
 export async function listRecentlyApproved({ siteId, limit = 6 }: { siteId: string; limit?: number }) {
   return getDb()
     .select(cycleSummary)
     .from(cycles)
     .innerJoin(sterilizers, eq(cycles.sterilizerId, sterilizers.id))
     .where(and(eq(cycles.siteId, siteId), eq(cycles.status, "approved")))
-    .orderBy(desc(cycles.updatedAt))
+    .orderBy(desc(cycles.updatedAt), desc(cycles.id))
     .limit(limit);
 }
 

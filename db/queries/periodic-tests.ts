@@ -1,15 +1,14 @@
 import "server-only";
-import { and, count, desc, eq, gte, inArray, lte, max, ne, sql, type SQL } from "drizzle-orm";
+import { and, count, desc, eq, gte, inArray, lte, max, sql, type SQL } from "drizzle-orm";
 import { getDb, type Executor } from "@/db";
-import { cycles, periodicTests, periodicTestSignatures, sterilizers, testSchedules, users, type PeriodicTestKind, type TestKind } from "@/db/schema";
+import { CYCLE_STATUSES, cycles, periodicTests, periodicTestSignatures, sterilizers, testSchedules, users, type PeriodicTestKind, type TestKind } from "@/db/schema";
 import { appendAuditEvent, type AuditInput } from "@/db/ledger";
 import type { PeriodicRecordStatus } from "@/lib/domain";
 import { insertAttachment, type NewAttachment } from "./attachments";
+import { latestConfirmedCycleAt } from "./cycle-outcomes";
 
 /** Only a signed result is evidence: approved (a pass) or failure-confirmed (a fail). Submitted and returned records do not count. */
 const SIGNED_RESULT_STATUSES = ["approved", "failure-confirmed"] as const satisfies readonly PeriodicRecordStatus[];
-
-const startedOrCreated = sql<string>`coalesce(${cycles.startedAt}, ${cycles.createdAt})`;
 
 /**
  * What the schedule of the site's sterilizers (or one of them) is judged from: each scheduled
@@ -53,21 +52,15 @@ export async function getScheduleFacts({
           sql`${periodicTests.performedAt} = (select max(p2.performed_at) from periodic_tests p2 where p2.sterilizer_id = ${periodicTests.sterilizerId} and p2.kind = ${periodicTests.kind} and p2.status in ('approved', 'failure-confirmed'))`,
         ),
       ),
-    db
-      .select({ sterilizerId: cycles.sterilizerId, kind: cycles.testKind, at: max(startedOrCreated) })
-      .from(cycles)
-      .where(and(eq(cycles.siteId, siteId), eq(cycles.status, "approved"), eq(cycles.verdict, "pass"), byCycle))
-      .groupBy(cycles.sterilizerId, cycles.testKind),
-    db
-      .select({ sterilizerId: cycles.sterilizerId, kind: cycles.testKind, at: max(startedOrCreated) })
-      .from(cycles)
-      .where(and(eq(cycles.siteId, siteId), eq(cycles.status, "failure-confirmed"), eq(cycles.verdict, "fail"), byCycle))
-      .groupBy(cycles.sterilizerId, cycles.testKind),
+    latestCyclesOfEachKind({ siteId, kinds: cycleEvidencedKinds, result: "pass" }),
+    latestCyclesOfEachKind({ siteId, kinds: cycleEvidencedKinds, result: "fail", also: sql`c.status = 'failure-confirmed' and c.verdict = 'fail'` }),
+    // Not yet signed: draft or submitted. The unary + keeps SQLite on the site-and-status index (a few rows), off a walk of
+    // every passing cycle or of every cycle in sterilizer order.
     db
       .select({ sterilizerId: cycles.sterilizerId, kind: cycles.testKind, n: count() })
       .from(cycles)
-      .where(and(eq(cycles.siteId, siteId), ne(cycles.status, "approved"), ne(cycles.status, "failure-confirmed"), ne(cycles.status, "returned"), eq(cycles.verdict, "pass"), byCycle))
-      .groupBy(cycles.sterilizerId, cycles.testKind),
+      .where(and(eq(cycles.siteId, siteId), inArray(cycles.status, UNSIGNED_CYCLE_STATUSES), sql`+${cycles.verdict} = 'pass'`, byCycle))
+      .groupBy(sql`+${cycles.sterilizerId}`, sql`+${cycles.testKind}`),
     db
       .select({ sterilizerId: periodicTests.sterilizerId, kind: periodicTests.kind, n: count() })
       .from(periodicTests)
@@ -75,6 +68,17 @@ export async function getScheduleFacts({
       .groupBy(periodicTests.sterilizerId, periodicTests.kind),
   ]);
   return { schedules, passes, attempts, cyclePasses, cycleFailures, awaitingSignOff, recordsAwaitingSignOff };
+}
+
+/** Cycle statuses before a signature (neither approved, failure-confirmed nor returned). */
+const UNSIGNED_CYCLE_STATUSES = CYCLE_STATUSES.filter((s) => s !== "approved" && s !== "failure-confirmed" && s !== "returned");
+
+/** Per sterilizer of the site and kind, the latest confirmed cycle of `result` (and `also`): one index lookup each (cycles_outcome_idx). */
+async function latestCyclesOfEachKind({ siteId, kinds, result, also }: { siteId: string; kinds: readonly string[]; result: "pass" | "fail"; also?: SQL }) {
+  const at = latestConfirmedCycleAt({ sterilizerId: sql`s.id`, kind: sql`k.value`, result, siteId, also });
+  return getDb().all<{ sterilizerId: string; kind: TestKind; at: string }>(sql`
+    select * from (select s.id as sterilizerId, k.value as kind, ${at} as at from sterilizers s, json_each(${JSON.stringify(kinds)}) k where s.site_id = ${siteId})
+     where at is not null`);
 }
 
 export type PeriodicTestFilter = { sterilizer?: string; kind?: string; result?: "pass" | "fail"; status?: PeriodicRecordStatus; from?: string; to?: string };

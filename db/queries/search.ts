@@ -17,13 +17,31 @@ export const INDEXED_SEARCH_MIN_CHARS = 3;
 /** Whether `text` can be looked up in a trigram index (counted in characters, not UTF-16 units). */
 export const isIndexedSearch = (text: string) => [...text].length >= INDEXED_SEARCH_MIN_CHARS;
 
+/** The search text as one quoted FTS5 phrase: `%`, `_`, `*`, `"`, `-` and OR/NOT are characters, never query syntax. */
+const phraseOf = (text: string) => `"${text.replace(/"/g, '""')}"`;
+
+/** The FTS rows (cycle_search_rows.row) whose number, load description or sterilizer name contains `text`. */
+const searchRowsMatching = (text: string) => sql`(SELECT rowid FROM cycles_search WHERE cycles_search MATCH ${phraseOf(text)})`;
+
 /**
  * The ids of the cycles whose number, load description or sterilizer name contains `text` as typed, from the
- * FTS5 trigram index (migration 0018): the whole text is one quoted phrase, so `%`, `_`, `*`, `"`, `-` and
- * the words OR/NOT are characters, never query syntax; case and accents are ignored. Needs
- * INDEXED_SEARCH_MIN_CHARS characters (shorter text matches nothing here). Every site's cycles: the caller scopes.
+ * FTS5 trigram index (migration 0018), case and accents ignored. Needs INDEXED_SEARCH_MIN_CHARS characters
+ * (shorter text matches nothing here). Every site's cycles: the caller scopes.
  */
 export function cycleIdsContaining(text: string): SQL {
-  const phrase = `"${text.replace(/"/g, '""')}"`;
-  return sql`(SELECT k.cycle_id FROM cycle_search_rows k WHERE k.row IN (SELECT rowid FROM cycles_search WHERE cycles_search MATCH ${phrase}))`;
+  return sql`(SELECT k.cycle_id FROM cycle_search_rows k WHERE k.row IN ${searchRowsMatching(text)})`;
+}
+
+/**
+ * The same test as `cycleId IN cycleIdsContaining(text)`, written so that SQLite cannot start from the matches: it
+ * walks the page's own index and checks each row against the matches (one lookup each). For a text that matches
+ * most cycles, where fetching and sorting every match costs seconds at 100,000 cycles.
+ */
+export function cycleRowMatches(cycleId: SQLWrapper, text: string): SQL {
+  return sql`(SELECT k.row FROM cycle_search_rows k WHERE k.cycle_id = ${cycleId}) IN ${searchRowsMatching(text)}`;
+}
+
+/** How many FTS rows contain `text`, counted no further than `cap` (the trigram lookup stops there). */
+export function searchMatchesUpTo(text: string, cap: number): SQL<number> {
+  return sql<number>`(SELECT count(*) FROM (SELECT rowid FROM cycles_search WHERE cycles_search MATCH ${phraseOf(text)} LIMIT ${cap}))`;
 }

@@ -4,35 +4,70 @@ import { getDb, type Executor } from "@/db";
 import { sterilizers, sterilizerStatusEvents, testSchedules } from "@/db/schema";
 import type { SterilizerStatus } from "@/lib/domain";
 import { appendAuditEvent, type AuditInput } from "@/db/ledger";
+import { CYCLE_AT, CYCLE_CONFIRMED, CYCLE_RESULT } from "./cycle-outcomes";
 
 type Hook = (tx: Executor) => Promise<void>;
 
 export type OutcomeRow = { sterilizerId: string; kind: string; at: string; result: "pass" | "fail"; sourceType: "cycle" | "periodic-test"; sourceId: string };
 
+// A periodic record approved (its result) or failure-confirmed (a fail); cycles: see cycle-outcomes.ts.
+const RECORD_CONFIRMED = sql.raw(`p.status in ('approved', 'failure-confirmed')`);
+const RECORD_RESULT = sql.raw(`(case when p.status = 'failure-confirmed' then 'fail' else p.result end)`);
+
 /**
- * The confirmed test outcomes of the site's sterilizers (or one of them), from both tables: cycles approved (their
- * verdict) or failure-confirmed (a fail), periodic records approved (their result) or failure-confirmed (a fail).
- * Only the latest pass and the latest failure of each sterilizer and kind: all the status rule needs.
+ * The confirmed test outcomes of the site's sterilizers (or one of them), from both tables: only the latest pass and the
+ * latest failure of each sterilizer and kind, all the status rule needs. Read through indexes, never every cycle: the
+ * kinds each sterilizer has outcomes of are found by skipping along the index (a recursive step per kind), then each
+ * kind's latest pass and latest failure is one index lookup per table; the later of the two tables' rows wins here.
  */
 export async function listConfirmedOutcomes({ siteId, sterilizerId }: { siteId: string; sterilizerId?: string }): Promise<OutcomeRow[]> {
-  const oneCycle = sterilizerId ? sql`and c.sterilizer_id = ${sterilizerId}` : sql``;
-  const oneRecord = sterilizerId ? sql`and p.sterilizer_id = ${sterilizerId}` : sql``;
-  return getDb().all<OutcomeRow>(sql`
-    select sterilizer_id as sterilizerId, kind, at, result, source_type as sourceType, source_id as sourceId from (
-      select o.*, row_number() over (partition by sterilizer_id, kind, result order by at desc) as rn from (
-        select c.sterilizer_id, c.test_kind as kind, coalesce(c.started_at, c.created_at) as at,
-               case when c.status = 'failure-confirmed' then 'fail' else c.verdict end as result, 'cycle' as source_type, c.id as source_id
-          from cycles c
-         where c.site_id = ${siteId} ${oneCycle}
-           and (c.status = 'failure-confirmed' or (c.status = 'approved' and c.verdict in ('pass', 'fail')))
-        union all
-        select p.sterilizer_id, p.kind, p.performed_at,
-               case when p.status = 'failure-confirmed' then 'fail' else p.result end, 'periodic-test', p.id
-          from periodic_tests p
-         where p.site_id = ${siteId} ${oneRecord}
-           and p.status in ('approved', 'failure-confirmed')
-      ) o
-    ) where rn = 1`);
+  const oneSterilizer = sterilizerId ? sql`and s.id = ${sterilizerId}` : sql``;
+  const rows = await getDb().all<OutcomeRow>(sql`
+    with recursive site_sterilizers(id) as (select s.id from sterilizers s where s.site_id = ${siteId} ${oneSterilizer}),
+    cycle_kinds(sterilizer_id, kind) as (
+      select s.id, (select c.test_kind from cycles c where c.sterilizer_id = s.id and ${CYCLE_CONFIRMED} order by c.test_kind limit 1) from site_sterilizers s
+      union all
+      select k.sterilizer_id, (select c.test_kind from cycles c where c.sterilizer_id = k.sterilizer_id and c.test_kind > k.kind and ${CYCLE_CONFIRMED} order by c.test_kind limit 1)
+        from cycle_kinds k where k.kind is not null
+    ),
+    record_kinds(sterilizer_id, kind) as (
+      select s.id, (select p.kind from periodic_tests p where p.sterilizer_id = s.id and ${RECORD_CONFIRMED} order by p.kind limit 1) from site_sterilizers s
+      union all
+      select k.sterilizer_id, (select p.kind from periodic_tests p where p.sterilizer_id = k.sterilizer_id and p.kind > k.kind and ${RECORD_CONFIRMED} order by p.kind limit 1)
+        from record_kinds k where k.kind is not null
+    ),
+    results(result) as (values ('pass'), ('fail')),
+    latest_cycles as (
+      select k.sterilizer_id, k.kind, r.result, (
+        select c.id from cycles c
+         where c.sterilizer_id = k.sterilizer_id and c.test_kind = k.kind and ${CYCLE_CONFIRMED} and ${CYCLE_RESULT} = r.result and c.site_id = ${siteId}
+         order by ${CYCLE_AT} desc limit 1) as source_id
+      from cycle_kinds k, results r where k.kind is not null
+    ),
+    latest_records as (
+      select k.sterilizer_id, k.kind, r.result, (
+        select p.id from periodic_tests p
+         where p.sterilizer_id = k.sterilizer_id and p.kind = k.kind and ${RECORD_CONFIRMED} and ${RECORD_RESULT} = r.result and p.site_id = ${siteId}
+         order by p.performed_at desc limit 1) as source_id
+      from record_kinds k, results r where k.kind is not null
+    )
+    select l.sterilizer_id as sterilizerId, l.kind, ${CYCLE_AT} as at, l.result, 'cycle' as sourceType, c.id as sourceId
+      from latest_cycles l join cycles c on c.id = l.source_id
+    union all
+    select l.sterilizer_id, l.kind, p.performed_at, l.result, 'periodic-test', p.id
+      from latest_records l join periodic_tests p on p.id = l.source_id`);
+  return latestOfEachKey(rows);
+}
+
+/** Of a cycle and a periodic record with the same sterilizer, kind and result, the later one (compared as stored text). */
+function latestOfEachKey(rows: OutcomeRow[]): OutcomeRow[] {
+  const byKey = new Map<string, OutcomeRow>();
+  for (const row of rows) {
+    const key = `${row.sterilizerId}\u0000${row.kind}\u0000${row.result}`;
+    const seen = byKey.get(key);
+    if (!seen || row.at > seen.at) byKey.set(key, row);
+  }
+  return [...byKey.values()];
 }
 
 /** What the status of the site's active sterilizers (or one) is judged from, besides the outcomes. */

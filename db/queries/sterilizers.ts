@@ -17,16 +17,13 @@ export async function listSterilizersOfSite({ siteId }: { siteId: string }) {
     .orderBy(desc(sterilizers.active), asc(sterilizers.name));
 }
 
-/** The latest cycle of each of the site's sterilizers. */
+/**
+ * The latest cycle of each of the site's sterilizers (by start, or creation before a file gives the start): one lookup
+ * per sterilizer down cycles_sterilizer_at_idx, never a grouping of every cycle.
+ */
 export async function listLatestCycleOfEachSterilizer({ siteId }: { siteId: string }) {
-  const db = getDb();
-  const latest = db
-    .select({ sterilizerId: cycles.sterilizerId, startedAt: sql<string>`max(${startedOrCreated})`.as("latest_started") })
-    .from(cycles)
-    .where(eq(cycles.siteId, siteId))
-    .groupBy(cycles.sterilizerId)
-    .as("latest");
-  return db
+  const latestId = sql`(select c.id from cycles c where c.sterilizer_id = ${sterilizers.id} and c.site_id = ${siteId} order by coalesce(c.started_at, c.created_at) desc limit 1)`;
+  return getDb()
     .select({
       id: cycles.id,
       sterilizerId: cycles.sterilizerId,
@@ -36,9 +33,9 @@ export async function listLatestCycleOfEachSterilizer({ siteId }: { siteId: stri
       startedAt: cycles.startedAt,
       createdAt: cycles.createdAt,
     })
-    .from(cycles)
-    .innerJoin(latest, and(eq(latest.sterilizerId, cycles.sterilizerId), eq(startedOrCreated, latest.startedAt)))
-    .where(eq(cycles.siteId, siteId));
+    .from(sterilizers)
+    .innerJoin(cycles, eq(cycles.id, latestId))
+    .where(eq(sterilizers.siteId, siteId));
 }
 
 export async function listRecentCyclesOfSterilizer({ siteId, sterilizerId, limit }: { siteId: string; sterilizerId: string; limit: number }) {

@@ -72,6 +72,24 @@ describe("cycle search", () => {
     expect(await found("x_")).toEqual(["c4"]);
   });
 
+  it("reads a broad search (past the match cap, walked in the page's index order) exactly as a narrow one", async () => {
+    const { listCycles, countCycles } = await import("@/db/queries/cycles");
+    const sorts = [
+      { key: "startedAt", direction: "desc" },
+      { key: "sterilizer", direction: "asc" },
+      { key: "cycleNumber", direction: "asc" },
+    ] as const;
+    for (const q of ["autoclave", "2024", "wrapped", "ench un", "no such text"]) {
+      for (const sort of sorts) {
+        const page = (broadSearchAt?: number) => listCycles({ actor: north, filter: { q }, page: 1, pageSize: 2, sort, broadSearchAt });
+        // broadSearchAt 0: every indexed search counts as broad, so the other path reads the same page.
+        expect(await page(0)).toEqual(await page());
+      }
+      expect(await countCycles({ actor: north, filter: { q }, broadSearchAt: 0 })).toBe(await countCycles({ actor: north, filter: { q } }));
+    }
+    expect((await listCycles({ actor: north, filter: { q: "2024" }, page: 1, pageSize: 50, sort: sorts[0], broadSearchAt: 0 })).map((r) => r.id)).toEqual(["c2", "c1"]);
+  });
+
   it("follows a renamed sterilizer, a corrected cycle, a moved cycle and a deleted one", async () => {
     const run = (s: string) => ctx.db.run(sql.raw(s));
     await run(`update sterilizers set name = 'Steam chamber 2' where id = 'st-b'`);

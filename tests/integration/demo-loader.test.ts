@@ -44,6 +44,11 @@ describe("the demo loader", () => {
     expect(c.sterilizers).toBeGreaterThanOrEqual(3);
     expect(c.cycles).toBeGreaterThan(20);
     expect(c.analyses).toBe(c.cycles);
+    // Like intake (issue 12): each analysis stores its recording's columns, so a demo chart or report never re-parses the file.
+    const withoutSeries = await ctx.db.all<{ id: string }>(
+      sql`select c.id from cycles c left join analysis_series s on s.analysis_id = c.current_analysis_id where s.analysis_id is null or s.sample_count < 2`,
+    );
+    expect(withoutSeries).toEqual([]);
     expect(c.reports).toBeGreaterThan(0);
     const roles = await ctx.db.all<{ role: string }>(sql`select role from users order by role`);
     expect(roles.map((r) => r.role)).toEqual(["admin", "auditor", "engineer", "technician"]);

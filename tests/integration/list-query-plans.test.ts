@@ -132,3 +132,76 @@ describe("count plans", () => {
     }
   });
 });
+
+// The home page, the status board and the sterilizers page (issue 12): each reads per sterilizer through an index
+// (migration 0019) what used to be ranked, grouped or sorted over every cycle of the site.
+const noFullRead = (lines: string[]) => {
+  expect(lines.join("\n")).not.toMatch(/TEMP B-TREE/);
+  expect(lines.filter((l) => /^SCAN (cycles|c)\b/.test(l))).toEqual([]);
+};
+
+describe("status board, sterilizers page and home plans", () => {
+  it.each([{}, { sterilizerId: "st-1" }])("finds each sterilizer's latest confirmed pass and failure by index lookups (%j)", async (one) => {
+    const { listConfirmedOutcomes } = await import("@/db/queries/sterilizer-status");
+    const lines = await plansOf(() => listConfirmedOutcomes({ siteId: "site-1", ...one }));
+    noFullRead(lines);
+    expect(lines.filter((l) => /^SEARCH c USING INDEX cycles_outcome_idx \(sterilizer_id=\? AND test_kind=\? AND <expr>=\?\)/.test(l)).length).toBeGreaterThan(0);
+    expect(lines.filter((l) => /^SEARCH c USING INDEX cycles_outcome_idx \(sterilizer_id=\? AND test_kind>\?\)/.test(l)).length).toBeGreaterThan(0);
+    expect(lines.filter((l) => /^SCAN p\b/.test(l))).toEqual([]);
+  });
+
+  it("finds each sterilizer's latest cycle by one index lookup each", async () => {
+    const { listLatestCycleOfEachSterilizer } = await import("@/db/queries/sterilizers");
+    const lines = await plansOf(() => listLatestCycleOfEachSterilizer({ siteId: "site-1" }));
+    noFullRead(lines);
+    expect(lines.join("\n")).toMatch(/SEARCH c USING INDEX cycles_sterilizer_at_idx \(sterilizer_id=\?\)/);
+  });
+
+  it("reads a sterilizer's recent cycles newest first from an index", async () => {
+    const { listRecentCyclesOfSterilizer } = await import("@/db/queries/sterilizers");
+    const lines = await plansOf(() => listRecentCyclesOfSterilizer({ siteId: "site-1", sterilizerId: "st-1", limit: 10 }));
+    noFullRead(lines);
+    expect(lines.join("\n")).toMatch(/cycles_sterilizer_at_idx/);
+  });
+
+  it("reads the auditor's recently approved cycles from an index in their order", async () => {
+    const { listRecentlyApproved } = await import("@/db/queries/dashboard");
+    const lines = await plansOf(() => listRecentlyApproved({ siteId: "site-1" }));
+    noFullRead(lines);
+    expect(lines.join("\n")).toMatch(/SEARCH cycles USING INDEX cycles_site_status_updated_idx \(site_id=\? AND status=\?\)/);
+  });
+
+  it("finds a person's open cycles through the site-and-status index, sorting only those", async () => {
+    const { listMyOpenCycles } = await import("@/db/queries/dashboard");
+    const lines = await plansOf(() => listMyOpenCycles({ siteId: "site-1", userId: "u1" }));
+    expect(lines.filter((l) => /^SCAN (cycles|c)\b/.test(l))).toEqual([]);
+    expect(lines.join("\n")).toMatch(/SEARCH cycles USING INDEX cycles_site_status_\w+_idx \(site_id=\? AND status=\?\)/);
+  });
+
+  it.each([
+    [{ q: "test pack" }, { key: "startedAt", direction: "desc" }],
+    [{ q: "test pack" }, { key: "sterilizer", direction: "asc" }],
+    [
+      { q: "test pack", status: "approved" },
+      { key: "startedAt", direction: "desc" },
+    ],
+  ] as const)("walks a broad search %j in the page's index order, sort %j, testing each row against the matches", async (filter, sort) => {
+    const { listCycles } = await import("@/db/queries/cycles");
+    const lines = await plansOf(() => listCycles({ actor, filter, page: 3, pageSize: 50, sort, broadSearchAt: 0 }));
+    noFullRead(lines);
+    expect(lines.join("\n")).toMatch(/SEARCH k USING COVERING INDEX sqlite_autoindex_cycle_search_rows_1 \(cycle_id=\?\)/);
+    expect(lines.some((l) => /^SEARCH cycles USING (COVERING )?INDEX/.test(l))).toBe(true);
+  });
+});
+
+describe("schedule plans", () => {
+  it("finds the latest passing and failed cycle of each sterilizer and kind by index lookups, and counts only unsigned cycles", async () => {
+    const { getScheduleFacts } = await import("@/db/queries/periodic-tests");
+    const lines = await plansOf(() => getScheduleFacts({ siteId: "site-1", cycleEvidencedKinds: ["thermometric-small-load", "thermometric-full-load"] }));
+    expect(lines.filter((l) => /^SCAN (cycles|c)\b/.test(l))).toEqual([]);
+    expect(lines.filter((l) => /^SEARCH c USING INDEX cycles_outcome_idx \(sterilizer_id=\? AND test_kind=\? AND <expr>=\?\)/.test(l)).length).toBeGreaterThanOrEqual(2);
+    // The unsigned cycles (draft, submitted) are grouped after the site-and-status index found them, not every cycle.
+    expect(lines.join("\n")).toMatch(/SEARCH cycles USING INDEX cycles_site_status_\w+_idx \(site_id=\? AND status=\?\)/);
+    expect(lines.filter((l) => /TEMP B-TREE/.test(l) && !/GROUP BY/.test(l))).toEqual([]);
+  });
+});
