@@ -14,8 +14,9 @@ export function demoMapping(bytes: Uint8Array): MappingOverrides {
   return { positions: simulatedPlacements(temperatures) };
 }
 
-/** The test pack or load of a demo cycle: a standard test pack from one of two lots, or for the fluids sterilizer a media-bottle batch (fictional numbers). */
+/** The test pack or load of a demo cycle: a standard test pack from one of two lots, a wrapped instrument tray on the benchtop, or a media-bottle batch on the fluids sterilizer (fictional numbers). */
 export function demoLoad(ordinal: number, kind: "porous" | "fluids" | "benchtop" = "porous"): { loadType: LoadType; loadLot: string } {
   if (kind === "fluids") return { loadType: "fluids-load", loadLot: `MB-2611-${String(10 + (ordinal % 7)).padStart(2, "0")}` };
+  if (kind === "benchtop") return { loadType: "wrapped-instruments", loadLot: `TRAY-${String(100 + (ordinal % 5))}` };
   return { loadType: "standard-test-pack", loadLot: ordinal % 2 === 0 ? "STP-2611-04" : "STP-2611-09" };
 }

@@ -5,7 +5,7 @@ import type { AuditLine } from "@/lib/domain/audit-words";
 export function AuditEvents({ lines }: { lines: AuditLine[] }) {
   return (
     <ol className="divide-y divide-ink-line" data-testid="audit-events">
-      <li className="hidden gap-3 pb-2 text-xs font-semibold text-ink-muted md:grid md:grid-cols-[4rem_11rem_10rem_1fr_12rem]" aria-hidden>
+      <li className="hidden gap-3 pb-2 text-xs font-semibold text-ink-muted xl:grid xl:grid-cols-[4rem_11rem_10rem_minmax(0,1fr)_12rem]" aria-hidden>
         <span>#</span>
         <span>When</span>
         <span>Who</span>
@@ -13,9 +13,9 @@ export function AuditEvents({ lines }: { lines: AuditLine[] }) {
         <span>Why</span>
       </li>
       {lines.map((line) => (
-        <li key={line.seq} className="grid gap-1 py-3 text-sm md:grid-cols-[4rem_11rem_10rem_1fr_12rem] md:gap-3" data-testid="audit-event">
+        <li key={line.seq} className="grid grid-cols-[minmax(0,1fr)] gap-1 py-3 text-sm xl:grid-cols-[4rem_11rem_10rem_minmax(0,1fr)_12rem] xl:gap-3" data-testid="audit-event">
           <span className="mono text-xs text-ink-muted">
-            <span className="md:hidden">Event </span>
+            <span className="xl:hidden">Event </span>
             {line.seq}
           </span>
           <span className="text-xs">
@@ -27,7 +27,7 @@ export function AuditEvents({ lines }: { lines: AuditLine[] }) {
             {line.role && <span className="block text-ink-muted">{line.role}</span>}
           </span>
           <div className="min-w-0">
-            <p className="break-words" data-testid="audit-what">
+            <p className="break-words [overflow-wrap:anywhere]" data-testid="audit-what">
               {line.what}
             </p>
             {line.record && (
@@ -42,11 +42,11 @@ export function AuditEvents({ lines }: { lines: AuditLine[] }) {
               </p>
             )}
             {line.changes.length > 0 && (
-              <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-2 text-xs" aria-label="Old and new values">
+              <dl className="mt-1 grid grid-cols-[auto_minmax(0,1fr)] gap-x-2 text-xs" aria-label="Old and new values">
                 {line.changes.map((c, i) => (
                   <div key={i} className="contents">
                     <dt className="text-ink-muted">{c.field}</dt>
-                    <dd className="break-words">
+                    <dd className="break-words [overflow-wrap:anywhere]">
                       {c.old !== null && <span className="text-fail-700">{c.old}</span>}
                       {c.old !== null && c.new !== null && " → "}
                       {c.new !== null && <span className="text-pass-700">{c.new}</span>}
@@ -57,7 +57,7 @@ export function AuditEvents({ lines }: { lines: AuditLine[] }) {
               </dl>
             )}
           </div>
-          <span className="break-words text-xs">{line.reason ? <span>Why: {line.reason}</span> : <span className="text-ink-muted md:inline hidden">—</span>}</span>
+          <span className="break-words [overflow-wrap:anywhere] text-xs">{line.reason ? <span>Why: {line.reason}</span> : <span className="text-ink-muted xl:inline hidden">—</span>}</span>
         </li>
       ))}
     </ol>

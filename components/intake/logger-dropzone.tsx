@@ -52,27 +52,30 @@ export function LoggerDropzone({
     },
   });
   const tone = isDragReject ? "border-fail-500 bg-fail-50" : isDragActive ? "border-steam-500 bg-steam-50" : isFocused ? "border-steam-500" : "border-ink-line hover:border-steam-500";
+  // The file input sits beside the drop area, not in it: a control inside a role="button" is nested interaction.
   return (
-    <div
-      {...getRootProps({
-        role: "button",
-        "aria-label": `Logger files: drop them here, or press Enter to choose. ${LOGGER_FILE_EXTENSIONS.join(", ")}, up to ${limitMb} MB each.`,
-        "aria-disabled": disabled || undefined,
-      })}
-      data-testid="logger-dropzone"
-      className={`flex cursor-pointer flex-col items-center justify-center rounded-panel border-2 border-dashed text-center transition-colors ${compact ? "px-4 py-4" : "px-6 py-10"} ${tone} ${disabled ? "cursor-not-allowed opacity-60" : ""}`}
-    >
+    <>
       <input {...getInputProps({ "aria-label": "Choose logger files" })} data-testid="logger-file-input" />
-      <svg aria-hidden="true" viewBox="0 0 24 24" className={`${compact ? "h-6 w-6" : "h-9 w-9"} text-steam-600`} fill="none" stroke="currentColor" strokeWidth="1.6">
-        <path d="M12 16V4m0 0-4 4m4-4 4 4" strokeLinecap="round" strokeLinejoin="round" />
-        <path d="M4 16v2a2 2 0 0 0 2 2h12a2 2 0 0 0 2-2v-2" strokeLinecap="round" />
-      </svg>
-      <p className="mt-2 text-sm font-medium">
-        {isDragReject ? "These files cannot be used" : isDragActive ? "Drop to add" : compact ? "Add more files" : "Drop the logger file here, or click to choose it"}
-      </p>
-      <p className="mt-1 text-xs text-ink-muted">
-        {LOGGER_FILE_EXTENSIONS.join(" ")} · up to {limitMb} MB per file
-      </p>
-    </div>
+      <div
+        {...getRootProps({
+          role: "button",
+          "aria-label": `Logger files: drop them here, or press Enter to choose. ${LOGGER_FILE_EXTENSIONS.join(", ")}, up to ${limitMb} MB each.`,
+          "aria-disabled": disabled || undefined,
+        })}
+        data-testid="logger-dropzone"
+        className={`flex cursor-pointer flex-col items-center justify-center rounded-panel border-2 border-dashed text-center transition-colors ${compact ? "px-4 py-4" : "px-6 py-10"} ${tone} ${disabled ? "cursor-not-allowed opacity-60" : ""}`}
+      >
+        <svg aria-hidden="true" viewBox="0 0 24 24" className={`${compact ? "h-6 w-6" : "h-9 w-9"} text-steam-600`} fill="none" stroke="currentColor" strokeWidth="1.6">
+          <path d="M12 16V4m0 0-4 4m4-4 4 4" strokeLinecap="round" strokeLinejoin="round" />
+          <path d="M4 16v2a2 2 0 0 0 2 2h12a2 2 0 0 0 2-2v-2" strokeLinecap="round" />
+        </svg>
+        <p className="mt-2 text-sm font-medium">
+          {isDragReject ? "These files cannot be used" : isDragActive ? "Drop to add" : compact ? "Add more files" : "Drop the logger file here, or click to choose it"}
+        </p>
+        <p className="mt-1 text-xs text-ink-muted">
+          {LOGGER_FILE_EXTENSIONS.join(" ")} · up to {limitMb} MB per file
+        </p>
+      </div>
+    </>
   );
 }

@@ -142,7 +142,7 @@ export function PhaseDiagram({ cycleId, cycleNumber, plateau, sterilizationTempC
               : ""}
         </span>
       </div>
-      <div className="overflow-x-auto">
+      <div className="overflow-x-auto" role="region" aria-label="Phase diagram, scrolls sideways on a narrow screen" tabIndex={0}>
         <svg
           ref={svgRef}
           viewBox={`0 0 ${W} ${H}`}

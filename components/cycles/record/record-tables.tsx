@@ -60,7 +60,7 @@ export function ChannelTable({ analysis, positions, positionProblem }: { analysi
           ⚠ {positionProblem}
         </p>
       )}
-      <div className="overflow-x-auto">
+      <TableFrame label="Temperature channels">
         <table className="data-table" data-testid="channel-table">
           <caption className="sr-only">Temperature channels during holding</caption>
           <thead>
@@ -120,7 +120,7 @@ export function ChannelTable({ analysis, positions, positionProblem }: { analysi
             ))}
           </tbody>
         </table>
-      </div>
+      </TableFrame>
       <p className="mt-2 text-xs text-ink-muted">
         Min, max and mean over the holding time{analysis.holdingTime === null ? " (none here, so no figures)" : ""}. Missing: blank cells of the channel in the whole record
         {analysis.channels.some((c) => c.missing === undefined) ? ` (${NOT_RECORDED})` : ""}. F0 over the whole record with T<sub>ref</sub> = {ref} °C and z = {z} K. Chamber pressure from{" "}
