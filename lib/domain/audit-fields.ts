@@ -75,7 +75,14 @@ export const AUDIT_FIELDS: Record<string, Field> = {
   problem: { label: "Problem" },
   reason: { label: "Reason" },
   since: { label: "Since" },
-  cause: { label: "Cause" },
+  cause: {
+    label: "Cause",
+    words: {
+      "periodic-test.sign.approved": "a periodic test approved",
+      "periodic-test.sign.failure-confirmed": "a periodic test's failure confirmed",
+      "periodic-test.sign.returned": "a periodic test returned",
+    },
+  },
   decision: { label: "Decision", words: STATUS_WORDS },
   acknowledged: { label: "Acknowledged" },
   rows: { label: "Rows" },

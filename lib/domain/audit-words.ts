@@ -64,6 +64,11 @@ const SIGN_VERBS: Record<string, string> = {
 };
 const periodicSigned = (verb: string): Kind => ({ label: `${verb.charAt(0).toUpperCase()}${verb.slice(1)} a periodic test`, what: (f) => `${verb} the periodic test ${f.record}` });
 
+/** A label inside a sentence: "Air leakage test" → "air leakage test", but a name such as "Bowie-Dick test" keeps its capitals. */
+const inSentence = (label: string) => (/^\p{Lu}[^\s]*\p{Lu}/u.test(label) ? label : label.charAt(0).toLowerCase() + label.slice(1));
+
+const withArticle = (words: string) => `${/^[aeiou]/i.test(words) ? "an" : "a"} ${words}`;
+
 /** Every action Papin writes to the ledger, with the words for the action filter and for one event. */
 export const AUDIT_ACTIONS: Record<string, Kind> = {
   "auth.sign-in": { label: "Signed in", what: () => "signed in" },
@@ -130,7 +135,7 @@ export const AUDIT_ACTIONS: Record<string, Kind> = {
   },
   "signature.failed": { label: "Wrong signing password", what: (f) => `entered a wrong password signing ${f.record}` },
   "signature.locked": { label: "Signing locked", what: (f) => `was locked out of signing after wrong passwords (signing ${f.record})` },
-  "periodic-test.record": { label: "Recorded a periodic test", what: (f) => `recorded a ${testKindLabel(str(f.new.kind) ?? "test").toLowerCase()} for ${str(f.new.sterilizer) ?? f.record}` },
+  "periodic-test.record": { label: "Recorded a periodic test", what: (f) => `recorded ${withArticle(inSentence(testKindLabel(str(f.new.kind) ?? "test")))} for ${str(f.new.sterilizer) ?? f.record}` },
   "periodic-test.sign.approved": periodicSigned("approved"),
   "periodic-test.sign.failure-confirmed": periodicSigned("confirmed the failure of"),
   "periodic-test.sign.returned": periodicSigned("returned"),

@@ -85,6 +85,17 @@ describe("an audit event in words", () => {
     for (const c of line.changes) expect(`${c.old} ${c.new}`).not.toMatch(/\[object Object\]|[{}"]/);
   });
 
+  it("keeps the capitals of a test named after people and words a status change's cause", () => {
+    const bowieDick = describeIt(event({ action: "periodic-test.record", entityType: "periodic-test", newValue: JSON.stringify({ kind: "bowie-dick", sterilizer: "Porous load 2" }) }));
+    expect(bowieDick.what).toBe("recorded a Bowie-Dick test for Porous load 2");
+    const leak = describeIt(event({ action: "periodic-test.record", entityType: "periodic-test", newValue: JSON.stringify({ kind: "air-leakage", sterilizer: "Porous load 1" }) }));
+    expect(leak.what).toBe("recorded an air leakage test for Porous load 1");
+    const status = describeIt(
+      event({ action: "sterilizer.status", entityType: "sterilizer", entityId: STERILIZER, newValue: JSON.stringify({ status: "in-use", cause: "periodic-test.sign.approved" }) }),
+    );
+    expect(status.changes).toContainEqual(expect.objectContaining({ field: "Cause", new: "a periodic test approved" }));
+  });
+
   it("says sign-ins, password changes and exports in plain words", () => {
     expect(describeIt(event({ action: "auth.sign-in", entityType: "user", entityId: ENGINEER })).what).toBe("signed in");
     expect(describeIt(event({ action: "user.password-change", entityType: "user", entityId: ENGINEER })).what).toBe("changed their own password");
