@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { Pager } from "@/components/ui/pager";
 import { requirePageActor } from "@/lib/auth/page-guard";
 import { getArchivePage } from "@/lib/services/archive";
 import { EmptyState, PageHeader, Panel } from "@/components/ui/panel";
@@ -93,23 +94,7 @@ export default async function ArchivePage({ searchParams }: { searchParams: Prom
                 </table>
               </TableFrame>
             )}
-            {pages > 1 && (
-              <nav aria-label="Pages" className="mt-3 flex items-center gap-3 text-sm">
-                {page > 1 && (
-                  <Link className="text-steam-700 underline" href={link(page - 1)}>
-                    ← Newer
-                  </Link>
-                )}
-                <span className="text-ink-muted">
-                  Page {page} of {pages}
-                </span>
-                {page < pages && (
-                  <Link className="text-steam-700 underline" href={link(page + 1)}>
-                    Older →
-                  </Link>
-                )}
-              </nav>
-            )}
+            <Pager page={page} pages={pages} href={link} />
           </Panel>
         ) : (
           <Panel title="Archive">

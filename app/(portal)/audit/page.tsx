@@ -1,4 +1,4 @@
-import Link from "next/link";
+import { Pager } from "@/components/ui/pager";
 import { requirePageActor } from "@/lib/auth/page-guard";
 import { getAuditTrail } from "@/lib/services/audit-trail";
 import type { AnchorState as Anchors } from "@/lib/services/audit";
@@ -57,21 +57,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
           </p>
         )}
         {lines.length === 0 ? <EmptyState title="No event matches these filters." /> : <AuditEvents lines={lines} />}
-        <nav aria-label="Pages" className="mt-3 flex flex-wrap items-center gap-3 text-sm">
-          {page > 1 && (
-            <Link className="text-steam-700 underline" href={link(page - 1)}>
-              ← Newer
-            </Link>
-          )}
-          <span className="text-ink-muted">
-            Page {page} of {pages}
-          </span>
-          {page < pages && (
-            <Link className="text-steam-700 underline" href={link(page + 1)}>
-              Older →
-            </Link>
-          )}
-        </nav>
+        <Pager page={page} pages={pages} href={link} />
       </Panel>
     </>
   );

@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { Pager } from "@/components/ui/pager";
 import { requirePageActor } from "@/lib/auth/page-guard";
 import { getPeriodicTestsPage } from "@/lib/services/periodic-tests";
 import { periodicTestFiltersSchema } from "@/lib/validations/periodic-tests";
@@ -254,23 +255,7 @@ export default async function PeriodicTestsPage({ searchParams }: { searchParams
               </table>
             </TableFrame>
           )}
-          {pages > 1 && (
-            <nav className="mt-3 flex items-center gap-3 text-sm" aria-label="Pages">
-              {history.page > 1 && (
-                <Link href={pageHref(history.page - 1)} className="btn-secondary px-2 py-1">
-                  ← Newer
-                </Link>
-              )}
-              <span className="text-ink-muted">
-                Page {history.page} of {pages}
-              </span>
-              {history.page < pages && (
-                <Link href={pageHref(history.page + 1)} className="btn-secondary px-2 py-1">
-                  Older →
-                </Link>
-              )}
-            </nav>
-          )}
+          <Pager page={history.page} pages={pages} href={pageHref} />
         </Panel>
       </div>
     </>
