@@ -28,6 +28,15 @@ import {
   STERILIZER_STATUSES,
   TEST_KINDS,
   VERDICTS,
+  STUDY_KINDS,
+  STUDY_STATUSES,
+  STUDY_SIGNATURE_MEANINGS,
+  INDICATOR_KINDS,
+  INDICATOR_RESULTS,
+  DEVIATION_SOURCES,
+  DEVIATION_STATUSES,
+  type PatternItem,
+  type PatternPosition,
 } from "../lib/domain";
 
 // The enums live in lib/domain; the database layer may keep taking them from here.
@@ -612,6 +621,215 @@ export const idempotencyKeys = sqliteTable(
   (t) => [primaryKey({ columns: [t.userId, t.key] }), index("idempotency_keys_expires_idx").on(t.expiresAt)],
 );
 export type IdempotencyKey = typeof idempotencyKeys.$inferSelect;
+
+// ── Qualification studies (issue 14, migration 0021) ──────────────────────────────────────────────────────────────
+
+/** A loading pattern of one sterilizer: what is loaded where, and the positions probes and indicators take. */
+export const loadingPatterns = sqliteTable(
+  "loading_patterns",
+  {
+    id: id(),
+    siteId: text("site_id")
+      .notNull()
+      .references(() => sites.id),
+    sterilizerId: text("sterilizer_id")
+      .notNull()
+      .references(() => sterilizers.id),
+    name: text("name").notNull(),
+    description: text("description").notNull().default(""),
+    loadType: text("load_type", { enum: LOAD_TYPES }),
+    items: text("items", { mode: "json" }).$type<PatternItem[]>().notNull(),
+    positions: text("positions", { mode: "json" }).$type<PatternPosition[]>().notNull(),
+    // a photo or sketch (attachments, owner kind "loading-pattern"); null: none uploaded
+    photoAttachmentId: text("photo_attachment_id").references(() => attachments.id),
+    // set by an approved study: the date (site calendar, YYYY-MM-DD) its requalification falls due; null: never qualified
+    requalificationDueOn: text("requalification_due_on"),
+    // when true, an overdue requalification takes this load type out of use on the status board (engineer's decision)
+    requiredBeforeUse: integer("required_before_use", { mode: "boolean" }).notNull().default(false),
+    createdBy: text("created_by")
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+    updatedAt: text("updated_at"),
+  },
+  (t) => [index("loading_patterns_sterilizer_idx").on(t.sterilizerId, t.name), index("loading_patterns_site_due_idx").on(t.siteId, t.requalificationDueOn)],
+);
+export type LoadingPattern = typeof loadingPatterns.$inferSelect;
+export type NewLoadingPattern = typeof loadingPatterns.$inferInsert;
+
+export const studies = sqliteTable(
+  "studies",
+  {
+    id: id(),
+    siteId: text("site_id")
+      .notNull()
+      .references(() => sites.id),
+    // "QS-<year>-<nnn>" per site, for people and the report number
+    studyNumber: text("study_number").notNull(),
+    title: text("title").notNull(),
+    sterilizerId: text("sterilizer_id")
+      .notNull()
+      .references(() => sterilizers.id),
+    profileId: text("profile_id")
+      .notNull()
+      .references(() => acceptanceProfiles.id),
+    loadingPatternId: text("loading_pattern_id")
+      .notNull()
+      .references(() => loadingPatterns.id),
+    kind: text("kind", { enum: STUDY_KINDS }).notNull(),
+    runsRequired: integer("runs_required").notNull().default(3),
+    // minimum F0 at every load position, minutes; null: profileMinimumF0 of the profile (lib/domain/studies.ts)
+    minF0Min: real("min_f0_min"),
+    // largest spread between positions during holding, K; null: the profile's maxSpreadK
+    maxSpreadK: real("max_spread_k"),
+    indicatorsRequired: integer("indicators_required", { mode: "boolean" }).notNull().default(true),
+    protocol: text("protocol").notNull().default(""),
+    requalificationMonths: integer("requalification_months").notNull().default(12),
+    status: text("status", { enum: STUDY_STATUSES }).notNull().default("draft"),
+    createdBy: text("created_by")
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+    updatedAt: text("updated_at"),
+  },
+  (t) => [
+    uniqueIndex("studies_site_number_idx").on(t.siteId, t.studyNumber),
+    index("studies_site_status_idx").on(t.siteId, t.status, t.createdAt),
+    index("studies_pattern_idx").on(t.loadingPatternId),
+  ],
+);
+export type Study = typeof studies.$inferSelect;
+export type NewStudy = typeof studies.$inferInsert;
+
+/** A signed cycle attached to a study in order, with the analysis it was judged on and where each channel sat. */
+export const studyRuns = sqliteTable(
+  "study_runs",
+  {
+    id: id(),
+    studyId: text("study_id")
+      .notNull()
+      .references(() => studies.id),
+    cycleId: text("cycle_id")
+      .notNull()
+      .references(() => cycles.id),
+    analysisId: text("analysis_id")
+      .notNull()
+      .references(() => analyses.id),
+    // 1-based order of attachment
+    runNumber: integer("run_number").notNull(),
+    // channel header (exactly as in the file) → pattern position id; channels left out are not load positions
+    sensorMap: text("sensor_map", { mode: "json" }).$type<Record<string, string>>().notNull(),
+    attachedBy: text("attached_by")
+      .notNull()
+      .references(() => users.id),
+    attachedAt: text("attached_at")
+      .notNull()
+      .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`),
+  },
+  (t) => [uniqueIndex("study_runs_study_cycle_idx").on(t.studyId, t.cycleId), uniqueIndex("study_runs_study_number_idx").on(t.studyId, t.runNumber)],
+);
+export type StudyRun = typeof studyRuns.$inferSelect;
+
+// Indicator readings per run and position; a correction adds a row (with its reason), the latest counts. Append-only (triggers).
+export const studyIndicators = sqliteTable(
+  "study_indicators",
+  {
+    id: id(),
+    studyRunId: text("study_run_id")
+      .notNull()
+      .references(() => studyRuns.id),
+    positionId: text("position_id").notNull(),
+    kind: text("kind", { enum: INDICATOR_KINDS }).notNull(),
+    result: text("result", { enum: INDICATOR_RESULTS }).notNull(),
+    // biological: the organism (e.g. Geobacillus stearothermophilus), its population per carrier and incubation
+    organism: text("organism"),
+    lot: text("lot").notNull(),
+    population: real("population"),
+    incubation: text("incubation"),
+    readBy: text("read_by").notNull(),
+    readAt: text("read_at").notNull(),
+    reason: text("reason"),
+    recordedBy: text("recorded_by")
+      .notNull()
+      .references(() => users.id),
+    recordedAt: text("recorded_at")
+      .notNull()
+      .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`),
+  },
+  (t) => [index("study_indicators_run_idx").on(t.studyRunId, t.positionId, t.kind, t.recordedAt)],
+);
+export type StudyIndicator = typeof studyIndicators.$inferSelect;
+
+export const studyDeviations = sqliteTable(
+  "study_deviations",
+  {
+    id: id(),
+    studyId: text("study_id")
+      .notNull()
+      .references(() => studies.id),
+    studyRunId: text("study_run_id").references(() => studyRuns.id),
+    source: text("source", { enum: DEVIATION_SOURCES }).notNull(),
+    // what happened, in a sentence (opened automatically: written by Papin)
+    what: text("what").notNull(),
+    impact: text("impact").notNull().default(""),
+    rootCause: text("root_cause").notNull().default(""),
+    capaReference: text("capa_reference").notNull().default(""),
+    status: text("status", { enum: DEVIATION_STATUSES }).notNull().default("open"),
+    openedBy: text("opened_by").references(() => users.id),
+    openedAt: text("opened_at")
+      .notNull()
+      .default(sql`(strftime('%Y-%m-%dT%H:%M:%fZ', 'now'))`),
+    closedBy: text("closed_by").references(() => users.id),
+    closedAt: text("closed_at"),
+    closeReason: text("close_reason"),
+    updatedAt: text("updated_at"),
+  },
+  (t) => [index("study_deviations_study_idx").on(t.studyId, t.status)],
+);
+export type StudyDeviation = typeof studyDeviations.$inferSelect;
+
+// Electronic signatures on studies, bound to the study's content hash. Append-only (triggers).
+export const studySignatures = sqliteTable(
+  "study_signatures",
+  {
+    id: id(),
+    studyId: text("study_id")
+      .notNull()
+      .references(() => studies.id),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id),
+    printedName: text("printed_name").notNull(),
+    role: text("role", { enum: ROLES }).notNull(),
+    meaning: text("meaning", { enum: STUDY_SIGNATURE_MEANINGS }).notNull(),
+    reason: text("reason"),
+    signedAt: text("signed_at").notNull(),
+    contentHash: text("content_hash").notNull(),
+  },
+  (t) => [index("study_signatures_study_idx").on(t.studyId, t.signedAt)],
+);
+export type StudySignature = typeof studySignatures.$inferSelect;
+
+// The study report archived at approval, kept byte for byte. Append-only (triggers).
+export const studyReports = sqliteTable(
+  "study_reports",
+  {
+    id: id(),
+    studyId: text("study_id")
+      .notNull()
+      .references(() => studies.id),
+    signatureId: text("signature_id")
+      .notNull()
+      .references(() => studySignatures.id),
+    reportNumber: text("report_number").notNull().unique(),
+    sha256: text("sha256").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    bytes: blob("bytes", { mode: "buffer" }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("study_reports_study_idx").on(t.studyId), index("study_reports_sha_idx").on(t.sha256)],
+);
+export type StudyReport = typeof studyReports.$inferSelect;
 
 export const sitesRelations = relations(sites, ({ many }) => ({
   users: many(users),

@@ -24,6 +24,12 @@ export const PERMISSIONS = {
   "mail:read-outbox": ["admin"],
   "account:own-password": ["technician", "engineer", "auditor", "admin"],
   "api-token:manage": ["engineer", "admin"],
+  // Qualification studies (issue 14): roles as for cycles. Engineers plan and sign; technicians attach runs and record indicators.
+  "study:read": ["technician", "engineer", "auditor"],
+  "study:plan": ["engineer"],
+  "study:run": ["technician", "engineer"],
+  "study:sign": ["engineer"],
+  "deviation:close": ["engineer"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

@@ -16,3 +16,4 @@ export * from "./api-tokens";
 export * from "./air-leakage";
 export * from "./words";
 export * from "./sensor-positions";
+export * from "./studies";

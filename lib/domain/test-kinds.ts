@@ -82,5 +82,5 @@ export const INDICATOR_SHEET_RESULT_LABELS: Record<IndicatorSheetResult, string>
 };
 
 /** Where an attachment (a photo of an indicator sheet) belongs. */
-export const ATTACHMENT_OWNER_KINDS = ["cycle", "periodic-test"] as const;
+export const ATTACHMENT_OWNER_KINDS = ["cycle", "periodic-test", "loading-pattern"] as const;
 export type AttachmentOwnerKind = (typeof ATTACHMENT_OWNER_KINDS)[number];
