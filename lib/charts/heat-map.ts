@@ -106,3 +106,13 @@ export function temperatureBand(minTempC: number | null, scale: TemperatureScale
   if (minTempC < ts + (2 * bandK) / 3 - TEMP_EDGE_K) return bands[2];
   return bands[3];
 }
+
+/**
+ * A cell's value as printed, page and report alike: F0 with two decimals below 100 min (so 14.96 does not print as a
+ * passing 15.0), one above; temperatures with two decimals, like the record's.
+ */
+export function heatValueText(value: number | null, metric: "f0" | "minTemp"): string {
+  if (value === null || !Number.isFinite(value)) return "—";
+  if (metric === "minTemp") return value.toFixed(2);
+  return value.toFixed(value < 100 ? 2 : 1);
+}

@@ -1,7 +1,7 @@
 // The heat map's colour scales (issue 14 §3): bands around the study's minimum F0 and within the sterilization band,
 // below-criterion cells unmistakable without colour, every text colour readable (WCAG 2.1 AA, 4.5:1 for normal text).
 import { describe, expect, it } from "vitest";
-import { HEAT_MARKER_SYMBOLS, NO_READING_BAND, contrastRatio, f0Band, f0Bands, relativeLuminance, temperatureBand, temperatureBands, textColourOn } from "@/lib/charts/heat-map";
+import { HEAT_MARKER_SYMBOLS, NO_READING_BAND, contrastRatio, f0Band, f0Bands, heatValueText, relativeLuminance, temperatureBand, temperatureBands, textColourOn } from "@/lib/charts/heat-map";
 
 const SCALE_121 = { sterilizationTempC: 121, bandK: 3 };
 
@@ -94,5 +94,14 @@ describe("the minimum-temperature scale", () => {
       "123 °C to 124 °C",
       "above the band's top (over 124 °C)",
     ]);
+  });
+});
+
+describe("the printed value", () => {
+  it("keeps two decimals of F0 below 100 min, so a value just under the minimum never prints as the minimum", () => {
+    expect(heatValueText(14.96, "f0")).toBe("14.96");
+    expect(heatValueText(152.34, "f0")).toBe("152.3");
+    expect(heatValueText(121.104, "minTemp")).toBe("121.10");
+    expect(heatValueText(null, "f0")).toBe("—");
   });
 });
