@@ -4,7 +4,7 @@ import { useState, type CSSProperties } from "react";
 import { DEFAULT_LIMITS } from "@/lib/analysis/types";
 import { heatMapGrid, type HeatMapMetric } from "@/lib/analysis/study-heat-map";
 import type { StudyCriteria, StudySummary } from "@/lib/analysis/study-types";
-import { HEAT_HATCH, HEAT_MARKER_SYMBOLS, NO_READING_BAND, f0Band, f0Bands, heatValueText, temperatureBand, temperatureBands, type HeatBand } from "@/lib/charts/heat-map";
+import { HEAT_HATCH, HEAT_MARKER_SYMBOLS, NO_READING_BAND, f0Band, f0Bands, hatchStroke, heatValueText, temperatureBand, temperatureBands, type HeatBand } from "@/lib/charts/heat-map";
 import { TableFrame } from "@/components/ui/table-frame";
 
 const METRICS: Array<{ id: HeatMapMetric; label: string; caption: string }> = [
@@ -17,7 +17,7 @@ const JUDGEMENT_WORDS = { pass: "passed", fail: "failed", pending: "pending" } a
 function cellStyle(band: HeatBand): CSSProperties {
   const style: CSSProperties = { backgroundColor: band.fill, color: band.text };
   if (band.marker) {
-    const stripe = `rgba(255, 255, 255, ${HEAT_HATCH.opacity})`;
+    const stripe = hatchStroke(band) === "#000000" ? `rgba(0, 0, 0, ${HEAT_HATCH.opacity})` : `rgba(255, 255, 255, ${HEAT_HATCH.opacity})`;
     const half = HEAT_HATCH.spacingPx / 2;
     style.backgroundImage = `repeating-linear-gradient(${HEAT_HATCH.angleDeg}deg, ${stripe} 0 ${half}px, transparent ${half}px ${HEAT_HATCH.spacingPx}px)`;
   }
@@ -36,8 +36,19 @@ function Swatch({ band }: { band: HeatBand }) {
  * Positions × runs of a qualification study, coloured by F0 or by the minimum temperature during holding. The grid is a
  * real table: every value is printed, the markers have words for a screen reader, so the colours only add emphasis.
  */
-export function StudyHeatMap({ summary, criteria, bandK = DEFAULT_LIMITS.bandK }: { summary: StudySummary; criteria: StudyCriteria; bandK?: number }) {
-  const [metric, setMetric] = useState<HeatMapMetric>("f0");
+export function StudyHeatMap({
+  summary,
+  criteria,
+  bandK = DEFAULT_LIMITS.bandK,
+  initialMetric = "f0",
+}: {
+  summary: StudySummary;
+  criteria: StudyCriteria;
+  /** the band above Ts, K, for the temperature scale (EN 285: 3 K) */
+  bandK?: number;
+  initialMetric?: HeatMapMetric;
+}) {
+  const [metric, setMetric] = useState<HeatMapMetric>(initialMetric);
   const grid = heatMapGrid(summary, metric);
   const scale = { sterilizationTempC: criteria.sterilizationTempC, bandK };
   const bandOf = (value: number | null) => (metric === "f0" ? f0Band(value, criteria.minF0Min) : temperatureBand(value, scale));

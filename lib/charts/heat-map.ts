@@ -21,8 +21,8 @@ export type HeatBand = {
 
 /** The symbol printed beside a marked cell's value. */
 export const HEAT_MARKER_SYMBOLS: Record<HeatMarker, string> = { below: "▼", above: "▲" };
-/** The hatch over marked cells: light stripes, which only raise the contrast of the dark text on them. */
-export const HEAT_HATCH = { stroke: "#ffffff", opacity: 0.35, angleDeg: 45, spacingPx: 6 } as const;
+/** The hatch over marked cells: stripes of the colour opposite the text, so they only raise the text's contrast. */
+export const HEAT_HATCH = { opacity: 0.35, angleDeg: 45, spacingPx: 6 } as const;
 
 const INK = "#111111";
 const PAPER = "#ffffff";
@@ -52,6 +52,8 @@ export function contrastRatio(a: string, b: string): number {
   const [hi, lo] = [relativeLuminance(a), relativeLuminance(b)].sort((x, y) => y - x);
   return (hi + 0.05) / (lo + 0.05);
 }
+
+export const hatchStroke = (band: HeatBand): string => (band.text === PAPER ? "#000000" : PAPER);
 
 export const textColourOn = (fill: string): string => (contrastRatio(fill, INK) >= contrastRatio(fill, PAPER) ? INK : PAPER);
 

@@ -1,7 +1,19 @@
 // The heat map's colour scales (issue 14 §3): bands around the study's minimum F0 and within the sterilization band,
 // below-criterion cells unmistakable without colour, every text colour readable (WCAG 2.1 AA, 4.5:1 for normal text).
 import { describe, expect, it } from "vitest";
-import { HEAT_MARKER_SYMBOLS, NO_READING_BAND, contrastRatio, f0Band, f0Bands, heatValueText, relativeLuminance, temperatureBand, temperatureBands, textColourOn } from "@/lib/charts/heat-map";
+import {
+  HEAT_MARKER_SYMBOLS,
+  NO_READING_BAND,
+  contrastRatio,
+  f0Band,
+  f0Bands,
+  hatchStroke,
+  heatValueText,
+  relativeLuminance,
+  temperatureBand,
+  temperatureBands,
+  textColourOn,
+} from "@/lib/charts/heat-map";
 
 const SCALE_121 = { sterilizationTempC: 121, bandK: 3 };
 
@@ -103,5 +115,14 @@ describe("the printed value", () => {
     expect(heatValueText(152.34, "f0")).toBe("152.3");
     expect(heatValueText(121.104, "minTemp")).toBe("121.10");
     expect(heatValueText(null, "f0")).toBe("—");
+  });
+});
+
+describe("the hatch", () => {
+  it("is drawn in the colour opposite the text, so it never lowers the text's contrast", () => {
+    const below = f0Band(1, 15);
+    const above = temperatureBand(130, SCALE_121);
+    expect([below.text, hatchStroke(below)]).toEqual(["#111111", "#ffffff"]);
+    expect([above.text, hatchStroke(above)]).toEqual(["#ffffff", "#000000"]);
   });
 });
