@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, count, desc, eq, gte, inArray, lte, ne, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { getDb, type Executor } from "@/db";
-import { containsText, cycleIdsContaining, cycleRowMatches, isIndexedSearch, searchMatchesUpTo } from "./search";
+import { containsText, cycleIdsContaining, cycleRowMatchesText, isIndexedSearch, searchMatchesUpTo } from "./search";
 import {
   acceptanceProfiles,
   analyses,
@@ -67,12 +67,12 @@ function cycleListWhere(actor: Actor, filter: CycleFilter, { bySterilizer = fals
 /**
  * Number, load description or sterilizer name contains the text as typed: from the trigram index for three characters
  * or more; a shorter text is compared row by row (LIKE), in the page's index order, which stops when the page is full.
- * A `broad` text (one matching most cycles) is tested row by row against the matches in the page's index order too,
- * instead of fetching and sorting every match; both forms select the same rows.
+ * A `broad` text (one matching most cycles) is tested row by row in the page's index order too (LIKE on the row's own
+ * columns, the index only where LIKE cannot decide), instead of fetching and sorting every match; all select the same rows.
  */
 function cycleTextCondition(text: string, broad: boolean): SQL | undefined {
-  if (isIndexedSearch(text)) return broad ? cycleRowMatches(cycles.id, text) : sql`${cycles.id} IN ${cycleIdsContaining(text)}`;
-  return or(containsText(cycles.cycleNumber, text), containsText(cycles.loadDescription, text), containsText(sterilizers.name, text));
+  if (!isIndexedSearch(text)) return or(containsText(cycles.cycleNumber, text), containsText(cycles.loadDescription, text), containsText(sterilizers.name, text));
+  return broad ? cycleRowMatchesText(cycles.id, [cycles.cycleNumber, cycles.loadDescription, sterilizers.name], text) : sql`${cycles.id} IN ${cycleIdsContaining(text)}`;
 }
 
 /** From this many trigram matches on (every site's), a search is read in the page's index order (cycleTextCondition). */
