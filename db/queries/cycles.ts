@@ -78,11 +78,16 @@ function cycleTextCondition(text: string, broad: boolean): SQL | undefined {
 /** From this many trigram matches on (every site's), a search is read in the page's index order (cycleTextCondition). */
 export const BROAD_SEARCH_MATCHES = 5000;
 
+/** How many cycles (of every site) the trigram index finds for `text`, counted no further than `cap`. */
+export async function countSearchMatchesUpTo(text: string, cap: number): Promise<number> {
+  const row = await getDb().get<{ matches: number }>(sql`select ${searchMatchesUpTo(text, cap)} as matches`);
+  return Number(row?.matches ?? 0);
+}
+
 /** Whether the filter's text is broad: counted in the trigram index up to `broadAt` matches, so never all of them. */
 async function isBroadSearch(filter: CycleFilter, broadAt: number): Promise<boolean> {
   if (!filter.q || !isIndexedSearch(filter.q)) return false;
-  const row = await getDb().get<{ matches: number }>(sql`select ${searchMatchesUpTo(filter.q, broadAt)} as matches`);
-  return Number(row?.matches ?? 0) >= broadAt;
+  return (await countSearchMatchesUpTo(filter.q, broadAt)) >= broadAt;
 }
 
 /**
@@ -108,6 +113,7 @@ export async function listCycles({
   page,
   pageSize,
   sort,
+  broad,
   broadSearchAt = BROAD_SEARCH_MATCHES,
 }: {
   actor: Actor;
@@ -115,10 +121,12 @@ export async function listCycles({
   page: number;
   pageSize: number;
   sort: { key: CycleSortKey; direction: "asc" | "desc" };
+  /** whether the text is broad, when the caller already knows (else looked up here) */
+  broad?: boolean;
   /** tests only: from how many matches a search counts as broad */
   broadSearchAt?: number;
 }) {
-  const broadSearch = await isBroadSearch(filter, broadSearchAt);
+  const broadSearch = broad ?? (await isBroadSearch(filter, broadSearchAt));
   return getDb()
     .select({
       id: cycles.id,
@@ -146,8 +154,8 @@ export async function listCycles({
 }
 
 /** How many of the actor's site's cycles match the filter. */
-export async function countCycles({ actor, filter, broadSearchAt = BROAD_SEARCH_MATCHES }: { actor: Actor; filter: CycleFilter; broadSearchAt?: number }): Promise<number> {
-  const broadSearch = await isBroadSearch(filter, broadSearchAt);
+export async function countCycles({ actor, filter, broad, broadSearchAt = BROAD_SEARCH_MATCHES }: { actor: Actor; filter: CycleFilter; broad?: boolean; broadSearchAt?: number }): Promise<number> {
+  const broadSearch = broad ?? (await isBroadSearch(filter, broadSearchAt));
   const [{ total }] = await getDb()
     .select({ total: count() })
     .from(cycles)

@@ -73,4 +73,13 @@ describe("totals of the audit ledger and the archive", () => {
     await recordAuditEvent({ action: "cycle.sign.approved", entityType: "cycle", entityId: "c1", siteId: "site-1" });
     expect(await trail(1)).toBe(first);
   });
+
+  it("looks a search text up in the trigram index once, not on every page", async () => {
+    const { listCycles } = await import("@/lib/services/cycles");
+    const engineer = { ...auditor, role: "engineer" as const };
+    const search = (page: number) => countsSent(() => listCycles({ actor: engineer, query: { q: "Autoclave", page } }));
+    // The first page counts the matches in the index (to tell a broad text) and the cycles; the next counts nothing.
+    expect(await search(1)).toBe(2);
+    expect(await search(2)).toBe(0);
+  });
 });
