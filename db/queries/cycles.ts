@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, count, desc, eq, gte, inArray, lte, ne, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { getDb, type Executor } from "@/db";
-import { containsText, cycleIdsContaining, cycleRowMatches, isIndexedSearch, searchMatchesUpTo } from "./search";
+import { containsText, cycleIdsContaining, cycleRowMatchesText, isIndexedSearch, searchMatchesUpTo } from "./search";
 import {
   acceptanceProfiles,
   analyses,
@@ -67,22 +67,27 @@ function cycleListWhere(actor: Actor, filter: CycleFilter, { bySterilizer = fals
 /**
  * Number, load description or sterilizer name contains the text as typed: from the trigram index for three characters
  * or more; a shorter text is compared row by row (LIKE), in the page's index order, which stops when the page is full.
- * A `broad` text (one matching most cycles) is tested row by row against the matches in the page's index order too,
- * instead of fetching and sorting every match; both forms select the same rows.
+ * A `broad` text (one matching most cycles) is tested row by row in the page's index order too (LIKE on the row's own
+ * columns, the index only where LIKE cannot decide), instead of fetching and sorting every match; all select the same rows.
  */
 function cycleTextCondition(text: string, broad: boolean): SQL | undefined {
-  if (isIndexedSearch(text)) return broad ? cycleRowMatches(cycles.id, text) : sql`${cycles.id} IN ${cycleIdsContaining(text)}`;
-  return or(containsText(cycles.cycleNumber, text), containsText(cycles.loadDescription, text), containsText(sterilizers.name, text));
+  if (!isIndexedSearch(text)) return or(containsText(cycles.cycleNumber, text), containsText(cycles.loadDescription, text), containsText(sterilizers.name, text));
+  return broad ? cycleRowMatchesText(cycles.id, [cycles.cycleNumber, cycles.loadDescription, sterilizers.name], text) : sql`${cycles.id} IN ${cycleIdsContaining(text)}`;
 }
 
 /** From this many trigram matches on (every site's), a search is read in the page's index order (cycleTextCondition). */
 export const BROAD_SEARCH_MATCHES = 5000;
 
+/** How many cycles (of every site) the trigram index finds for `text`, counted no further than `cap`. */
+export async function countSearchMatchesUpTo(text: string, cap: number): Promise<number> {
+  const row = await getDb().get<{ matches: number }>(sql`select ${searchMatchesUpTo(text, cap)} as matches`);
+  return Number(row?.matches ?? 0);
+}
+
 /** Whether the filter's text is broad: counted in the trigram index up to `broadAt` matches, so never all of them. */
 async function isBroadSearch(filter: CycleFilter, broadAt: number): Promise<boolean> {
   if (!filter.q || !isIndexedSearch(filter.q)) return false;
-  const row = await getDb().get<{ matches: number }>(sql`select ${searchMatchesUpTo(filter.q, broadAt)} as matches`);
-  return Number(row?.matches ?? 0) >= broadAt;
+  return (await countSearchMatchesUpTo(filter.q, broadAt)) >= broadAt;
 }
 
 /**
@@ -108,6 +113,7 @@ export async function listCycles({
   page,
   pageSize,
   sort,
+  broad,
   broadSearchAt = BROAD_SEARCH_MATCHES,
 }: {
   actor: Actor;
@@ -115,10 +121,12 @@ export async function listCycles({
   page: number;
   pageSize: number;
   sort: { key: CycleSortKey; direction: "asc" | "desc" };
+  /** whether the text is broad, when the caller already knows (else looked up here) */
+  broad?: boolean;
   /** tests only: from how many matches a search counts as broad */
   broadSearchAt?: number;
 }) {
-  const broadSearch = await isBroadSearch(filter, broadSearchAt);
+  const broadSearch = broad ?? (await isBroadSearch(filter, broadSearchAt));
   return getDb()
     .select({
       id: cycles.id,
@@ -146,8 +154,8 @@ export async function listCycles({
 }
 
 /** How many of the actor's site's cycles match the filter. */
-export async function countCycles({ actor, filter, broadSearchAt = BROAD_SEARCH_MATCHES }: { actor: Actor; filter: CycleFilter; broadSearchAt?: number }): Promise<number> {
-  const broadSearch = await isBroadSearch(filter, broadSearchAt);
+export async function countCycles({ actor, filter, broad, broadSearchAt = BROAD_SEARCH_MATCHES }: { actor: Actor; filter: CycleFilter; broad?: boolean; broadSearchAt?: number }): Promise<number> {
+  const broadSearch = broad ?? (await isBroadSearch(filter, broadSearchAt));
   const [{ total }] = await getDb()
     .select({ total: count() })
     .from(cycles)

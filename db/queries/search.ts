@@ -34,11 +34,32 @@ export function cycleIdsContaining(text: string): SQL {
 
 /**
  * The same test as `cycleId IN cycleIdsContaining(text)`, written so that SQLite cannot start from the matches: it
- * walks the page's own index and checks each row against the matches (one lookup each). For a text that matches
- * most cycles, where fetching and sorting every match costs seconds at 100,000 cycles.
+ * walks the page's own index and checks each row (one trigram lookup each). For a text that matches most cycles,
+ * where fetching and sorting every match costs seconds at 100,000 cycles.
  */
 export function cycleRowMatches(cycleId: SQLWrapper, text: string): SQL {
-  return sql`(SELECT k.row FROM cycle_search_rows k WHERE k.cycle_id = ${cycleId}) IN ${searchRowsMatching(text)}`;
+  return sql`EXISTS (SELECT 1 FROM cycles_search WHERE cycles_search MATCH ${phraseOf(text)} AND rowid = (SELECT k.row FROM cycle_search_rows k WHERE k.cycle_id = ${cycleId}))`;
+}
+
+const PRINTABLE_ASCII = /^[\x20-\x7e]*$/;
+
+/**
+ * `cycleRowMatches` made cheap per row for a printable-ASCII text: the row's own columns (what the index holds) are
+ * compared with LIKE first. For such a text and a row of printable ASCII, LIKE's ASCII case folding and the trigram
+ * index's folding agree, so LIKE decides; only a row with other characters (an accent, "°") that LIKE does not match
+ * is looked up in the index, where an accent or a non-ASCII case may still match. Both forms select the same rows.
+ */
+export function cycleRowMatchesText(cycleId: SQLWrapper, columns: SQLWrapper[], text: string): SQL {
+  if (!PRINTABLE_ASCII.test(text)) return cycleRowMatches(cycleId, text);
+  const anyLike = sql.join(
+    columns.map((c) => containsText(c, text)),
+    sql` OR `,
+  );
+  const joined = sql.join(
+    columns.map((c) => sql`coalesce(${c}, '')`),
+    sql` || `,
+  );
+  return sql`(${anyLike} OR (${joined} GLOB '*[^ -~]*' AND ${cycleRowMatches(cycleId, text)}))`;
 }
 
 /** How many FTS rows contain `text`, counted no further than `cap` (the trigram lookup stops there). */

@@ -7,6 +7,7 @@ import { sessionSecret } from "./secret";
 import { env, secureCookies, trustRequestHostUnlessUrlPinned } from "@/lib/env";
 import { sameOriginRedirect } from "./callback-url";
 import { continueSessionToken, startSessionToken, type SessionLimits } from "./session-policy";
+import { decodeSessionToken } from "./session-token";
 
 trustRequestHostUnlessUrlPinned();
 
@@ -28,6 +29,7 @@ export function authOptions(): NextAuthOptions {
     secret: sessionSecret(),
     // The cookie lives no longer than the absolute lifetime; the jwt callback enforces both limits itself.
     session: { strategy: "jwt", maxAge: Math.ceil(sessionLimits().maxMs / 1000) },
+    jwt: { decode: decodeSessionToken },
     useSecureCookies: secureCookies(),
     pages: { signIn: "/sign-in", error: "/sign-in" },
     providers: [

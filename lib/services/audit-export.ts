@@ -1,5 +1,5 @@
 import "server-only";
-import { findAuditExtractEvent, getLedgerHead, listAuditTrailBatch, recordAuditEvent, type AuditTrailFilter } from "@/db/queries/audit";
+import { findAuditExtractEvent, getLedgerHead, listAuditTrailBatch, recordAuditEvent, type AuditEventFilter } from "@/db/queries/audit";
 import { auditEventHash } from "@/db/ledger";
 import type { AuditEvent } from "@/db/schema";
 import { csvRow } from "@/lib/csv-export";
@@ -26,7 +26,7 @@ async function limitedTrail(actor: Actor, query: AuditTrailQuery, limit: number,
   const resolved = await resolveTrailFilter(actor, query);
   // Exactly the events up to the head read now, even while the ledger grows during the export.
   const head = await getLedgerHead();
-  const filter: AuditTrailFilter = { ...resolved.filter, maxSeq: head.lastSeq };
+  const filter: AuditEventFilter = { ...resolved.filter, maxSeq: head.lastSeq };
   const events = await countTrail({ ...resolved, filter });
   if (events > limit) {
     throw new AppError(

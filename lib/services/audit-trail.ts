@@ -1,6 +1,6 @@
 import "server-only";
 import { z } from "zod";
-import { countAuditTrail, findCycleIdByNumber, listAuditNames, listAuditTrailPage, type AuditNameRow, type AuditTrailFilter } from "@/db/queries/audit";
+import { countAuditEvents, findCycleIdByNumber, listAuditEventsOfSite, listAuditNames, type AuditEventFilter, type AuditNameRow } from "@/db/queries/audit";
 import { listUsersOfSite } from "@/db/queries/users";
 import type { AuditEvent } from "@/db/schema";
 import { AppError } from "@/lib/errors";
@@ -10,6 +10,7 @@ import { isRecordId } from "@/lib/domain/audit-fields";
 import { assertAllowed, type Actor } from "./access";
 import { getSiteContext, siteIdOf } from "./site";
 import { verifyLedger } from "./audit";
+import { cachedTotal } from "./list-totals";
 
 const SITE_DATE = /^\d{4}-\d{2}-\d{2}$/;
 
@@ -23,7 +24,7 @@ export const auditTrailQuerySchema = z.object({
 });
 export type AuditTrailQuery = z.infer<typeof auditTrailQuerySchema>;
 
-export type ResolvedTrailFilter = { siteId: string; timeZone: string; filter: AuditTrailFilter; words: string[] };
+export type ResolvedTrailFilter = { siteId: string; timeZone: string; filter: AuditEventFilter; words: string[] };
 
 function siteDateInstant(date: string, timeZone: string, field: "from" | "to"): string {
   const instant = SITE_DATE.test(date) ? localDateTimeToInstant(`${date}T00:00:00`, timeZone) : null;
@@ -42,7 +43,7 @@ export async function resolveTrailFilter(actor: Actor, query: AuditTrailQuery): 
   assertAllowed(actor, "audit:read", "read the audit trail");
   const siteId = siteIdOf(actor, "audit trail");
   const { timeZone } = await getSiteContext({ actor });
-  const filter: AuditTrailFilter = {};
+  const filter: AuditEventFilter = {};
   const words: string[] = [];
   if (query.person) {
     const person = (await listUsersOfSite({ siteId })).find((u) => u.id === query.person);
@@ -106,6 +107,12 @@ export async function describeEvents({ siteId, timeZone, events }: { siteId: str
 
 export const AUDIT_PAGE_SIZE = 50;
 
+/** One page of the trail; its total is counted once per filter and reused until the ledger gains an event (cachedTotal). */
+function listTrailPage({ siteId, filter }: ResolvedTrailFilter, page: number) {
+  const totalOf = (count: () => Promise<number>) => cachedTotal({ list: "audit", siteId, filter, count });
+  return listAuditEventsOfSite({ siteId, filter, page, pageSize: AUDIT_PAGE_SIZE, totalOf });
+}
+
 /** The ledger page: the chain's state, one page of the site's trail in words, and the filter's choices. */
 export async function getAuditTrail({ actor, query, page }: { actor: Actor; query: AuditTrailQuery; page: number }) {
   // A filter that cannot be read shows its problem and no events, never the unfiltered trail.
@@ -115,11 +122,7 @@ export async function getAuditTrail({ actor, query, page }: { actor: Actor; quer
     problem = error.message;
     return resolveTrailFilter(actor, {});
   });
-  const [chain, listed, siteUsers] = await Promise.all([
-    verifyLedger(),
-    problem ? { items: [], total: 0 } : listAuditTrailPage({ siteId: resolved.siteId, filter: resolved.filter, page, pageSize: AUDIT_PAGE_SIZE }),
-    listUsersOfSite({ siteId: resolved.siteId }),
-  ]);
+  const [chain, listed, siteUsers] = await Promise.all([verifyLedger(), problem ? { items: [], total: 0 } : listTrailPage(resolved, page), listUsersOfSite({ siteId: resolved.siteId })]);
   const lines = await describeEvents({ siteId: resolved.siteId, timeZone: resolved.timeZone, events: listed.items });
   const actions = query.action && !AUDIT_ACTIONS[query.action] ? [...AUDIT_ACTION_CHOICES, { value: query.action, label: auditActionLabel(query.action) }] : AUDIT_ACTION_CHOICES;
   return {
@@ -136,5 +139,5 @@ export async function getAuditTrail({ actor, query, page }: { actor: Actor; quer
 
 /** How many events the filter matches (the exports refuse more than their limit before they start). */
 export async function countTrail(resolved: ResolvedTrailFilter): Promise<number> {
-  return countAuditTrail({ siteId: resolved.siteId, filter: resolved.filter });
+  return countAuditEvents({ siteId: resolved.siteId, filter: resolved.filter });
 }

@@ -1,6 +1,6 @@
 import "server-only";
 import type { Actor } from "@/db/queries/users";
-import { getLedgerHead, listAuditEventsAfter, listAuditEventsOfSite, type AuditFilter } from "@/db/queries/audit";
+import { getLedgerHead, listAuditEventsAfter, listAuditEventsOfSite, type AuditEventFilter } from "@/db/queries/audit";
 import { auditEventHash } from "@/db/ledger";
 import { GENESIS_HASH } from "@/lib/integrity";
 import { anchorComparison, type LedgerAnchor, type LedgerHead } from "@/lib/integrity/anchors";
@@ -84,11 +84,15 @@ export async function verifyLedger(): Promise<LedgerVerification> {
   return { ok: false, events: chain.events, firstBrokenAt: disagreement?.seq, problem: anchors.problem, head, anchors };
 }
 
-/** The actor's site's events, newest first, filtered. */
+/** The ledger's list as scripts ask for it: `actor` is part of an e-mail address, `from`/`to` instants (both inclusive). */
+export type AuditFilter = { action?: string; entityType?: string; entityId?: string; actor?: string; from?: string; to?: string; page?: number; pageSize?: number };
+
+/** The actor's site's events, newest first, filtered; the total is counted once per filter (cachedTotal). */
 export async function listAuditEvents({ actor, filter }: { actor: Actor; filter: AuditFilter }) {
   const siteId = siteIdOf(actor, "audit ledger");
-  const { page: _page, pageSize: _pageSize, ...counted } = filter;
-  return listAuditEventsOfSite({ siteId, filter, totalOf: (count) => cachedTotal({ list: "audit", siteId, filter: counted, count }) });
+  const { page, pageSize, actor: actorEmailContains, from: fromIso, to: toIso, action, entityType, entityId } = filter;
+  const events: AuditEventFilter = { action, entityType, entityId, actorEmailContains, fromIso, toIso };
+  return listAuditEventsOfSite({ siteId, filter: events, page, pageSize, totalOf: (count) => cachedTotal({ list: "audit", siteId, filter: events, count }) });
 }
 
 /** The ledger page: the chain's state against its anchors and one page of the site's events. */

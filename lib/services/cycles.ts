@@ -1,6 +1,7 @@
 import "server-only";
-import { countCycles, getCycleRecordRows, getCycleRow, listCycles as listCycleRows, type CycleFilter, type CycleSortKey } from "@/db/queries/cycles";
+import { BROAD_SEARCH_MATCHES, countCycles, countSearchMatchesUpTo, getCycleRecordRows, getCycleRow, listCycles as listCycleRows, type CycleFilter, type CycleSortKey } from "@/db/queries/cycles";
 import { listAuditEventsForEntity, recordAuditEvent } from "@/db/queries/audit";
+import { isIndexedSearch } from "@/db/queries/search";
 import { listInstrumentsForSite, listProfilesForSite, listSterilizersForSite } from "@/db/queries/catalog";
 import { listContributions } from "@/db/queries/reviews";
 import { listCertificatesOfInstrument } from "@/db/queries/instruments";
@@ -30,9 +31,10 @@ export async function listCycles({ actor, query }: { actor: Actor; query: CycleL
   const page = Math.max(Math.trunc(rawPage ?? 1), 1);
   const [sortKey, sortDir] = (rawSort ?? "startedAt:desc").split(":");
   const key: CycleSortKey = (["startedAt", "createdAt", "cycleNumber", "status", "verdict", "sterilizer", "submittedAt"] as const).find((k) => k === sortKey) ?? "startedAt";
+  const broad = await isBroadSearch(filter.q);
   const [rows, total] = await Promise.all([
-    listCycleRows({ actor, filter, page, pageSize, sort: { key, direction: sortDir === "asc" ? "asc" : "desc" } }),
-    cachedTotal({ list: "cycles", siteId: actor.siteId ?? "", filter, count: () => countCycles({ actor, filter }) }),
+    listCycleRows({ actor, filter, page, pageSize, sort: { key, direction: sortDir === "asc" ? "asc" : "desc" }, broad }),
+    cachedTotal({ list: "cycles", siteId: actor.siteId ?? "", filter, count: () => countCycles({ actor, filter, broad }) }),
   ]);
   const items: CycleListItem[] = rows.map((r) => ({
     id: r.id,
@@ -48,6 +50,16 @@ export async function listCycles({ actor, query }: { actor: Actor; query: CycleL
     createdByName: r.createdByName,
   }));
   return { items, total, page, pageSize };
+}
+
+/**
+ * Whether a search text matches so many cycles that its pages are read row by row (db/queries/cycles.ts): the trigram
+ * index is counted (up to BROAD_SEARCH_MATCHES, every site's) once per text while the ledger does not move on, not per page.
+ */
+async function isBroadSearch(text: string | undefined): Promise<boolean> {
+  if (!text || !isIndexedSearch(text)) return false;
+  const matches = await cachedTotal({ list: "search-matches", siteId: "", filter: { text }, count: () => countSearchMatchesUpTo(text, BROAD_SEARCH_MATCHES) });
+  return matches >= BROAD_SEARCH_MATCHES;
 }
 
 /** One cycle of the actor's site as GET /api/cycles/{id} sends it; undefined when not there. */

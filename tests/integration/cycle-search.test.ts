@@ -79,7 +79,9 @@ describe("cycle search", () => {
       { key: "sterilizer", direction: "asc" },
       { key: "cycleNumber", direction: "asc" },
     ] as const;
-    for (const q of ["autoclave", "2024", "wrapped", "ench un", "no such text"]) {
+    // "sterile" is ASCII and finds "Stérile" only through the index (LIKE does not fold the accent); "STÉRILE" is not
+    // ASCII; "50%", "pack_7" and "pack%7" keep their characters literal on the row-by-row path too.
+    for (const q of ["autoclave", "2024", "wrapped", "ench un", "no such text", "sterile", "STÉRILE", "50%", "pack_7", "pack%7"]) {
       for (const sort of sorts) {
         const page = (broadSearchAt?: number) => listCycles({ actor: north, filter: { q }, page: 1, pageSize: 2, sort, broadSearchAt });
         // broadSearchAt 0: every indexed search counts as broad, so the other path reads the same page.
@@ -87,7 +89,11 @@ describe("cycle search", () => {
       }
       expect(await countCycles({ actor: north, filter: { q }, broadSearchAt: 0 })).toBe(await countCycles({ actor: north, filter: { q } }));
     }
-    expect((await listCycles({ actor: north, filter: { q: "2024" }, page: 1, pageSize: 50, sort: sorts[0], broadSearchAt: 0 })).map((r) => r.id)).toEqual(["c2", "c1"]);
+    const broadly = async (q: string) => (await listCycles({ actor: north, filter: { q }, page: 1, pageSize: 50, sort: sorts[0], broadSearchAt: 0 })).map((r) => r.id);
+    expect(await broadly("2024")).toEqual(["c2", "c1"]);
+    expect(await broadly("sterile")).toEqual(["c2"]);
+    expect(await broadly("STÉRILE")).toEqual(["c2"]);
+    expect(await broadly("pack%7")).toEqual([]);
   });
 
   it("follows a renamed sterilizer, a corrected cycle, a moved cycle and a deleted one", async () => {

@@ -61,4 +61,25 @@ describe("totals of the audit ledger and the archive", () => {
     expect(await audit({ action: "cycle.create", page: 2 })).toBe(1);
     expect(await archive({ q: "BD-1", page: 1 })).toBe(1);
   });
+
+  it("counts the audit trail page's total once per filter as well, not on every page", async () => {
+    const { getAuditTrail } = await import("@/lib/services/audit-trail");
+    const { recordAuditEvent } = await import("@/db/queries/audit");
+    const trail = (page: number) => countsSent(() => getAuditTrail({ actor: auditor, query: { action: "cycle.sign.approved" }, page }));
+    const first = await trail(1);
+    // The chain check may count too; what the cache saves is the total's own COUNT, one per filter.
+    expect(await trail(2)).toBe(first - 1);
+    expect(await trail(1)).toBe(first - 1);
+    await recordAuditEvent({ action: "cycle.sign.approved", entityType: "cycle", entityId: "c1", siteId: "site-1" });
+    expect(await trail(1)).toBe(first);
+  });
+
+  it("looks a search text up in the trigram index once, not on every page", async () => {
+    const { listCycles } = await import("@/lib/services/cycles");
+    const engineer = { ...auditor, role: "engineer" as const };
+    const search = (page: number) => countsSent(() => listCycles({ actor: engineer, query: { q: "Autoclave", page } }));
+    // The first page counts the matches in the index (to tell a broad text) and the cycles; the next counts nothing.
+    expect(await search(1)).toBe(2);
+    expect(await search(2)).toBe(0);
+  });
 });
