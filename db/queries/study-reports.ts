@@ -1,21 +1,8 @@
 import "server-only";
 import { and, desc, eq } from "drizzle-orm";
-import { getDb, type Executor } from "@/db";
+import { getDb } from "@/db";
 import { studies, studyReports, studySignatures, sterilizers } from "@/db/schema";
 import type { Actor } from "./users";
-
-/**
- * Archives a study's report (append-only table). Called by the QA approval inside the transaction that writes the
- * qa-approved signature; the same transaction's ledger event must name the report (`report: id`, `reportSha256`) so the
- * bytes can later be checked against the ledger.
- */
-export async function insertStudyReport(tx: Executor, row: { id?: string; studyId: string; signatureId: string; reportNumber: string; sha256: string; bytes: Uint8Array; createdAt?: string }) {
-  const [inserted] = await tx
-    .insert(studyReports)
-    .values({ ...row, sizeBytes: row.bytes.byteLength, bytes: Buffer.from(row.bytes) })
-    .returning({ id: studyReports.id, reportNumber: studyReports.reportNumber, sha256: studyReports.sha256, createdAt: studyReports.createdAt });
-  return inserted;
-}
 
 /** The archived report of a study of the actor's site, if any (one per study). */
 export async function getStudyReportOfStudy({ actor, studyId }: { actor: Actor; studyId: string }) {

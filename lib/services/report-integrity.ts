@@ -9,7 +9,7 @@ import type { Actor } from "./access";
 export type StoredReport = { id: string; reportNumber: string; sha256: string; bytes: Uint8Array; entityType: "cycle" | "study"; entityId: string };
 
 /** What the ledger event that archived the report recorded about it, if the value names it. */
-function archivedReportOf(newValue: string | null): { report?: unknown; reportSha256?: unknown } | null {
+function archivedReportOf(newValue: string | null): { report?: unknown; reportNumber?: unknown; reportSha256?: unknown } | null {
   if (!newValue) return null;
   try {
     const value = JSON.parse(newValue);
@@ -27,7 +27,11 @@ export async function reportIntegrityProblem(report: StoredReport): Promise<stri
   const actual = sha256Hex(report.bytes);
   if (actual !== report.sha256) return `The stored bytes of report ${report.reportNumber} no longer match the SHA-256 archived with them.`;
   const events = await listAuditEventsForEntity({ entityType: report.entityType, entityId: report.entityId });
-  const event = events.find((e) => archivedReportOf(e.newValue)?.report === report.id);
+  // A cycle's archiving event names the report's id; a study's QA approval names its (unique) report number.
+  const event = events.find((e) => {
+    const archived = archivedReportOf(e.newValue);
+    return archived?.report === report.id || (report.entityType === "study" && archived?.reportNumber === report.reportNumber && archived?.reportSha256 !== undefined);
+  });
   if (!event) return `The audit ledger holds no event that archived report ${report.reportNumber}, so its bytes cannot be checked against the ledger.`;
   const { seq, hash, ...fields } = event;
   if (auditEventHash(fields) !== hash) return `The ledger event that archived report ${report.reportNumber} (event ${seq}) was changed after it was written.`;
@@ -40,7 +44,7 @@ export async function recordIntegrityFailure(actor: Actor, report: StoredReport,
     actorId: actor.id,
     actorEmail: actor.email,
     siteId,
-    action: "report.integrity-failed",
+    action: report.entityType === "study" ? "study.report-integrity-failed" : "report.integrity-failed",
     entityType: report.entityType,
     entityId: report.entityId,
     newValue: { report: report.id, reportNumber: report.reportNumber, storedSha256: report.sha256, bytesSha256: sha256Hex(report.bytes), problem },
