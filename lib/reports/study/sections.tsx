@@ -17,6 +17,7 @@ import { s } from "../styles";
 import { fixed } from "../text";
 import { colour } from "../theme";
 import { bothClocks } from "../time";
+import { breakReportNumber } from "../footer";
 import { personName, positionLabel, runEquilibrationText } from "./conclusion";
 import type { StudyReportDetail } from "./model";
 import { Caption, Table } from "./table";
@@ -130,15 +131,15 @@ export function RunsSection({ detail, zone }: Props) {
       <Heading>Runs</Heading>
       <Table
         columns={[
-          { title: "Run", width: 5 },
-          { title: "Cycle", width: 13 },
-          { title: "Started", width: 17 },
-          { title: "Signed outcome", width: 13 },
+          { title: "Run", width: 4 },
+          { title: "Cycle", width: 17 },
+          { title: "Started", width: 16 },
+          { title: "Signed outcome", width: 12 },
           { title: "Equilibration", width: 12, numeric: true },
           { title: "Holding", width: 9, numeric: true },
           { title: "Cold spot (F0)", width: 13 },
           { title: "Spread", width: 8, numeric: true },
-          { title: "Judgement", width: 10 },
+          { title: "Judgement", width: 9 },
         ]}
         rows={detail.runs.map((run) => {
           const r = judged.get(run.id);
@@ -146,7 +147,8 @@ export function RunsSection({ detail, zone }: Props) {
             key: run.id,
             cells: [
               String(run.runNumber),
-              { text: run.cycleNumber, style: s.mono },
+              // Cycle numbers are long and have no spaces: broken at their hyphens so they stay in their column.
+              { text: breakReportNumber(run.cycleNumber, 17), style: s.monoSmall },
               dateOf(run.startedAt, zone),
               `${cycleStatusLabel(run.cycleStatus)}${run.cycleVerdict ? `, ${run.cycleVerdict.toUpperCase()}` : ""}`,
               runEquilibrationText(detail, run.id),
