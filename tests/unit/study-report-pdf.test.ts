@@ -38,7 +38,7 @@ describe("the approved study's report", () => {
   it("names the study, the protocol and its criteria with their source", () => {
     expect(approved.text).toContain("Qualification study report");
     expect(approved.text).toContain("Study QS-2026-001 · Heat penetration (defined load)");
-    expect(approved.text).toContain("60.0 min at every load position, set by this study's protocol");
+    expect(approved.text).toContain("60.00 min at every load position, set by this study's protocol");
     expect(approved.text).toContain('3.0 K between positions during holding, from the profile "Porous load 134 °C" (its band)');
     expect(approved.text).toContain("3 consecutive passing runs");
     expect(approved.text).toContain("every 12 months; next due 2027-03-20");
@@ -52,16 +52,16 @@ describe("the approved study's report", () => {
   });
 
   it("prints each run's key figures and judgement", () => {
-    expect(approved.text).toMatch(/1 C-2026-011 4 Mar 2026 07:30:00 GMT \(Europe\/London\) Approved, PASS 15 s 3 min 33 s P3, 71.3 min 1.84 K PASS/);
-    expect(approved.text).toMatch(/3 C-2026-013 .* P3, 72.6 min 1.77 K PASS/);
+    expect(approved.text).toMatch(/1 C-2026-011 4 Mar 2026 07:30:00 GMT \(Europe\/London\) Approved, PASS 15 s 3 min 33 s P3, 71.30 min 1.84 K PASS/);
+    expect(approved.text).toMatch(/3 C-2026-013 .* P3, 72.60 min 1.77 K PASS/);
   });
 
   it("prints the cross-run table, the heat map and the cold spot over the study", () => {
     // P3: 71.3, 70.8, 72.6 → minimum 70.8 (the fixture's made-up F0s).
-    expect(approved.text).toMatch(/P3 Bottom shelf, wrapped set centre 71.3 70.8 72.6 70.8 134.20 136.00 17 s/);
-    expect(approved.text).toContain("Cold spot over the study: P3 (Bottom shelf, wrapped set centre), lowest F0 70.8 min; the cold spot in 3 of 3 runs.");
+    expect(approved.text).toMatch(/P3 Bottom shelf, wrapped set centre 71.30 70.80 72.60 70.80 134.20 136.00 17 s/);
+    expect(approved.text).toContain("Cold spot over the study: P3 (Bottom shelf, wrapped set centre), lowest F0 70.80 min; the cold spot in 3 of 3 runs.");
     expect(approved.text).toContain("Heat map: F0 by position and run");
-    expect(approved.text).toMatch(/70\.8 \*/);
+    expect(approved.text).toMatch(/70\.80 \*/);
   });
 
   it("prints indicators, the closed deviation, the conclusion, the four signatures and the safety notes", () => {

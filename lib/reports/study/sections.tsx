@@ -18,7 +18,7 @@ import { fixed } from "../text";
 import { colour } from "../theme";
 import { bothClocks } from "../time";
 import { breakReportNumber } from "../footer";
-import { personName, positionLabel, runEquilibrationText } from "./conclusion";
+import { f0Text, personName, positionLabel, runEquilibrationText } from "./conclusion";
 import type { StudyReportDetail } from "./model";
 import { Caption, Table } from "./table";
 
@@ -44,7 +44,7 @@ export function ProtocolSection({ detail, zone }: Props) {
         <Fact
           label="Minimum F0"
           wide
-        >{`${fixed(criteria.minF0Min, 1)} min at every load position, ${source(criteria.minF0Source, "its hold at Ts, as F0")}; Tref ${fixed(profile.f0ReferenceC, 1)} °C, z ${fixed(profile.f0ZK, 0)} K`}</Fact>
+        >{`${f0Text(criteria.minF0Min)} min at every load position, ${source(criteria.minF0Source, "its hold at Ts, as F0")}; Tref ${fixed(profile.f0ReferenceC, 1)} °C, z ${fixed(profile.f0ZK, 0)} K`}</Fact>
         <Fact label="Largest spread" wide>{`${fixed(criteria.maxSpreadK, 1)} K between positions during holding, ${source(criteria.maxSpreadSource, "its band")}`}</Fact>
         <Fact label="Indicators" wide>
           {criteria.indicatorsRequired
@@ -153,7 +153,7 @@ export function RunsSection({ detail, zone }: Props) {
               `${cycleStatusLabel(run.cycleStatus)}${run.cycleVerdict ? `, ${run.cycleVerdict.toUpperCase()}` : ""}`,
               runEquilibrationText(detail, run.id),
               run.holdingTimeS === undefined ? "—" : formatDuration(run.holdingTimeS),
-              r?.coldSpot ? `${r.coldSpot.positionId}, ${fixed(r.coldSpot.f0Min, 1)} min` : "—",
+              r?.coldSpot ? `${r.coldSpot.positionId}, ${f0Text(r.coldSpot.f0Min)} min` : "—",
               r?.spreadK === null || r?.spreadK === undefined ? "—" : `${fixed(r.spreadK, 2)} K`,
               { text: r ? r.judgement.toUpperCase() : "NOT JUDGED", style: judgementStyle(r?.judgement ?? "pending") },
             ],
@@ -200,8 +200,8 @@ export function CrossRunSection({ detail }: Props) {
             key: p.position,
             cells: [
               { text: `${p.position} ${p.label}`, style: summary.coldSpot?.position === p.position ? s.strong : {} },
-              ...runs.map((n) => ({ text: fixed(p.f0ByRun[n] ?? null, 1), style: (p.f0ByRun[n] ?? -Infinity) < criteria.minF0Min ? s.fail : {} })),
-              { text: fixed(p.minF0, 1), style: low ? s.fail : {} },
+              ...runs.map((n) => ({ text: f0Text(p.f0ByRun[n] ?? null), style: (p.f0ByRun[n] ?? -Infinity) < criteria.minF0Min ? s.fail : {} })),
+              { text: f0Text(p.minF0), style: low ? s.fail : {} },
               fixed(p.minTemp, 2),
               fixed(p.maxTemp, 2),
               p.maxEquilibrationS === null ? "not reached" : formatDuration(p.maxEquilibrationS),
@@ -213,9 +213,9 @@ export function CrossRunSection({ detail }: Props) {
       <Caption>
         {`${
           summary.coldSpot
-            ? `Cold spot over the study: ${positionLabel(detail, summary.coldSpot.position)}, lowest F0 ${fixed(summary.coldSpot.minF0, 1)} min; the cold spot in ${summary.coldSpot.runsAsColdSpot} of ${summary.coldSpot.runsCounted} runs. `
+            ? `Cold spot over the study: ${positionLabel(detail, summary.coldSpot.position)}, lowest F0 ${f0Text(summary.coldSpot.minF0)} min; the cold spot in ${summary.coldSpot.runsAsColdSpot} of ${summary.coldSpot.runsCounted} runs. `
             : "No cold spot: no run has readings. "
-        }Largest spread of a run: ${summary.spreadK === null ? "—" : `${fixed(summary.spreadK, 2)} K`} (limit ${fixed(criteria.maxSpreadK, 1)} K). F0 in minutes at Tref ${fixed(detail.profile.f0ReferenceC, 1)} °C, z ${fixed(detail.profile.f0ZK, 0)} K; temperatures during holding. Red: below the minimum F0 of ${fixed(criteria.minF0Min, 1)} min.${
+        }Largest spread of a run: ${summary.spreadK === null ? "—" : `${fixed(summary.spreadK, 2)} K`} (limit ${fixed(criteria.maxSpreadK, 1)} K). F0 in minutes at Tref ${fixed(detail.profile.f0ReferenceC, 1)} °C, z ${fixed(detail.profile.f0ZK, 0)} K; temperatures during holding. Red: below the minimum F0 of ${f0Text(criteria.minF0Min)} min.${
           summary.unmappedPositions.length > 0 ? ` Positions without a channel in any run: ${summary.unmappedPositions.map((p) => p.id).join(", ")}.` : ""
         }`}
       </Caption>
