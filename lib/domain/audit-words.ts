@@ -8,6 +8,7 @@ import { auditChanges, auditObject, parseAuditValue, shortChange, type AuditChan
 import { ROLE_LABELS, type Role } from "./roles";
 import { testKindLabel } from "./test-kinds";
 import { isValidTimeZone } from "./time-zone";
+import { studyAuditActions } from "./audit-words-studies";
 
 export { type AuditChange, type RecordNames } from "./audit-fields";
 
@@ -133,6 +134,16 @@ export const AUDIT_ACTIONS: Record<string, Kind> = {
     label: "Report failed its integrity check",
     what: (f) => `found the report ${str(f.new.reportNumber) ?? ""} of cycle ${f.record} failing its integrity check`.replace("  ", " "),
   },
+  "study.report-draft": { label: "Exported a draft study report", what: (f) => `exported a draft report of study ${f.record}` },
+  "study.report-verify": {
+    label: "Checked a study report file",
+    what: (f) =>
+      f.new.match === true ? `checked a report file: it matches the archived report of study ${f.record}` : `checked a report file against the archived report of study ${f.record}: no match`,
+  },
+  "study.report-integrity-failed": {
+    label: "Study report failed its integrity check",
+    what: (f) => `found the report ${str(f.new.reportNumber) ?? ""} of study ${f.record} failing its integrity check`.replace("  ", " "),
+  },
   "signature.failed": { label: "Wrong signing password", what: (f) => `entered a wrong password signing ${f.record}` },
   "signature.locked": { label: "Signing locked", what: (f) => `was locked out of signing after wrong passwords (signing ${f.record})` },
   "periodic-test.record": { label: "Recorded a periodic test", what: (f) => `recorded ${withArticle(inSentence(testKindLabel(str(f.new.kind) ?? "test")))} for ${str(f.new.sterilizer) ?? f.record}` },
@@ -145,6 +156,7 @@ export const AUDIT_ACTIONS: Record<string, Kind> = {
     what: (f) =>
       `exported the audit trail as ${f.new.format === "pdf" ? "a signed PDF extract" : "CSV"}${num(f.new.events) !== null ? ` (${num(f.new.events)} ${num(f.new.events) === 1 ? "event" : "events"})` : ""}`,
   },
+  ...studyAuditActions((f) => changedSummary(f as Facts)),
 };
 
 /** The action filter's choices, in words, in the order a reader looks for them. */
@@ -172,6 +184,8 @@ const NOUNS: Record<string, string> = {
   "api-token": "API token",
   site: "site",
   mail: "mail",
+  study: "study",
+  "loading-pattern": "loading pattern",
 };
 
 /** Where a record of this type is read; null where there is no page for one. */
@@ -188,6 +202,7 @@ export function recordHref(entityType: string, entityId: string | null): string 
     "api-token": "/tokens",
     site: "/admin/site",
     mail: "/admin/mail",
+    study: `/studies/${entityId}`,
   };
   return pages[entityType] ?? null;
 }
