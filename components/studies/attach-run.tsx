@@ -25,12 +25,7 @@ export function AttachRunForm({ studyId, cycleId, cycleNumber, proposal, positio
   const chosen = Object.values(map).filter(Boolean);
   const missing = positions.filter((p) => !chosen.includes(p.id));
   const doubled = positions.filter((p) => chosen.filter((c) => c === p.id).length > 1);
-  const problem =
-    missing.length > 0
-      ? `No channel for ${missing.map((p) => p.id).join(", ")}: every position of the pattern needs its probe.`
-      : doubled.length > 0
-        ? `${doubled.map((p) => p.id).join(", ")} ${doubled.length === 1 ? "has" : "have"} more than one channel: choose one per position.`
-        : null;
+  const problem = missing.length > 0 ? `No channel for ${missing.map((p) => p.id).join(", ")}: every position of the pattern needs its probe.` : null;
 
   return (
     <form ref={formRef} onSubmit={onSubmit} className="space-y-3" noValidate aria-label={`Attach ${cycleNumber} as a run`} data-testid="attach-run">
@@ -78,6 +73,11 @@ export function AttachRunForm({ studyId, cycleId, cycleNumber, proposal, positio
       {problem && (
         <p className="text-sm text-caution-700" role="status">
           {problem}
+        </p>
+      )}
+      {doubled.length > 0 && (
+        <p className="text-xs text-ink-muted">
+          {doubled.map((p) => p.id).join(", ")} {doubled.length === 1 ? "has" : "have"} more than one channel: they are read together (the lower F0 and the wider temperature range count).
         </p>
       )}
       {errors.sensorMap && <p className="field-error">{errors.sensorMap}</p>}
