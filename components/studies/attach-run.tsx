@@ -14,7 +14,19 @@ import type { SensorMapProposal } from "@/lib/studies/contracts";
  * position changeable; attaching is refused in the browser (and on the server) until every pattern position has
  * exactly one channel.
  */
-export function AttachRunForm({ studyId, cycleId, cycleNumber, proposal, positions }: { studyId: string; cycleId: string; cycleNumber: string; proposal: SensorMapProposal; positions: PatternPosition[] }) {
+export function AttachRunForm({
+  studyId,
+  cycleId,
+  cycleNumber,
+  proposal,
+  positions,
+}: {
+  studyId: string;
+  cycleId: string;
+  cycleNumber: string;
+  proposal: SensorMapProposal;
+  positions: PatternPosition[];
+}) {
   const router = useRouter();
   const { state, pending, formRef, onSubmit, errors } = useFormAction(attachRunAction);
   const [map, setMap] = useState<Record<string, string>>(() => Object.fromEntries(proposal.channels.map((c) => [c.header, c.positionId ?? ""])));

@@ -59,7 +59,11 @@ export function CriteriaFields({
           inputMode="decimal"
           defaultValue={defaults.minF0Min ?? ""}
           error={errors.minF0Min}
-          hint={profileMinF0 === null ? "Empty: the profile's figure (choose a profile to see it)." : `Empty: ${formatNumber(profileMinF0, 1)} min, what the profile's hold delivers at its sterilization temperature.`}
+          hint={
+            profileMinF0 === null
+              ? "Empty: the profile's figure (choose a profile to see it)."
+              : `Empty: ${formatNumber(profileMinF0, 1)} min, what the profile's hold delivers at its sterilization temperature.`
+          }
         />
         <TextInput
           id="study-max-spread"

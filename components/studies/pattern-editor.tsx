@@ -37,8 +37,16 @@ const cell = "field-input min-w-[6rem] py-1";
 /** Name, description, load type, the items and the probe positions of a new loading pattern. */
 export function PatternEditor({ value, onChange, error }: { value: PatternDraft; onChange: (next: PatternDraft) => void; error?: string }) {
   const set = <K extends keyof PatternDraft>(key: K, v: PatternDraft[K]) => onChange({ ...value, [key]: v });
-  const setItem = (i: number, key: keyof PatternDraft["items"][number], v: string) => set("items", value.items.map((row, j) => (j === i ? { ...row, [key]: v } : row)));
-  const setPosition = (i: number, key: keyof PatternDraft["positions"][number], v: string) => set("positions", value.positions.map((row, j) => (j === i ? { ...row, [key]: v } : row)));
+  const setItem = (i: number, key: keyof PatternDraft["items"][number], v: string) =>
+    set(
+      "items",
+      value.items.map((row, j) => (j === i ? { ...row, [key]: v } : row)),
+    );
+  const setPosition = (i: number, key: keyof PatternDraft["positions"][number], v: string) =>
+    set(
+      "positions",
+      value.positions.map((row, j) => (j === i ? { ...row, [key]: v } : row)),
+    );
   return (
     <fieldset className="space-y-4 rounded-md border border-ink-line p-4" aria-describedby={error ? "pattern-error" : undefined}>
       <legend className="px-1 text-sm font-semibold">New loading pattern</legend>
@@ -73,38 +81,47 @@ export function PatternEditor({ value, onChange, error }: { value: PatternDraft;
       <div>
         <h3 className="text-sm font-semibold">Items</h3>
         <TableFrame label="Items of the load" className="mt-1">
-        <table className="data-table">
-          <thead>
-            <tr>
-              <th>Item</th>
-              <th>Quantity</th>
-              <th>Note</th>
-              <th>
-                <span className="sr-only">Remove</span>
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {value.items.map((row, i) => (
-              <tr key={i}>
-                <td>
-                  <input aria-label={`Item ${i + 1} name`} className={cell} value={row.name} onChange={(e) => setItem(i, "name", e.target.value)} />
-                </td>
-                <td>
-                  <input aria-label={`Item ${i + 1} quantity`} className={`${cell} w-20`} inputMode="numeric" value={row.quantity} onChange={(e) => setItem(i, "quantity", e.target.value)} />
-                </td>
-                <td>
-                  <input aria-label={`Item ${i + 1} note`} className={cell} value={row.note} onChange={(e) => setItem(i, "note", e.target.value)} />
-                </td>
-                <td>
-                  <button type="button" className="text-xs text-fail-700 underline" onClick={() => set("items", value.items.filter((_, j) => j !== i))}>
-                    Remove item {i + 1}
-                  </button>
-                </td>
+          <table className="data-table">
+            <thead>
+              <tr>
+                <th>Item</th>
+                <th>Quantity</th>
+                <th>Note</th>
+                <th>
+                  <span className="sr-only">Remove</span>
+                </th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {value.items.map((row, i) => (
+                <tr key={i}>
+                  <td>
+                    <input aria-label={`Item ${i + 1} name`} className={cell} value={row.name} onChange={(e) => setItem(i, "name", e.target.value)} />
+                  </td>
+                  <td>
+                    <input aria-label={`Item ${i + 1} quantity`} className={`${cell} w-20`} inputMode="numeric" value={row.quantity} onChange={(e) => setItem(i, "quantity", e.target.value)} />
+                  </td>
+                  <td>
+                    <input aria-label={`Item ${i + 1} note`} className={cell} value={row.note} onChange={(e) => setItem(i, "note", e.target.value)} />
+                  </td>
+                  <td>
+                    <button
+                      type="button"
+                      className="text-xs text-fail-700 underline"
+                      onClick={() =>
+                        set(
+                          "items",
+                          value.items.filter((_, j) => j !== i),
+                        )
+                      }
+                    >
+                      Remove item {i + 1}
+                    </button>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
         </TableFrame>
         <button type="button" className="btn-secondary mt-2 px-2 py-1 text-sm" onClick={() => set("items", [...value.items, { name: "", quantity: "1", note: "" }])}>
           Add an item
@@ -113,51 +130,62 @@ export function PatternEditor({ value, onChange, error }: { value: PatternDraft;
 
       <div>
         <h3 className="text-sm font-semibold">Probe positions</h3>
-        <p className="text-xs text-ink-muted">Each position gets one temperature probe in every run (and its indicators). The id starts the channel&apos;s header when you can (&quot;P3 tray 2&quot;).</p>
+        <p className="text-xs text-ink-muted">
+          Each position gets one temperature probe in every run (and its indicators). The id starts the channel&apos;s header when you can (&quot;P3 tray 2&quot;).
+        </p>
         <TableFrame label="Probe positions" className="mt-1">
-        <table className="data-table">
-          <thead>
-            <tr>
-              <th>Id</th>
-              <th>Label</th>
-              <th>Chamber position</th>
-              <th>Note</th>
-              <th>
-                <span className="sr-only">Remove</span>
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {value.positions.map((row, i) => (
-              <tr key={i}>
-                <td>
-                  <input aria-label={`Position ${i + 1} id`} className={`${cell} w-20`} value={row.id} onChange={(e) => setPosition(i, "id", e.target.value)} />
-                </td>
-                <td>
-                  <input aria-label={`Position ${i + 1} label`} className={cell} value={row.label} onChange={(e) => setPosition(i, "label", e.target.value)} placeholder="Tray 2, centre" />
-                </td>
-                <td>
-                  <select aria-label={`Position ${i + 1} chamber position`} className={cell} value={row.sensorPosition} onChange={(e) => setPosition(i, "sensorPosition", e.target.value)}>
-                    <option value="">Not stated</option>
-                    {SENSOR_POSITIONS.map((p) => (
-                      <option key={p} value={p}>
-                        {sensorPositionLabel(p)}
-                      </option>
-                    ))}
-                  </select>
-                </td>
-                <td>
-                  <input aria-label={`Position ${i + 1} note`} className={cell} value={row.note} onChange={(e) => setPosition(i, "note", e.target.value)} />
-                </td>
-                <td>
-                  <button type="button" className="text-xs text-fail-700 underline" onClick={() => set("positions", value.positions.filter((_, j) => j !== i))}>
-                    Remove position {i + 1}
-                  </button>
-                </td>
+          <table className="data-table">
+            <thead>
+              <tr>
+                <th>Id</th>
+                <th>Label</th>
+                <th>Chamber position</th>
+                <th>Note</th>
+                <th>
+                  <span className="sr-only">Remove</span>
+                </th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {value.positions.map((row, i) => (
+                <tr key={i}>
+                  <td>
+                    <input aria-label={`Position ${i + 1} id`} className={`${cell} w-20`} value={row.id} onChange={(e) => setPosition(i, "id", e.target.value)} />
+                  </td>
+                  <td>
+                    <input aria-label={`Position ${i + 1} label`} className={cell} value={row.label} onChange={(e) => setPosition(i, "label", e.target.value)} placeholder="Tray 2, centre" />
+                  </td>
+                  <td>
+                    <select aria-label={`Position ${i + 1} chamber position`} className={cell} value={row.sensorPosition} onChange={(e) => setPosition(i, "sensorPosition", e.target.value)}>
+                      <option value="">Not stated</option>
+                      {SENSOR_POSITIONS.map((p) => (
+                        <option key={p} value={p}>
+                          {sensorPositionLabel(p)}
+                        </option>
+                      ))}
+                    </select>
+                  </td>
+                  <td>
+                    <input aria-label={`Position ${i + 1} note`} className={cell} value={row.note} onChange={(e) => setPosition(i, "note", e.target.value)} />
+                  </td>
+                  <td>
+                    <button
+                      type="button"
+                      className="text-xs text-fail-700 underline"
+                      onClick={() =>
+                        set(
+                          "positions",
+                          value.positions.filter((_, j) => j !== i),
+                        )
+                      }
+                    >
+                      Remove position {i + 1}
+                    </button>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
         </TableFrame>
         <button
           type="button"

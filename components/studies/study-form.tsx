@@ -92,7 +92,10 @@ export function StudyForm({ options }: { options: PlanningOptions }) {
               <label key={p.id} className="flex items-start gap-2 text-sm">
                 <input type="radio" name="patternChoice" value={p.id} checked={patternChoice === p.id} onChange={() => setPatternChoice(p.id)} className="mt-1" />
                 <span>
-                  {p.name} <span className="text-ink-muted">· {loadTypeLabel(p.loadType)} · {plural(p.positions, "position")}</span>
+                  {p.name}{" "}
+                  <span className="text-ink-muted">
+                    · {loadTypeLabel(p.loadType)} · {plural(p.positions, "position")}
+                  </span>
                   {p.requalificationDueOn && <span className="block text-xs text-ink-muted">Requalification due {p.requalificationDueOn}</span>}
                 </span>
               </label>

@@ -1,13 +1,13 @@
 import { z } from "zod";
-import { LOAD_TYPES, PATTERN_ITEMS_MAX, PATTERN_POSITIONS_MAX, SENSOR_NOTE_MAX_CHARS, SENSOR_POSITIONS, STUDY_KINDS, STUDY_SIGNATURE_MEANINGS, STUDY_STATUSES } from "@/lib/domain";
+import { STUDY_KINDS, STUDY_SIGNATURE_MEANINGS, STUDY_STATUSES } from "@/lib/domain";
 import { numberField, optionalNumberField } from "./equipment";
+import { loadingPatternSchema } from "./studies";
 
 /*
  * The study pages' forms (app/(portal)/studies). A form posts flat fields; the loading pattern's rows travel as one
  * JSON field, read here so a bad row is named ("Position 3: give it a label").
  */
 
-const text = (what: string, max: number) => z.string({ error: `Enter ${what}.` }).trim().min(1, `Enter ${what}.`).max(max, `Keep ${what} under ${max} characters.`);
 const optionalText = (max: number) =>
   z
     .string()
@@ -16,49 +16,17 @@ const optionalText = (max: number) =>
     .optional()
     .transform((s) => s || undefined);
 
-const itemSchema = z.object({
-  name: text("the item's name", 200),
-  quantity: z.number({ error: "Give each item a quantity." }).int("A quantity is a whole number.").min(1, "A quantity is at least 1.").max(10_000, "A quantity is at most 10,000."),
-  note: optionalText(200),
-});
-
-const positionSchema = z.object({
-  id: z
-    .string({ error: "Give each position a short id." })
-    .trim()
-    .regex(/^[A-Za-z0-9][A-Za-z0-9._-]{0,15}$/, "A position id is 1–16 letters, digits, dots, dashes or underscores (P1, T2-3)."),
-  label: text("the position's label", 200),
-  sensorPosition: z.enum(SENSOR_POSITIONS).optional(),
-  note: optionalText(SENSOR_NOTE_MAX_CHARS),
-});
-
-/** A new loading pattern as the form builds it. */
-export const newPatternSchema = z
-  .object({
-    name: text("the pattern's name", 200),
-    description: optionalText(2000),
-    loadType: z.enum(LOAD_TYPES).optional(),
-    items: z.array(itemSchema).max(PATTERN_ITEMS_MAX, `A pattern lists at most ${PATTERN_ITEMS_MAX} items.`),
-    positions: z.array(positionSchema).min(1, "Add at least one load position: the study measures lethality there.").max(PATTERN_POSITIONS_MAX, `A pattern has at most ${PATTERN_POSITIONS_MAX} positions.`),
-  })
-  .superRefine((p, ctx) => {
-    const seen = new Set<string>();
-    p.positions.forEach((pos, i) => {
-      const key = pos.id.toLowerCase();
-      if (seen.has(key)) ctx.addIssue({ code: "custom", path: ["positions", i, "id"], message: `Position ${i + 1}: the id ${pos.id} is used twice; each position needs its own.` });
-      seen.add(key);
-    });
-  });
-export type NewPatternInput = z.infer<typeof newPatternSchema>;
+/** A new loading pattern: the API's own rules (lib/validations/studies.ts). */
+export type NewPatternInput = z.infer<typeof loadingPatternSchema>;
 
 /** Reads a new pattern sent as JSON; every problem comes back on the one field, named ("Position 3: …"). */
 function readPattern(value: unknown, ctx: z.RefinementCtx): NewPatternInput {
-  const parsed = newPatternSchema.safeParse(value);
+  const parsed = loadingPatternSchema.safeParse(value);
   if (parsed.success) return parsed.data;
   const issue = parsed.error.issues[0];
   const [list, index] = issue.path;
   const where = list === "positions" && typeof index === "number" ? `Position ${index + 1}: ` : list === "items" && typeof index === "number" ? `Item ${index + 1}: ` : "";
-  ctx.addIssue({ code: "custom", message: issue.message.startsWith("Position") ? issue.message : `${where}${issue.message}` });
+  ctx.addIssue({ code: "custom", message: `${where}${issue.message}` });
   return z.NEVER;
 }
 
@@ -96,10 +64,10 @@ const checkbox = z
 
 /** The criteria and texts a draft may change (and a new study starts with). */
 const criteriaFields = {
-  title: optionalText(200),
-  runsRequired: numberField("the number of consecutive runs", { min: 1, max: 20, integer: true }),
-  minF0Min: optionalNumberField("the minimum F0", { min: 0, max: 10_000, unit: "min" }),
-  maxSpreadK: optionalNumberField("the maximum spread", { min: 0, max: 50, unit: "K" }),
+  title: optionalText(160),
+  runsRequired: numberField("the number of consecutive runs", { min: 1, max: 10, integer: true }),
+  minF0Min: optionalNumberField("the minimum F0", { min: 0.01, max: 10_000, unit: "min" }),
+  maxSpreadK: optionalNumberField("the maximum spread", { min: 0.01, max: 50, unit: "K" }),
   indicatorsRequired: checkbox,
   protocol: z.string().trim().max(20_000, "Keep the protocol under 20,000 characters.").optional().default(""),
   requalificationMonths: numberField("the requalification interval", { min: 1, max: 60, unit: "months", integer: true }),

@@ -133,7 +133,18 @@ test("an engineer plans a study in the browser; three signed cycles become its r
   for (const run of study.runs)
     for (let p = 1; p <= PROBES; p++) {
       const recorded = await technician.request.post(`/api/studies/${studyId}/indicators`, {
-        data: { runId: run.id, positionId: `P${p}`, kind: "biological", result: "no-growth", organism: "Geobacillus stearothermophilus", lot: "BI-E2E-1", population: 1e6, incubation: "48 h at 57 °C", readBy: DEMO.technician.name, readAt: new Date().toISOString() },
+        data: {
+          runId: run.id,
+          positionId: `P${p}`,
+          kind: "biological",
+          result: "no-growth",
+          organism: "Geobacillus stearothermophilus",
+          lot: "BI-E2E-1",
+          population: 1e6,
+          incubation: "48 h at 57 °C",
+          readBy: DEMO.technician.name,
+          readAt: new Date().toISOString(),
+        },
       });
       expect(recorded.status(), await recorded.text()).toBe(201);
     }

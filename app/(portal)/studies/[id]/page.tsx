@@ -104,7 +104,9 @@ export default async function StudyPage({ params, searchParams }: { params: Prom
             {detail.allowed.sign.length > 0 ? (
               <StudySignForm studyId={detail.id} meanings={detail.allowed.sign} signerName={actor.name} />
             ) : (
-              <p className="text-sm text-ink-muted">{detail.status === "approved" || detail.status === "failed" ? "The study is closed: nothing more to sign." : "Nothing for you to sign at this step."}</p>
+              <p className="text-sm text-ink-muted">
+                {detail.status === "approved" || detail.status === "failed" ? "The study is closed: nothing more to sign." : "Nothing for you to sign at this step."}
+              </p>
             )}
           </Panel>
         </aside>
