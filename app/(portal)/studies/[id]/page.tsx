@@ -4,6 +4,9 @@ import { Panel } from "@/components/ui/panel";
 import { SafetyCaution } from "@/components/cycles/record/safety-caution";
 import { AttachRunPanel } from "@/components/studies/attach-panel";
 import { CrossRunTable } from "@/components/studies/cross-run-table";
+import { StudyDeviationsPanel } from "@/components/studies/deviation-panel";
+import { StudyHeatMap } from "@/components/studies/heat-map";
+import { StudyIndicatorsPanel } from "@/components/studies/indicator-panel";
 import { DraftForm } from "@/components/studies/draft-form";
 import { studyNextStep } from "@/components/studies/next-step";
 import { PatternView, ProtocolView } from "@/components/studies/protocol-view";
@@ -29,6 +32,12 @@ export default async function StudyPage({ params, searchParams }: { params: Prom
   const raw = await searchParams;
   const attachCycleId = typeof raw.attach === "string" ? raw.attach : undefined;
   const [detail, timeZone] = await Promise.all([orNotFound(getStudyDetail({ actor, id })), siteTimeZone({ actor })]);
+  // The evidence panels print people by name.
+  const evidence = {
+    ...detail,
+    indicators: detail.indicators.map((i) => ({ ...i, recordedBy: i.recordedBy.name })),
+    deviations: detail.deviations.map((d) => ({ ...d, openedBy: d.openedBy?.name ?? null, closedBy: d.closedBy?.name ?? null })),
+  };
   const attach = detail.allowed.attach ? await attachChoices(actor, id, attachCycleId) : null;
   return (
     <>
@@ -85,10 +94,14 @@ export default async function StudyPage({ params, searchParams }: { params: Prom
 
           <Panel title="Across runs">
             <CrossRunTable detail={detail} />
-            {/* S1's <HeatMap /> (components/studies/heat-map.tsx) goes here once h/s1 has it. */}
           </Panel>
 
-          {/* S5's panels go here: <StudyIndicatorsPanel detail={detail} /> and <StudyDeviationsPanel detail={detail} /> (components/studies/indicator-panel.tsx, deviation-panel.tsx). */}
+          <Panel title="Heat map of positions and runs">
+            <StudyHeatMap summary={detail.summary} criteria={detail.criteria} />
+          </Panel>
+
+          <StudyIndicatorsPanel detail={evidence} timeZone={timeZone} />
+          <StudyDeviationsPanel detail={evidence} timeZone={timeZone} />
 
           <Panel title="Study report">
             <ReportLinks detail={detail} timeZone={timeZone} />
