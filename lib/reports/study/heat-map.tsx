@@ -1,5 +1,6 @@
 /** Positions × runs drawn as a grid of F0 cells in the PDF, with the value written in each cell. */
 import { Rect, Svg } from "@react-pdf/renderer";
+import { heatMapGrid } from "@/lib/analysis/study-heat-map";
 import type { StudySummary } from "@/lib/analysis/study-types";
 import { SvgLabel } from "../svg";
 import { fixed } from "../text";
@@ -21,12 +22,12 @@ function cellFill(f0: number | null, minF0: number, highest: number): { fill: st
 }
 
 export function StudyHeatMap({ summary, minF0, width, labels }: { summary: StudySummary; minF0: number; width: number; labels: Record<string, string> }) {
-  const runNumbers = summary.runs.map((r) => r.runNumber);
-  const rows = summary.positions;
+  const grid = heatMapGrid(summary, "f0");
+  const runNumbers = grid.runs.map((r) => r.runNumber);
+  const rows = grid.rows;
   const cellW = runNumbers.length > 0 ? Math.min(70, (width - LABEL_W) / runNumbers.length) : 0;
-  const values = rows.flatMap((p) => runNumbers.map((n) => p.f0ByRun[n] ?? null)).filter((v): v is number => v !== null);
+  const values = rows.flatMap((p) => p.cells.map((c) => c.value)).filter((v): v is number => v !== null);
   const highest = values.length > 0 ? Math.max(...values) : minF0;
-  const coldPerRun = new Map(summary.runs.map((r) => [r.runNumber, r.coldSpot?.positionId ?? null]));
   const height = HEAD_H + rows.length * ROW_H + LEGEND_H;
   return (
     <Svg width={width} height={height}>
@@ -41,13 +42,14 @@ export function StudyHeatMap({ summary, minF0, width, labels }: { summary: Study
       {rows.map((p, i) => {
         const y = HEAD_H + i * ROW_H;
         return [
-          <SvgLabel key={`l${p.position}`} x={0} y={y + ROW_H - 4} size={6.5} fill={colour.ink}>
+          <SvgLabel key={`l${p.position}`} x={0} y={y + ROW_H - 4} size={6.5} fill={colour.ink} weight={p.overallColdSpot ? 600 : 400}>
             {labels[p.position] ?? p.position}
           </SvgLabel>,
-          ...runNumbers.map((n, j) => {
-            const f0 = p.f0ByRun[n] ?? null;
+          ...p.cells.map((cell, j) => {
+            const n = cell.runNumber;
+            const f0 = cell.value;
             const { fill, ink } = cellFill(f0, minF0, highest);
-            const cold = coldPerRun.get(n) === p.position;
+            const cold = cell.coldSpot;
             return [
               <Rect
                 key={`c${p.position}-${n}`}
