@@ -93,6 +93,10 @@ const ACTIONS: Record<string, Row> = {
   "/sterilizers saveScheduleAction": only("engineer"),
   "/sterilizers removeScheduleAction": only("engineer"),
   "/sterilizers setSterilizerStatusAction": only("engineer"),
+  "/studies createStudyAction": only("engineer"),
+  "/studies/[id] updateStudyDraftAction": only("engineer"),
+  "/studies/[id] attachRunAction": makers(),
+  "/studies/[id] signStudyAction": only("engineer"),
   "/tokens issueApiTokenAction": only("engineer", "admin"),
   "/tokens revokeApiTokenAction": only("engineer", "admin"),
 };
