@@ -1,32 +1,12 @@
 import { Badge } from "@/components/ui/badge";
 import { formatDateTime } from "@/lib/format";
-import { DEVIATION_SOURCE_LABELS, type DeviationSource, type DeviationStatus } from "@/lib/domain";
+import { DEVIATION_SOURCE_LABELS } from "@/lib/domain";
+import type { StudyDeviationView, StudyDetail } from "@/lib/studies/contracts";
 import { EvidenceSection } from "./indicator-panel";
 import { CloseDeviationForm, DeviationEditForm, RaiseDeviationForm } from "./deviation-forms";
 
-/** The slice of StudyDetail (lib/studies/contracts.ts) this panel reads. */
-export type DeviationPanelDetail = {
-  id: string;
-  runs: Array<{ id: string; runNumber: number; cycleNumber: string }>;
-  deviations: StudyDeviationView[];
-  allowed: { record: boolean; closeDeviation: boolean };
-};
-
-export type StudyDeviationView = {
-  id: string;
-  runId: string | null;
-  source: DeviationSource;
-  what: string;
-  impact: string;
-  rootCause: string;
-  capaReference: string;
-  status: DeviationStatus;
-  openedAt: string;
-  openedBy: string | null;
-  closedAt: string | null;
-  closedBy: string | null;
-  closeReason: string | null;
-};
+/** The slice of StudyDetail this panel reads. */
+export type DeviationPanelDetail = Pick<StudyDetail, "id" | "runs" | "deviations"> & { allowed: Pick<StudyDetail["allowed"], "record" | "closeDeviation"> };
 
 export const DEVIATIONS_HEADING_ID = "study-deviations";
 
@@ -82,7 +62,7 @@ function DeviationCard({
         {isOpen ? <Badge tone="fail">✕ Open</Badge> : <Badge tone="pass">✓ Closed</Badge>}
         <span className="font-medium">{DEVIATION_SOURCE_LABELS[d.source]}</span>
         <span className="text-ink-muted">
-          · {runNumber === undefined ? "the study as a whole" : `run ${runNumber}`} · opened by {d.openedBy ?? "Papin"}, {formatDateTime(d.openedAt, timeZone)}
+          · {runNumber === undefined ? "the study as a whole" : `run ${runNumber}`} · opened by {d.openedBy?.name ?? "Papin"}, {formatDateTime(d.openedAt, timeZone)}
         </span>
       </p>
       <p className="mt-1 text-sm">{d.what}</p>
@@ -100,7 +80,7 @@ function DeviationCard({
       )}
       {!isOpen && (
         <p className="mt-2 text-sm text-ink-muted">
-          Closed by {d.closedBy ?? "—"}, {formatDateTime(d.closedAt, timeZone)}: {d.closeReason}
+          Closed by {d.closedBy?.name ?? "—"}, {formatDateTime(d.closedAt, timeZone)}: {d.closeReason}
         </p>
       )}
       {isOpen && allowed.closeDeviation && <CloseDeviationForm studyId={studyId} deviation={d} />}

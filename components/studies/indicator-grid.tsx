@@ -1,7 +1,7 @@
 import { TableFrame } from "@/components/ui/table-frame";
 import { INDICATOR_RESULT_LABELS, isPositiveIndicator, type PatternPosition } from "@/lib/domain";
 import { indicatorCellKey, type IndicatorCell } from "@/lib/domain/study-evidence";
-import type { StudyIndicatorView } from "./indicator-panel";
+import type { StudyIndicatorView } from "@/lib/studies/contracts";
 
 type Run = { id: string; runNumber: number; cycleNumber: string };
 

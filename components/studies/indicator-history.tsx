@@ -1,7 +1,7 @@
 import { formatDateTime } from "@/lib/format";
 import { INDICATOR_KIND_LABELS, INDICATOR_RESULT_LABELS, isPositiveIndicator, type PatternPosition } from "@/lib/domain";
 import { formatPopulation, indicatorCellKey, type IndicatorCell } from "@/lib/domain/study-evidence";
-import type { StudyIndicatorView } from "./indicator-panel";
+import type { StudyIndicatorView } from "@/lib/studies/contracts";
 
 type Run = { id: string; runNumber: number };
 
@@ -36,7 +36,7 @@ export function IndicatorHistory({ runs, positions, cells, timeZone }: { runs: R
                       · {r.organism ?? "organism not named"}, {formatPopulation(r.population)} per carrier, incubated {r.incubation ?? "—"}
                     </>
                   )}{" "}
-                  · lot {r.lot} · read by {r.readBy}, {formatDateTime(r.readAt, timeZone)} · recorded by {r.recordedBy}, {formatDateTime(r.recordedAt, timeZone)}
+                  · lot {r.lot} · read by {r.readBy}, {formatDateTime(r.readAt, timeZone)} · recorded by {r.recordedBy.name}, {formatDateTime(r.recordedAt, timeZone)}
                   {r.reason && <span className="block text-xs">Reason for the correction: {r.reason}</span>}
                 </li>
               ))}

@@ -1,36 +1,15 @@
 import type { ReactNode } from "react";
-import { type IndicatorKind, type IndicatorResult, type PatternPosition } from "@/lib/domain";
+import type { StudyDetail } from "@/lib/studies/contracts";
 import { indicatorGrid } from "@/lib/domain/study-evidence";
 import { IndicatorGrid } from "./indicator-grid";
 import { IndicatorHistory } from "./indicator-history";
 import { IndicatorForm } from "./indicator-form";
 
-/** The slice of StudyDetail (lib/studies/contracts.ts) this panel reads. */
-export type IndicatorPanelDetail = {
-  id: string;
-  loadingPattern: { positions: PatternPosition[] };
-  criteria: { indicatorsRequired: boolean };
-  runs: Array<{ id: string; runNumber: number; cycleNumber: string }>;
-  indicators: StudyIndicatorView[];
-  allowed: { record: boolean };
-};
-
-export type StudyIndicatorView = {
-  id: string;
-  runId: string;
-  positionId: string;
-  kind: IndicatorKind;
-  result: IndicatorResult;
-  organism: string | null;
-  lot: string;
-  population: number | null;
-  incubation: string | null;
-  readBy: string;
-  readAt: string;
-  reason: string | null;
-  recordedAt: string;
-  recordedBy: string;
-  current: boolean;
+/** The slice of StudyDetail this panel reads. */
+export type IndicatorPanelDetail = Pick<StudyDetail, "id" | "runs" | "indicators"> & {
+  loadingPattern: Pick<StudyDetail["loadingPattern"], "positions">;
+  criteria: Pick<StudyDetail["criteria"], "indicatorsRequired">;
+  allowed: Pick<StudyDetail["allowed"], "record">;
 };
 
 /** The heading's id, so the study page can link here. */

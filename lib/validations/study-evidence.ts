@@ -2,7 +2,10 @@ import { z } from "zod";
 import { INDICATOR_KINDS, INDICATOR_RESULTS, RESULTS_OF_KIND } from "@/lib/domain";
 import { parsePopulation } from "@/lib/domain/study-evidence";
 
-/** The forms of a study's evidence panels (indicators, deviations): FormData in, the services' inputs out. */
+/**
+ * The forms of a study's evidence panels (indicators, deviations): FormData in, the services' inputs out. Limits as in
+ * lib/validations/studies.ts (the API's), so what a form lets through the service accepts.
+ */
 
 const text = (what: string, max: number) =>
   z
@@ -50,8 +53,8 @@ export const indicatorFormSchema = z
     positionId: id("the position"),
     kind: z.enum(INDICATOR_KINDS, { error: "Choose biological or chemical indicator." }),
     result: z.enum(INDICATOR_RESULTS, { error: "Choose the result." }),
-    organism: optionalText("the organism", 200),
-    lot: text("the indicator's lot", 100),
+    organism: optionalText("the organism", 120),
+    lot: text("the indicator's lot", 60),
     population: z
       .string()
       .trim()
@@ -64,7 +67,7 @@ export const indicatorFormSchema = z
         return z.NEVER;
       }),
     incubation: optionalText("the incubation", 200),
-    readBy: text("who read the indicator", 200),
+    readBy: text("who read the indicator", 120),
     readAt,
     reason: optionalText("the reason", 1000),
   })
@@ -88,7 +91,7 @@ export const raiseDeviationSchema = z.object({
     .optional()
     .transform((s) => (s ? s : null)),
   what: text("what happened", 2000),
-  impact: optionalText("the impact assessment", 4000),
+  impact: clearableText("the impact assessment", 4000).transform((s) => s || undefined),
 });
 
 export const updateDeviationSchema = z.object({

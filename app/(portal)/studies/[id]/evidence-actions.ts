@@ -21,7 +21,7 @@ export const recordIndicatorAction = formAction("study:run", indicatorFormSchema
 });
 
 export const raiseDeviationAction = formAction("study:run", raiseDeviationSchema, async ({ studyId, ...input }, actor) => {
-  await raiseDeviation({ actor, id: studyId, input: { ...input, impact: input.impact ?? undefined } });
+  await raiseDeviation({ actor, id: studyId, input });
   refreshStudy(studyId);
   return "Deviation raised. The study cannot be approved until it is closed.";
 });

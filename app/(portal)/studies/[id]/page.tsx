@@ -32,12 +32,6 @@ export default async function StudyPage({ params, searchParams }: { params: Prom
   const raw = await searchParams;
   const attachCycleId = typeof raw.attach === "string" ? raw.attach : undefined;
   const [detail, timeZone] = await Promise.all([orNotFound(getStudyDetail({ actor, id })), siteTimeZone({ actor })]);
-  // The evidence panels print people by name.
-  const evidence = {
-    ...detail,
-    indicators: detail.indicators.map((i) => ({ ...i, recordedBy: i.recordedBy.name })),
-    deviations: detail.deviations.map((d) => ({ ...d, openedBy: d.openedBy?.name ?? null, closedBy: d.closedBy?.name ?? null })),
-  };
   const attach = detail.allowed.attach ? await attachChoices(actor, id, attachCycleId) : null;
   return (
     <>
@@ -100,8 +94,8 @@ export default async function StudyPage({ params, searchParams }: { params: Prom
             <StudyHeatMap summary={detail.summary} criteria={detail.criteria} />
           </Panel>
 
-          <StudyIndicatorsPanel detail={evidence} timeZone={timeZone} />
-          <StudyDeviationsPanel detail={evidence} timeZone={timeZone} />
+          <StudyIndicatorsPanel detail={detail} timeZone={timeZone} />
+          <StudyDeviationsPanel detail={detail} timeZone={timeZone} />
 
           <Panel title="Study report">
             <ReportLinks detail={detail} timeZone={timeZone} />
