@@ -89,6 +89,7 @@ const ACTIONS: Record<string, Row> = {
   "/sterilizers saveScheduleAction": only("engineer"),
   "/sterilizers removeScheduleAction": only("engineer"),
   "/sterilizers setSterilizerStatusAction": only("engineer"),
+  "/sterilizers/[id] setPatternRequiredBeforeUseAction": only("engineer"),
   "/tokens issueApiTokenAction": only("engineer", "admin"),
   "/tokens revokeApiTokenAction": only("engineer", "admin"),
 };
