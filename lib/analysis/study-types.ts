@@ -35,6 +35,7 @@ export type StudyRunInput = {
 /** One position in one run, from the channel mapped there. */
 export type RunPositionFigures = {
   positionId: string;
+  /** the channel mapped there; two channels at one position are joined with ", " and read together (the lower F0, the wider range) */
   header: string;
   /** °C during holding; null: no reading in the hold */
   minTempC: number | null;
@@ -60,6 +61,8 @@ export type RunSummary = {
   /** highest maximum minus lowest minimum over the run's positions during holding, K (an upper bound of the spread at one instant) */
   spreadK: number | null;
   positiveIndicators: RunIndicator[];
+  /** pattern positions without a biological indicator reading, when the study requires indicators */
+  missingIndicators: string[];
 };
 
 export type PositionAcrossRuns = {
@@ -74,6 +77,10 @@ export type PositionAcrossRuns = {
   /** by run number */
   f0ByRun: Record<number, number | null>;
   minTempByRun: Record<number, number | null>;
+  maxTempByRun: Record<number, number | null>;
+  equilibrationByRun: Record<number, number | null>;
+  /** run numbers in which this position was the run's cold spot */
+  coldSpotRuns: number[];
 };
 
 export type StudySummary = {
