@@ -93,6 +93,7 @@ const ACTIONS: Record<string, Row> = {
   "/sterilizers saveScheduleAction": only("engineer"),
   "/sterilizers removeScheduleAction": only("engineer"),
   "/sterilizers setSterilizerStatusAction": only("engineer"),
+  "/sterilizers/[id] setPatternRequiredBeforeUseAction": only("engineer"),
   "/studies createStudyAction": only("engineer"),
   "/studies/[id] updateStudyDraftAction": only("engineer"),
   "/studies/[id] attachRunAction": makers(),
