@@ -73,7 +73,7 @@ async function threeSignedCycles(technician: Page, engineer: Page) {
 }
 
 test("an engineer plans a study in the browser; three signed cycles become its runs; author, reviewer and QA sign it and its report is archived", async ({ browser }) => {
-  test.setTimeout(420_000);
+  test.setTimeout(600_000);
   const author = await browser.newPage();
   await signIn(author, "engineer");
 
