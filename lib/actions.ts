@@ -11,7 +11,7 @@ import type { FormState } from "./form-state";
  * The one shape of a server action: guard (session and role) → parse the form with zod → act.
  * Failures come back as a state with a plain message and per-field errors, never as a throw.
  */
-export function formAction<S extends ZodType>(permission: Permission, schema: S, act: (input: z.infer<S>, actor: Actor) => Promise<string | void>) {
+export function formAction<S extends ZodType>(permission: Permission, schema: S, act: (input: z.infer<S>, actor: Actor) => Promise<string | void | { message: string; href: string }>) {
   return async (_prev: FormState, formData: FormData): Promise<FormState> => {
     let actor: Actor;
     try {
@@ -26,8 +26,9 @@ export function formAction<S extends ZodType>(permission: Permission, schema: S,
       return { status: "error", message: "Please correct the fields marked below.", fieldErrors };
     }
     try {
-      const message = await act(parsed.data, actor);
-      return { status: "ok", message: message ?? "Saved." };
+      const done = await act(parsed.data, actor);
+      if (typeof done === "object") return { status: "ok", message: done.message, href: done.href };
+      return { status: "ok", message: done ?? "Saved." };
     } catch (error) {
       if (error instanceof AppError) {
         return { status: "error", message: error.message, fieldErrors: error.field ? { [error.field]: error.message } : undefined };

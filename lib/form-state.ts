@@ -6,6 +6,8 @@ export type FormState = {
   status: "idle" | "ok" | "error";
   message?: string;
   fieldErrors?: Record<string, string>;
+  /** where the form goes next after success (a record it created); the form navigates there */
+  href?: string;
 };
 
 export const IDLE_FORM_STATE: FormState = { status: "idle" };

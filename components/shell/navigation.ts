@@ -11,6 +11,7 @@ export const NAV_ITEMS: NavItem[] = [
   { href: "/sterilizers", label: "Sterilizers", permission: "equipment:read" },
   { href: "/instruments", label: "Instruments", permission: "equipment:read" },
   { href: "/periodic-tests", label: "Periodic tests", permission: "equipment:read" },
+  { href: "/studies", label: "Studies", permission: "study:read" },
   { href: "/archive", label: "Signed archive", permission: "archive:read" },
   { href: "/audit", label: "Audit ledger", permission: "audit:read" },
   { href: "/steam", label: "Steam calculator", permission: "steam:calculate" },

@@ -98,12 +98,21 @@ const ACTIONS: Record<string, Row> = {
   "/periodic-tests recordSuperheatAction": makers(),
   "/periodic-tests recordDrynessAction": makers(),
   "/profiles createProfileAction": only("engineer"),
+  "/studies/[id] recordIndicatorAction": makers(),
+  "/studies/[id] raiseDeviationAction": makers(),
+  "/studies/[id] updateDeviationAction": makers(),
+  "/studies/[id] closeDeviationAction": only("engineer"),
   "/profiles updateProfileAction": only("engineer"),
   "/sterilizers createSterilizerAction": only("engineer"),
   "/sterilizers updateSterilizerAction": only("engineer"),
   "/sterilizers saveScheduleAction": only("engineer"),
   "/sterilizers removeScheduleAction": only("engineer"),
   "/sterilizers setSterilizerStatusAction": only("engineer"),
+  "/sterilizers/[id] setPatternRequiredBeforeUseAction": only("engineer"),
+  "/studies createStudyAction": only("engineer"),
+  "/studies/[id] updateStudyDraftAction": only("engineer"),
+  "/studies/[id] attachRunAction": makers(),
+  "/studies/[id] signStudyAction": only("engineer"),
   "/tokens issueApiTokenAction": only("engineer", "admin"),
   "/tokens revokeApiTokenAction": only("engineer", "admin"),
 };
@@ -111,11 +120,11 @@ const ACTIONS: Record<string, Row> = {
 const HTTP_METHODS = ["GET", "HEAD", "POST", "PUT", "PATCH", "DELETE", "OPTIONS"];
 const APP = path.join(import.meta.dirname, "../../app");
 
-function filesNamed(dir: string, name: string): string[] {
+function filesNamed(dir: string, name: string | ((file: string) => boolean)): string[] {
   return readdirSync(dir, { withFileTypes: true }).flatMap((entry) => {
     const full = path.join(dir, entry.name);
     if (entry.isDirectory()) return filesNamed(full, name);
-    return entry.name === name ? [full] : [];
+    return (typeof name === "string" ? entry.name === name : name(entry.name)) ? [full] : [];
   });
 }
 
@@ -125,7 +134,8 @@ type Module = Record<string, unknown>;
 const load = (file: string) => import(/* @vite-ignore */ file) as Promise<Module>;
 
 const routeFiles = new Map(filesNamed(path.join(APP, "api"), "route.ts").map((file) => [folderOf(file), file]));
-const actionFiles = new Map(filesNamed(APP, "actions.ts").map((file) => [withoutGroups(folderOf(file)), file]));
+// actions.ts, and "<part>-actions.ts" where one segment has several (the study page's evidence-actions.ts)
+const actionFiles: Array<[string, string]> = filesNamed(APP, (name) => name === "actions.ts" || name.endsWith("-actions.ts")).map((file) => [withoutGroups(folderOf(file)), file]);
 
 let ctx: Awaited<ReturnType<typeof useTemporaryDatabase>>;
 const userIds: Partial<Record<Who, string>> = {};
@@ -167,7 +177,8 @@ async function callRoute(key: string, who: Who | "bearer"): Promise<number> {
 /** Calls a server action with an empty form; its form state says whether the guard refused. */
 async function callAction(key: string, who: Who): Promise<Outcome> {
   const [folder, name] = key.split(" ");
-  const action = (await load(actionFiles.get(folder)!))[name] as (state: unknown, form: FormData) => Promise<{ status: string; message?: string }>;
+  const modules = await Promise.all(actionFiles.filter(([f]) => f === folder).map(([, file]) => load(file)));
+  const action = modules.find((m) => name in m)![name] as (state: unknown, form: FormData) => Promise<{ status: string; message?: string }>;
   actAs(who);
   const state = await action({ status: "idle" }, new FormData());
   if (state.status === "error" && /sign in/i.test(state.message ?? "")) return 401;
