@@ -17,6 +17,7 @@ import { auditActor, getSiteContext } from "./site";
 import { studyDetailOf, studyOfSite } from "./studies-detail";
 import { anchorLedgerHeadAfterArchive } from "./ledger-anchors";
 import { renderStudyReportForArchive } from "./studies-report-archive";
+import { studyReportNumber } from "./study-report";
 
 /**
  * What a study signature is bound to: criteria, pattern, runs (analysis ids and sensor maps), the indicator readings
@@ -85,9 +86,9 @@ export async function signStudy({ actor, id, password, meaning, reason }: { acto
   const signatureId = crypto.randomUUID();
   const nextStatus = NEXT_STUDY_STATUS[meaning];
   const approving = meaning === "qa-approved";
-  const { timeZone, today } = approving ? await getSiteContext({ actor, now }) : { timeZone: "UTC", today: "" };
+  const { site, timeZone, today } = approving ? await getSiteContext({ actor, now }) : { site: undefined, timeZone: "UTC", today: "" };
   const dueOn = approving ? addMonths(today, detail.requalificationMonths) : null;
-  const reportNumber = `${detail.studyNumber}-R`;
+  const reportNumber = studyReportNumber(detail.studyNumber);
   const archived = approving
     ? await renderStudyReportForArchive(
         {
@@ -96,7 +97,7 @@ export async function signStudy({ actor, id, password, meaning, reason }: { acto
           signatures: [...detail.signatures, { id: signatureId, ...signed, role: signer.role, contentHash }],
           loadingPattern: { ...detail.loadingPattern, requalificationDueOn: dueOn },
         },
-        { reportNumber, generatedAt: signedAt, timeZone },
+        { reportNumber, generatedAt: signedAt, site: { name: site?.name ?? "", timeZone } },
       )
     : null;
   const reportSha256 = archived ? sha256Hex(archived) : null;
