@@ -32,6 +32,7 @@ import { zoneOffsetMs } from "@/lib/domain";
 import { STORY_OUT_OF_USE, STORY_RELEASED, tellFitnessStory } from "./demo-story";
 import { DEMO_LOADS, demoCycleStart, demoPeriodicTests, demoScheduleFor, type DemoKind } from "./demo-schedule";
 import { demoLoad, demoMapping } from "./demo-positions";
+import { loadDemoStudies } from "./demo-studies";
 
 export { DEMO_USERS };
 
@@ -342,10 +343,11 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
 
   const decisions = await signOlderDemoCycles(db, password, now);
   const story = await tellFitnessStory(db, { password, now, timeZone: DEMO_TIME_ZONE });
+  const studies = await loadDemoStudies(db, { password, now, timeZone: DEMO_TIME_ZONE });
 
   return {
     loaded: true,
-    summary: `1 site, ${DEMO_USERS.length} users, ${DEMO_STERILIZERS.length} sterilizers, ${cycleCount} cycles (${failCount} failing), ${decisions.approved} approved with archived reports, ${decisions.returned} returned; ${story.outOfUse} out of use after a confirmed Bowie-Dick failure, ${story.released} back in use after a passing repeat`,
+    summary: `1 site, ${DEMO_USERS.length} users, ${DEMO_STERILIZERS.length} sterilizers, ${cycleCount} cycles (${failCount} failing), ${decisions.approved} approved with archived reports, ${decisions.returned} returned; ${story.outOfUse} out of use after a confirmed Bowie-Dick failure, ${story.released} back in use after a passing repeat; qualification study ${studies.approved} approved, ${studies.running} running with an open deviation`,
   };
 }
 

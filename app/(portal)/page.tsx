@@ -6,6 +6,7 @@ import { PageHeader, Panel } from "@/components/ui/panel";
 import { CycleList } from "@/components/home/cycle-list";
 import { CalibrationsDueList, TestsDueList } from "@/components/home/due-list";
 import { StatusBoard } from "@/components/dashboard/status-board";
+import { RequalificationDueList } from "@/components/studies/requalification-list";
 
 export const metadata = { title: "Overview" };
 
@@ -60,6 +61,9 @@ export default async function HomePage() {
             }
           >
             <CycleList items={home.approved} empty="No record has been approved yet." timeZone={timeZone} />
+          </Panel>
+          <Panel title="Loading pattern requalification">
+            <RequalificationDueList items={home.patterns} />
           </Panel>
           <Panel title="Evidence checks">
             <ul className="space-y-2 text-sm">
@@ -118,6 +122,9 @@ export default async function HomePage() {
         </Panel>
         <Panel title="Calibrations due">
           <CalibrationsDueList items={calibrations} />
+        </Panel>
+        <Panel title="Loading pattern requalification">
+          <RequalificationDueList items={home.patterns} />
         </Panel>
       </div>
     </>

@@ -4,7 +4,8 @@ import { SterilizerStatusLine } from "@/components/equipment/sterilizer-status";
 import type { SterilizerStatus } from "@/lib/domain";
 import { plural, agree } from "@/lib/domain";
 
-type Item = { id: string; name: string; status: SterilizerStatus; statusReason: string; statusSince: string };
+/** notices: loads this sterilizer may not run although it is in use (a pattern required before use and not requalified). */
+type Item = { id: string; name: string; status: SterilizerStatus; statusReason: string; statusSince: string; notices?: string[] };
 
 /** Each sterilizer of the site, in use or out of use, with the reason and since when; out of use first. */
 export function StatusBoard({ items, timeZone, linked }: { items: Item[]; timeZone: string; linked: boolean }) {
@@ -26,6 +27,11 @@ export function StatusBoard({ items, timeZone, linked }: { items: Item[]; timeZo
             <div className="mt-1">
               <SterilizerStatusLine status={s.status} reason={s.statusReason} since={s.statusSince} timeZone={timeZone} />
             </div>
+            {s.notices?.map((notice) => (
+              <p key={notice} className="mt-1 text-sm font-medium text-fail-700" data-testid="load-notice">
+                ✕ {notice}
+              </p>
+            ))}
           </li>
         ))}
       </ul>

@@ -4,6 +4,7 @@ import { getAdminOverview, listCalibrationsDue, listCyclesAwaitingReview, listMy
 import { can } from "@/lib/auth/permissions";
 import { getScheduleOverview } from "./periodic-tests";
 import { getSiteContext } from "./site";
+import { getRequalificationOverview } from "./requalification";
 import { getStatusBoard } from "./sterilizer-status";
 
 /**
@@ -15,15 +16,18 @@ export async function getHomeDashboard({ actor }: { actor: Actor }) {
   const siteName = site?.name ?? null;
   const siteId = actor.siteId;
   // Every role sees at a glance which sterilizers may be used.
-  const board = await getStatusBoard({ actor });
+  const [statuses, requalification] = await Promise.all([getStatusBoard({ actor }), getRequalificationOverview({ actor })]);
+  // A sterilizer in use may still hold a load whose pattern must be requalified before use (issue 14 §7).
+  const board = statuses.map((s) => ({ ...s, notices: requalification.patterns.filter((p) => p.sterilizerId === s.id && p.blockedNotice).map((p) => p.blockedNotice!) }));
+  const patterns = requalification.patterns;
   if (actor.role === "admin") {
     const overview = siteId ? await getAdminOverview({ siteId }) : { users: 0, disabled: 0, failedSignIns: 0 };
     return { kind: "admin" as const, siteName, timeZone, board, overview };
   }
   if (actor.role === "auditor") {
-    return { kind: "auditor" as const, siteName, timeZone, board, approved: siteId ? await listRecentlyApproved({ siteId }) : [] };
+    return { kind: "auditor" as const, siteName, timeZone, board, patterns, approved: siteId ? await listRecentlyApproved({ siteId }) : [] };
   }
-  if (!siteId) return { kind: "worker" as const, siteName, timeZone, board, review: null, mine: [], failures: [], testsDue: [], calibrations: [] };
+  if (!siteId) return { kind: "worker" as const, siteName, timeZone, board, patterns, review: null, mine: [], failures: [], testsDue: [], calibrations: [] };
   const [review, mine, failures, testsDue, calibrations] = await Promise.all([
     can(actor.role, "review:queue") ? listCyclesAwaitingReview({ siteId }) : Promise.resolve(null),
     listMyOpenCycles({ siteId, userId: actor.id }),
@@ -31,5 +35,5 @@ export async function getHomeDashboard({ actor }: { actor: Actor }) {
     getScheduleOverview({ actor }).then((o) => o.rows.filter((r) => r.needsAction)),
     listCalibrationsDue({ siteId }),
   ]);
-  return { kind: "worker" as const, siteName, timeZone, board, review, mine, failures, testsDue, calibrations };
+  return { kind: "worker" as const, siteName, timeZone, board, patterns, review, mine, failures, testsDue, calibrations };
 }

@@ -24,6 +24,7 @@ import type { SterilizerInput } from "@/lib/validations/equipment";
 import { getScheduleOverview } from "./periodic-tests";
 import { auditActor, getSiteContext, siteIdOf } from "./site";
 import { currentSterilizerStatuses, listSterilizerStatusHistory, refreshSterilizerStatus } from "./sterilizer-status";
+import { getRequalificationOverview } from "./requalification";
 
 const DAY_MS = 86_400_000;
 
@@ -119,7 +120,9 @@ export async function getSterilizersPage({ actor }: { actor: Actor }) {
 export async function getSterilizerPage({ actor, id }: { actor: Actor; id: string }) {
   const mayManage = can(actor.role, "equipment:manage");
   const [detail, profiles] = await Promise.all([getSterilizerDetail({ actor, id }), mayManage ? listActiveProfileChoices({ siteId: siteIdOf(actor) }) : Promise.resolve([])]);
-  return { ...detail, profiles, mayManage, mayRecord: can(actor.role, "periodic-test:record") };
+  // Loading patterns and their requalification (issue 14 §7), once the sterilizer is known to be on the actor's site.
+  const { patterns } = await getRequalificationOverview({ actor, sterilizerId: id });
+  return { ...detail, profiles, mayManage, mayRecord: can(actor.role, "periodic-test:record"), patterns, mayDecideRequalification: can(actor.role, "study:plan") };
 }
 
 async function checkProfileOnSite(actor: Actor, profileId: string | null) {

@@ -14,6 +14,7 @@ import { StatusHistory } from "@/components/equipment/status-history";
 import { formatDate, formatDateTime } from "@/lib/format";
 import { formatDuration, PERIODIC_TEST_KINDS, testKindLabel, plural, formatVolume } from "@/lib/domain";
 import { TableFrame } from "@/components/ui/table-frame";
+import { RequalificationTable } from "@/components/studies/requalification-list";
 
 export const metadata = { title: "Sterilizer" };
 
@@ -42,6 +43,8 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
     profiles,
     mayManage: manage,
     mayRecord: record,
+    patterns,
+    mayDecideRequalification,
   } = await orNotFound(getSterilizerPage({ actor, id }));
   const passPct = trends.passRate === null ? null : Math.round(trends.passRate * 100);
   return (
@@ -158,6 +161,10 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
             </p>
           </Panel>
 
+          <Panel title="Loading patterns and requalification">
+            <RequalificationTable items={patterns} mayDecide={mayDecideRequalification && s.active} />
+          </Panel>
+
           <Panel
             title="Recent cycles"
             action={
@@ -208,7 +215,16 @@ export default async function SterilizerPage({ params }: { params: Promise<{ id:
         <div className="space-y-gutter">
           <Panel title="Status">
             {s.active ? (
-              <SterilizerStatusLine status={s.status} reason={s.statusReason} since={s.statusSince} timeZone={timeZone} />
+              <>
+                <SterilizerStatusLine status={s.status} reason={s.statusReason} since={s.statusSince} timeZone={timeZone} />
+                {patterns.map((p) =>
+                  p.blockedNotice ? (
+                    <p key={p.id} className="mt-1 text-sm font-medium text-fail-700" data-testid="load-notice">
+                      ✕ {p.blockedNotice}
+                    </p>
+                  ) : null,
+                )}
+              </>
             ) : (
               <p className="text-sm text-ink-muted">Retired: not judged any more.</p>
             )}
