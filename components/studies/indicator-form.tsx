@@ -27,8 +27,10 @@ export function IndicatorForm({
   recorded: Array<{ runId: string; positionId: string; kind: IndicatorKind }>;
 }) {
   const { state, pending, formRef, onSubmit, onChange, errors } = useFormAction(recordIndicatorAction);
-  const [runId, setRunId] = useState(runs[runs.length - 1]?.id ?? "");
-  const [positionId, setPositionId] = useState(positions[0]?.id ?? "");
+  // Start at the first place still without a biological reading, so the usual next entry needs no choosing.
+  const unread = runs.flatMap((r) => positions.map((p) => ({ runId: r.id, positionId: p.id }))).find((slot) => !isIndicatorCorrection(recorded, { ...slot, kind: "biological" }));
+  const [runId, setRunId] = useState(unread?.runId ?? runs[runs.length - 1]?.id ?? "");
+  const [positionId, setPositionId] = useState(unread?.positionId ?? positions[0]?.id ?? "");
   const [kind, setKind] = useState<IndicatorKind>("biological");
   const [population, setPopulation] = useState("");
   const [local, setLocal] = useState("");
