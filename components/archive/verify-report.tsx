@@ -59,6 +59,14 @@ export function VerifyReport() {
               ✓ <strong>{name}</strong> is byte for byte the audit-trail extract{outcome.events === null ? "" : ` of ${plural(outcome.events, "event")}`} exported by{" "}
               {outcome.exportedBy ?? "an unknown person"} on {new Date(outcome.exportedAt).toUTCString()}, as ledger event {outcome.seq} recorded it.
             </p>
+          ) : outcome.match && outcome.kind === "study-report" ? (
+            <p>
+              ✓ <strong>{name}</strong> is byte for byte the archived report <span className="mono">{outcome.reportNumber}</span> of qualification study{" "}
+              <Link className="underline" href={`/studies/${outcome.studyId}`}>
+                {outcome.studyNumber}
+              </Link>
+              , archived {new Date(outcome.archivedAt).toUTCString()}.
+            </p>
           ) : outcome.match ? (
             <p>
               ✓ <strong>{name}</strong> is byte for byte the archived report <span className="mono">{outcome.reportNumber}</span> of cycle{" "}

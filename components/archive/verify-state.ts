@@ -5,6 +5,7 @@
  */
 export type VerifyOutcome =
   | { match: true; kind?: undefined; sha256: string; cycleId: string; reportNumber: string; cycleNumber: string; archivedAt: string }
+  | { match: true; kind: "study-report"; sha256: string; studyId: string; studyNumber: string; reportNumber: string; archivedAt: string }
   | { match: true; kind: "audit-extract"; sha256: string; seq: number; exportedAt: string; exportedBy: string | null; events: number | null }
   | { match: false; sha256: string; problem?: string };
 

@@ -134,6 +134,16 @@ export const AUDIT_ACTIONS: Record<string, Kind> = {
     label: "Report failed its integrity check",
     what: (f) => `found the report ${str(f.new.reportNumber) ?? ""} of cycle ${f.record} failing its integrity check`.replace("  ", " "),
   },
+  "study.report-draft": { label: "Exported a draft study report", what: (f) => `exported a draft report of study ${f.record}` },
+  "study.report-verify": {
+    label: "Checked a study report file",
+    what: (f) =>
+      f.new.match === true ? `checked a report file: it matches the archived report of study ${f.record}` : `checked a report file against the archived report of study ${f.record}: no match`,
+  },
+  "study.report-integrity-failed": {
+    label: "Study report failed its integrity check",
+    what: (f) => `found the report ${str(f.new.reportNumber) ?? ""} of study ${f.record} failing its integrity check`.replace("  ", " "),
+  },
   "signature.failed": { label: "Wrong signing password", what: (f) => `entered a wrong password signing ${f.record}` },
   "signature.locked": { label: "Signing locked", what: (f) => `was locked out of signing after wrong passwords (signing ${f.record})` },
   "periodic-test.record": { label: "Recorded a periodic test", what: (f) => `recorded ${withArticle(inSentence(testKindLabel(str(f.new.kind) ?? "test")))} for ${str(f.new.sterilizer) ?? f.record}` },

@@ -1,6 +1,7 @@
 import "server-only";
 import type { Actor } from "@/db/queries/users";
 import { countArchivedReports, listArchivedReports } from "@/db/queries/reviews";
+import { listStudyReports } from "@/db/queries/study-reports";
 import { can } from "@/lib/auth/permissions";
 import { cachedTotal } from "./list-totals";
 import { getSiteContext } from "./site";
@@ -14,10 +15,12 @@ export const ARCHIVE_PAGE_SIZE = 50;
 export async function getArchivePage({ actor, q, from, to, page = 1 }: { actor: Actor; q?: string; from?: string; to?: string; page?: number }) {
   const mayList = can(actor.role, "archive:read");
   const filter = { q: q?.trim() || undefined, from, to };
-  const [rows, total, { timeZone }] = await Promise.all([
+  const [rows, total, { timeZone }, studyReports] = await Promise.all([
     mayList ? listArchivedReports({ actor, ...filter, page, pageSize: ARCHIVE_PAGE_SIZE }) : Promise.resolve([]),
     mayList ? cachedTotal({ list: "archive", siteId: actor.siteId ?? "", filter, count: () => countArchivedReports({ actor, ...filter }) }) : Promise.resolve(0),
     getSiteContext({ actor }),
+    // Qualification studies' reports, listed apart: a study has one, so the list stays short and is not filtered.
+    mayList ? listStudyReports({ actor }) : Promise.resolve([]),
   ]);
-  return { rows, total, page, pageSize: ARCHIVE_PAGE_SIZE, timeZone, mayList };
+  return { rows, total, page, pageSize: ARCHIVE_PAGE_SIZE, timeZone, mayList, studyReports };
 }

@@ -1,8 +1,7 @@
 import "server-only";
 import { getCycleRow } from "@/db/queries/cycles";
 import { findReportBySha256, getArchivedReportRow, getReportOfCycle } from "@/db/queries/reviews";
-import { getLedgerHead, listAuditEventsForEntity, recordAuditEvent } from "@/db/queries/audit";
-import { auditEventHash } from "@/db/ledger";
+import { getLedgerHead, recordAuditEvent } from "@/db/queries/audit";
 import { AppError } from "@/lib/errors";
 import { isLockedCycleStatus } from "@/lib/domain";
 import { canonicalJson, sha256Hex } from "@/lib/integrity";
@@ -14,6 +13,8 @@ import { getCycleDetail } from "./cycles";
 import { getCycleSeries } from "./cycle-series";
 import { getIndicatorSheetForReport } from "./bowie-dick";
 import { findAuditExtract } from "./audit-export";
+import { assertReportIntact, recordIntegrityFailure, reportIntegrityProblem, type StoredReport } from "./report-integrity";
+import { verifyStudyReportBytes } from "./study-report";
 
 const REPORT_VERIFY_HINT =
   "To check this report, sign in to Papin and drop the PDF on Signed archive → Check a report, or POST it to /api/reports/verify. A byte-for-byte match names the archived record.";
@@ -50,56 +51,14 @@ async function cachedDraft(actor: Actor, detail: CycleDetail, reportNumber: stri
   return rendering;
 }
 
-/** Statuses whose report was rendered once at sign-off and archived: served from the archive only. */
-
-type StoredReport = { id: string; cycleId: string; reportNumber: string; sha256: string; bytes: Uint8Array };
-
-/** What the ledger event that archived the report recorded about it, if the value names it. */
-function archivedReportOf(newValue: string | null): { report?: unknown; reportSha256?: unknown } | null {
-  if (!newValue) return null;
-  try {
-    const value = JSON.parse(newValue);
-    return value && typeof value === "object" ? value : null;
-  } catch {
-    return null;
-  }
-}
-
-/**
- * Why an archived report's bytes cannot be trusted, or null: they must hash to the stored SHA-256
- * and to the one the (unaltered) ledger event that archived them recorded.
- */
-async function reportIntegrityProblem(report: StoredReport): Promise<string | null> {
-  const actual = sha256Hex(report.bytes);
-  if (actual !== report.sha256) return `The stored bytes of report ${report.reportNumber} no longer match the SHA-256 archived with them.`;
-  const events = await listAuditEventsForEntity({ entityType: "cycle", entityId: report.cycleId });
-  const event = events.find((e) => archivedReportOf(e.newValue)?.report === report.id);
-  if (!event) return `The audit ledger holds no event that archived report ${report.reportNumber}, so its bytes cannot be checked against the ledger.`;
-  const { seq, hash, ...fields } = event;
-  if (auditEventHash(fields) !== hash) return `The ledger event that archived report ${report.reportNumber} (event ${seq}) was changed after it was written.`;
-  if (archivedReportOf(event.newValue)?.reportSha256 !== actual) return `Report ${report.reportNumber} does not match the SHA-256 the audit ledger recorded when it was archived (event ${seq}).`;
-  return null;
-}
-
-async function recordIntegrityFailure(actor: Actor, report: StoredReport, siteId: string | null, problem: string) {
-  await recordAuditEvent({
-    actorId: actor.id,
-    actorEmail: actor.email,
-    siteId,
-    action: "report.integrity-failed",
-    entityType: "cycle",
-    entityId: report.cycleId,
-    newValue: { report: report.id, reportNumber: report.reportNumber, storedSha256: report.sha256, bytesSha256: sha256Hex(report.bytes), problem },
-  });
-}
-
-/** Refuses (409, audited) an archived report whose bytes fail the integrity check; never serves it. */
-async function assertReportIntact(actor: Actor, report: StoredReport, siteId: string | null) {
-  const problem = await reportIntegrityProblem(report);
-  if (!problem) return;
-  await recordIntegrityFailure(actor, report, siteId, problem);
-  throw new AppError(409, `${problem} The report is not served; tell your auditor, who can compare it with the ledger and a backup.`);
-}
+const cycleReport = (row: { id: string; cycleId: string; reportNumber: string; sha256: string }, bytes: Uint8Array): StoredReport => ({
+  id: row.id,
+  reportNumber: row.reportNumber,
+  sha256: row.sha256,
+  bytes,
+  entityType: "cycle",
+  entityId: row.cycleId,
+});
 
 /**
  * The PDF of a cycle: the archived bytes once approved (never re-rendered, so later code changes
@@ -112,7 +71,7 @@ export async function getCycleReport({ actor, id }: { actor: Actor; id: string }
   const archived = await getReportOfCycle({ cycleId: id });
   if (archived && isLockedCycleStatus(cycle.status)) {
     const bytes = new Uint8Array(archived.bytes);
-    await assertReportIntact(actor, { ...archived, bytes }, cycle.siteId);
+    await assertReportIntact(actor, cycleReport(archived, bytes), cycle.siteId);
     return { bytes, fileName: `${archived.reportNumber}.pdf`, archived: true, reportNumber: archived.reportNumber };
   }
   const detail = await getCycleDetail({ actor, id });
@@ -130,11 +89,13 @@ export async function verifyReportBytes({ actor, bytes }: { actor: Actor; bytes:
   const row = await findReportBySha256({ actor, sha256 });
   const sameBytes = !!row && Buffer.compare(Buffer.from(row.stored), Buffer.from(bytes)) === 0;
   // An archive row altered behind the ledger's back (bytes and hash together) matches nothing.
-  const stored = sameBytes ? { id: row!.id, cycleId: row!.cycleId, reportNumber: row!.reportNumber, sha256, bytes } : null;
+  const stored = sameBytes ? cycleReport({ ...row!, sha256 }, bytes) : null;
   const problem = stored ? await reportIntegrityProblem(stored) : null;
   const match = sameBytes && !problem;
   const cycleId = match ? row!.cycleId : null;
-  // Not an archived report: it may be an audit-trail extract, whose SHA-256 the ledger recorded at export.
+  // Not an archived cycle report: it may be a study's report, or an audit-trail extract whose SHA-256 the ledger recorded at export.
+  const study = row ? null : await verifyStudyReportBytes({ actor, bytes, sha256 });
+  if (study) return study;
   const extract = row ? null : await findAuditExtract({ actor, sha256 });
   if (extract) {
     await recordAuditEvent({
@@ -163,7 +124,7 @@ export async function downloadArchivedReport({ actor, id }: { actor: Actor; id: 
   const row = await getArchivedReportRow({ actor, id });
   if (!row) throw new AppError(404, "That archived report was not found.");
   const bytes = new Uint8Array(row.bytes);
-  await assertReportIntact(actor, { ...row, bytes }, actor.siteId);
+  await assertReportIntact(actor, cycleReport(row, bytes), actor.siteId);
   await recordAuditEvent({
     actorId: actor.id,
     actorEmail: actor.email,

@@ -193,6 +193,8 @@ export function studyDetailOf(actor: Actor, rows: StudyRecordRows): StudyDetail 
       sensorMap: r.run.sensorMap,
       attachedAt: r.run.attachedAt,
       attachedBy: { id: r.run.attachedBy, name: r.attachedByName },
+      equilibrationTimeS: thermometricOf(r.analysisResult as CycleAnalysis)?.equilibrationTime ?? null,
+      holdingTimeS: thermometricOf(r.analysisResult as CycleAnalysis)?.holdingTime ?? null,
     })),
     summary,
     indicators,

@@ -56,6 +56,9 @@ export type StudyRunView = {
   sensorMap: Record<string, string>;
   attachedAt: string;
   attachedBy: { id: string; name: string };
+  /** the attached analysis's own figures (the report's run table) */
+  equilibrationTimeS: number | null;
+  holdingTimeS: number | null;
 };
 
 export type StudyIndicatorView = {

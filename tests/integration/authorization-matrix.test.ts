@@ -59,6 +59,7 @@ const ROUTES: Record<string, Row> = {
   "GET /api/profiles": { ...readers(), bearer: "allowed" },
   "GET /api/reports/[id]": only("engineer", "auditor"),
   "POST /api/reports/verify": everyRole(),
+  "GET /api/studies/[id]/report": readers(),
   "GET /api/steam/saturation": everyRole(),
   "GET /api/sterilizers": { ...readers(), bearer: "allowed" },
   "POST /api/sterilizers/[id]/status": only("engineer"),

@@ -1,9 +1,13 @@
 /** The study report's words that are worked out rather than printed as stored: the conclusion and each run's key figures. */
 import { formatDuration, plural } from "@/lib/domain";
+import { heatValueText } from "@/lib/charts/heat-map";
 import { fixed } from "../text";
 import type { StudyReportDetail } from "./model";
 
 export type StudyConclusion = { tone: "pass" | "fail" | "open"; word: string; caption: string; sentence: string };
+
+/** F0 as the page's heat map prints it: two decimals below 100 min, so 59.96 never reads as a passing 60.0. */
+export const f0Text = (minutes: number | null | undefined): string => heatValueText(minutes ?? null, "f0");
 
 export const personName = (who: string | { name: string } | null | undefined): string => (who === null || who === undefined ? "—" : typeof who === "string" ? who : who.name);
 
@@ -33,7 +37,7 @@ export function studyConclusion(detail: StudyReportDetail): StudyConclusion {
       tone: "pass",
       word: "APPROVED",
       caption: "STUDY",
-      sentence: `The study met its acceptance criteria: the last ${plural(required, "run")} passed in a row; the cold spot ${positionLabel(detail, cold.position)} received at least ${fixed(cold.minF0, 1)} min F0 in every run (at least ${fixed(criteria.minF0Min, 1)} min required)${spread}; every deviation is closed.`,
+      sentence: `The study met its acceptance criteria: the last ${plural(required, "run")} passed in a row; the cold spot ${positionLabel(detail, cold.position)} received at least ${f0Text(cold.minF0)} min F0 in every run (at least ${f0Text(criteria.minF0Min)} min required)${spread}; every deviation is closed.`,
     };
   }
   const missing: string[] = [];

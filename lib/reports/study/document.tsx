@@ -8,7 +8,7 @@ import { fixed, pdfText } from "../text";
 import { CONTENT_WIDTH, colour } from "../theme";
 import { bothClocks } from "../time";
 import { DraftWatermark } from "../watermark";
-import { studyConclusion } from "./conclusion";
+import { f0Text, studyConclusion } from "./conclusion";
 import { StudyHeatMap } from "./heat-map";
 import { STUDY_REPORT_VERIFY_HINT, type StudyReportDetail, type StudyReportOptions } from "./model";
 import { CrossRunSection, DeviationsSection, IndicatorsSection, PatternSection, ProtocolSection, RunsSection } from "./sections";
@@ -37,7 +37,7 @@ export function StudyReportDocument({ detail, options }: { detail: StudyReportDe
       value: summary.coldSpot ? summary.coldSpot.position : "—",
       note: summary.coldSpot ? `in ${summary.coldSpot.runsAsColdSpot} of ${summary.coldSpot.runsCounted} runs` : "no readings",
     },
-    { label: "Lowest F0", value: summary.coldSpot ? `${fixed(summary.coldSpot.minF0, 1)} min` : "—", note: `at least ${fixed(criteria.minF0Min, 1)} min` },
+    { label: "Lowest F0", value: summary.coldSpot ? `${f0Text(summary.coldSpot.minF0)} min` : "—", note: `at least ${f0Text(criteria.minF0Min)} min` },
     { label: "Largest spread", value: summary.spreadK === null ? "—" : `${fixed(summary.spreadK, 2)} K`, note: `at most ${fixed(criteria.maxSpreadK, 1)} K` },
     { label: "Deviations", value: `${openDeviations} open`, note: `${plural(detail.deviations.length, "deviation")} in all` },
   ];

@@ -17,7 +17,8 @@ import { s } from "../styles";
 import { fixed } from "../text";
 import { colour } from "../theme";
 import { bothClocks } from "../time";
-import { personName, positionLabel, runEquilibrationText } from "./conclusion";
+import { breakReportNumber } from "../footer";
+import { f0Text, personName, positionLabel, runEquilibrationText } from "./conclusion";
 import type { StudyReportDetail } from "./model";
 import { Caption, Table } from "./table";
 
@@ -43,7 +44,7 @@ export function ProtocolSection({ detail, zone }: Props) {
         <Fact
           label="Minimum F0"
           wide
-        >{`${fixed(criteria.minF0Min, 1)} min at every load position, ${source(criteria.minF0Source, "its hold at Ts, as F0")}; Tref ${fixed(profile.f0ReferenceC, 1)} °C, z ${fixed(profile.f0ZK, 0)} K`}</Fact>
+        >{`${f0Text(criteria.minF0Min)} min at every load position, ${source(criteria.minF0Source, "its hold at Ts, as F0")}; Tref ${fixed(profile.f0ReferenceC, 1)} °C, z ${fixed(profile.f0ZK, 0)} K`}</Fact>
         <Fact label="Largest spread" wide>{`${fixed(criteria.maxSpreadK, 1)} K between positions during holding, ${source(criteria.maxSpreadSource, "its band")}`}</Fact>
         <Fact label="Indicators" wide>
           {criteria.indicatorsRequired
@@ -130,15 +131,15 @@ export function RunsSection({ detail, zone }: Props) {
       <Heading>Runs</Heading>
       <Table
         columns={[
-          { title: "Run", width: 5 },
-          { title: "Cycle", width: 13 },
-          { title: "Started", width: 17 },
-          { title: "Signed outcome", width: 13 },
+          { title: "Run", width: 4 },
+          { title: "Cycle", width: 17 },
+          { title: "Started", width: 16 },
+          { title: "Signed outcome", width: 12 },
           { title: "Equilibration", width: 12, numeric: true },
           { title: "Holding", width: 9, numeric: true },
           { title: "Cold spot (F0)", width: 13 },
           { title: "Spread", width: 8, numeric: true },
-          { title: "Judgement", width: 10 },
+          { title: "Judgement", width: 9 },
         ]}
         rows={detail.runs.map((run) => {
           const r = judged.get(run.id);
@@ -146,12 +147,13 @@ export function RunsSection({ detail, zone }: Props) {
             key: run.id,
             cells: [
               String(run.runNumber),
-              { text: run.cycleNumber, style: s.mono },
+              // Cycle numbers are long and have no spaces: broken at their hyphens so they stay in their column.
+              { text: breakReportNumber(run.cycleNumber, 17), style: s.monoSmall },
               dateOf(run.startedAt, zone),
               `${cycleStatusLabel(run.cycleStatus)}${run.cycleVerdict ? `, ${run.cycleVerdict.toUpperCase()}` : ""}`,
               runEquilibrationText(detail, run.id),
               run.holdingTimeS === undefined ? "—" : formatDuration(run.holdingTimeS),
-              r?.coldSpot ? `${r.coldSpot.positionId}, ${fixed(r.coldSpot.f0Min, 1)} min` : "—",
+              r?.coldSpot ? `${r.coldSpot.positionId}, ${f0Text(r.coldSpot.f0Min)} min` : "—",
               r?.spreadK === null || r?.spreadK === undefined ? "—" : `${fixed(r.spreadK, 2)} K`,
               { text: r ? r.judgement.toUpperCase() : "NOT JUDGED", style: judgementStyle(r?.judgement ?? "pending") },
             ],
@@ -198,8 +200,8 @@ export function CrossRunSection({ detail }: Props) {
             key: p.position,
             cells: [
               { text: `${p.position} ${p.label}`, style: summary.coldSpot?.position === p.position ? s.strong : {} },
-              ...runs.map((n) => ({ text: fixed(p.f0ByRun[n] ?? null, 1), style: (p.f0ByRun[n] ?? -Infinity) < criteria.minF0Min ? s.fail : {} })),
-              { text: fixed(p.minF0, 1), style: low ? s.fail : {} },
+              ...runs.map((n) => ({ text: f0Text(p.f0ByRun[n] ?? null), style: (p.f0ByRun[n] ?? -Infinity) < criteria.minF0Min ? s.fail : {} })),
+              { text: f0Text(p.minF0), style: low ? s.fail : {} },
               fixed(p.minTemp, 2),
               fixed(p.maxTemp, 2),
               p.maxEquilibrationS === null ? "not reached" : formatDuration(p.maxEquilibrationS),
@@ -211,9 +213,9 @@ export function CrossRunSection({ detail }: Props) {
       <Caption>
         {`${
           summary.coldSpot
-            ? `Cold spot over the study: ${positionLabel(detail, summary.coldSpot.position)}, lowest F0 ${fixed(summary.coldSpot.minF0, 1)} min; the cold spot in ${summary.coldSpot.runsAsColdSpot} of ${summary.coldSpot.runsCounted} runs. `
+            ? `Cold spot over the study: ${positionLabel(detail, summary.coldSpot.position)}, lowest F0 ${f0Text(summary.coldSpot.minF0)} min; the cold spot in ${summary.coldSpot.runsAsColdSpot} of ${summary.coldSpot.runsCounted} runs. `
             : "No cold spot: no run has readings. "
-        }Largest spread of a run: ${summary.spreadK === null ? "—" : `${fixed(summary.spreadK, 2)} K`} (limit ${fixed(criteria.maxSpreadK, 1)} K). F0 in minutes at Tref ${fixed(detail.profile.f0ReferenceC, 1)} °C, z ${fixed(detail.profile.f0ZK, 0)} K; temperatures during holding. Red: below the minimum F0 of ${fixed(criteria.minF0Min, 1)} min.${
+        }Largest spread of a run: ${summary.spreadK === null ? "—" : `${fixed(summary.spreadK, 2)} K`} (limit ${fixed(criteria.maxSpreadK, 1)} K). F0 in minutes at Tref ${fixed(detail.profile.f0ReferenceC, 1)} °C, z ${fixed(detail.profile.f0ZK, 0)} K; temperatures during holding. Red: below the minimum F0 of ${f0Text(criteria.minF0Min)} min.${
           summary.unmappedPositions.length > 0 ? ` Positions without a channel in any run: ${summary.unmappedPositions.map((p) => p.id).join(", ")}.` : ""
         }`}
       </Caption>

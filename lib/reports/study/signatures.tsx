@@ -1,5 +1,5 @@
 import { View } from "@react-pdf/renderer";
-import { STUDY_SIGNATURE_MEANING_LABELS, type StudySignatureMeaning } from "@/lib/domain";
+import { ROLE_LABELS, STUDY_SIGNATURE_MEANING_LABELS, type Role, type StudySignatureMeaning } from "@/lib/domain";
 import { Heading, T } from "../parts";
 import { s } from "../styles";
 import { colour } from "../theme";
@@ -32,7 +32,7 @@ export function StudySignaturesSection({ detail, zone }: { detail: StudyReportDe
             <View style={{ flexDirection: "row", justifyContent: "space-between" }}>
               <View style={{ flex: 1 }}>
                 <T style={s.signatureName}>{sig.printedName}</T>
-                <T style={s.muted}>{`${sig.role}${sig.meaning === "submitted-for-review" ? " · author" : ""}`}</T>
+                <T style={s.muted}>{`${ROLE_LABELS[sig.role as Role] ?? sig.role}${sig.meaning === "submitted-for-review" ? " · author" : ""}`}</T>
               </View>
               <View style={{ width: 210 }}>
                 <T style={[s.small, { textAlign: "right" }]}>{`Signed ${when.utc}`}</T>
