@@ -11,7 +11,7 @@ import type { AttachableCycle, SensorMapProposal } from "@/lib/studies/contracts
 import { missingSentence, proposeSensorMap as proposeMap, sensorMapProblem } from "@/lib/studies/sensor-map";
 import { assertAllowed } from "./access";
 import { auditActor, siteIdOf } from "./site";
-import { criteriaOf, runInputOf, studyOfSite } from "./studies-detail";
+import { criteriaOf, getStudyDetail, runInputOf, studyOfSite } from "./studies-detail";
 
 const SIGNED = ["approved", "failure-confirmed"];
 const ATTACHING = ["protocol-approved", "running"] as const;
@@ -45,6 +45,12 @@ export async function listAttachableCycles({ actor, id }: { actor: Actor; id: st
   assertAllowed(actor, "study:read", "see qualification studies");
   const study = await studyOfSite(actor, id);
   return listAttachableCycleRows({ siteId: study.siteId, studyId: study.id, sterilizerId: study.sterilizerId, profileId: study.profileId });
+}
+
+/** The study's runs with their judgements, and the signed cycles that could be attached next (GET /api/studies/{id}/runs). */
+export async function listStudyRuns({ actor, id }: { actor: Actor; id: string }) {
+  const detail = await getStudyDetail({ actor, id });
+  return { runs: detail.runs, judgements: detail.summary.runs, attachable: await listAttachableCycles({ actor, id }) };
 }
 
 /**

@@ -11,7 +11,7 @@ import { studyOfSite } from "./studies-detail";
 
 /** Qualification studies (issue 14): planning. Runs, evidence and signatures live beside this file. */
 export { getStudyDetail, listStudies } from "./studies-detail";
-export { attachRun, listAttachableCycles, proposeSensorMap } from "./studies-runs";
+export { attachRun, listAttachableCycles, listStudyRuns, proposeSensorMap } from "./studies-runs";
 export { closeDeviation, raiseDeviation, recordIndicator, updateDeviation } from "./studies-evidence";
 export { signStudy } from "./studies-sign";
 

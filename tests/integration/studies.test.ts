@@ -202,6 +202,15 @@ describe("attaching runs", () => {
     const lowest = Math.min(...d.summary.positions.map((p: { minF0: number }) => p.minF0));
     expect(d.summary.coldSpot).toMatchObject({ minF0: lowest });
     expect(d.summary.positions.find((p: { position: string }) => p.position === d.summary.coldSpot.position).minF0).toBe(lowest);
+    const spare = await studies.signedCycle();
+    const runsRoute = await import("@/app/api/studies/[id]/runs/route");
+    session.current = { user: { id: site.people.technician } };
+    const runs = await (await runsRoute.GET(new Request("http://papin.test"), { params: Promise.resolve({ id }) })).json();
+    expect(runs.runs).toHaveLength(2);
+    expect(runs.judgements.map((r: { judgement: string }) => r.judgement)).toEqual(["pass", "pass"]);
+    const attachable = runs.attachable.map((c: { id: string }) => c.id);
+    expect(attachable).toContain(spare);
+    for (const run of d.runs) expect(attachable).not.toContain(run.cycleId);
     const { GET } = await import("@/app/api/studies/route");
     session.current = { user: { id: site.people.auditor } };
     const list = await (await GET(new Request("http://papin.test/api/studies?status=running"), undefined)).json();

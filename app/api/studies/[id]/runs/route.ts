@@ -2,7 +2,7 @@ import { NextResponse } from "next/server";
 import { route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { attachRunSchema } from "@/lib/validations/studies";
-import { attachRun, getStudyDetail, listAttachableCycles } from "@/lib/services/studies";
+import { attachRun, listStudyRuns } from "@/lib/services/studies";
 import { jsonBody, type StudyContext } from "../../body";
 
 export const runtime = "nodejs";
@@ -12,8 +12,7 @@ export const dynamic = "force-dynamic";
 export const GET = route<StudyContext>(async (_request, { params }) => {
   const actor = await requireRole("study:read", "see qualification studies");
   const { id } = await params;
-  const detail = await getStudyDetail({ actor, id });
-  return NextResponse.json({ runs: detail.runs, judgements: detail.summary.runs, attachable: await listAttachableCycles({ actor, id }) });
+  return NextResponse.json(await listStudyRuns({ actor, id }));
 });
 
 /** Attaches a signed cycle as the next run: { cycleId, sensorMap? } (without sensorMap, the proposal when it is complete). */
