@@ -2,7 +2,7 @@ import "server-only";
 import { asc, desc, eq, and, gt, gte, lt, lte, count, sql } from "drizzle-orm";
 import { getDb, type Executor } from "@/db";
 import { containsText } from "./search";
-import { acceptanceProfiles, apiTokens, auditEvents, cycles, instruments, periodicTests, reports, sites, sterilizers, users } from "@/db/schema";
+import { acceptanceProfiles, apiTokens, auditEvents, cycles, instruments, loadingPatterns, periodicTests, reports, sites, sterilizers, studies, users } from "@/db/schema";
 import { appendAuditEvent, readLedgerHead, type AuditInput } from "@/db/ledger";
 import type { LedgerHead } from "@/lib/integrity/anchors";
 
@@ -158,7 +158,7 @@ export async function listAuditTrailBatch({ siteId, filter, beforeSeq, limit }: 
 export type AuditNameRow = { id: string; type: string; label: string; extra: string | null };
 
 /**
- * The names behind record ids, in one query: cycle numbers, sterilizer, profile, instrument and
+ * The names behind record ids, in one query: cycle numbers, study numbers, loading patterns, sterilizer, profile, instrument and
  * token names, periodic tests (kind, sterilizer and date), reports, people (name and role). Only
  * records of the site; people by id (an event of this site names its actor).
  */
@@ -174,6 +174,8 @@ export async function listAuditNames({ siteId, ids }: { siteId: string; ids: str
     union all select ${reports.id}, 'report', ${reports.reportNumber}, null from ${reports} where ${reports.cycleId} in (select ${cycles.id} from ${cycles} where ${cycles.siteId} = ${siteId}) and ${reports.id} in ${wanted}
     union all select ${apiTokens.id}, 'api-token', ${apiTokens.name}, ${apiTokens.prefix} from ${apiTokens} where ${apiTokens.siteId} = ${siteId} and ${apiTokens.id} in ${wanted}
     union all select ${users.id}, 'user', ${users.name}, ${users.role} from ${users} where ${users.id} in ${wanted}
+    union all select ${studies.id}, 'study', ${studies.studyNumber}, null from ${studies} where ${studies.siteId} = ${siteId} and ${studies.id} in ${wanted}
+    union all select ${loadingPatterns.id}, 'loading-pattern', ${loadingPatterns.name}, null from ${loadingPatterns} where ${loadingPatterns.siteId} = ${siteId} and ${loadingPatterns.id} in ${wanted}
   `);
   return rows;
 }

@@ -8,10 +8,13 @@ import { PROFILE_BASIS_LABELS } from "./profile-basis";
 import { ROLE_LABELS } from "./roles";
 import { STERILIZER_STATUS_LABELS } from "./sterilizer-status";
 import { INDICATOR_SHEET_RESULT_LABELS, testKindLabel } from "./test-kinds";
+import { DEVIATION_SOURCE_LABELS, INDICATOR_KIND_LABELS, INDICATOR_RESULT_LABELS, STUDY_KIND_LABELS, STUDY_STATUS_LABELS } from "./studies";
 
 type Field = { label: string; short?: string; unit?: string; words?: Record<string, string>; hidden?: boolean };
 
-const STATUS_WORDS: Record<string, string> = { ...CYCLE_STATUS_LABELS, ...STERILIZER_STATUS_LABELS };
+// A study's "draft" or "approved" reads as a cycle's; its own statuses (running, ready-for-review …) get its words.
+const STATUS_WORDS: Record<string, string> = { ...STUDY_STATUS_LABELS, ...CYCLE_STATUS_LABELS, ...STERILIZER_STATUS_LABELS };
+const KIND_WORDS: Record<string, string> = { ...STUDY_KIND_LABELS, ...INDICATOR_KIND_LABELS };
 
 /** Known fields; any other key is spelt out from its name ("chamberVolumeL" → "chamber volume l"). */
 export const AUDIT_FIELDS: Record<string, Field> = {
@@ -54,7 +57,7 @@ export const AUDIT_FIELDS: Record<string, Field> = {
   savedMapping: { label: "Saved mapping" },
   inputHash: { label: "Input hash (SHA-256)" },
   performedAt: { label: "Performed" },
-  result: { label: "Result", words: INDICATOR_SHEET_RESULT_LABELS },
+  result: { label: "Result", words: { ...INDICATOR_RESULT_LABELS, ...INDICATOR_SHEET_RESULT_LABELS } },
   measurements: { label: "Measurements" },
   notes: { label: "Notes" },
   sheet: { label: "Indicator sheet" },
@@ -129,6 +132,39 @@ export const AUDIT_FIELDS: Record<string, Field> = {
   leakVacuumSetPointKpaAbs: { label: "Leak test vacuum set point", unit: "kPa abs" },
   basis: { label: "Basis", words: PROFILE_BASIS_LABELS },
   basisReason: { label: "Reason for the basis" },
+  // qualification studies (issue 14)
+  studyNumber: { label: "Study" },
+  title: { label: "Title" },
+  loadingPattern: { label: "Loading pattern" },
+  loadingPatternId: { label: "Loading pattern" },
+  description: { label: "Description" },
+  loadType: { label: "Load type" },
+  items: { label: "Items" },
+  positions: { label: "Positions" },
+  runsRequired: { label: "Consecutive runs required" },
+  minF0Min: { label: "Minimum F0 at every position", short: "minimum F0", unit: "min" },
+  indicatorsRequired: { label: "Indicators required" },
+  protocol: { label: "Protocol" },
+  requalificationMonths: { label: "Requalification interval", unit: "months" },
+  requalificationDueOn: { label: "Requalification due on" },
+  runNumber: { label: "Run" },
+  sensorMap: { label: "Sensor map (channel → position)" },
+  judgement: { label: "Judgement" },
+  reasons: { label: "Why" },
+  contentHash: { label: "Signed content hash" },
+  source: { label: "Source", words: DEVIATION_SOURCE_LABELS },
+  what: { label: "What happened" },
+  impact: { label: "Impact assessment" },
+  rootCause: { label: "Root cause" },
+  capaReference: { label: "CAPA reference" },
+  positionId: { label: "Position" },
+  organism: { label: "Organism" },
+  lot: { label: "Lot" },
+  population: { label: "Population per carrier" },
+  incubation: { label: "Incubation" },
+  readBy: { label: "Read by" },
+  readAt: { label: "Read at" },
+  recordedAt: { label: "Recorded at" },
   // internal ids the reader does not need: the record itself is linked
   id: { label: "Id", hidden: true },
   analysis: { label: "Analysis", hidden: true },
@@ -136,6 +172,15 @@ export const AUDIT_FIELDS: Record<string, Field> = {
   certificateId: { label: "Certificate id", hidden: true },
   cycleId: { label: "Cycle", hidden: true },
   attachment: { label: "Attachment", hidden: true },
+  run: { label: "Run", hidden: true },
+  studyRunId: { label: "Run", hidden: true },
+  deviation: { label: "Deviation", hidden: true },
+  study: { label: "Study", hidden: true },
+  siteId: { label: "Site", hidden: true },
+  createdBy: { label: "Created by", hidden: true },
+  recordedBy: { label: "Recorded by", hidden: true },
+  openedBy: { label: "Opened by", hidden: true },
+  analysisId: { label: "Analysis", hidden: true },
 };
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -168,7 +213,7 @@ export function valueText(key: string, value: unknown, names: RecordNames, at: (
   if (typeof value === "string") {
     const words = AUDIT_FIELDS[key]?.words;
     if (words && Object.hasOwn(words, value)) return words[value];
-    if (key === "kind") return testKindLabel(value);
+    if (key === "kind") return Object.hasOwn(KIND_WORDS, value) ? KIND_WORDS[value] : testKindLabel(value);
     if (isRecordId(value)) return names.get(value) ?? "a record not on file";
     if (ISO_INSTANT.test(value)) return at(value);
     return value;

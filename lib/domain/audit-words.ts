@@ -8,6 +8,7 @@ import { auditChanges, auditObject, parseAuditValue, shortChange, type AuditChan
 import { ROLE_LABELS, type Role } from "./roles";
 import { testKindLabel } from "./test-kinds";
 import { isValidTimeZone } from "./time-zone";
+import { studyAuditActions } from "./audit-words-studies";
 
 export { type AuditChange, type RecordNames } from "./audit-fields";
 
@@ -149,6 +150,7 @@ export const AUDIT_ACTIONS: Record<string, Kind> = {
     what: (f) =>
       `exported the audit trail as ${f.new.format === "pdf" ? "a signed PDF extract" : "CSV"}${num(f.new.events) !== null ? ` (${num(f.new.events)} ${num(f.new.events) === 1 ? "event" : "events"})` : ""}`,
   },
+  ...studyAuditActions((f) => changedSummary(f as Facts)),
 };
 
 /** The action filter's choices, in words, in the order a reader looks for them. */
@@ -176,6 +178,8 @@ const NOUNS: Record<string, string> = {
   "api-token": "API token",
   site: "site",
   mail: "mail",
+  study: "study",
+  "loading-pattern": "loading pattern",
 };
 
 /** Where a record of this type is read; null where there is no page for one. */
@@ -192,6 +196,7 @@ export function recordHref(entityType: string, entityId: string | null): string 
     "api-token": "/tokens",
     site: "/admin/site",
     mail: "/admin/mail",
+    study: `/studies/${entityId}`,
   };
   return pages[entityType] ?? null;
 }

@@ -62,6 +62,20 @@ const ROUTES: Record<string, Row> = {
   "GET /api/steam/saturation": everyRole(),
   "GET /api/sterilizers": { ...readers(), bearer: "allowed" },
   "POST /api/sterilizers/[id]/status": only("engineer"),
+  // Qualification studies (issue 14): read as cycles; engineers plan and sign; technicians and engineers attach runs and record evidence.
+  "GET /api/studies": readers(),
+  "POST /api/studies": only("engineer"),
+  "GET /api/studies/[id]": readers(),
+  "PATCH /api/studies/[id]": only("engineer"),
+  "GET /api/studies/[id]/runs": readers(),
+  "POST /api/studies/[id]/runs": makers(),
+  "GET /api/studies/[id]/sensor-map": readers(),
+  "GET /api/studies/[id]/indicators": readers(),
+  "POST /api/studies/[id]/indicators": makers(),
+  "GET /api/studies/[id]/deviations": readers(),
+  "POST /api/studies/[id]/deviations": makers(),
+  "PATCH /api/studies/[id]/deviations/[deviationId]": makers(),
+  "POST /api/studies/[id]/signatures": only("engineer"),
 };
 
 /** "/folder exportName" of app/**\/actions.ts (route groups left out) → who gets what. */

@@ -193,6 +193,19 @@ describe("indicators and the deviation gate", () => {
       "study.sign.qa-approved",
     ])
       expect(actions).toContain(action);
+    // The audit trail reads them in words, with the study's number for its id.
+    const { describeEvents } = await import("@/lib/services/audit-trail");
+    const lines = await describeEvents({ siteId: site.siteId, timeZone: "UTC", events: await events(id) });
+    const studyNumber = (await studies.detail(id, site.people.auditor)).studyNumber;
+    expect(lines.map((l) => l.what)).toEqual(
+      expect.arrayContaining([
+        `approved study ${studyNumber} for quality assurance, archiving report ${studyNumber}-R`,
+        expect.stringMatching(new RegExp(`^attached cycle .+ as run 1 of study ${studyNumber} \\(judged pending\\)$`)),
+        `corrected a biological indicator at P3 of run 1 of study ${studyNumber}: no growth (negative)`,
+        `closed a deviation of study ${studyNumber}`,
+      ]),
+    );
+    expect(lines.find((l) => l.what.startsWith("approved study"))!.record).toEqual({ label: `study ${studyNumber}`, href: `/studies/${id}` });
     const correction = (await events(id)).find((e) => e.action === "study-indicator.correct")!;
     expect(correction.reason).toBe("Read against the wrong carrier; re-read.");
     expect(JSON.parse(correction.oldValue!).result).toBe("growth");

@@ -96,7 +96,7 @@ describe("planning a study through the API", () => {
 });
 
 describe("attaching runs", () => {
-  it("refuses a draft study, an unsigned cycle, another profile's cycle, the same cycle twice, and a map missing a position (409 naming it)", async () => {
+  it("refuses a draft study, an unsigned cycle, another sterilizer's or profile's cycle, the same cycle twice, and a map missing a position (409 naming it)", async () => {
     const draft = await studies.createId(site.people.engineer, { indicatorsRequired: false });
     const signed = await studies.signedCycle();
     const early = await studies.attach(draft, site.people.technician, { cycleId: signed });
@@ -118,6 +118,15 @@ describe("attaching runs", () => {
     const refusedProfile = await studies.attach(id, site.people.technician, { cycleId: otherProfile });
     expect(refusedProfile.status).toBe(409);
     expect(await errorOf(refusedProfile)).toMatch(/another profile/);
+
+    const { sterilizers } = await import("@/db/schema");
+    const [second] = await ctx.db.insert(sterilizers).values({ siteId: site.siteId, name: "Porous load 2", serialNumber: "RV-PL-02", chamberVolumeL: 445 }).returning();
+    const elsewhere = await register(site.people.technician, { bytes: await loggerFile(), extra: { sterilizerId: second.id } });
+    await submit(elsewhere, site.people.technician);
+    expect((await reviewFlow(session, site).sign(elsewhere, site.people.engineer, { meaning: "approved" })).status).toBe(201);
+    const refusedSterilizer = await studies.attach(id, site.people.technician, { cycleId: elsewhere });
+    expect(refusedSterilizer.status).toBe(409);
+    expect(await errorOf(refusedSterilizer)).toMatch(/ran on another sterilizer/);
 
     const badMap = await studies.attach(id, site.people.technician, { cycleId: signed, sensorMap: { "Pack 1 (°C)": "P1", "Pack 5 (°C)": "P2" } });
     expect(badMap.status).toBe(409);
