@@ -5,33 +5,17 @@
  */
 import { count, eq } from "drizzle-orm";
 import type { Database } from "./index";
-import {
-  acceptanceProfiles,
-  analyses,
-  analysisSeries,
-  calibrationCertificates,
-  cycles,
-  instruments,
-  loggerFiles,
-  periodicTests,
-  sites,
-  sterilizers,
-  testSchedules,
-  users,
-  type AcceptanceProfile,
-  type Role,
-} from "./schema";
+import { acceptanceProfiles, calibrationCertificates, cycles, instruments, periodicTests, sites, sterilizers, testSchedules, users, type AcceptanceProfile, type Role } from "./schema";
 import { appendAuditEvent } from "./ledger";
 import { DEMO_USERS } from "./demo-users";
 import { hashPassword } from "@/lib/auth/password";
 import { simulateCycle, toLoggerCsv, type Scenario } from "@/lib/simulator";
-import { analyzeLoggerBytes } from "@/lib/cycles/analyze-file";
-import { recordingToColumns } from "@/lib/cycles/series";
 import { atmosphereAtAltitudeKpa } from "@/lib/steam";
 import { zoneOffsetMs } from "@/lib/domain";
 import { STORY_OUT_OF_USE, STORY_RELEASED, tellFitnessStory } from "./demo-story";
 import { DEMO_LOADS, demoCycleStart, demoPeriodicTests, demoScheduleFor, type DemoKind } from "./demo-schedule";
 import { demoLoad, demoMapping } from "./demo-positions";
+import { insertDemoCycle } from "./demo-cycles";
 import { loadDemoStudies } from "./demo-studies";
 
 export { DEMO_USERS };
@@ -271,72 +255,26 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
           sampleIntervalS: 2,
         });
         const bytes = toLoggerCsv(sim, { ...s.dialect, atmosphereKpa });
-        const analysis = analyzeLoggerBytes(bytes, profile, demoMapping(bytes), atmosphereKpa);
         const cycleNumber = `${s.key}-${startedAt.toISOString().slice(0, 10).replace(/-/g, "")}-${String(ordinal + 1).padStart(3, "0")}`;
-        const status = daysAgo > 3 ? "submitted" : "draft";
-        const [cycle] = await tx
-          .insert(cycles)
-          .values({
-            siteId: site.id,
-            sterilizerId: sterilizer.id,
-            profileId: profile.id,
-            instrumentId: instrument.id,
-            cycleNumber,
-            testKind: s.kind === "fluids" ? "thermometric-full-load" : "thermometric-small-load",
-            loadDescription: DEMO_LOADS[s.kind],
-            ...demoLoad(ordinal, s.kind),
-            status,
-            verdict: analysis.result.verdict,
-            startedAt: startedAt.toISOString(),
-            createdBy: userIds.technician,
-            createdAt: startedAt.toISOString(),
-            submittedBy: status === "submitted" ? userIds.technician : null,
-            submittedAt: status === "submitted" ? new Date(startedAt.getTime() + 3_600_000).toISOString() : null,
-          })
-          .returning();
-        const [file] = await tx
-          .insert(loggerFiles)
-          .values({
-            cycleId: cycle.id,
-            name: `${cycleNumber}.csv`,
-            sizeBytes: bytes.byteLength,
-            sha256: analysis.sha256,
-            bytes: Buffer.from(bytes),
-            dialect: analysis.dialect,
-            mapping: analysis.mapping,
-            uploadedBy: userIds.technician,
-          })
-          .returning({ id: loggerFiles.id });
-        const [saved] = await tx
-          .insert(analyses)
-          .values({
-            cycleId: cycle.id,
-            loggerFileId: file.id,
-            engineVersion: analysis.engineVersion,
-            inputHash: analysis.inputHash,
-            limits: analysis.limits,
-            result: analysis.result,
-            verdict: analysis.result.verdict,
-            mapping: analysis.mapping,
-            createdBy: userIds.technician,
-          })
-          .returning({ id: analyses.id });
-        await tx.update(cycles).set({ currentAnalysisId: saved.id }).where(eqId(cycle.id));
-        // The recording's columns, as intake stores them, so the demo's charts and reports never re-parse the file.
-        const { meta, sampleCount, timesS, channelValues } = recordingToColumns(analysis.recording);
-        const buffer = (bytes: Uint8Array) => Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-        await tx.insert(analysisSeries).values({ analysisId: saved.id, meta, sampleCount, timesS: buffer(timesS), channelValues: buffer(channelValues) });
-        await appendAuditEvent(tx, {
-          actorId: userIds.technician,
-          actorEmail: "technician@papin.example",
+        const { verdict } = await insertDemoCycle(tx, {
           siteId: site.id,
-          action: "cycle.create",
-          entityType: "cycle",
-          entityId: cycle.id,
-          newValue: { cycleNumber, sterilizer: s.name, verdict: analysis.result.verdict, file: analysis.sha256, demo: true },
+          sterilizerId: sterilizer.id,
+          sterilizerName: s.name,
+          profile,
+          instrumentId: instrument.id,
+          technician: { id: userIds.technician, email: "technician@papin.example" },
+          cycleNumber,
+          testKind: s.kind === "fluids" ? "thermometric-full-load" : "thermometric-small-load",
+          loadDescription: DEMO_LOADS[s.kind],
+          ...demoLoad(ordinal, s.kind),
+          status: daysAgo > 3 ? "submitted" : "draft",
+          startedAt,
+          bytes,
+          mapping: demoMapping(bytes),
+          atmosphereKpa,
         });
         cycleCount++;
-        if (analysis.result.verdict === "fail") failCount++;
+        if (verdict === "fail") failCount++;
       }
     }
   });
@@ -350,8 +288,6 @@ export async function loadDemoSite(db: Database, { password, now = new Date() }:
     summary: `1 site, ${DEMO_USERS.length} users, ${DEMO_STERILIZERS.length} sterilizers, ${cycleCount} cycles (${failCount} failing), ${decisions.approved} approved with archived reports, ${decisions.returned} returned; ${story.outOfUse} out of use after a confirmed Bowie-Dick failure, ${story.released} back in use after a passing repeat; qualification study ${studies.approved} approved, ${studies.running} running with an open deviation`,
   };
 }
-
-const eqId = (id: string) => eq(cycles.id, id);
 
 /**
  * Older demo cycles go through the real review path: the engineer signs with the demo password,

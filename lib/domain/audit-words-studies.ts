@@ -54,5 +54,9 @@ export function studyAuditActions(changed: (f: Facts) => string): Record<string,
       what: (f) =>
         `set the requalification of loading pattern ${f.record} due on ${str(f.new.requalificationDueOn) ?? "(no date)"}${str(f.new.studyNumber) ? ` (study ${str(f.new.studyNumber)} approved)` : ""}`,
     },
+    "loading-pattern.required-before-use": {
+      label: "Requalification before use decided",
+      what: (f) => (f.new.requiredBeforeUse === true ? `required loading pattern ${f.record} to be requalified before use` : `lifted the before-use requirement of loading pattern ${f.record}`),
+    },
   };
 }

@@ -97,10 +97,6 @@ export const AUDIT_ACTIONS: Record<string, Kind> = {
   },
   "schedule.update": { label: "Changed a test schedule", what: (f) => `changed the ${testKindLabel(str(f.new.kind) ?? "test").toLowerCase()} schedule of ${f.record}${changedSummary(f, ["kind"])}` },
   "schedule.remove": { label: "Removed a scheduled test", what: (f) => `took the ${testKindLabel(str(f.old.kind) ?? "test").toLowerCase()} off the schedule of ${f.record}` },
-  "loading-pattern.required-before-use": {
-    label: "Requalification before use decided",
-    what: (f) => (f.new.requiredBeforeUse === true ? `required the loading pattern ${f.record} to be requalified before use` : `lifted the before-use requirement of the loading pattern ${f.record}`),
-  },
   "profile.create": { label: "Added a profile", what: (f) => `added the profile ${str(f.new.name) ?? f.record}` },
   "profile.update": { label: "Changed a profile", what: (f) => `changed the profile ${f.record}${changedSummary(f)}` },
   "profile.new-version": { label: "New profile version", what: (f) => `made a new version of the profile ${str(f.new.name) ?? f.record}${changedSummary(f, ["id", "name"])}` },

@@ -63,15 +63,15 @@ describe("the demo's qualification studies", () => {
     expect(study.loadingPattern.requalificationDueOn).toBe(`${y + 1}-${String(m).padStart(2, "0")}-${String(d).padStart(2, "0")}`);
   });
 
-  it("has a running study whose second run failed, opening a deviation still under investigation", async () => {
+  it("has a running study whose first run failed, opening a deviation still under investigation", async () => {
     const study = await studyOf("Porous load 1");
     expect(study.status).toBe("running");
-    expect(study.summary.runs.map((r) => r.judgement)).toEqual(["pass", "fail", "pass"]);
-    expect(study.runs[1].cycleStatus).toBe("failure-confirmed");
+    expect(study.summary.runs.map((r) => r.judgement)).toEqual(["fail", "pass"]);
+    expect(study.runs[0].cycleStatus).toBe("failure-confirmed");
     expect(study.summary.consecutive).toMatchObject({ passing: 1, required: 3, complete: false });
     const open = study.deviations.filter((d) => d.status === "open");
     expect(open).toHaveLength(1);
-    expect(open[0]).toMatchObject({ source: "failed-run", runId: study.runs[1].id, capaReference: "CAPA-2611-07" });
+    expect(open[0]).toMatchObject({ source: "failed-run", runId: study.runs[0].id, capaReference: "CAPA-2611-07" });
     expect(open[0].impact).toMatch(/No load was released/);
   });
 
