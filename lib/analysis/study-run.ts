@@ -33,10 +33,18 @@ export function coldestOf<T extends { f0: number; equilibrationS: number | null 
 
 const arrivesLater = (a: number | null, b: number | null): boolean => (b === null ? false : a === null || a > b);
 
-/** Highest maximum minus lowest minimum over the positions during holding; null when a position has no reading in the hold. */
-function spreadOf(figures: RunPositionFigures[]): number | null {
+/**
+ * The spread between positions during holding, as an upper bound of the spread at one instant (fail closed): the highest
+ * maximum minus the lowest minimum over the positions. When every mapped channel is one of the channels the cycle's own
+ * spread check compared at each instant (all but the free-space sensor), that check's figure is an upper bound too, and
+ * the smaller of the two bounds is used. Null when a position has no reading in the hold.
+ */
+function spreadOf(figures: RunPositionFigures[], run: StudyRunInput, mappedChannels: ChannelSummary[]): number | null {
   if (figures.length === 0 || figures.some((f) => f.minTempC === null || f.maxTempC === null)) return null;
-  return Math.max(...figures.map((f) => f.maxTempC as number)) - Math.min(...figures.map((f) => f.minTempC as number));
+  const overHold = Math.max(...figures.map((f) => f.maxTempC as number)) - Math.min(...figures.map((f) => f.minTempC as number));
+  const instantCheck = run.analysis.checks.find((c) => c.id === "spread")?.measured;
+  const comparedAtEachInstant = mappedChannels.length > 0 && mappedChannels.every((c) => c.role !== "free-space");
+  return comparedAtEachInstant && typeof instantCheck === "number" && Number.isFinite(instantCheck) ? Math.min(overHold, instantCheck) : overHold;
 }
 
 const indicatorWords = (i: RunIndicator): string =>
@@ -59,6 +67,7 @@ function cycleReasons(run: StudyRunInput, criteria: StudyCriteria): string[] {
 export function summarizeRun(run: StudyRunInput, positions: PatternPosition[], criteria: StudyCriteria): RunSummary {
   const reasons = cycleReasons(run, criteria);
   const figures: RunPositionFigures[] = [];
+  const mappedChannels: ChannelSummary[] = [];
   for (const position of positions) {
     const headers = Object.keys(run.sensorMap).filter((header) => run.sensorMap[header] === position.id);
     const channels = run.analysis.channels.filter((c) => headers.includes(c.header));
@@ -73,11 +82,12 @@ export function summarizeRun(run: StudyRunInput, positions: PatternPosition[], c
     }
     const f = positionFigures(position, channels);
     figures.push(f);
+    mappedChannels.push(...channels);
     if (f.f0Min < criteria.minF0Min) reasons.push(`Position ${position.id} received F0 ${fmt(f.f0Min, 2)} min, below the minimum ${fmt(criteria.minF0Min, 2)} min.`);
     if (f.equilibrationS === null) reasons.push(`Position ${position.id} never reached Ts (${fmt(criteria.sterilizationTempC, 1)} °C) in the plateau.`);
     if (f.minTempC === null) reasons.push(`Position ${position.id} has no reading during holding.`);
   }
-  const spreadK = spreadOf(figures);
+  const spreadK = spreadOf(figures, run, mappedChannels);
   if (spreadK !== null && spreadK > criteria.maxSpreadK + EDGE_TOLERANCE_K) {
     reasons.push(`The spread between positions during holding was ${fmt(spreadK, 2)} K, above the largest allowed ${fmt(criteria.maxSpreadK, 2)} K.`);
   }

@@ -58,7 +58,7 @@ export type RunSummary = {
   positions: RunPositionFigures[];
   /** lowest F0 of the run; ties: the latest arrival at Ts */
   coldSpot: { positionId: string; f0Min: number } | null;
-  /** highest maximum minus lowest minimum over the run's positions during holding, K (an upper bound of the spread at one instant) */
+  /** an upper bound of the spread between the run's positions at one instant during holding, K (lib/analysis/study-run.ts spreadOf) */
   spreadK: number | null;
   positiveIndicators: RunIndicator[];
   /** pattern positions without a biological indicator reading, when the study requires indicators */

@@ -4,6 +4,7 @@
 import { describe, expect, it } from "vitest";
 import { consecutiveSeries, summarizeStudy } from "@/lib/analysis/study-summary";
 import { heatMapGrid } from "@/lib/analysis/study-heat-map";
+import type { StudyRunInput } from "@/lib/analysis/study-types";
 import { CRITERIA, PATTERN, analysisWith, heldF0, runWith } from "./study-fixtures";
 
 // 121.1 °C for 15 min: 900 s × 10^0 / 60 = 15.0 min exactly [worked by hand, DOMAIN.md §3].
@@ -76,6 +77,24 @@ describe("a run's figures and judgement", () => {
     const edge = summaryOf([runWith(1, { P1: { f0: F0_30, minC: 121.0 }, P2: { f0: F0_15, maxC: 123.0 }, P3: { f0: F0_19_95 } })]).runs[0];
     expect(edge.spreadK).toBeCloseTo(2.0, 10);
     expect(edge.judgement).toBe("pass");
+  });
+
+  it("the cycle's own spread at one instant tightens the bound when every mapped channel was in it; never with the free-space sensor", () => {
+    const probes = { P1: { f0: F0_30, minC: 121.0, maxC: 121.8 }, P2: { f0: F0_15, minC: 121.5, maxC: 123.4 }, P3: { f0: F0_19_95 } };
+    const withCheck = (run: StudyRunInput, measured: number): StudyRunInput => ({
+      ...run,
+      analysis: { ...run.analysis, checks: [{ id: "spread", label: "Spread", passed: true, measured, limit: 2, comparison: "at-most", unit: "K", basis: "constructed" }] },
+    });
+    // both are upper bounds of the spread at one instant: min(2.4 K over the hold, 1.6 K at the worst instant) = 1.6 K [worked by hand]
+    const tight = summaryOf([withCheck(runWith(1, probes), 1.6)]).runs[0];
+    expect(tight.spreadK).toBeCloseTo(1.6, 10);
+    expect(tight.judgement).toBe("pass");
+    // the cycle's check never compared a free-space channel at each instant, so only the bound over the hold stands (2.4 K, fails)
+    const freeSpace = withCheck(runWith(1, probes), 1.6);
+    freeSpace.analysis.channels = freeSpace.analysis.channels.map((c) => (c.header === "P2" ? { ...c, role: "free-space" } : c));
+    const loose = summaryOf([freeSpace]).runs[0];
+    expect(loose.spreadK).toBeCloseTo(2.4, 10);
+    expect(loose.judgement).toBe("fail");
   });
 
   it("a position that never reached Ts, or has no reading in the hold, fails the run", () => {
