@@ -114,7 +114,8 @@ describe("Papin on a libSQL server URL", () => {
     expect(server.stats.pipelines).toBeGreaterThan(100);
     expect(server.stats.streamsResumed).toBeGreaterThan(0);
     expect(server.stats.requests.store_sql).toBeGreaterThan(0);
-    expect(onServerFile<{ n: number }>("select count(*) as n from users")[0].n).toBe(4);
+    // the demo users (db/demo-users.ts: four roles, three engineers)
+    expect(onServerFile<{ n: number }>("select count(*) as n from users")[0].n).toBe(6);
   });
 
   it("runs the real migrations: every table, both journal entries, and a second run changes nothing", async () => {
