@@ -58,7 +58,8 @@ export function CrossRunTable({ detail }: { detail: StudyDetail }) {
       </TableFrame>
       <p className="text-xs text-ink-muted">
         F0 at Tref {formatNumber(detail.profile.f0ReferenceC, 1)} °C, z {formatNumber(detail.profile.f0ZK, 1)} K; minimum required {formatNumber(minF0, 1)} min at every position. Largest spread over
-        the runs: {spreadK === null ? "—" : `${formatNumber(spreadK, 2)} K`} (the highest maximum minus the lowest minimum during holding: an upper bound of the spread at one instant).
+        the runs: {spreadK === null ? "—" : `${formatNumber(spreadK, 2)} K`} (an upper bound of the spread at one instant during holding: the highest maximum minus the lowest minimum, or the
+        cycle&apos;s own spread at its worst instant when that is smaller and covered every mapped probe).
       </p>
     </div>
   );

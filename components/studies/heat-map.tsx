@@ -128,7 +128,8 @@ export function StudyHeatMap({
         </ul>
         <p className="mt-1 text-xs text-ink-muted">
           {metric === "f0" ? "F0 as each signed cycle's analysis computed it, with the profile's reference temperature and z." : "Lowest reading of each position during the holding time."} A
-          run&apos;s spread is its highest maximum minus its lowest minimum over the positions during holding: an upper bound of the spread at any one instant.
+          run&apos;s spread is an upper bound of the spread between its positions at any one instant during holding: the highest maximum minus the lowest minimum, or the cycle&apos;s own spread at its
+          worst instant when that is smaller and covered every mapped probe.
         </p>
       </figcaption>
     </figure>

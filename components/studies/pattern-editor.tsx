@@ -48,7 +48,7 @@ export function PatternEditor({ value, onChange, error }: { value: PatternDraft;
       value.positions.map((row, j) => (j === i ? { ...row, [key]: v } : row)),
     );
   return (
-    <fieldset className="space-y-4 rounded-md border border-ink-line p-4" aria-describedby={error ? "pattern-error" : undefined}>
+    <fieldset className="min-w-0 space-y-4 rounded-md border border-ink-line p-4" aria-describedby={error ? "pattern-error" : undefined}>
       <legend className="px-1 text-sm font-semibold">New loading pattern</legend>
       <div className="grid gap-3 sm:grid-cols-2">
         <div>

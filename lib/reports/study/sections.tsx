@@ -172,7 +172,7 @@ export function RunsSection({ detail, zone }: Props) {
           </View>
         ))}
       <Caption>
-        {`Equilibration: the time from the plateau start until the position last to arrive reached ${fixed(detail.criteria.sterilizationTempC, 1)} °C. Spread: highest maximum minus lowest minimum over the run's load positions during holding, an upper bound of the spread at any one instant (conservative).`}
+        {`Equilibration: the time from the plateau start until the position last to arrive reached ${fixed(detail.criteria.sterilizationTempC, 1)} °C. Spread: an upper bound of the spread between the run's load positions at any one instant during holding (conservative): the highest maximum minus the lowest minimum, or the cycle's own spread at its worst instant when that is smaller and covered every mapped probe.`}
       </Caption>
     </View>
   );
