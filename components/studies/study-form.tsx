@@ -84,7 +84,7 @@ export function StudyForm({ options }: { options: PlanningOptions }) {
         </div>
       </div>
 
-      <fieldset className="space-y-3">
+      <fieldset className="min-w-0 space-y-3">
         <legend className="field-label">Loading pattern</legend>
         {sterilizerId && patterns.length > 0 && (
           <div className="space-y-1">
