@@ -3,7 +3,6 @@ import { Document, Line, Page, Rect, Svg, View } from "@react-pdf/renderer";
 import { isAirLeakage, thermometricOf, type AnalysisResult, type Check, type SaturationFlag } from "@/lib/analysis/types";
 import type { CycleDetail, SeriesResponse, SignatureView } from "@/lib/cycles/contracts";
 import { formatElapsed } from "@/lib/cycles/chart-model";
-import { SAFETY_NOTES } from "@/lib/safety";
 import { downsampleForReport, strideIndexes } from "./downsample";
 import { REPORT_CHART_POINTS, REPORT_PHASE_POINTS, type ReportModel } from "./model";
 import { PhaseChart } from "./phase-chart";
@@ -27,7 +26,7 @@ import { bothClocks, instantOf, siteClockAt } from "./time";
 import { TimeChart } from "./time-chart";
 import { DraftWatermark } from "./watermark";
 import { ReportFooter } from "./footer";
-import { Fact, Heading, T, TableHead, type Column } from "./parts";
+import { Fact, Heading, SafetyNotesSection, T, TableHead, type Column } from "./parts";
 import { ChannelsSection, RecordInputSection } from "./record-sections";
 import { BowieDickSection } from "./bowie-dick-section";
 import { AirLeakageSection } from "./air-leakage-section";
@@ -622,19 +621,7 @@ export function CycleReportDocument({ model }: { model: ReportModel }) {
           </View>
         </View>
 
-        <View wrap={false}>
-          <Heading>Safety notes</Heading>
-          <View style={s.safety}>
-            {SAFETY_NOTES.map((note) => (
-              <View key={note.title} style={s.safetyItem}>
-                <T>
-                  <T style={s.safetyTitle}>{`${note.title}. `}</T>
-                  {note.text}
-                </T>
-              </View>
-            ))}
-          </View>
-        </View>
+        <SafetyNotesSection />
       </Page>
     </Document>
   );

@@ -1,6 +1,7 @@
 /** The report's building blocks: text with its glyph rules, headings, facts and table heads. */
 import type { ReactNode } from "react";
 import { Text, View } from "@react-pdf/renderer";
+import { SAFETY_NOTES } from "@/lib/safety";
 import { s } from "./styles";
 import { pdfText } from "./text";
 
@@ -44,6 +45,25 @@ export function TableHead({ columns }: { columns: Column[] }) {
           {c.title}
         </T>
       ))}
+    </View>
+  );
+}
+
+/** The safety notes every report prints, kept together on one page. */
+export function SafetyNotesSection() {
+  return (
+    <View wrap={false}>
+      <Heading>Safety notes</Heading>
+      <View style={s.safety}>
+        {SAFETY_NOTES.map((note) => (
+          <View key={note.title} style={s.safetyItem}>
+            <T>
+              <T style={s.safetyTitle}>{`${note.title}. `}</T>
+              {note.text}
+            </T>
+          </View>
+        ))}
+      </View>
     </View>
   );
 }

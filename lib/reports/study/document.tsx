@@ -1,8 +1,7 @@
 import { Document, Page, View } from "@react-pdf/renderer";
-import { SAFETY_NOTES } from "@/lib/safety";
 import { plural, STUDY_KIND_LABELS, STUDY_STATUS_LABELS } from "@/lib/domain";
 import { ReportFooter } from "../footer";
-import { Heading, T } from "../parts";
+import { Heading, SafetyNotesSection, T } from "../parts";
 import { s } from "../styles";
 import { fixed, pdfText } from "../text";
 import { CONTENT_WIDTH, colour } from "../theme";
@@ -149,19 +148,7 @@ export function StudyReportDocument({ detail, options }: { detail: StudyReportDe
           </View>
         </View>
 
-        <View wrap={false}>
-          <Heading>Safety notes</Heading>
-          <View style={s.safety}>
-            {SAFETY_NOTES.map((note) => (
-              <View key={note.title} style={s.safetyItem}>
-                <T>
-                  <T style={s.safetyTitle}>{`${note.title}. `}</T>
-                  {note.text}
-                </T>
-              </View>
-            ))}
-          </View>
-        </View>
+        <SafetyNotesSection />
       </Page>
     </Document>
   );
