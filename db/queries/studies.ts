@@ -60,8 +60,9 @@ export async function getStudyRow({ siteId, id, tx }: { siteId: string; id: stri
 }
 
 /**
- * Inserts the study (and its new loading pattern) with its number "QS-<year>-<nnn>", the next of the site's year, and
- * the audit events, in one transaction.
+ * Inserts the study (and its new loading pattern) with its number "QS-<year>-<nnn>", one above the highest of the site's
+ * year, and the audit events, in one transaction. Two plans saved at the same instant may pick the same number: the
+ * unique index refuses the second, whose transaction rolled back whole, and it is tried again with the next number.
  */
 export async function insertStudy(input: {
   siteId: string;
@@ -70,14 +71,29 @@ export async function insertStudy(input: {
   study: Omit<NewStudy, "studyNumber" | "title"> & { id: string; title: string | null };
   audit: (studyNumber: string) => AuditInput[];
 }): Promise<{ id: string; studyNumber: string }> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await insertStudyOnce(input);
+    } catch (error) {
+      if (attempt >= 4 || !isStudyNumberTaken(error)) throw error;
+    }
+  }
+}
+
+export const isStudyNumberTaken = (error: unknown): boolean => {
+  const text = `${(error as { message?: string })?.message ?? ""} ${String((error as { cause?: unknown })?.cause ?? "")}`;
+  return /UNIQUE constraint failed: studies\.site_id, studies\.study_number/.test(text);
+};
+
+function insertStudyOnce(input: Parameters<typeof insertStudy>[0]): Promise<{ id: string; studyNumber: string }> {
   return getDb().transaction(async (tx) => {
     if (input.pattern) await tx.insert(loadingPatterns).values(input.pattern);
     const prefix = `QS-${input.year}-`;
-    const [{ n }] = await tx
-      .select({ n: count() })
+    const [{ highest }] = await tx
+      .select({ highest: sql<number | null>`max(cast(substr(${studies.studyNumber}, ${prefix.length + 1}) as integer))` })
       .from(studies)
       .where(and(eq(studies.siteId, input.siteId), like(studies.studyNumber, `${prefix}%`)));
-    const studyNumber = `${prefix}${String(n + 1).padStart(3, "0")}`;
+    const studyNumber = `${prefix}${String((highest ?? 0) + 1).padStart(3, "0")}`;
     await tx.insert(studies).values({ ...input.study, studyNumber, title: input.study.title ?? studyNumber });
     for (const event of input.audit(studyNumber)) await appendAuditEvent(tx, event);
     return { id: input.study.id, studyNumber };

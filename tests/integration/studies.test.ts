@@ -233,3 +233,29 @@ describe("site isolation", () => {
     expect((await (await GET(new Request("http://papin.test/api/studies"), undefined)).json()).total).toBe(0);
   });
 });
+
+describe("study numbers", () => {
+  it("a number another process took first is recognised from the database's own refusal, so the plan is tried again with the next", async () => {
+    const { studies: table } = await import("@/db/schema");
+    const { isStudyNumberTaken } = await import("@/db/queries/studies");
+    const id = await studies.createId(site.people.engineer, { runsRequired: 3 });
+    const [taken] = await ctx.db.select().from(table).where(eq(table.id, id));
+    const refusal = await ctx.db
+      .insert(table)
+      .values({ ...taken, id: crypto.randomUUID() })
+      .then(() => null)
+      .catch((error: unknown) => error);
+    expect(refusal).not.toBeNull();
+    expect(isStudyNumberTaken(refusal)).toBe(true);
+    expect(isStudyNumberTaken(new Error("UNIQUE constraint failed: studies.id"))).toBe(false);
+  });
+
+  it("studies planned at the same moment (requests in one process) get distinct, consecutive numbers", async () => {
+    const answers = await Promise.all([1, 2, 3, 4].map(() => studies.create(site.people.engineer, { runsRequired: 3 })));
+    expect(answers.map((r) => r.status)).toEqual([201, 201, 201, 201]);
+    const numbers = (await Promise.all(answers.map((r) => r.json()))).map((b) => b.studyNumber as string);
+    expect(new Set(numbers).size).toBe(4);
+    const suffixes = numbers.map((n) => Number(n.slice(-3))).sort((a, b) => a - b);
+    expect(suffixes[3] - suffixes[0]).toBe(3);
+  });
+});
