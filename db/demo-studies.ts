@@ -239,7 +239,7 @@ async function runStudy(db: Database, setting: Setting, people: People, instrume
   const atmosphereKpa = atmosphereAtAltitudeKpa(site.altitudeM ?? 0);
   const context: CycleContext = { ...setting, db, technician, signer: reviewer, ...where, key: plan.key, profile, instrumentId, atmosphereKpa };
   for (const [index, run] of plan.runs.entries()) {
-    const cycle = await signedStudyCycle(context, run, 900 + index + (plan.key === "F1" ? 0 : 10), { ...pattern, load: pattern.name });
+    const cycle = await signedStudyCycle(context, run, 900 + index + (plan.key === "F1" ? 0 : 10), { ...pattern, load: `${pattern.name} (demo)` });
     // The sensor map is the proposal from the probes' names (every position has its "Pn" channel).
     const { runId } = await studies.attachRun({ actor: technician, id, cycleId: cycle.cycleId });
     if (!cycle.passed) continue;

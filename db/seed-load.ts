@@ -7,12 +7,13 @@
  * falls back to parsing the file). Refuses a database holding anything but the demo site unless
  * `--force`. Signatures and reports are not made: load cycles in a confirmed status have none.
  */
-import { count, eq, inArray, notInArray, notLike, ne, desc } from "drizzle-orm";
+import { count, eq, inArray, desc } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/libsql";
-import { applyFilePragmas, openClient, type Database } from "./index";
+import { applyFilePragmas, openClient } from "./index";
 import * as schema from "./schema";
 import { acceptanceProfiles, analyses, analysisSeries, auditEvents, cycles, instruments, loggerFiles, sites, sterilizers, users, type CycleStatus, type NewCycle } from "./schema";
 import { migrateDatabase } from "./migrate";
+import { nonDemoData } from "./demo-data";
 import { DEMO_USERS, loadDemoSite } from "./seed";
 import { auditEventHash } from "./ledger";
 import { env } from "@/lib/env";
@@ -42,18 +43,6 @@ function parseArgs(argv: string[]): Args {
   if (!Number.isInteger(cycles) || cycles < 1 || cycles > 2_000_000) throw new Error("--cycles needs a whole number from 1 to 2,000,000, e.g. --cycles 100000.");
   if (!(years > 0 && years <= 50)) throw new Error("--years needs a number of years from 0 to 50.");
   return { cycles, years, force: argv.includes("--force") };
-}
-
-/** Why the database holds more than the demo site (null when it holds only demo data). */
-async function nonDemoData(db: Database, siteId: string): Promise<string | null> {
-  const [{ otherSites }] = await db.select({ otherSites: count() }).from(sites).where(ne(sites.id, siteId));
-  if (otherSites > 0) return `it holds ${otherSites} site(s) besides the demo site`;
-  const emails = DEMO_USERS.map((u) => u.email);
-  const [{ otherUsers }] = await db.select({ otherUsers: count() }).from(users).where(notInArray(users.email, emails));
-  if (otherUsers > 0) return `it holds ${otherUsers} user(s) who are not demo users`;
-  const [{ otherCycles }] = await db.select({ otherCycles: count() }).from(cycles).where(notLike(cycles.loadDescription, "%(demo%"));
-  if (otherCycles > 0) return `it holds ${otherCycles} cycle(s) that the demo did not make`;
-  return null;
 }
 
 type SeriesRow = typeof analysisSeries.$inferInsert;

@@ -126,6 +126,14 @@ describe("the demo loader", () => {
     expect(times[2]).toBeLessThan(early.getTime());
   });
 
+  it("marks every cycle it makes as demo data, so db:seed-load accepts the database without --force", async () => {
+    const { nonDemoData } = await import("@/db/demo-data");
+    const [site] = await ctx.db.all<{ id: string }>(sql`select id from sites`);
+    const unmarked = await ctx.db.all<{ n: string }>(sql`select cycle_number as n from cycles where load_description not like '%(demo%'`);
+    expect(unmarked).toEqual([]);
+    expect(await nonDemoData(ctx.db, site.id)).toBeNull();
+  });
+
   it("changes nothing when run a second time", async () => {
     const { loadDemoSite } = await import("@/db/seed");
     const before = await counts();
