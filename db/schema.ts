@@ -361,6 +361,9 @@ export const analysisSeries = sqliteTable("analysis_series", {
   sampleCount: integer("sample_count").notNull(),
   timesS: blob("times_s", { mode: "buffer" }).notNull(),
   channelValues: blob("channel_values", { mode: "buffer" }).notNull(),
+  // The chart's whole-record view (lib/cycles/series.ts seriesOverviewOf), built once at analysis so a first chart
+  // request reads a few hundred kilobytes instead of decoding every sample; null for analyses stored before it.
+  overview: text("overview", { mode: "json" }),
   createdAt: createdAt(),
 });
 
@@ -406,6 +409,19 @@ export const reports = sqliteTable(
   (t) => [index("reports_created_idx").on(t.createdAt), index("reports_cycle_idx").on(t.cycleId)],
 );
 export type Report = typeof reports.$inferSelect;
+
+// The latest draft PDF of a cycle not yet signed: a cache, not a record (the record is the cycle and its analyses).
+// Rendered when the cycle is analysed or first asked for, served again while the hash of what it prints
+// (`input_sha256`) is unchanged, and only when its bytes still match `sha256`; anything else is rendered afresh.
+export const reportDrafts = sqliteTable("report_drafts", {
+  cycleId: text("cycle_id")
+    .primaryKey()
+    .references(() => cycles.id),
+  inputSha256: text("input_sha256").notNull(),
+  sha256: text("sha256").notNull(),
+  bytes: blob("bytes", { mode: "buffer" }).notNull(),
+  renderedAt: text("rendered_at").notNull(),
+});
 
 // Append-only: triggers in the migrations refuse UPDATE and DELETE; each row carries the hash of
 // the previous one so that a row changed behind the triggers' back breaks the chain.

@@ -1,5 +1,5 @@
 import "server-only";
-import { NextResponse } from "next/server";
+import { after, NextResponse } from "next/server";
 import { create as contentDisposition } from "content-disposition";
 import { ZodError } from "zod";
 import { AppError, databaseBusy, plainIssueMessage } from "./errors";
@@ -55,4 +55,17 @@ export function route<C = unknown>(handler: Handler<C>): Handler<C> {
  */
 export function downloadDisposition(fileName: string, kind: "attachment" | "inline" = "attachment"): string {
   return contentDisposition(fileName, { type: kind });
+}
+
+/**
+ * Work to do once the answer has gone out (next/server `after`); a graceful stop of the server waits for it. Outside a
+ * request (a script, or a test calling a handler directly) nothing is scheduled: such work only saves a later reader
+ * time, and is done on demand then.
+ */
+export function afterAnswer(task: () => Promise<unknown>): void {
+  try {
+    after(task);
+  } catch {
+    // no request scope: see above
+  }
 }

@@ -4,6 +4,7 @@ import { getDb, type Executor } from "@/db";
 import { containsText } from "./search";
 import { analyses, auditEvents, cycles, loggerFiles, reports, signatures, sterilizers, users, type CycleStatus, type NewSignature } from "@/db/schema";
 import { appendAuditEvent, type AuditInput } from "@/db/ledger";
+import { deleteReportDraft } from "./report-drafts";
 import type { Actor } from "./users";
 
 type Hook = (tx: Executor) => Promise<void>;
@@ -121,6 +122,8 @@ export async function applySignature(input: SignatureWrite): Promise<{ reportId:
         })
         .returning({ id: reports.id });
       reportId = report.id;
+      // The archived report replaces any draft kept for the cycle.
+      await deleteReportDraft(tx, { cycleId: signature.cycleId });
     }
     await appendAuditEvent(tx, input.audit(reportId));
     await input.inside?.(tx);

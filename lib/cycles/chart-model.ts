@@ -182,6 +182,12 @@ function clampWindow(view: TimeWindow, record: TimeWindow): TimeWindow {
   return { from, to: from + span };
 }
 
+/**
+ * Points of the whole-record view: the record page's time chart and phase diagram ask for it, it is the series API's
+ * default, and each analysis stores it (lib/cycles/series.ts seriesOverviewOf) so the first chart reads no samples.
+ */
+export const OVERVIEW_POINTS = 2400;
+
 export function seriesUrl(cycleId: string, options: { points: number; window?: TimeWindow | null }): string {
   const params = new URLSearchParams();
   if (options.window) {

@@ -1,6 +1,7 @@
 import { downsampleSeries, saturationTemperatureSeries, thermometricOf, type CycleAnalysis } from "@/lib/analysis";
 import type { Recording } from "@/lib/logger-files";
 import type { SeriesResponse } from "./contracts";
+import { OVERVIEW_POINTS } from "./chart-model";
 
 const finiteOrNull = (v: number) => (Number.isFinite(v) ? Math.round(v * 1000) / 1000 : null);
 
@@ -43,6 +44,25 @@ export function buildSeries(recording: Recording, result: CycleAnalysis, { fromS
     totalSamples: n,
     fullResolution: inWindow <= points,
   };
+}
+
+/**
+ * The whole-record view as each analysis stores it (analysis_series.overview). `format` names the shape buildSeries
+ * gives: raise SERIES_FORMAT when that shape or its downsampling changes, and stored views of the old format are
+ * ignored (the series is built from the columns again).
+ */
+export const SERIES_FORMAT = 1;
+export type StoredOverview = { format: number; points: number; series: SeriesResponse };
+
+export function seriesOverviewOf(recording: Recording, result: CycleAnalysis): StoredOverview {
+  return { format: SERIES_FORMAT, points: OVERVIEW_POINTS, series: buildSeries(recording, result, { points: OVERVIEW_POINTS }) };
+}
+
+/** A stored whole-record view this code can serve as the answer to a request for `points` over the whole record; null otherwise. */
+export function usableOverview(stored: unknown, points: number): SeriesResponse | null {
+  const overview = stored as Partial<StoredOverview> | null | undefined;
+  if (!overview || overview.format !== SERIES_FORMAT || overview.points !== points || !overview.series) return null;
+  return overview.series;
 }
 
 /** What the stored columns of a recording carry besides the samples. */

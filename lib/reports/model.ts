@@ -20,6 +20,12 @@ export type ReportModel = {
 };
 
 /** Points per trace in the report's charts: far more than A4 at print resolution can separate. */
+/**
+ * The look of the cycle report. Kept drafts (report_drafts) are keyed on it with the analysis engine's version: raise it
+ * when a change to lib/reports alters what a draft prints, so drafts rendered by older code are rendered again.
+ */
+export const REPORT_LAYOUT_VERSION = "cycle-report 1";
+
 export const REPORT_CHART_POINTS = 1200;
 /** Samples on the phase diagram's path. */
 export const REPORT_PHASE_POINTS = 700;

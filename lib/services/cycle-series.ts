@@ -1,8 +1,9 @@
 import "server-only";
 import { getAnalysedFile, getCycleRow } from "@/db/queries/cycles";
 import { readLoggerFile, type MappingOverrides, type Recording } from "@/lib/logger-files";
-import { getAnalysisSeries } from "@/db/queries/analysis-series";
-import { buildSeries, recordingFromColumns, type SeriesMeta } from "@/lib/cycles/series";
+import { getAnalysisSeries, getSeriesOverview } from "@/db/queries/analysis-series";
+import { buildSeries, recordingFromColumns, usableOverview, type SeriesMeta } from "@/lib/cycles/series";
+import { OVERVIEW_POINTS } from "@/lib/cycles/chart-model";
 import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
 import { processLru } from "@/lib/lru";
@@ -33,13 +34,28 @@ async function recordingOfAnalysis(analysisId: string): Promise<Loaded | undefin
 }
 
 /** Chart data of a cycle's current analysis; undefined when the cycle or its analysis is not there. */
-export async function getCycleSeries({ actor, id, fromS, toS, points = 3000 }: { actor: Actor; id: string; fromS?: number; toS?: number; points?: number }): Promise<SeriesResponse | undefined> {
+export async function getCycleSeries({
+  actor,
+  id,
+  fromS,
+  toS,
+  points = OVERVIEW_POINTS,
+}: {
+  actor: Actor;
+  id: string;
+  fromS?: number;
+  toS?: number;
+  points?: number;
+}): Promise<SeriesResponse | undefined> {
   assertAllowed(actor, "cycle:read", "read cycles");
   const cycle = await getCycleRow({ actor, id });
   if (!cycle?.currentAnalysisId) return undefined;
+  const maxPoints = Math.min(Math.max(Math.trunc(points), 50), 20000);
+  // The whole-record view was built when the analysis was stored (an analysis never changes): no sample is read.
+  const overview = fromS === undefined && toS === undefined ? usableOverview(await getSeriesOverview({ analysisId: cycle.currentAnalysisId }), maxPoints) : null;
+  if (overview) return { ...overview, startedAt: cycle.startedAt ?? overview.startedAt };
   const loaded = await recordingOfAnalysis(cycle.currentAnalysisId);
   if (!loaded) return undefined;
-  const maxPoints = Math.min(Math.max(Math.trunc(points), 50), 20000);
   const series = buildSeries(loaded.recording, loaded.result, { fromS, toS, points: maxPoints });
   // The cycle's start instant (the file's clock read in the site's zone, or the start the user gave
   // for an elapsed-only file), so the chart's clock times are the site's.

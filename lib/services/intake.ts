@@ -11,7 +11,7 @@ import type { CycleAnalysis } from "@/lib/analysis/types";
 import type { AirLeakageMarks } from "@/lib/analysis/air-leakage-types";
 import { inspectLoggerFile, LoggerFileError, type MappingOverrides } from "@/lib/logger-files";
 import { analyzeLoggerBytes, siteAtmosphereKpa, type FileAnalysis } from "@/lib/cycles/analyze-file";
-import { recordingToColumns } from "@/lib/cycles/series";
+import { recordingToColumns, seriesOverviewOf } from "@/lib/cycles/series";
 import { insertSeriesOfCurrentAnalysis } from "@/db/queries/analysis-series";
 import { resolveCycleStart, siteClockStamp } from "@/lib/cycles/start-time";
 import { canonicalJson, sha256Hex } from "@/lib/integrity";
@@ -219,7 +219,7 @@ export async function createCycleFromUpload(input: CreateCycleInput): Promise<Cr
       },
     }),
     inside: async (tx, cycleId) => {
-      await insertSeriesOfCurrentAnalysis(tx, { cycleId, columns: recordingToColumns(analysis.recording) });
+      await insertSeriesOfCurrentAnalysis(tx, { cycleId, columns: { ...recordingToColumns(analysis.recording), overview: seriesOverviewOf(analysis.recording, analysis.result) } });
       await notifyFailure(tx, cycleId, analysis.result);
       await input.recordAnswer?.(tx, { status: 201, body: { id: cycleId, status: "draft", analysis: analysis.result } satisfies CreateCycleResponse });
     },
@@ -365,7 +365,7 @@ export async function reanalyseCycle({ actor, id, file, mapping, positions, reas
       reason: cleanReason,
     }),
     inside: async (tx) => {
-      await insertSeriesOfCurrentAnalysis(tx, { cycleId: id, columns: recordingToColumns(analysis.recording) });
+      await insertSeriesOfCurrentAnalysis(tx, { cycleId: id, columns: { ...recordingToColumns(analysis.recording), overview: seriesOverviewOf(analysis.recording, analysis.result) } });
       await notifyFailure(tx, id, analysis.result);
     },
   });

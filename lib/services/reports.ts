@@ -6,7 +6,10 @@ import { AppError } from "@/lib/errors";
 import { isLockedCycleStatus } from "@/lib/domain";
 import { canonicalJson, sha256Hex } from "@/lib/integrity";
 import { processLru } from "@/lib/lru";
-import { renderCycleReport } from "@/lib/reports";
+import { REPORT_LAYOUT_VERSION, renderCycleReport } from "@/lib/reports";
+import { ENGINE_VERSION } from "@/lib/analysis";
+import { can } from "@/lib/auth/permissions";
+import { getReportDraft, saveReportDraft } from "@/db/queries/report-drafts";
 import type { CycleDetail } from "@/lib/cycles/contracts";
 import { assertAllowed, type Actor } from "./access";
 import { getCycleDetail } from "./cycles";
@@ -34,21 +37,102 @@ export async function renderReport(actor: Actor, detail: CycleDetail, reportNumb
 }
 
 // A draft is rendered again only when what it prints changed: the key hashes the record as the
-// reader sees it (status, analysis and its input hash, signatures, corrections) and the indicator
-// sheet. A repeat shows the time of the render it repeats. Promises are kept, so concurrent
+// reader sees it (status, analysis and its input hash, signatures, corrections), the indicator
+// sheet, and the versions of the report layout and the analysis engine. A repeat shows the time of
+// the render it repeats. The latest draft of each cycle is kept in the database (report_drafts), so
+// a restarted server serves it without rendering; promises are kept in the process, so concurrent
 // requests for one draft share a single render.
 const draftCache = processLru<Promise<Buffer>>("draft-reports", 8);
 
-async function cachedDraft(actor: Actor, detail: CycleDetail, reportNumber: string): Promise<Buffer> {
+async function draftKey(detail: CycleDetail, reportNumber: string): Promise<string> {
   const sheet = await getIndicatorSheetForReport({ cycleId: detail.id, testKind: detail.testKind });
   const printedSheet = sheet?.photo ? { ...sheet, photo: { ...sheet.photo, bytes: null } } : sheet;
-  const key = sha256Hex(canonicalJson({ detail, sheet: printedSheet ?? null, reportNumber }));
+  return sha256Hex(canonicalJson({ detail, sheet: printedSheet ?? null, reportNumber, layout: REPORT_LAYOUT_VERSION, engine: ENGINE_VERSION }));
+}
+
+/** The kept draft when it prints this key and its bytes are still the ones rendered; null otherwise (then it is rendered again). */
+async function keptDraft(cycleId: string, key: string): Promise<Buffer | null> {
+  const kept = await getReportDraft({ cycleId });
+  if (!kept || kept.inputSha256 !== key) return null;
+  const bytes = Buffer.from(kept.bytes);
+  return sha256Hex(bytes) === kept.sha256 ? bytes : null;
+}
+
+async function renderAndKeep(actor: Actor, detail: CycleDetail, reportNumber: string, key: string): Promise<Buffer> {
+  const renderedAt = new Date().toISOString();
+  const bytes = await renderReport(actor, detail, reportNumber, renderedAt, true);
+  // A draft that could not be kept is still served; the next request renders it again.
+  await saveReportDraft({ cycleId: detail.id, inputSha256: key, sha256: sha256Hex(bytes), bytes, renderedAt }).catch((error: unknown) =>
+    console.warn(`[papin] the draft report of cycle ${detail.id} could not be kept: ${error instanceof Error ? error.message : String(error)}`),
+  );
+  return bytes;
+}
+
+async function cachedDraft(actor: Actor, detail: CycleDetail, reportNumber: string): Promise<Buffer> {
+  const key = await draftKey(detail, reportNumber);
   const cached = draftCache.get(key);
   if (cached) return cached;
-  const rendering = renderReport(actor, detail, reportNumber, new Date().toISOString(), true);
-  draftCache.set(key, rendering);
-  rendering.catch(() => draftCache.delete(key));
-  return rendering;
+  const drafting = keptDraft(detail.id, key).then((kept) => kept ?? renderAndKeep(actor, detail, reportNumber, key));
+  draftCache.set(key, drafting);
+  drafting.catch(() => draftCache.delete(key));
+  return drafting;
+}
+
+const draftNumberOf = (detail: CycleDetail) => `DRAFT-${detail.cycleNumber}`;
+
+/**
+ * Renders and keeps the draft report of a cycle that is not locked, so that the first reader gets it without waiting
+ * (called after a cycle is analysed). Nothing is read by anyone, so nothing is audited; a cycle that is gone, locked
+ * or outside what the actor may read is left alone.
+ */
+export async function prepareDraftReport({ actor, id }: { actor: Actor; id: string }): Promise<void> {
+  if (!can(actor.role, "report:read")) return;
+  const cycle = await getCycleRow({ actor, id });
+  if (!cycle || isLockedCycleStatus(cycle.status)) return;
+  const detail = await getCycleDetail({ actor, id });
+  if (!detail) return;
+  await cachedDraft(actor, detail, draftNumberOf(detail));
+}
+
+// Drafts to prepare, one render at a time and newest first (the cycle just uploaded is the one about to be read),
+// starting once uploads have paused for a moment so that a burst of uploads is not slowed by rendering.
+const PREPARE_AFTER_QUIET_MS = 300;
+type Waiting = { actor: Actor; done: Array<() => void> };
+const waiting = new Map<string, Waiting>();
+let preparing = false;
+let quietTimer: ReturnType<typeof setTimeout> | undefined;
+
+async function prepareWaitingDrafts() {
+  preparing = true;
+  try {
+    while (waiting.size > 0) {
+      const id = [...waiting.keys()].at(-1)!;
+      const { actor, done } = waiting.get(id)!;
+      waiting.delete(id);
+      await prepareDraftReport({ actor, id }).catch((error: unknown) =>
+        console.warn(`[papin] the draft report of cycle ${id} could not be prepared: ${error instanceof Error ? error.message : String(error)}`),
+      );
+      done.forEach((resolve) => resolve());
+    }
+  } finally {
+    preparing = false;
+  }
+}
+
+/**
+ * Queues the cycle's draft report to be prepared in this process (prepareDraftReport); the promise settles, never
+ * rejecting, once it is kept or could not be made. The server waits for it on a graceful stop.
+ */
+export function prepareDraftReportSoon({ actor, id }: { actor: Actor; id: string }): Promise<void> {
+  return new Promise((resolve) => {
+    const entry = waiting.get(id);
+    waiting.delete(id);
+    waiting.set(id, { actor, done: [...(entry?.done ?? []), resolve] });
+    clearTimeout(quietTimer);
+    quietTimer = setTimeout(() => {
+      if (!preparing) void prepareWaitingDrafts();
+    }, PREPARE_AFTER_QUIET_MS);
+  });
 }
 
 const cycleReport = (row: { id: string; cycleId: string; reportNumber: string; sha256: string }, bytes: Uint8Array): StoredReport => ({
@@ -76,7 +160,7 @@ export async function getCycleReport({ actor, id }: { actor: Actor; id: string }
   }
   const detail = await getCycleDetail({ actor, id });
   if (!detail) throw new AppError(404, "That cycle was not found.");
-  const reportNumber = `DRAFT-${detail.cycleNumber}`;
+  const reportNumber = draftNumberOf(detail);
   const bytes = await cachedDraft(actor, detail, reportNumber);
   await recordAuditEvent({ actorId: actor.id, actorEmail: actor.email, siteId: cycle.siteId, action: "report.export-draft", entityType: "cycle", entityId: id });
   return { bytes: new Uint8Array(bytes), fileName: `${reportNumber}.pdf`, archived: false, reportNumber };

@@ -106,6 +106,38 @@ describe("the recording stored with its analysis", () => {
   });
 });
 
+describe("the whole-record view kept with the analysis", () => {
+  it("is the series API's default answer, equal to one built from the stored columns", async () => {
+    const id = await upload(await loggerFile(76));
+    const analysisId = await currentAnalysisOf(id);
+    const { OVERVIEW_POINTS } = await import("@/lib/cycles/chart-model");
+    const kept = await seriesText(id, "");
+    expect(await seriesText(id, `points=${OVERVIEW_POINTS}`)).toBe(kept);
+    const { sql } = await import("drizzle-orm");
+    const [row] = await ctx.db.all<{ format: number; points: number }>(
+      sql`select overview ->> 'format' as format, overview ->> 'points' as points from analysis_series where analysis_id = ${analysisId}`,
+    );
+    expect(row).toEqual({ format: 1, points: OVERVIEW_POINTS });
+    // Without the kept view the same answer is built from the columns.
+    await ctx.db.run(sql`update analysis_series set overview = null where analysis_id = ${analysisId}`);
+    expect(await seriesText(id, "")).toBe(kept);
+  });
+
+  it("is what the first chart reads, and is passed over when it has another format or size", async () => {
+    const id = await upload(await loggerFile(77));
+    const analysisId = await currentAnalysisOf(id);
+    const { sql } = await import("drizzle-orm");
+    const pressureHeader = async (query: string) => JSON.parse(await seriesText(id, query)).channels.find((c: { kind: string }) => c.kind === "pressure").header;
+    await ctx.db.run(sql`update analysis_series set overview = json_set(overview, '$.series.channels[#-2].header', 'from the kept view') where analysis_id = ${analysisId}`);
+    expect(await pressureHeader("")).toBe("from the kept view");
+    // A window, or another number of points, is built from the columns.
+    expect(await pressureHeader("points=2000")).not.toBe("from the kept view");
+    expect(await pressureHeader("from=0&to=600")).not.toBe("from the kept view");
+    await ctx.db.run(sql`update analysis_series set overview = json_set(overview, '$.format', 0) where analysis_id = ${analysisId}`);
+    expect(await pressureHeader("")).not.toBe("from the kept view");
+  });
+});
+
 describe("the draft report", () => {
   async function draft(id: string) {
     const { GET } = await import("@/app/api/cycles/[id]/report/route");
@@ -137,5 +169,59 @@ describe("the draft report", () => {
       .from(auditEvents)
       .where(and(eq(auditEvents.entityId, id), eq(auditEvents.action, "report.export-draft")));
     expect(exports).toHaveLength(3);
+  });
+
+  const forgetDrafts = () => (globalThis as unknown as { "__papinLru_draft-reports"?: Map<string, unknown> })["__papinLru_draft-reports"]?.clear();
+
+  async function keptDraft(id: string) {
+    const { sql } = await import("drizzle-orm");
+    const [row] = await ctx.db.all<{ sha256: string; bytes: ArrayBuffer; input: string }>(sql`select sha256, bytes, input_sha256 as input from report_drafts where cycle_id = ${id}`);
+    return row ? { sha256: row.sha256, bytes: Buffer.from(row.bytes), input: row.input } : undefined;
+  }
+
+  it("is prepared before anyone asks, kept in the database, and served from there by a process that never rendered it", async () => {
+    const id = await upload(await loggerFile(78));
+    expect(await keptDraft(id)).toBeUndefined();
+    const { prepareDraftReport } = await import("@/lib/services/reports");
+    const actor = {
+      id: ids.tech,
+      email: "tech@series.example",
+      name: "Tech",
+      role: "technician" as const,
+      siteId: (await ctx.db.all<{ id: string }>((await import("drizzle-orm")).sql`select id from sites`))[0].id,
+    };
+    await prepareDraftReport({ actor, id });
+    const kept = await keptDraft(id);
+    expect(kept?.bytes.subarray(0, 5).toString()).toBe("%PDF-");
+    const { sha256Hex } = await import("@/lib/integrity");
+    expect(kept?.sha256).toBe(sha256Hex(kept!.bytes));
+    forgetDrafts();
+    // The same bytes, generation time included: nothing was rendered for this request.
+    expect((await draft(id)).equals(kept!.bytes)).toBe(true);
+  });
+
+  it("is rendered again, never served, when its kept bytes no longer match their hash", async () => {
+    const id = await upload(await loggerFile(79));
+    const first = await draft(id);
+    const { sql } = await import("drizzle-orm");
+    await ctx.db.run(sql`update report_drafts set bytes = ${Buffer.from("%PDF-1.4 altered")} where cycle_id = ${id}`);
+    forgetDrafts();
+    await new Promise((resolve) => setTimeout(resolve, 5));
+    const again = await draft(id);
+    expect(again.toString("latin1")).not.toContain("altered");
+    expect(again.equals(first)).toBe(false); // rendered anew, with its own generation time
+    expect((await keptDraft(id))?.bytes.equals(again)).toBe(true);
+  });
+
+  it("is rendered again when the record it printed changed, even from a process that kept it", async () => {
+    const id = await upload(await loggerFile(80));
+    const first = await draft(id);
+    const before = await keptDraft(id);
+    const { sql } = await import("drizzle-orm");
+    await ctx.db.run(sql`update cycles set load_description = 'Changed behind the cache' where id = ${id}`);
+    forgetDrafts();
+    const again = await draft(id);
+    expect(again.equals(first)).toBe(false);
+    expect((await keptDraft(id))?.input).not.toBe(before?.input);
   });
 });

@@ -1,5 +1,5 @@
 import { NextResponse } from "next/server";
-import { route, zodMessage } from "@/lib/http";
+import { afterAnswer, route, zodMessage } from "@/lib/http";
 import { requireActorOrToken, requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, mappingFromForm, readMultipart } from "@/lib/uploads";
@@ -7,6 +7,7 @@ import { cycleListQuerySchema, queryObject } from "@/lib/validations/cycles";
 import { createCycleFieldsSchema, idempotencyKeySchema, parseLeakMarks } from "@/lib/validations/intake";
 import { listCycles } from "@/lib/services/cycles";
 import { registerUploadedCycle } from "@/lib/services/intake";
+import { prepareDraftReportSoon } from "@/lib/services/reports";
 import { kickMailDelivery } from "@/lib/mail/delivery";
 
 export const runtime = "nodejs";
@@ -61,5 +62,8 @@ export const POST = route(async (request) => {
     { key: idempotencyKey?.data ?? null, requestHash: idempotencyKey ? form.digest() : "" },
   );
   kickMailDelivery();
+  // The draft report is made while nobody waits, so its first reader gets it at once.
+  const createdId = answer.status === 201 ? (answer.body as { id?: unknown }).id : undefined;
+  if (typeof createdId === "string") afterAnswer(() => prepareDraftReportSoon({ actor, id: createdId }));
   return NextResponse.json(answer.body, { status: answer.status, headers: answer.replayed ? { "Idempotent-Replayed": "true" } : undefined });
 });

@@ -2,11 +2,11 @@
 
 import useSWR from "swr";
 import type { SeriesResponse } from "@/lib/cycles/contracts";
-import { seriesUrl, type TimeWindow } from "@/lib/cycles/chart-model";
+import { OVERVIEW_POINTS, seriesUrl, type TimeWindow } from "@/lib/cycles/chart-model";
 import { fetchJson, type RequestError } from "@/lib/client/fetch-json";
 
-/** Points asked for the whole-record view; the time chart and the phase diagram share this request. */
-export const OVERVIEW_POINTS = 2400;
+/** Points asked for the whole-record view; the time chart and the phase diagram share this request (and the server keeps it ready). */
+export { OVERVIEW_POINTS };
 /** Points asked for a zoomed window or the plateau: up to this many samples come at full resolution. */
 export const WINDOW_POINTS = 4000;
 

@@ -117,7 +117,8 @@ export async function startServer(databaseFile: string): Promise<Server> {
   const exited = new Promise<void>((resolve) => child.once("exit", () => resolve()));
   const stop = async () => {
     if (child.exitCode === null && child.signalCode === null) child.kill("SIGTERM");
-    await Promise.race([exited, new Promise((r) => setTimeout(r, 5000))]);
+    // A graceful stop finishes work the server does after answering (drafts being prepared); a minute at most.
+    await Promise.race([exited, new Promise((r) => setTimeout(r, 60_000))]);
     if (child.exitCode === null && child.signalCode === null) child.kill("SIGKILL");
     running.delete(child);
   };

@@ -1,10 +1,11 @@
 import { NextResponse } from "next/server";
-import { route, zodMessage } from "@/lib/http";
+import { afterAnswer, route, zodMessage } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { AppError } from "@/lib/errors";
 import { filesOf, mappingFromForm, positionsFromForm, readMultipart } from "@/lib/uploads";
 import { correctionFieldsSchema, parseLeakMarks } from "@/lib/validations/intake";
 import { reanalyseCycle } from "@/lib/services/intake";
+import { prepareDraftReportSoon } from "@/lib/services/reports";
 
 export const runtime = "nodejs";
 
@@ -30,5 +31,7 @@ export const POST = route<Context>(async (request, { params }) => {
   if (!file && !mapping && !positions && !leak.marks && !changesDetails)
     throw new AppError(400, "Attach a corrected logger file, send a corrected mapping or sensor positions, or change the cycle's details.");
   const { id } = await params;
-  return NextResponse.json(await reanalyseCycle({ actor, id, file, mapping, positions, leakMarks: leak.marks, reason, duplicateReason, details }), { status: 201 });
+  const corrected = await reanalyseCycle({ actor, id, file, mapping, positions, leakMarks: leak.marks, reason, duplicateReason, details });
+  afterAnswer(() => prepareDraftReportSoon({ actor, id }));
+  return NextResponse.json(corrected, { status: 201 });
 });
