@@ -77,20 +77,27 @@ const schema = z.object({
 
 export type Env = z.infer<typeof schema>;
 
+const NAMES = Object.keys(schema.shape);
+let lastRead: { raw: string; env: Env } | undefined;
+
 /**
- * The validated configuration; a wrong variable fails loudly with its name. Read afresh at each call (a few
- * microseconds), so a variable changed while the process runs — by a test, or by `npm run dev` for the mail
- * fake — is honoured, as the Resend SDK itself reads RESEND_BASE_URL when a client is made. An empty variable
- * counts as unset.
+ * The validated configuration; a wrong variable fails loudly with its name. The variables are looked at on every
+ * call, so one changed while the process runs — by a test, or by `npm run dev` for the mail fake — is honoured, as
+ * the Resend SDK itself reads RESEND_BASE_URL when a client is made; they are validated again only when one of them
+ * changed (every database query asks, so validating each time cost a request real time). An empty variable counts as
+ * unset. The object returned is shared: read it, never change it.
  */
 export function env(): Env {
-  const raw = Object.fromEntries(Object.keys(schema.shape).map((name) => [name, process.env[name] || undefined]));
-  const parsed = schema.safeParse(raw);
+  const values = NAMES.map((name) => process.env[name] || undefined);
+  const raw = values.map((v) => (v === undefined ? "\u0000" : v)).join("\u0001");
+  if (lastRead?.raw === raw) return lastRead.env;
+  const parsed = schema.safeParse(Object.fromEntries(NAMES.map((name, i) => [name, values[i]])));
   if (!parsed.success) {
     const problems = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ");
     throw new Error(`Papin's configuration is invalid: ${problems}`);
   }
-  return parsed.data;
+  lastRead = { raw, env: Object.freeze(parsed.data) };
+  return lastRead.env;
 }
 
 export function demoEnabled(): boolean {

@@ -1,6 +1,7 @@
 import "server-only";
 import { getServerSession } from "next-auth";
 import { authOptions } from "./options";
+import { sessionFromCookie } from "./session-cookie";
 import { can, type Permission } from "./permissions";
 import { CHOOSE_OWN_PASSWORD_FIRST } from "./messages";
 import { getUserById } from "@/db/queries/users";
@@ -18,13 +19,13 @@ export type Account = { actor: Actor; mustChangePassword: boolean };
  * once, whatever the session cookie still says.
  */
 export async function currentAccount(): Promise<Account | null> {
-  const session = await getServerSession(authOptions());
-  const id = session?.user?.id;
+  const session = (await sessionFromCookie()) ?? (await getServerSession(authOptions()))?.user;
+  const id = session?.id;
   if (!id) return null;
   const user = await getUserById({ id });
   if (!user || user.disabled) return null;
   // The session callback always copies the token's version; a session built without one counts as the first.
-  if ((session.user.sessionVersion ?? 0) !== user.sessionVersion) return null;
+  if ((session.sessionVersion ?? 0) !== user.sessionVersion) return null;
   return { actor: { id: user.id, email: user.email, name: user.name, role: user.role, siteId: user.siteId }, mustChangePassword: user.mustChangePassword };
 }
 

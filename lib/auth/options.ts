@@ -7,7 +7,7 @@ import { sessionSecret } from "./secret";
 import { env, secureCookies, trustRequestHostUnlessUrlPinned } from "@/lib/env";
 import { sameOriginRedirect } from "./callback-url";
 import { continueSessionToken, startSessionToken, type SessionLimits } from "./session-policy";
-import { decodeSessionToken } from "./session-token";
+import { decodeSessionToken, encodeSessionToken } from "./session-token";
 
 trustRequestHostUnlessUrlPinned();
 
@@ -16,7 +16,7 @@ const credentialsSchema = z.object({
   password: z.string().min(1),
 });
 
-function sessionLimits(): SessionLimits {
+export function sessionLimits(): SessionLimits {
   const { PAPIN_SESSION_IDLE_MINUTES, PAPIN_SESSION_MAX_HOURS } = env();
   return { idleMs: PAPIN_SESSION_IDLE_MINUTES * 60_000, maxMs: PAPIN_SESSION_MAX_HOURS * 3_600_000 };
 }
@@ -29,7 +29,7 @@ export function authOptions(): NextAuthOptions {
     secret: sessionSecret(),
     // The cookie lives no longer than the absolute lifetime; the jwt callback enforces both limits itself.
     session: { strategy: "jwt", maxAge: Math.ceil(sessionLimits().maxMs / 1000) },
-    jwt: { decode: decodeSessionToken },
+    jwt: { decode: decodeSessionToken, encode: encodeSessionToken },
     useSecureCookies: secureCookies(),
     pages: { signIn: "/sign-in", error: "/sign-in" },
     providers: [

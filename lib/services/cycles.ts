@@ -19,7 +19,7 @@ import { certificateOnDate } from "@/lib/periodic-tests/calibration";
 import { localDate } from "@/lib/periodic-tests/schedule";
 import { assertAllowed, type Actor } from "./access";
 import { checkSignature } from "./record-bundle";
-import { cachedTotal } from "./list-totals";
+import { cachedPage, cachedTotal, ledgerSeq } from "./list-totals";
 
 export type CycleListQuery = CycleFilter & { page?: number; pageSize?: number; sort?: string };
 
@@ -31,10 +31,14 @@ export async function listCycles({ actor, query }: { actor: Actor; query: CycleL
   const page = Math.max(Math.trunc(rawPage ?? 1), 1);
   const [sortKey, sortDir] = (rawSort ?? "startedAt:desc").split(":");
   const key: CycleSortKey = (["startedAt", "createdAt", "cycleNumber", "status", "verdict", "sterilizer", "submittedAt"] as const).find((k) => k === sortKey) ?? "startedAt";
-  const broad = await isBroadSearch(filter.q);
+  const siteId = actor.siteId ?? "";
+  const sort = { key, direction: sortDir === "asc" ? ("asc" as const) : ("desc" as const) };
+  // One read of the ledger's head serves the page, its total and the search's breadth (lib/services/list-totals.ts).
+  const seq = await ledgerSeq();
+  const broad = await isBroadSearch(filter.q, seq);
   const [rows, total] = await Promise.all([
-    listCycleRows({ actor, filter, page, pageSize, sort: { key, direction: sortDir === "asc" ? "asc" : "desc" }, broad }),
-    cachedTotal({ list: "cycles", siteId: actor.siteId ?? "", filter, count: () => countCycles({ actor, filter, broad }) }),
+    cachedPage({ list: "cycles", siteId, query: { filter, sort, page, pageSize }, seq, read: () => listCycleRows({ actor, filter, page, pageSize, sort, broad }) }),
+    cachedTotal({ list: "cycles", siteId, filter, seq, count: () => countCycles({ actor, filter, broad }) }),
   ]);
   const items: CycleListItem[] = rows.map((r) => ({
     id: r.id,
@@ -56,9 +60,9 @@ export async function listCycles({ actor, query }: { actor: Actor; query: CycleL
  * Whether a search text matches so many cycles that its pages are read row by row (db/queries/cycles.ts): the trigram
  * index is counted (up to BROAD_SEARCH_MATCHES, every site's) once per text while the ledger does not move on, not per page.
  */
-async function isBroadSearch(text: string | undefined): Promise<boolean> {
+async function isBroadSearch(text: string | undefined, seq: number): Promise<boolean> {
   if (!text || !isIndexedSearch(text)) return false;
-  const matches = await cachedTotal({ list: "search-matches", siteId: "", filter: { text }, count: () => countSearchMatchesUpTo(text, BROAD_SEARCH_MATCHES) });
+  const matches = await cachedTotal({ list: "search-matches", siteId: "", filter: { text }, seq, count: () => countSearchMatchesUpTo(text, BROAD_SEARCH_MATCHES) });
   return matches >= BROAD_SEARCH_MATCHES;
 }
 

@@ -30,12 +30,15 @@ describe("cached list totals", () => {
 describe("totals of the audit ledger and the archive", () => {
   const auditor = { id: "u1", email: "t@example.test", name: "T", role: "auditor" as const, siteId: "site-1" };
   /** How many COUNT statements `run` sends (captured at the client). */
-  async function countsSent(run: () => Promise<unknown>): Promise<number> {
+  const countsSent = (run: () => Promise<unknown>) => statementsSent(/\bcount\(/i, run);
+
+  /** How many statements matching `pattern` `run` sends (captured at the client). */
+  async function statementsSent(pattern: RegExp, run: () => Promise<unknown>): Promise<number> {
     const client = (globalThis as unknown as { __papinDb: { client: { execute: (s: InStatement) => Promise<unknown> } } }).__papinDb.client;
     const execute = client.execute;
     let n = 0;
     client.execute = (stmt: InStatement) => {
-      if (typeof stmt === "object" && /\bcount\(/i.test(stmt.sql)) n++;
+      if (typeof stmt === "object" && pattern.test(stmt.sql)) n++;
       return execute.call(client, stmt);
     };
     try {
@@ -81,5 +84,19 @@ describe("totals of the audit ledger and the archive", () => {
     // The first page counts the matches in the index (to tell a broad text) and the cycles; the next counts nothing.
     expect(await search(1)).toBe(2);
     expect(await search(2)).toBe(0);
+  });
+
+  it("reads a cycles page once while the ledger stands still, and again once it gains an event", async () => {
+    const { listCycles } = await import("@/lib/services/cycles");
+    const { recordAuditEvent } = await import("@/db/queries/audit");
+    const engineer = { ...auditor, role: "engineer" as const };
+    const pageReads = (query: object) => statementsSent(/from "cycles".*\blimit\b/is, () => listCycles({ actor: engineer, query }));
+    expect(await pageReads({ page: 1 })).toBe(1);
+    expect(await pageReads({ page: 1 })).toBe(0);
+    expect(await pageReads({ page: 2 })).toBe(1);
+    expect(await pageReads({ page: 1, status: "approved" })).toBe(1);
+    expect(await pageReads({ page: 1, sort: "cycleNumber:asc" })).toBe(1);
+    await recordAuditEvent({ action: "cycle.create", entityType: "cycle", entityId: "c2", siteId: "site-1" });
+    expect(await pageReads({ page: 1 })).toBe(1);
   });
 });

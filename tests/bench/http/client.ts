@@ -27,6 +27,28 @@ export async function getJson<T>(url: string, cookie: string): Promise<T> {
   return (await res.json()) as T;
 }
 
+/**
+ * The Cookie header after an answer, as a browser keeps it: a cookie the answer sets replaces the one of that name, one
+ * it clears is dropped (the session cookie is written anew when the session's last activity is written back).
+ */
+export function updatedCookie(cookie: string, res: Response): string {
+  const set = res.headers.getSetCookie();
+  if (set.length === 0) return cookie;
+  const jar = new Map(
+    cookie
+      .split("; ")
+      .filter(Boolean)
+      .map((pair) => [pair.slice(0, pair.indexOf("=")), pair]),
+  );
+  for (const line of set) {
+    const pair = line.split(";")[0];
+    const name = pair.slice(0, pair.indexOf("="));
+    if (/;\s*max-age=0(;|$)|expires=thu, 01 jan 1970/i.test(line)) jar.delete(name);
+    else jar.set(name, pair);
+  }
+  return [...jar.values()].join("; ");
+}
+
 export function percentile(values: number[], p: number): number {
   if (values.length === 0) return NaN;
   const sorted = [...values].sort((a, b) => a - b);
@@ -36,21 +58,24 @@ export function percentile(values: number[], p: number): number {
 export type LoadResult = { requests: number; perSecond: number; p95Ms: number; failures: number; firstFailure?: string };
 
 /**
- * A closed loop: `concurrency` workers each send the next request as soon as the last answer's body has arrived,
- * for `seconds`; Node's fetch keeps the connections alive. An answer other than 200 counts as a failure.
+ * A closed loop (`url` the same each time, or a new one from the function for each request): `concurrency` workers each send the next request as soon as the last answer's body has arrived,
+ * for `seconds`; Node's fetch keeps the connections alive, and the workers keep the session cookie as a browser does. An answer other than 200 counts as a failure.
  */
-export async function closedLoop(url: string, cookie: string, concurrency: number, seconds: number): Promise<LoadResult> {
+export async function closedLoop(url: string | (() => string), cookie: string, concurrency: number, seconds: number): Promise<LoadResult> {
+  const next = typeof url === "string" ? () => url : url;
   const latenciesMs: number[] = [];
   let failures = 0;
   let firstFailure: string | undefined;
+  let current = cookie;
   const started = performance.now();
   const endAt = started + seconds * 1000;
   const worker = async () => {
     while (performance.now() < endAt) {
       const t = performance.now();
       try {
-        const res = await fetch(url, { headers: { Cookie: cookie } });
+        const res = await fetch(next(), { headers: { Cookie: current } });
         await res.arrayBuffer();
+        current = updatedCookie(current, res);
         if (res.status !== 200) {
           failures++;
           firstFailure ??= `HTTP ${res.status}`;

@@ -44,6 +44,11 @@ export async function listsCase(session: Session, expectedCycles: number): Promi
   for (const r of all) await closedLoop(session.url + r.path, session.cookie, 2, 1);
   const rows: Row[] = [];
   let failed = false;
+  // Pages are kept until the ledger moves on (lib/services/list-totals.ts), so the requests above repeat a kept page;
+  // paging on, one request after another, reads each page from the database: shown beside them, without a goal.
+  let pageNumber = 0;
+  const paging = await closedLoop(() => `${session.url}/api/cycles?page=${++pageNumber}&pageSize=50`, session.cookie, 1, LOAD_SECONDS);
+  failed ||= paging.failures > 0;
   for (const concurrency of CONCURRENCIES) {
     const health = await closedLoop(`${session.url}/api/health`, session.cookie, concurrency, LOAD_SECONDS);
     failed ||= health.failures > 0;
@@ -58,5 +63,12 @@ export async function listsCase(session: Session, expectedCycles: number): Promi
       rows.push([`    ${r.label}`, `${figure(result)}; ${ratio.toFixed(2)}× health`, goal, "", status]);
     }
   }
+  rows.push([
+    `  list, paging on (pages 1 to ${pageNumber}, each read from the database), concurrency 1`,
+    figure(paging),
+    "(not kept)",
+    "",
+    paging.failures ? `FAILED: ${paging.failures} × ${paging.firstFailure}` : "",
+  ]);
   return { rows, failed };
 }
