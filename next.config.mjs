@@ -24,6 +24,9 @@ function contentSecurityPolicy(development) {
 /** @type {(phase: string) => import('next').NextConfig} */
 const nextConfig = (phase) => ({
   poweredByHeader: false,
+  // No gzip in the Node process: compressing every JSON answer cost the cycle lists about a tenth of their time on a
+  // 2-core server (issue 12). Compression belongs to the reverse proxy in front (README, "Behind a reverse proxy").
+  compress: false,
   reactStrictMode: true,
   experimental: {
     // Lets server pages answer a refused role with a real 403 (forbidden()) rather than a redirect.
