@@ -98,24 +98,25 @@ export async function prepareDraftReport({ actor, id }: { actor: Actor; id: stri
 // starting once uploads have paused for a moment so that a burst of uploads is not slowed by rendering.
 const PREPARE_AFTER_QUIET_MS = 300;
 type Waiting = { actor: Actor; done: Array<() => void> };
-const waiting = new Map<string, Waiting>();
-let preparing = false;
-let quietTimer: ReturnType<typeof setTimeout> | undefined;
+// One queue per server process, shared by every bundle that imports this module (as processLru is).
+type DraftQueue = { waiting: Map<string, Waiting>; preparing: boolean; quietTimer?: ReturnType<typeof setTimeout> };
+const holder = globalThis as unknown as { __papinDraftQueue?: DraftQueue };
+const queue: DraftQueue = (holder.__papinDraftQueue ??= { waiting: new Map<string, Waiting>(), preparing: false });
 
 async function prepareWaitingDrafts() {
-  preparing = true;
+  queue.preparing = true;
   try {
-    while (waiting.size > 0) {
-      const id = [...waiting.keys()].at(-1)!;
-      const { actor, done } = waiting.get(id)!;
-      waiting.delete(id);
+    while (queue.waiting.size > 0) {
+      const id = [...queue.waiting.keys()].at(-1)!;
+      const { actor, done } = queue.waiting.get(id)!;
+      queue.waiting.delete(id);
       await prepareDraftReport({ actor, id }).catch((error: unknown) =>
         console.warn(`[papin] the draft report of cycle ${id} could not be prepared: ${error instanceof Error ? error.message : String(error)}`),
       );
       done.forEach((resolve) => resolve());
     }
   } finally {
-    preparing = false;
+    queue.preparing = false;
   }
 }
 
@@ -125,12 +126,12 @@ async function prepareWaitingDrafts() {
  */
 export function prepareDraftReportSoon({ actor, id }: { actor: Actor; id: string }): Promise<void> {
   return new Promise((resolve) => {
-    const entry = waiting.get(id);
-    waiting.delete(id);
-    waiting.set(id, { actor, done: [...(entry?.done ?? []), resolve] });
-    clearTimeout(quietTimer);
-    quietTimer = setTimeout(() => {
-      if (!preparing) void prepareWaitingDrafts();
+    const entry = queue.waiting.get(id);
+    queue.waiting.delete(id);
+    queue.waiting.set(id, { actor, done: [...(entry?.done ?? []), resolve] });
+    clearTimeout(queue.quietTimer);
+    queue.quietTimer = setTimeout(() => {
+      if (!queue.preparing) void prepareWaitingDrafts();
     }, PREPARE_AFTER_QUIET_MS);
   });
 }

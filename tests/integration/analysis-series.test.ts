@@ -175,8 +175,10 @@ describe("the draft report", () => {
 
   async function keptDraft(id: string) {
     const { sql } = await import("drizzle-orm");
-    const [row] = await ctx.db.all<{ sha256: string; bytes: ArrayBuffer; input: string }>(sql`select sha256, bytes, input_sha256 as input from report_drafts where cycle_id = ${id}`);
-    return row ? { sha256: row.sha256, bytes: Buffer.from(row.bytes), input: row.input } : undefined;
+    const [row] = await ctx.db.all<{ sha256: string; bytes: ArrayBuffer; input: string; renderedAt: string }>(
+      sql`select sha256, bytes, input_sha256 as input, rendered_at as renderedAt from report_drafts where cycle_id = ${id}`,
+    );
+    return row ? { sha256: row.sha256, bytes: Buffer.from(row.bytes), input: row.input, renderedAt: row.renderedAt } : undefined;
   }
 
   it("is prepared before anyone asks, kept in the database, and served from there by a process that never rendered it", async () => {
@@ -198,6 +200,20 @@ describe("the draft report", () => {
     forgetDrafts();
     // The same bytes, generation time included: nothing was rendered for this request.
     expect((await draft(id)).equals(kept!.bytes)).toBe(true);
+  });
+
+  it("is prepared in turn for each cycle queued after an upload, the newest first", async () => {
+    const older = await upload(await loggerFile(81));
+    const newer = await upload(await loggerFile(82));
+    const { prepareDraftReportSoon } = await import("@/lib/services/reports");
+    const { sql } = await import("drizzle-orm");
+    const [site] = await ctx.db.all<{ id: string }>(sql`select id from sites`);
+    const actor = { id: ids.tech, email: "tech@series.example", name: "Tech", role: "technician" as const, siteId: site.id };
+    await Promise.all([prepareDraftReportSoon({ actor, id: older }), prepareDraftReportSoon({ actor, id: newer })]);
+    const [a, b] = [await keptDraft(older), await keptDraft(newer)];
+    expect(a?.bytes.subarray(0, 5).toString()).toBe("%PDF-");
+    expect(b?.bytes.subarray(0, 5).toString()).toBe("%PDF-");
+    expect(b!.renderedAt < a!.renderedAt).toBe(true);
   });
 
   it("is rendered again, never served, when its kept bytes no longer match their hash", async () => {
