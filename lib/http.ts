@@ -57,6 +57,13 @@ export function downloadDisposition(fileName: string, kind: "attachment" | "inli
   return contentDisposition(fileName, { type: kind });
 }
 
+/** A PDF answer: never cached, named for download (or shown in the browser with `inline`), with Papin's own headers added. */
+export function pdfResponse(bytes: Uint8Array, fileName: string, { inline = false, headers = {} }: { inline?: boolean; headers?: Record<string, string> } = {}): Response {
+  return new Response(bytes as BodyInit, {
+    headers: { "Content-Type": "application/pdf", "Content-Disposition": downloadDisposition(fileName, inline ? "inline" : "attachment"), "Cache-Control": "private, no-store", ...headers },
+  });
+}
+
 /**
  * Work to do once the answer has gone out (next/server `after`); a graceful stop of the server waits for it. Outside a
  * request (a script, or a test calling a handler directly) nothing is scheduled: such work only saves a later reader

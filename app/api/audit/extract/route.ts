@@ -1,4 +1,4 @@
-import { downloadDisposition, route } from "@/lib/http";
+import { pdfResponse, route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { exportAuditPdf } from "@/lib/services/audit-export";
 import { auditTrailQuerySchema } from "@/lib/services/audit-trail";
@@ -11,7 +11,5 @@ export const GET = route(async (request) => {
   const query = auditTrailQuerySchema.parse(Object.fromEntries(new URL(request.url).searchParams));
   const actor = await requireRole("audit:read", "export the audit trail");
   const pdf = await exportAuditPdf({ actor, query });
-  return new Response(pdf.bytes as BodyInit, {
-    headers: { "Content-Type": "application/pdf", "Content-Disposition": downloadDisposition(pdf.fileName), "Cache-Control": "private, no-store", "X-Papin-Sha256": pdf.sha256 },
-  });
+  return pdfResponse(pdf.bytes, pdf.fileName, { headers: { "X-Papin-Sha256": pdf.sha256 } });
 });

@@ -1,4 +1,4 @@
-import { downloadDisposition, route } from "@/lib/http";
+import { pdfResponse, route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { downloadArchivedReport } from "@/lib/services/reports";
 
@@ -11,7 +11,5 @@ export const GET = route<Context>(async (_request, { params }) => {
   const actor = await requireRole("archive:read", "download archived reports");
   const { id } = await params;
   const report = await downloadArchivedReport({ actor, id });
-  return new Response(report.bytes as BodyInit, {
-    headers: { "Content-Type": "application/pdf", "Content-Disposition": downloadDisposition(report.fileName), "Cache-Control": "private, no-store" },
-  });
+  return pdfResponse(report.bytes, report.fileName);
 });

@@ -1,4 +1,4 @@
-import { downloadDisposition, route } from "@/lib/http";
+import { pdfResponse, route } from "@/lib/http";
 import { requireRole } from "@/lib/auth/guards";
 import { getStudyReport } from "@/lib/services/study-report";
 
@@ -12,12 +12,5 @@ export const GET = route<Context>(async (_request, { params }) => {
   const actor = await requireRole("study:read", "open qualification study reports");
   const { id } = await params;
   const report = await getStudyReport({ actor, id });
-  return new Response(report.bytes as BodyInit, {
-    headers: {
-      "Content-Type": "application/pdf",
-      "Content-Disposition": downloadDisposition(report.fileName, "inline"),
-      "Cache-Control": "private, no-store",
-      "X-Papin-Report": report.archived ? "archived" : "draft",
-    },
-  });
+  return pdfResponse(report.bytes, report.fileName, { inline: true, headers: { "X-Papin-Report": report.archived ? "archived" : "draft" } });
 });
